@@ -1,0 +1,170 @@
+// Command fitseal fits probability distributions to measured data by maximum
+// likelihood, ranks them, and seals inputs and results into a signed bundle.
+//
+// Exit status: 0 success; 1 a check failed (verify, diff); 2 bad usage or input.
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"sort"
+	"strings"
+)
+
+// command is one subcommand: its one-line summary and its entry point.
+type command struct {
+	summary string
+	run     func(ctx context.Context, args []string, stdout, stderr io.Writer) error
+}
+
+var commands = map[string]command{}
+
+// usageError is bad usage or bad input: exit status 2.
+type usageError struct{ err error }
+
+func (e usageError) Error() string { return e.err.Error() }
+func (e usageError) Unwrap() error { return e.err }
+
+// checkFailed is a check that ran and failed (verify, diff): exit status 1.
+type checkFailed struct{ err error }
+
+func (e checkFailed) Error() string { return e.err.Error() }
+func (e checkFailed) Unwrap() error { return e.err }
+
+// exitCode maps an error to fitseal's exit status: 0 ok, 1 a check failed,
+// 2 bad usage or bad input (and anything unexpected).
+func exitCode(err error) int {
+	var cf checkFailed
+	switch {
+	case err == nil, errors.Is(err, flag.ErrHelp):
+		return 0
+	case errors.As(err, &cf):
+		return 1
+	default:
+		return 2
+	}
+}
+
+func main() {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	os.Exit(run(ctx, os.Args[1:], os.Stdout, os.Stderr))
+}
+
+// run dispatches to a subcommand and reports its error; it returns the exit status.
+func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
+		if len(args) > 1 {
+			if c, ok := commands[args[1]]; ok {
+				return exitCode(c.run(ctx, []string{"-h"}, stdout, stderr))
+			}
+		}
+		printHelp(stdout)
+		if len(args) == 0 {
+			return 2
+		}
+		return 0
+	}
+	c, ok := commands[args[0]]
+	if !ok {
+		fmt.Fprintf(stderr, "fitseal: error: unknown command %q\n", args[0])
+		if s := closest(args[0], commandNames()); s != "" {
+			fmt.Fprintf(stderr, "fitseal: hint: did you mean %q?\n", s)
+		}
+		fmt.Fprintln(stderr, "fitseal: hint: run 'fitseal help' for the list of commands")
+		return 2
+	}
+	err := c.run(ctx, args[1:], stdout, stderr)
+	if err != nil && !errors.Is(err, flag.ErrHelp) {
+		msg := err.Error()
+		if !strings.HasPrefix(msg, "fitseal: ") {
+			msg = "fitseal: error: " + msg
+		}
+		fmt.Fprintln(stderr, msg)
+	}
+	return exitCode(err)
+}
+
+func commandNames() []string {
+	names := make([]string, 0, len(commands))
+	for n := range commands {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	return names
+}
+
+func printHelp(w io.Writer) {
+	fmt.Fprintln(w, "usage: fitseal <command> [flags] [args]")
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "commands:")
+	for _, n := range commandNames() {
+		fmt.Fprintf(w, "  %-9s %s\n", n, commands[n].summary)
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "'fitseal <command> -h' describes a command's flags.")
+	fmt.Fprintln(w, "exit status: 0 success; 1 a check failed (verify, diff); 2 bad usage or bad input")
+}
+
+// newFlagSet makes a flag set whose usage text names the command.
+func newFlagSet(name, argsUsage, summary string, stderr io.Writer) *flag.FlagSet {
+	fs := flag.NewFlagSet(name, flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.Usage = func() {
+		fmt.Fprintf(stderr, "usage: fitseal %s [flags] %s\n\n%s\n", name, argsUsage, summary)
+		var hasFlags bool
+		fs.VisitAll(func(*flag.Flag) { hasFlags = true })
+		if hasFlags {
+			fmt.Fprintln(stderr, "\nflags:")
+			fs.PrintDefaults()
+		}
+	}
+	return fs
+}
+
+// parseFlags parses args; a flag error becomes a usage error (exit 2).
+func parseFlags(fs *flag.FlagSet, args []string) error {
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return err
+		}
+		return usageError{fmt.Errorf("%s: %w", fs.Name(), err)}
+	}
+	return nil
+}
+
+// closest returns the candidate within edit distance 2 of s, if any.
+func closest(s string, candidates []string) string {
+	best, bestD := "", 3
+	for _, c := range candidates {
+		if d := editDistance(s, c); d < bestD {
+			best, bestD = c, d
+		}
+	}
+	return best
+}
+
+func editDistance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
+}

@@ -1,0 +1,107 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+)
+
+// Data is one dataset as a likelihood sees it. Observations are grouped by how
+// they were recorded, so that the hot loops run over plain slices:
+//
+//   - Exact: the value was observed; it adds ln f(x) to the log-likelihood.
+//   - Left: a non-detect, the true value is at or below the recorded limit; ln F(x).
+//   - Right: a suspension, the true value is at or above the recorded value; ln S(x).
+//   - Lower/Upper: interval-censored, the value lies in (Lower[i], Upper[i]];
+//     either bound may be infinite (open); ln(F(u) − F(l)).
+//
+// Count data use Exact only; Trials, when non-nil, holds each exact
+// observation's number of trials (binomial-type families) and has the same
+// length as Exact.
+type Data struct {
+	Exact  []float64
+	Left   []float64
+	Right  []float64
+	Lower  []float64
+	Upper  []float64
+	Trials []int
+}
+
+// Complete returns data made only of exact observations.
+func Complete(x []float64) *Data { return &Data{Exact: x} }
+
+// N is the number of observations of every kind.
+func (d *Data) N() int { return len(d.Exact) + len(d.Left) + len(d.Right) + len(d.Lower) }
+
+// NCensored is the number of censored observations (left, right and interval).
+func (d *Data) NCensored() int { return len(d.Left) + len(d.Right) + len(d.Lower) }
+
+// IsComplete reports whether every observation is exact.
+func (d *Data) IsComplete() bool { return d.NCensored() == 0 }
+
+// Validate checks the internal consistency of d: finite values, matching
+// interval bounds with lower < upper, and a Trials slice aligned with Exact.
+// It is a programmer-facing check; the runner reports data problems with file
+// and line before they get here.
+func (d *Data) Validate() error {
+	for _, s := range []struct {
+		name string
+		v    []float64
+	}{{"exact", d.Exact}, {"left-censored", d.Left}, {"right-censored", d.Right}} {
+		for i, x := range s.v {
+			if math.IsNaN(x) || math.IsInf(x, 0) {
+				return fmt.Errorf("%s observation %d is %v: every value must be finite", s.name, i, x)
+			}
+		}
+	}
+	if len(d.Lower) != len(d.Upper) {
+		return fmt.Errorf("interval data: %d lower bounds but %d upper bounds", len(d.Lower), len(d.Upper))
+	}
+	for i := range d.Lower {
+		l, u := d.Lower[i], d.Upper[i]
+		if math.IsNaN(l) || math.IsNaN(u) || math.IsInf(l, 1) || math.IsInf(u, -1) {
+			return fmt.Errorf("interval observation %d is (%v, %v]: bounds must be numbers, open ends ±Inf", i, l, u)
+		}
+		if !(l < u) {
+			return fmt.Errorf("interval observation %d is (%v, %v]: lower must be below upper", i, l, u)
+		}
+	}
+	if d.Trials != nil && len(d.Trials) != len(d.Exact) {
+		return fmt.Errorf("%d trials for %d observations", len(d.Trials), len(d.Exact))
+	}
+	return nil
+}
+
+// Values returns every recorded value (exact values, censoring limits, and
+// the finite interval bounds), for support checks and starting values.
+func (d *Data) Values() []float64 {
+	v := make([]float64, 0, d.N()+len(d.Upper))
+	v = append(v, d.Exact...)
+	v = append(v, d.Left...)
+	v = append(v, d.Right...)
+	for i := range d.Lower {
+		if !math.IsInf(d.Lower[i], 0) {
+			v = append(v, d.Lower[i])
+		}
+		if !math.IsInf(d.Upper[i], 0) {
+			v = append(v, d.Upper[i])
+		}
+	}
+	return v
+}
+
+// minMax returns the smallest and largest of v (NaN, NaN for an empty slice).
+func minMax(v []float64) (lo, hi float64) {
+	if len(v) == 0 {
+		return math.NaN(), math.NaN()
+	}
+	lo, hi = v[0], v[0]
+	for _, x := range v[1:] {
+		if x < lo {
+			lo = x
+		}
+		if x > hi {
+			hi = x
+		}
+	}
+	return lo, hi
+}

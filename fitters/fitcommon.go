@@ -1,0 +1,137 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+	"sort"
+)
+
+// newFit starts a Fit record for family f on data d, with every parameter
+// free and the estimates unset (NaN).
+func newFit(f Family, d *Data) *Fit {
+	names := f.Parameters()
+	est := make([]float64, len(names))
+	for i := range est {
+		est[i] = math.NaN()
+	}
+	return &Fit{
+		Family:     f.Name(),
+		Parameters: names,
+		Estimates:  est,
+		Fixed:      make([]bool, len(names)),
+		LogLik:     math.NaN(),
+		K:          len(names),
+		N:          d.N(),
+		NCensored:  d.NCensored(),
+	}
+}
+
+// closedForm is the convergence record of an explicit solution.
+func closedForm() Convergence {
+	return Convergence{Method: "closed form", Evaluations: 1, Converged: true}
+}
+
+// setOptimum records an optimiser's result: the estimates (already mapped
+// back to the natural scale), the log-likelihood and the convergence record.
+// Without any finite start, the fit is marked as failed.
+func (fit *Fit) setOptimum(o optimum, estimates []float64, method string) {
+	fit.Convergence = Convergence{
+		Method:       fmt.Sprintf("%s, %d start(s)", method, o.starts),
+		Iterations:   o.iterations,
+		Evaluations:  o.evaluations,
+		GradientNorm: o.gradNorm,
+		Converged:    o.converged,
+		Reason:       o.reason,
+	}
+	if o.theta == nil {
+		fit.Convergence.Converged = false
+		return
+	}
+	copy(fit.Estimates, estimates)
+	fit.LogLik = -o.negLogLik
+}
+
+// noFixed refuses fixed parameters for a family that has none to fix.
+func noFixed(family string, fixed Fixed) error {
+	for name := range fixed {
+		return fmt.Errorf("%s: parameter %q cannot be fixed", family, name)
+	}
+	return nil
+}
+
+// checkFixedNames refuses fixed parameters that the family does not have.
+func checkFixedNames(f Family, fixed Fixed, allowed ...string) error {
+	names := make([]string, 0, len(fixed))
+	for n := range fixed {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		ok := false
+		for _, a := range allowed {
+			ok = ok || a == n
+		}
+		if !ok {
+			return fmt.Errorf("%s: parameter %q cannot be fixed (fixable: %v)", f.Name(), n, allowed)
+		}
+		if v := fixed[n]; math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("%s: fixed %s must be a finite number, got %v", f.Name(), n, v)
+		}
+	}
+	return nil
+}
+
+// needDistinct makes a family inapplicable unless d has at least min
+// observations and its exact values are not all equal (with no censored
+// values to spread them): a scale parameter's MLE would be zero.
+func needDistinct(family string, d *Data, min int) error {
+	if d.N() < min {
+		return inapplicable(family, "needs at least %d observations, the data have %d", min, d.N())
+	}
+	if len(d.Exact) == 0 {
+		return nil // identifiability of fully censored data is judged by the fit
+	}
+	if d.IsComplete() {
+		lo, hi := minMax(d.Exact)
+		if lo == hi {
+			return inapplicable(family, "all %d observations equal %v: the scale has no finite maximum-likelihood estimate", d.N(), lo)
+		}
+	}
+	return nil
+}
+
+// needPositive makes a family inapplicable when any recorded value is ≤ 0
+// (or < 0 when zero is allowed).
+func needPositive(family string, d *Data, allowZero bool) error {
+	check := func(x float64, what string) error {
+		if x < 0 || (!allowZero && x == 0) {
+			bound := "> 0"
+			if allowZero {
+				bound = "≥ 0"
+			}
+			return inapplicable(family, "needs values %s, the data have the %s %v", bound, what, x)
+		}
+		return nil
+	}
+	for _, x := range d.Exact {
+		if err := check(x, "value"); err != nil {
+			return err
+		}
+	}
+	for _, x := range d.Right {
+		if err := check(x, "suspension"); err != nil {
+			return err
+		}
+	}
+	for _, x := range d.Left {
+		if x < 0 || (!allowZero && x == 0) {
+			return inapplicable(family, "needs values > 0, the data have the non-detect limit %v", x)
+		}
+	}
+	for i := range d.Upper {
+		if d.Upper[i] <= 0 {
+			return inapplicable(family, "needs values > 0, the data have the interval (%v, %v]", d.Lower[i], d.Upper[i])
+		}
+	}
+	return nil
+}

@@ -1,0 +1,95 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+
+	"gonum.org/v1/gonum/mathext"
+)
+
+// Normal is the normal distribution with mean Mu and standard deviation
+// Sigma > 0:
+//
+//	f(x) = exp(−(x−μ)²/(2σ²)) / (σ√(2π)),  x ∈ R.
+type Normal struct{ Mu, Sigma float64 }
+
+func (d Normal) LogPDF(x float64) float64 {
+	z := (x - d.Mu) / d.Sigma
+	return -0.5*z*z - math.Log(d.Sigma) - lnSqrt2Pi
+}
+
+func (d Normal) LogCDF(x float64) float64      { return logNormalCDF((x - d.Mu) / d.Sigma) }
+func (d Normal) LogSurvival(x float64) float64 { return logNormalSurvival((x - d.Mu) / d.Sigma) }
+func (d Normal) Quantile(p float64) float64    { return d.Mu + d.Sigma*mathext.NormalQuantile(p) }
+func (d Normal) Rand(r *rand.Rand) float64     { return d.Mu + d.Sigma*r.NormFloat64() }
+
+type normalFamily struct{}
+
+func init() { register(normalFamily{}) }
+
+func (normalFamily) Name() string         { return "normal" }
+func (normalFamily) Parameters() []string { return []string{"mu", "sigma"} }
+func (normalFamily) Kind() Kind           { return Continuous }
+func (normalFamily) Support() string      { return "real line" }
+func (normalFamily) Route() string {
+	return "closed form (mean, ML standard deviation); censored data: BFGS on (mu, log sigma)"
+}
+
+func (normalFamily) New(p []float64) (Dist, error) {
+	if len(p) != 2 {
+		panic("fitters: normal takes 2 parameters")
+	}
+	if !(p[1] > 0) || math.IsInf(p[1], 1) || math.IsNaN(p[0]) || math.IsInf(p[0], 0) {
+		return nil, fmt.Errorf("normal: need finite mu and sigma > 0, got mu=%v sigma=%v", p[0], p[1])
+	}
+	return Normal{p[0], p[1]}, nil
+}
+
+func (f normalFamily) LogLik(p []float64, d *Data) float64 {
+	dist, err := f.New(p)
+	if err != nil {
+		return math.Inf(-1)
+	}
+	nd := dist.(Normal)
+	// Σ ln f(x) = −n ln σ − n ln√(2π) − Σ(x−μ)²/(2σ²)
+	var ss float64
+	for _, x := range d.Exact {
+		z := x - nd.Mu
+		ss += z * z
+	}
+	n := float64(len(d.Exact))
+	ll := -n*(math.Log(nd.Sigma)+lnSqrt2Pi) - 0.5*ss/(nd.Sigma*nd.Sigma)
+	return ll + censoredLogLik(nd, d, false)
+}
+
+func (f normalFamily) Applicable(d *Data, fixed Fixed) error {
+	if err := noFixed(f.Name(), fixed); err != nil {
+		return err
+	}
+	return needDistinct(f.Name(), d, 2)
+}
+
+func (f normalFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if err := f.Applicable(d, opt.Fixed); err != nil {
+		return nil, err
+	}
+	fit := newFit(f, d)
+	if d.IsComplete() {
+		mu, v := meanVar(d.Exact)
+		fit.Estimates = []float64{mu, math.Sqrt(v)}
+		fit.LogLik = f.LogLik(fit.Estimates, d)
+		fit.Convergence = closedForm()
+		return fit, nil
+	}
+	// Censored: start from the mean and spread of every recorded value.
+	mu0, v0 := meanVar(d.Values())
+	s0 := math.Max(math.Sqrt(v0), 1e-3*math.Max(1, math.Abs(mu0)))
+	prob := problem{dim: 2, negLogLik: func(t []float64) float64 {
+		return -f.LogLik([]float64{t[0], math.Exp(t[1])}, d)
+	}}
+	starts := [][]float64{{mu0, math.Log(s0)}, {mu0, math.Log(s0 * 3)}}
+	o := minimize(prob, starts, opt)
+	fit.setOptimum(o, []float64{o.theta[0], math.Exp(o.theta[1])}, "BFGS on (mu, log sigma)")
+	return fit, nil
+}

@@ -1,0 +1,212 @@
+package fitters
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/diff/fd"
+	"gonum.org/v1/gonum/optimize"
+)
+
+// problem is a negative log-likelihood on an unconstrained scale θ
+// (log σ, logit p, …), so that every θ in R^dim is a valid parameter.
+type problem struct {
+	dim int
+	// negLogLik returns −ln L(θ); +Inf (or NaN) where θ is unusable.
+	negLogLik func(theta []float64) float64
+	// grad fills g with ∂(−ln L)/∂θ. When nil, central finite differences
+	// (gonum/diff/fd) are used.
+	grad func(g, theta []float64)
+}
+
+// optimum is the best point found by minimize.
+type optimum struct {
+	theta       []float64
+	negLogLik   float64
+	iterations  int
+	evaluations int
+	gradNorm    float64 // infinity norm of the gradient at theta
+	converged   bool
+	reason      string
+	starts      int
+}
+
+// minimize runs BFGS (gonum/optimize) from each start and keeps the best
+// result. A run converges when the gradient's infinity norm falls below
+// gtol·max(1, |f|) or f changes by less than tol·max(1, |f|) over ten
+// iterations while the gradient is small; the best run's status is reported.
+// Runs are sequential and deterministic.
+func minimize(p problem, starts [][]float64, opt Options) optimum {
+	tol := opt.tolerance()
+	best := optimum{negLogLik: math.Inf(1), reason: "no start gave a finite log-likelihood"}
+	grad := p.grad
+	if grad == nil {
+		grad = func(g, theta []float64) {
+			fd.Gradient(g, p.negLogLik, theta, &fd.Settings{Formula: fd.Central})
+		}
+	}
+	var totalIter, totalEval int
+	for _, x0 := range starts {
+		f0 := p.negLogLik(x0)
+		totalEval++
+		if math.IsNaN(f0) || math.IsInf(f0, 0) {
+			continue
+		}
+		prob := optimize.Problem{
+			Func: func(x []float64) float64 {
+				v := p.negLogLik(x)
+				if math.IsNaN(v) {
+					return math.Inf(1)
+				}
+				return v
+			},
+			Grad: func(g, x []float64) {
+				grad(g, x)
+				for i, v := range g {
+					if math.IsNaN(v) {
+						g[i] = 0
+					}
+				}
+			},
+		}
+		settings := &optimize.Settings{
+			GradientThreshold: gradTol(tol, f0),
+			Converger: &optimize.FunctionConverge{
+				Absolute:   tol * math.Max(1, math.Abs(f0)),
+				Relative:   tol,
+				Iterations: 10,
+			},
+			MajorIterations: opt.maxIterations(),
+		}
+		res, err := optimize.Minimize(prob, append([]float64(nil), x0...), settings, &optimize.BFGS{})
+		if res == nil {
+			continue
+		}
+		totalIter += res.Stats.MajorIterations
+		totalEval += res.Stats.FuncEvaluations
+		f := res.F
+		if math.IsNaN(f) || math.IsInf(f, 0) {
+			continue
+		}
+		g := make([]float64, p.dim)
+		grad(g, res.X)
+		gn := infNorm(g)
+		ok, why := judge(res.Status, err, gn, f, tol)
+		if f < best.negLogLik {
+			best = optimum{theta: res.X, negLogLik: f, gradNorm: gn, converged: ok, reason: why}
+		}
+	}
+	best.iterations, best.evaluations, best.starts = totalIter, totalEval, len(starts)
+	return best
+}
+
+// gradTol is the gradient threshold for a problem whose objective is near f:
+// at an optimum, a step δ changes f by about g·δ, so a gradient of
+// √tol·max(1,|f|)·1e-3 leaves f within tol of its maximum.
+func gradTol(tol, f float64) float64 {
+	return math.Sqrt(tol) * 1e-3 * math.Max(1, math.Abs(f))
+}
+
+// judge turns an optimiser status into the honest convergence verdict.
+func judge(status optimize.Status, err error, gradNorm, f, tol float64) (bool, string) {
+	small := gradNorm <= 1e3*gradTol(tol, f)
+	switch {
+	case status == optimize.GradientThreshold:
+		return true, ""
+	case status == optimize.FunctionConvergence && small:
+		return true, ""
+	case errors.Is(err, optimize.ErrLinesearcherFailure) && small:
+		// The line search can no longer improve f in floating point and
+		// the gradient is negligible: a numerically exact optimum.
+		return true, ""
+	case status == optimize.IterationLimit:
+		return false, fmt.Sprintf("iteration limit reached (gradient norm %.3g)", gradNorm)
+	case err != nil:
+		return false, fmt.Sprintf("optimiser stopped: %v (gradient norm %.3g)", err, gradNorm)
+	default:
+		return false, fmt.Sprintf("optimiser stopped with status %v (gradient norm %.3g)", status, gradNorm)
+	}
+}
+
+func infNorm(g []float64) float64 {
+	var m float64
+	for _, v := range g {
+		m = math.Max(m, math.Abs(v))
+	}
+	return m
+}
+
+// errNoBracket is returned by solveBracketed when f has the same sign at both ends.
+var errNoBracket = errors.New("root not bracketed")
+
+// solveBracketed finds a root of f in [lo, hi] by safeguarded Newton
+// iteration (Press et al., Numerical Recipes, rtsafe): a Newton step from
+// the current point when it stays inside the bracket and shrinks |f| fast
+// enough, otherwise bisection. fdf returns f(x) and f'(x). It stops when
+// the bracket is narrower than xtol·|x| or f is exactly zero.
+func solveBracketed(fdf func(x float64) (float64, float64), lo, hi, xtol float64, maxIter int) (root float64, iterations int, err error) {
+	flo, _ := fdf(lo)
+	fhi, _ := fdf(hi)
+	if flo == 0 {
+		return lo, 0, nil
+	}
+	if fhi == 0 {
+		return hi, 0, nil
+	}
+	if (flo > 0) == (fhi > 0) {
+		return math.NaN(), 0, errNoBracket
+	}
+	// Orient so that f(lo) < 0.
+	if flo > 0 {
+		lo, hi = hi, lo
+	}
+	x := 0.5 * (lo + hi)
+	dxOld := math.Abs(hi - lo)
+	dx := dxOld
+	fx, dfx := fdf(x)
+	for it := 1; it <= maxIter; it++ {
+		newtonOut := ((x-hi)*dfx-fx)*((x-lo)*dfx-fx) > 0
+		if newtonOut || math.Abs(2*fx) > math.Abs(dxOld*dfx) || dfx == 0 || math.IsNaN(dfx) {
+			dxOld = dx
+			dx = 0.5 * (hi - lo)
+			x = lo + dx
+		} else {
+			dxOld = dx
+			dx = fx / dfx
+			x -= dx
+		}
+		if math.Abs(dx) <= xtol*math.Abs(x) || fx == 0 {
+			return x, it, nil
+		}
+		fx, dfx = fdf(x)
+		if fx == 0 {
+			return x, it, nil
+		}
+		if fx < 0 {
+			lo = x
+		} else {
+			hi = x
+		}
+	}
+	return x, maxIter, fmt.Errorf("no convergence in %d iterations", maxIter)
+}
+
+// expandBracket widens [lo, hi] geometrically (for a positive variable) until
+// f changes sign, at most 200 times; it returns the bracket and whether one was found.
+func expandBracket(f func(x float64) float64, lo, hi float64) (float64, float64, bool) {
+	flo, fhi := f(lo), f(hi)
+	for i := 0; i < 200; i++ {
+		if (flo > 0) != (fhi > 0) {
+			return lo, hi, true
+		}
+		if math.Abs(flo) < math.Abs(fhi) {
+			lo /= 2
+			flo = f(lo)
+		} else {
+			hi *= 2
+			fhi = f(hi)
+		}
+	}
+	return lo, hi, false
+}
