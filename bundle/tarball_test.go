@@ -1,0 +1,280 @@
+package bundle
+
+import (
+	"archive/tar"
+	"bytes"
+	"compress/gzip"
+	"errors"
+	"fmt"
+	"io"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strconv"
+	"testing"
+	"time"
+)
+
+var testCreated = time.Date(2026, 12, 2, 3, 4, 5, 0, time.UTC)
+
+func sampleFiles() []member {
+	return []member{
+		{"bagit.txt", []byte("BagIt-Version: 1.0\n")},
+		{"data/inputs/data/seal_life.csv", []byte("hours\n1\n2\n")},
+		{"data/inputs/fitseal.toml", []byte("name = \"x\"\n")},
+		{"data/results/fits.csv", []byte("analysis\n")},
+		{"data-notes.txt", []byte("sorts between data and data/\n")},
+	}
+}
+
+// readTarGz lists every header and body of a tar.gz for inspection.
+func readTarGz(t *testing.T, b []byte) (*gzip.Reader, []*tar.Header, map[string][]byte) {
+	t.Helper()
+	zr, err := gzip.NewReader(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr := tar.NewReader(zr)
+	var hs []*tar.Header
+	bodies := map[string][]byte{}
+	for {
+		h, err := tr.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		body, err := io.ReadAll(tr)
+		if err != nil {
+			t.Fatal(err)
+		}
+		hs = append(hs, h)
+		bodies[h.Name] = body
+	}
+	return zr, hs, bodies
+}
+
+func TestWriteTarGzHeaders(t *testing.T) {
+	b, err := tarGzBytes("proj", sampleFiles(), testCreated.Add(700*time.Millisecond))
+	if err != nil {
+		t.Fatal(err)
+	}
+	zr, hs, bodies := readTarGz(t, b)
+	if zr.Name != "" || !zr.ModTime.IsZero() || zr.Comment != "" {
+		t.Errorf("gzip header carries name %q, time %v, comment %q; want none", zr.Name, zr.ModTime, zr.Comment)
+	}
+	// The MTIME field is bytes 4..7 of the gzip member (RFC 1952, section 2.3).
+	if !bytes.Equal(b[4:8], []byte{0, 0, 0, 0}) {
+		t.Errorf("gzip MTIME bytes = %v, want zero", b[4:8])
+	}
+	want := []struct {
+		name string
+		dir  bool
+	}{
+		{"proj/", true},
+		{"proj/bagit.txt", false},
+		{"proj/data/", true},
+		{"proj/data-notes.txt", false},
+		{"proj/data/inputs/", true},
+		{"proj/data/inputs/data/", true},
+		{"proj/data/inputs/data/seal_life.csv", false},
+		{"proj/data/inputs/fitseal.toml", false},
+		{"proj/data/results/", true},
+		{"proj/data/results/fits.csv", false},
+	}
+	// Sorted by path without the folders' trailing slash: "data" < "data-notes.txt" < "data/...".
+	if len(hs) != len(want) {
+		t.Fatalf("got %d entries, want %d", len(hs), len(want))
+	}
+	for i, h := range hs {
+		w := want[i]
+		if h.Name != w.name {
+			t.Errorf("entry %d = %q, want %q", i, h.Name, w.name)
+		}
+		wantType, wantMode := byte(tar.TypeReg), int64(0o644)
+		if w.dir {
+			wantType, wantMode = tar.TypeDir, 0o755
+		}
+		if h.Typeflag != wantType || h.Mode != wantMode {
+			t.Errorf("%s: type %c mode %o, want %c %o", h.Name, h.Typeflag, h.Mode, wantType, wantMode)
+		}
+		if !h.ModTime.Equal(testCreated) {
+			t.Errorf("%s: mtime %v, want %v (whole seconds)", h.Name, h.ModTime, testCreated)
+		}
+		if h.Uid != 0 || h.Gid != 0 || h.Uname != "" || h.Gname != "" {
+			t.Errorf("%s: owner %d/%d %q/%q, want 0/0 with no names", h.Name, h.Uid, h.Gid, h.Uname, h.Gname)
+		}
+		if h.Format != tar.FormatUSTAR {
+			t.Errorf("%s: format %v, want USTAR for a short ASCII name", h.Name, h.Format)
+		}
+	}
+	if got := string(bodies["proj/data/inputs/fitseal.toml"]); got != "name = \"x\"\n" {
+		t.Errorf("body = %q", got)
+	}
+}
+
+func TestWriteTarGzLongAndNonASCIINamesUsePAX(t *testing.T) {
+	long := "data/" + string(bytes.Repeat([]byte("a"), 180)) + ".csv"
+	files := []member{{long, []byte("1")}, {"data/débit.csv", []byte("2")}}
+	b, err := tarGzBytes("proj", files, testCreated)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, hs, bodies := readTarGz(t, b)
+	if string(bodies["proj/"+long]) != "1" || string(bodies["proj/data/débit.csv"]) != "2" {
+		t.Errorf("names did not round-trip: %v", hs)
+	}
+}
+
+func TestWriteTarGzDeterministic(t *testing.T) {
+	a, err := tarGzBytes("proj", sampleFiles(), testCreated)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Same members in another order, and a created time with a different
+	// sub-second part and zone: the same bytes.
+	files := sampleFiles()
+	files[0], files[3] = files[3], files[0]
+	b, err := tarGzBytes("proj", files, testCreated.Add(300*time.Millisecond).In(time.FixedZone("x", 3600)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(a, b) {
+		t.Error("same members and created time gave different archives")
+	}
+	c, _ := tarGzBytes("proj", sampleFiles(), testCreated.Add(time.Second))
+	if bytes.Equal(a, c) {
+		t.Error("a different created time gave the same archive")
+	}
+}
+
+func TestWriteTarGzRejects(t *testing.T) {
+	for _, tc := range []struct {
+		name, bag string
+		files     []member
+	}{
+		{"absolute", "p", []member{{"/etc/passwd", nil}}},
+		{"dotdot", "p", []member{{"data/../../x", nil}}},
+		{"unclean", "p", []member{{"data//x", nil}}},
+		{"duplicate", "p", []member{{"a", nil}, {"a", nil}}},
+		{"case collision", "p", []member{{"data/A.csv", nil}, {"data/a.csv", nil}}},
+		{"file and folder", "p", []member{{"data", nil}, {"data/x", nil}}},
+		{"bag with slash", "p/q", nil},
+		{"bag dotdot", "..", nil},
+		{"control char", "p", []member{{"data/a\nb", nil}}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			if _, err := tarGzBytes(tc.bag, tc.files, testCreated); err == nil {
+				t.Error("accepted")
+			}
+		})
+	}
+}
+
+func TestWriteFileAtomic(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "b.tar.gz")
+	write := func(s string) func(io.Writer) error {
+		return func(w io.Writer) error { _, err := io.WriteString(w, s); return err }
+	}
+	if err := writeFileAtomic(out, false, 0o644, write("one")); err != nil {
+		t.Fatal(err)
+	}
+	err := writeFileAtomic(out, false, 0o644, write("two"))
+	if !errors.Is(err, ErrExists) {
+		t.Errorf("second write without force: %v, want ErrExists", err)
+	}
+	if b, _ := os.ReadFile(out); string(b) != "one" {
+		t.Errorf("existing output changed to %q", b)
+	}
+	if err := writeFileAtomic(out, true, 0o644, write("three")); err != nil {
+		t.Fatal(err)
+	}
+	if b, _ := os.ReadFile(out); string(b) != "three" {
+		t.Errorf("forced write gave %q", b)
+	}
+	// A failing writer leaves nothing behind.
+	err = writeFileAtomic(filepath.Join(dir, "c.tar.gz"), false, 0o644, func(w io.Writer) error {
+		io.WriteString(w, "partial")
+		return errors.New("boom")
+	})
+	if err == nil {
+		t.Error("failing writer reported success")
+	}
+	ents, _ := os.ReadDir(dir)
+	if len(ents) != 1 || ents[0].Name() != "b.tar.gz" {
+		t.Errorf("folder holds %v, want only b.tar.gz", ents)
+	}
+	if fi, _ := os.Stat(out); fi.Mode().Perm() != 0o644 {
+		t.Errorf("mode %v, want 0644", fi.Mode().Perm())
+	}
+}
+
+func TestWriteFolderAtomic(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "bag")
+	if err := writeFolderAtomic(out, false, sampleFiles()); err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(filepath.Join(out, "data/inputs/fitseal.toml"))
+	if err != nil || string(b) != "name = \"x\"\n" {
+		t.Fatalf("read back %q, %v", b, err)
+	}
+	for _, p := range []string{"data", "data/inputs", "data/results"} {
+		if fi, _ := os.Stat(filepath.Join(out, p)); fi.Mode().Perm() != 0o755 {
+			t.Errorf("%s: mode %v, want 0755", p, fi.Mode().Perm())
+		}
+	}
+	if fi, _ := os.Stat(filepath.Join(out, "bagit.txt")); fi.Mode().Perm() != 0o644 {
+		t.Errorf("bagit.txt mode %v, want 0644", fi.Mode().Perm())
+	}
+	if err := writeFolderAtomic(out, false, sampleFiles()[:1]); !errors.Is(err, ErrExists) {
+		t.Errorf("rewrite without force: %v, want ErrExists", err)
+	}
+	if err := writeFolderAtomic(out, true, sampleFiles()[:1]); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(out, "data")); !os.IsNotExist(err) {
+		t.Errorf("forced rewrite kept old contents: %v", err)
+	}
+	ents, _ := os.ReadDir(dir)
+	if len(ents) != 1 {
+		t.Errorf("temporary folders left: %v", ents)
+	}
+}
+
+// csvText makes n bytes of numeric CSV text shaped like fitseal's inputs and
+// result tables (invented numbers, for measuring compression only).
+func csvText(n int) []byte {
+	r := rand.New(rand.NewPCG(1, 2))
+	var b bytes.Buffer
+	b.WriteString("analysis,family,parameter,estimate,std_error,ci_lower,ci_upper\n")
+	for b.Len() < n {
+		x := r.ExpFloat64() * 1000
+		fmt.Fprintf(&b, "well-%d,weibull,shape,%s,%s,%s,%s\n", r.IntN(40),
+			strconv.FormatFloat(x, 'g', -1, 64), strconv.FormatFloat(x/10, 'g', -1, 64),
+			strconv.FormatFloat(x*0.9, 'g', -1, 64), strconv.FormatFloat(x*1.1, 'g', -1, 64))
+	}
+	return b.Bytes()[:n]
+}
+
+// BenchmarkGzipLevels measures speed and ratio of gzip levels on 15 MB of CSV
+// text; it justifies gzipLevel. Run: go test ./bundle -run '^$' -bench GzipLevels
+func BenchmarkGzipLevels(b *testing.B) {
+	data := csvText(15 << 20)
+	for _, level := range []int{1, 3, 6, 9} {
+		b.Run("level"+strconv.Itoa(level), func(b *testing.B) {
+			b.SetBytes(int64(len(data)))
+			var size int
+			for b.Loop() {
+				var buf bytes.Buffer
+				zw, _ := gzip.NewWriterLevel(&buf, level)
+				zw.Write(data)
+				zw.Close()
+				size = buf.Len()
+			}
+			b.ReportMetric(float64(len(data))/float64(size), "ratio")
+		})
+	}
+}
