@@ -1,0 +1,156 @@
+package runner
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+)
+
+// ProjectError is a problem in the project file: the file, the line where
+// the key was found (0 when it cannot be told), the key path such as
+// "analysis[2].quantiles[0]", what is wrong, and a hint saying what to do.
+type ProjectError struct {
+	File string
+	Line int
+	Key  string
+	Msg  string
+	Hint string
+	Err  error // an underlying cause, if any
+}
+
+func (e *ProjectError) Error() string {
+	var b strings.Builder
+	b.WriteString(e.File)
+	if e.Line > 0 {
+		fmt.Fprintf(&b, ":%d", e.Line)
+	}
+	if e.Key != "" {
+		b.WriteString(": ")
+		b.WriteString(e.Key)
+	}
+	b.WriteString(": ")
+	b.WriteString(e.Msg)
+	return b.String()
+}
+
+func (e *ProjectError) Unwrap() error { return e.Err }
+
+// ProjectErrors is every problem found in one project file, in file order
+// as far as it can be told.
+type ProjectErrors []*ProjectError
+
+func (es ProjectErrors) Error() string {
+	msgs := make([]string, len(es))
+	for i, e := range es {
+		msgs[i] = e.Error()
+	}
+	return strings.Join(msgs, "\n")
+}
+
+// Unwrap lets errors.As find each *ProjectError.
+func (es ProjectErrors) Unwrap() []error {
+	out := make([]error, len(es))
+	for i, e := range es {
+		out[i] = e
+	}
+	return out
+}
+
+// DataError is a problem in a data file, named by file, line and column
+// (1-based; column counts bytes as encoding/csv does, 0 when the whole
+// line or file is at fault).
+type DataError struct {
+	File   string
+	Line   int
+	Column int
+	Msg    string
+	Hint   string
+	Err    error
+}
+
+func (e *DataError) Error() string {
+	var b strings.Builder
+	b.WriteString(e.File)
+	if e.Line > 0 {
+		fmt.Fprintf(&b, ":%d", e.Line)
+		if e.Column > 0 {
+			fmt.Fprintf(&b, ":%d", e.Column)
+		}
+	}
+	b.WriteString(": ")
+	b.WriteString(e.Msg)
+	return b.String()
+}
+
+func (e *DataError) Unwrap() error { return e.Err }
+
+// Hints returns the hints carried by err's project and data errors, in
+// order and without repeats, for a command line to print after the error.
+func Hints(err error) []string {
+	var out []string
+	seen := map[string]bool{}
+	add := func(h string) {
+		if h != "" && !seen[h] {
+			seen[h] = true
+			out = append(out, h)
+		}
+	}
+	var pes ProjectErrors
+	var pe *ProjectError
+	var de *DataError
+	switch {
+	case errors.As(err, &pes):
+		for _, e := range pes {
+			add(e.Hint)
+		}
+	case errors.As(err, &pe):
+		add(pe.Hint)
+	case errors.As(err, &de):
+		add(de.Hint)
+	}
+	return out
+}
+
+// closest returns the candidate nearest to s by edit distance, if it is
+// near enough to be a likely typo (distance at most 2, or at most a third of
+// the word for long words), and "" otherwise.
+func closest(s string, candidates []string) string {
+	best, bestD := "", -1
+	limit := max(2, len(s)/3)
+	for _, c := range candidates {
+		d := editDistance(strings.ToLower(s), strings.ToLower(c))
+		if d <= limit && (bestD < 0 || d < bestD) {
+			best, bestD = c, d
+		}
+	}
+	return best
+}
+
+// didYouMean is a hint naming the closest candidate, or "".
+func didYouMean(s string, candidates []string) string {
+	if c := closest(s, candidates); c != "" {
+		return fmt.Sprintf("did you mean %q?", c)
+	}
+	return ""
+}
+
+// editDistance is the Levenshtein distance between a and b, in bytes.
+func editDistance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
+}
