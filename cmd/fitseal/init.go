@@ -1,0 +1,56 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"path/filepath"
+
+	"fitseal/templates"
+)
+
+func init() {
+	commands["init"] = command{
+		summary: "scaffold a project with invented demo data in DIR (default .)",
+		run:     runInit,
+	}
+}
+
+func runInit(_ context.Context, args []string, stdout, stderr io.Writer) error {
+	fs := newFlagSet("init", "[DIR]", "Write a demo project into DIR (default the current folder): fitseal.toml,\n"+
+		"data/ with invented data for a small water utility's asset review, a\n"+
+		"README.txt and a .gitignore for bundles/. Nothing is overwritten: when any\n"+
+		"of these files exists, init writes none of them.", stderr)
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() > 1 {
+		return usageError{fmt.Errorf("init takes at most one folder, got %d arguments", fs.NArg())}
+	}
+	dir := "."
+	if fs.NArg() == 1 {
+		dir = fs.Arg(0)
+	}
+	written, err := templates.WriteScaffold(dir)
+	if err != nil {
+		var exists *templates.ExistsError
+		if errors.As(err, &exists) {
+			return usageError{fmt.Errorf("%w\nfitseal: hint: run 'fitseal init NEWDIR' to scaffold into a new folder", err)}
+		}
+		return usageError{fmt.Errorf("init %s: %w", dir, err)}
+	}
+	for _, p := range written {
+		fmt.Fprintf(stdout, "wrote %s\n", filepath.Join(dir, filepath.FromSlash(p)))
+	}
+	cd := ""
+	if dir != "." {
+		cd = "cd " + dir + " && "
+	}
+	fmt.Fprintf(stdout, "\nThe demo data are invented (see README.txt). Next steps:\n")
+	fmt.Fprintf(stdout, "  %sfitseal run              fit every analysis and write a signed bundle to bundles/\n", cd)
+	fmt.Fprintf(stdout, "  fitseal verify BUNDLE      check the bundle's hashes and signature, and re-run it\n")
+	fmt.Fprintf(stdout, "  fitseal show BUNDLE        print the ranking, parameter and derived-quantity tables\n")
+	fmt.Fprintf(stdout, "Then edit fitseal.toml and data/ for your own work.\n")
+	return nil
+}
