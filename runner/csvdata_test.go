@@ -1,0 +1,162 @@
+package runner
+
+import (
+	"errors"
+	"math"
+	"reflect"
+	"strings"
+	"testing"
+)
+
+func TestReadCSV(t *testing.T) {
+	inf := math.Inf(1)
+	cases := []struct {
+		name   string
+		d      Dataset
+		csv    string
+		groups []string
+		data   []struct {
+			exact, left, right, lower, upper []float64
+			trials                           []int
+		}
+		missing, filtered int
+	}{
+		{
+			name:   "byte-order mark, blank line, missing tokens",
+			d:      Dataset{Column: "x", Missing: []string{"", "NA"}},
+			csv:    "\ufeffx,y\n1.5,a\nNA,b\n\n,c\n2,d\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{1.5, 2}}},
+			missing: 2,
+		},
+		{
+			name:   "status column censoring",
+			d:      Dataset{Column: "h", StatusColumn: "s", Left: []string{"<"}, Right: []string{"+", "susp"}, Missing: []string{""}},
+			csv:    "h,s\n10,\n3,<\n40,+\n41, susp \n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{10}, left: []float64{3}, right: []float64{40, 41}}},
+		},
+		{
+			name:   "split_by in order of first appearance, where filter, semicolon delimiter",
+			d:      Dataset{Column: "v", SplitBy: "well", Where: &Where{Column: "site", Equals: "north"}, Delimiter: ";", Missing: []string{""}},
+			csv:    "well;site;v\nMW-2;north;1\nMW-1;north;2\nMW-2;south;9\nMW-2;north;3\n",
+			groups: []string{"MW-2", "MW-1"},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{1, 3}}, {exact: []float64{2}}},
+			filtered: 1,
+		},
+		{
+			name:   "interval columns with open bounds",
+			d:      Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{"", "NA"}},
+			csv:    "lo,hi\n1,2\n,5\n7,\nNA,3\n,\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{lower: []float64{1, math.Inf(-1), 7}, upper: []float64{2, 5, inf}}},
+			missing: 2,
+		},
+		{
+			name:   "trials column",
+			d:      Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}},
+			csv:    "k,n\n3,10\n0,4\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{3, 0}, trials: []int{10, 4}}},
+		},
+		{
+			name:   "header only",
+			d:      Dataset{Column: "x", Missing: []string{""}},
+			csv:    "x\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{}},
+		},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			out, err := ReadCSV("in.csv", strings.NewReader(c.csv), &c.d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var names []string
+			for _, g := range out.Groups {
+				names = append(names, g.Name)
+			}
+			if !reflect.DeepEqual(names, c.groups) {
+				t.Fatalf("groups %q, want %q", names, c.groups)
+			}
+			for i, w := range c.data {
+				g := out.Groups[i].Data
+				for _, p := range []struct {
+					got, want []float64
+					what      string
+				}{{g.Exact, w.exact, "exact"}, {g.Left, w.left, "left"}, {g.Right, w.right, "right"}, {g.Lower, w.lower, "lower"}, {g.Upper, w.upper, "upper"}} {
+					if len(p.got) != len(p.want) || (len(p.want) > 0 && !reflect.DeepEqual(p.got, p.want)) {
+						t.Errorf("group %d %s = %v, want %v", i, p.what, p.got, p.want)
+					}
+				}
+				if len(w.trials) > 0 && !reflect.DeepEqual(g.Trials, w.trials) {
+					t.Errorf("trials %v, want %v", g.Trials, w.trials)
+				}
+			}
+			if out.Missing != c.missing || out.Filtered != c.filtered {
+				t.Errorf("missing %d filtered %d, want %d %d", out.Missing, out.Filtered, c.missing, c.filtered)
+			}
+		})
+	}
+}
+
+func TestReadCSVErrors(t *testing.T) {
+	obs := Dataset{Column: "x", Missing: []string{"", "NA"}}
+	status := Dataset{Column: "x", StatusColumn: "s", Left: []string{"<"}, Missing: []string{""}}
+	cases := []struct {
+		name      string
+		d         Dataset
+		csv       string
+		line, col int
+		msg       string
+	}{
+		{"not a number", obs, "x\n1\nabc\n", 3, 1, `the value "abc" is not a number`},
+		{"NaN", obs, "x\n1\nNaN\n", 3, 1, `"NaN" is not a finite number`},
+		{"Inf in second column", Dataset{Column: "x", Missing: []string{""}}, "id,x\na,1\nb,-Inf\n", 3, 3, `"-Inf" is not a finite number`},
+		{"too large", obs, "x\n1e999\n", 2, 1, "out of the range"},
+		{"ragged row", obs, "x,y\n1,2\n3\n", 3, 0, "the row has 1 fields, the header 2"},
+		{"unknown status code", status, "x,s\n1,\n2,>\n", 3, 3, `unknown status code ">"`},
+		{"no such column", Dataset{Column: "hours", Missing: []string{""}}, "hour,x\n1,2\n", 1, 0, `no column "hours"`},
+		{"bad trials", Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}}, "k,n\n1,2.5\n", 2, 3, `trials "2.5"`},
+		{"count above trials", Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}}, "k,n\n1,2\n5,3\n", 3, 1, "outside 0 … 3 trials"},
+		{"empty interval", Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{""}}, "lo,hi\n3,3\n", 2, 3, "is empty"},
+		{"bare quote", obs, "x\n\"1\n", 2, 0, "not valid CSV"},
+		{"empty file", obs, "", 1, 0, "the file is empty"},
+		{"empty split group", Dataset{Column: "x", SplitBy: "g", Missing: []string{""}}, "g,x\na,1\n,2\n", 3, 1, "split_by column"},
+		{"duplicate header", obs, "x,x\n1,2\n", 1, 3, "appears twice"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := ReadCSV("in.csv", strings.NewReader(c.csv), &c.d)
+			var de *DataError
+			if !errors.As(err, &de) {
+				t.Fatalf("error %v (%T), want *DataError", err, err)
+			}
+			if de.Line != c.line || (c.col != 0 && de.Column != c.col) || !strings.Contains(de.Msg, c.msg) {
+				t.Errorf("got %v (line %d col %d), want line %d col %d with %q", de, de.Line, de.Column, c.line, c.col, c.msg)
+			}
+			if !strings.HasPrefix(de.Error(), "in.csv:") {
+				t.Errorf("message %q does not name the file", de.Error())
+			}
+		})
+	}
+}
