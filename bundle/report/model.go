@@ -1,0 +1,249 @@
+// Package report turns fitted results into what people read: publication
+// tables (Markdown and LaTeX, from text/template templates), figures (SVG
+// and PNG, with gonum/plot) and the PDF summary (with gofpdf).
+//
+// Its input is the plain data model in this file, independent of the
+// runner's types: the caller fills a [Report] from the run's results and
+// calls [RenderTables], [RenderFigures] and [RenderPDF]. Every output is
+// deterministic: the same Report gives the same bytes.
+package report
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"time"
+
+	"fitseal/templates"
+)
+
+// Report is everything the summary shows about one run.
+type Report struct {
+	Name        string // the project's name
+	Description string
+	Identity    Identity
+	Settings    Settings
+	Analyses    []Analysis
+}
+
+// Identity ties the report to its bundle and to the code that made it.
+type Identity struct {
+	// TagManifestSHA256 is the hex SHA-256 of tagmanifest-sha256.txt: the
+	// bundle's identity. Empty when the PDF is rendered before sealing.
+	TagManifestSHA256 string
+	SignerFingerprint string // "SHA256:…" of the signing key
+	Created           time.Time
+	GitCommit         string // empty: not run from a git repository
+	GitBranch         string
+	GitDirty          bool // uncommitted changes to the inputs or project file
+	ToolVersion       string
+	GoVersion         string
+	Platform          string // GOOS/GOARCH
+}
+
+// Settings are the run's recorded settings shown on the cover.
+type Settings struct {
+	Seed       uint64
+	Criterion  string // "aic", "aicc" or "bic"
+	Confidence float64
+	Intervals  string // "wald", "profile" or "bootstrap"
+	Bootstrap  int    // replicates; 0 = off
+}
+
+// Analysis is one analysis of one dataset (or one group of a split dataset).
+// Floats that do not apply are NaN.
+type Analysis struct {
+	Name     string // e.g. "nitrate/MW-1"
+	Dataset  string
+	Units    string
+	Discrete bool
+	// Criterion is the one the ranking used ("aicc", or "aic" where AICc
+	// was undefined); CriterionNote says why it differs from the project's.
+	Criterion     string
+	CriterionNote string
+	Confidence    float64
+	Summary       DataSummary
+	// Ranking has one row per candidate family, fitted ones by rank, then
+	// the inapplicable and non-converged ones (Rank 0).
+	Ranking    []Candidate
+	Parameters []Parameter
+	Derived    []Derived
+	// Notes are further remarks a reader needs (inapplicable families are
+	// listed from Ranking; these are extra).
+	Notes   []string
+	Figures []Figure // embedded in the PDF in this order
+}
+
+// DataSummary describes the observations one analysis fitted.
+type DataSummary struct {
+	N                int // observations of every kind
+	Exact            int
+	LeftCensored     int // non-detects
+	RightCensored    int // suspensions
+	IntervalCensored int
+	Missing          int     // cells skipped as missing
+	Min, Median, Max float64 // of the recorded values (censored ones at their recorded value)
+}
+
+// Candidate is one family's row of the ranking.
+type Candidate struct {
+	Family    string
+	Rank      int // 1 = best; 0 = not ranked (inapplicable or not converged)
+	K         int
+	LogLik    float64
+	Criterion float64 // the value of the analysis's criterion
+	Delta     float64
+	Weight    float64
+	Support   string // plain-language band of Δ, e.g. "substantial"
+	// Statistic names the adequacy check ("ad", "cvm", "ks", "chisq") and
+	// AdequacyP is its bootstrap p-value (NaN when not computed).
+	Statistic string
+	AdequacyP float64
+	Converged bool
+	Note      string // why not fitted or not converged, or a remark
+}
+
+// Parameter is one parameter estimate with its interval.
+type Parameter struct {
+	Family     string
+	Name       string
+	Estimate   float64
+	StdError   float64
+	Lower      float64
+	Upper      float64
+	Method     string // "profile", "wald", "bootstrap"
+	Fixed      bool
+	BestFamily bool // belongs to the top-ranked family
+}
+
+// Quantities of [Derived].
+const (
+	Quantile    = "quantile"
+	ReturnLevel = "return_level"
+	Exceedance  = "exceedance"
+)
+
+// ModelAverage is the family name of the Akaike-weighted rows.
+const ModelAverage = "model-average"
+
+// Derived is a percentile, return level or exceedance probability.
+type Derived struct {
+	Family   string // or ModelAverage
+	Quantity string // Quantile, ReturnLevel or Exceedance
+	Argument float64
+	Estimate float64
+	Lower    float64
+	Upper    float64
+	Method   string
+}
+
+// Figure is a rendered figure for the PDF: a PNG with its caption.
+type Figure struct {
+	Name    string // file name in the bundle, e.g. "seal-life-density.png"
+	Caption string
+	PNG     []byte
+}
+
+// CriterionName is the criterion as printed: "AIC", "AICc" or "BIC".
+func CriterionName(c string) string {
+	switch strings.ToLower(c) {
+	case "aicc":
+		return "AICc"
+	case "aic":
+		return "AIC"
+	case "bic":
+		return "BIC"
+	}
+	return c
+}
+
+// CriterionName is the analysis's criterion as printed.
+func (a Analysis) CriterionName() string { return CriterionName(a.Criterion) }
+
+// Level is the interval level as a percentage ("95").
+func (a Analysis) Level() string { return templates.Percent(a.Confidence) }
+
+// Fitted returns the ranked rows.
+func (a Analysis) Fitted() []Candidate {
+	var out []Candidate
+	for _, c := range a.Ranking {
+		if c.Rank > 0 {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// NotRanked returns the rows that were not ranked: inapplicable families
+// and fits that did not converge.
+func (a Analysis) NotRanked() []Candidate {
+	var out []Candidate
+	for _, c := range a.Ranking {
+		if c.Rank == 0 {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// Best returns the top-ranked family's name, or "".
+func (a Analysis) Best() string {
+	for _, c := range a.Ranking {
+		if c.Rank == 1 {
+			return c.Family
+		}
+	}
+	return ""
+}
+
+// Label describes a derived quantity in plain text:
+// "quantile 0.1", "return level 100 yr", "P(X > 4000)".
+func (d Derived) Label() string {
+	switch d.Quantity {
+	case Quantile:
+		return "quantile " + g(d.Argument)
+	case ReturnLevel:
+		return "return level " + g(d.Argument) + " yr"
+	case Exceedance:
+		return "P(X > " + g(d.Argument) + ")"
+	}
+	return d.Quantity + " " + g(d.Argument)
+}
+
+// TeXLabel describes a derived quantity for LaTeX.
+func (d Derived) TeXLabel() string {
+	switch d.Quantity {
+	case Quantile:
+		return `quantile $p = ` + g(d.Argument) + `$`
+	case ReturnLevel:
+		return `return level $T = ` + g(d.Argument) + `$\,yr`
+	case Exceedance:
+		return `$P(X > ` + g(d.Argument) + `)$`
+	}
+	return templates.TeXEscape(d.Quantity) + " " + g(d.Argument)
+}
+
+// IsModelAverage reports whether the row is Akaike-weighted.
+func (d Derived) IsModelAverage() bool { return d.Family == ModelAverage }
+
+// Statistic labels as printed.
+func statisticName(s string) string {
+	switch s {
+	case "ad":
+		return "Anderson–Darling"
+	case "cvm":
+		return "Cramér–von Mises"
+	case "ks":
+		return "Kolmogorov–Smirnov"
+	case "chisq":
+		return "chi-square"
+	}
+	return s
+}
+
+func g(x float64) string {
+	if math.IsNaN(x) {
+		return ""
+	}
+	return strconv.FormatFloat(x, 'g', -1, 64)
+}

@@ -1,0 +1,78 @@
+package report
+
+import (
+	"bytes"
+	"fmt"
+	"slices"
+	"strings"
+
+	"fitseal/templates"
+)
+
+// TableContext is what a table template sees: {{.A}} is the analysis and
+// {{.Slug}} its file-name form, used in LaTeX labels (tab:SLUG:ranking).
+type TableContext struct {
+	A    Analysis
+	Slug string
+}
+
+// File is one rendered output: its name inside its bundle folder
+// (tables/ or figures/) and its bytes.
+type File struct {
+	Name string
+	Data []byte
+}
+
+// RenderTables renders every template of a format in formats ("md", "tex")
+// for every analysis, into files named SLUG-KIND.FORMAT (e.g.
+// "nitrate_MW-1-ranking.tex"), in analysis order, then kind order. Load the
+// templates with [templates.LoadTables] (the project's folder first).
+func RenderTables(tmpls []*templates.TableTemplate, analyses []Analysis, formats []string) ([]File, error) {
+	slugs := Slugs(analyses)
+	var out []File
+	for i, a := range analyses {
+		for _, t := range tmpls {
+			if !slices.Contains(formats, t.Format) {
+				continue
+			}
+			var buf bytes.Buffer
+			if err := t.Execute(&buf, TableContext{A: a, Slug: slugs[i]}); err != nil {
+				return nil, fmt.Errorf("table template %s (%s) for analysis %s: %w", t.Name(), t.Source, a.Name, err)
+			}
+			out = append(out, File{Name: slugs[i] + "-" + t.Kind + "." + t.Format, Data: buf.Bytes()})
+		}
+	}
+	return out, nil
+}
+
+// Slugs gives each analysis a file-name form of its name: characters other
+// than letters, digits, '.', '_' and '-' become '_' ("nitrate/MW-1" →
+// "nitrate_MW-1"); a clash gets "-2", "-3", … in analysis order.
+func Slugs(analyses []Analysis) []string {
+	out := make([]string, len(analyses))
+	seen := map[string]bool{}
+	for i, a := range analyses {
+		base := slug(a.Name)
+		s := base
+		for n := 2; seen[s]; n++ {
+			s = fmt.Sprintf("%s-%d", base, n)
+		}
+		seen[s] = true
+		out[i] = s
+	}
+	return out
+}
+
+func slug(name string) string {
+	s := strings.Map(func(r rune) rune {
+		switch {
+		case r >= 'a' && r <= 'z', r >= 'A' && r <= 'Z', r >= '0' && r <= '9', r == '.', r == '_', r == '-':
+			return r
+		}
+		return '_'
+	}, name)
+	if s == "" || strings.Trim(s, ".") == "" {
+		s = "analysis"
+	}
+	return s
+}
