@@ -1,0 +1,399 @@
+package bundle
+
+import (
+	"archive/tar"
+	"bufio"
+	"compress/gzip"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path"
+	"path/filepath"
+	"sort"
+	"strings"
+)
+
+// Limits bound what a reader accepts, so that a hostile archive (a
+// decompression bomb, millions of entries) fails fast in bounded memory.
+type Limits struct {
+	MaxEntries   int   // files and folders
+	MaxFileSize  int64 // bytes of one file
+	MaxTotalSize int64 // bytes of all files together
+}
+
+// DefaultLimits are generous for distribution fitting (input tables of a
+// few hundred megabytes at most) and keep a reader's memory under ~1 GiB.
+var DefaultLimits = Limits{
+	MaxEntries:   10000,
+	MaxFileSize:  512 << 20,
+	MaxTotalSize: 1 << 30,
+}
+
+// metadataAllowance is how many decompressed bytes beyond MaxTotalSize the
+// tar headers, PAX records and padding of an archive may take.
+const metadataAllowance = 64 << 20
+
+// ErrUnsafeArchive is wrapped by every [ArchiveError].
+var ErrUnsafeArchive = errors.New("unsafe or damaged archive")
+
+// ArchiveError is an archive that fitseal refuses to read: a path escape, a
+// link, a device, a duplicate name, more than one top folder, a limit
+// exceeded, or a stream that is not a gzip'd tar. Member names the entry at
+// fault where there is one.
+type ArchiveError struct {
+	Source string
+	Member string
+	Reason string
+}
+
+func (e *ArchiveError) Error() string {
+	if e.Member != "" {
+		return fmt.Sprintf("%s: member %q: %s", e.Source, e.Member, e.Reason)
+	}
+	return fmt.Sprintf("%s: %s", e.Source, e.Reason)
+}
+
+func (e *ArchiveError) Unwrap() error { return ErrUnsafeArchive }
+
+// Bag is a bag read into memory.
+type Bag struct {
+	// Name is the bag folder's name.
+	Name string
+	// Files maps slash paths relative to the bag folder to their bytes.
+	Files map[string][]byte
+	// Source is the path it was read from.
+	Source string
+}
+
+// Payload is the payload with paths relative to data/.
+func (b *Bag) Payload() map[string][]byte {
+	out := map[string][]byte{}
+	for p, d := range b.Files {
+		if rest, ok := strings.CutPrefix(p, PayloadDir+"/"); ok {
+			out[rest] = d
+		}
+	}
+	return out
+}
+
+// RunJSON is run.json's bytes, nil when absent.
+func (b *Bag) RunJSON() []byte { return b.Files[RunFile] }
+
+// Paths are the bag's file paths, sorted.
+func (b *Bag) Paths() []string {
+	out := make([]string, 0, len(b.Files))
+	for p := range b.Files {
+		out = append(out, p)
+	}
+	sort.Strings(out)
+	return out
+}
+
+// Open reads a bundle with [DefaultLimits]: a gzip'd tar file, or a bag
+// folder. An error that is not an [*ArchiveError] means the path could not
+// be read at all (no such file).
+func Open(path string) (*Bag, error) { return OpenWithLimits(path, DefaultLimits) }
+
+// OpenWithLimits is [Open] with the given limits.
+func OpenWithLimits(path string, lim Limits) (*Bag, error) {
+	fi, err := os.Stat(path)
+	if err != nil {
+		return nil, err
+	}
+	if fi.IsDir() {
+		return ReadFolder(path, lim)
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	b, err := ReadArchive(f, lim)
+	if ae := (*ArchiveError)(nil); errors.As(err, &ae) {
+		ae.Source = path
+	}
+	if b != nil {
+		b.Source = path
+	}
+	return b, err
+}
+
+// capReader fails once more than n bytes have been read through it.
+type capReader struct {
+	r io.Reader
+	n int64
+}
+
+var errOverCap = errors.New("decompressed size exceeds the limit")
+
+func (c *capReader) Read(p []byte) (int, error) {
+	if c.n <= 0 {
+		return 0, errOverCap
+	}
+	if int64(len(p)) > c.n {
+		p = p[:c.n]
+	}
+	n, err := c.r.Read(p)
+	c.n -= int64(n)
+	return n, err
+}
+
+// pathTree tracks the names seen in an archive or folder to refuse
+// duplicates (exact or differing only in letter case), a name used both as a
+// file and as a folder, and more than one top folder.
+type pathTree struct {
+	top     string
+	kind    map[string]bool // name → is a folder (entries seen)
+	folded  map[string]string
+	implied map[string]bool // every ancestor folder of an entry
+}
+
+func newPathTree() *pathTree {
+	return &pathTree{kind: map[string]bool{}, folded: map[string]string{}, implied: map[string]bool{}}
+}
+
+// add records name (clean, no trailing slash) and returns the reason it is
+// refused, or "".
+func (t *pathTree) add(name string, dir bool) string {
+	if err := checkMemberPath(name); err != nil {
+		return err.Error()
+	}
+	top, _, nested := strings.Cut(name, "/")
+	if t.top == "" {
+		t.top = top
+	} else if top != t.top {
+		return fmt.Sprintf("more than one top folder (%q and %q)", t.top, top)
+	}
+	if !nested && !dir {
+		return "a file outside the bag folder"
+	}
+	if _, dup := t.kind[name]; dup {
+		return "duplicate name"
+	}
+	if other, ok := t.folded[foldKey(name)]; ok {
+		return fmt.Sprintf("name differs from %q only in letter case", other)
+	}
+	if !dir && t.implied[name] {
+		return "a file where the archive has a folder"
+	}
+	for d := path.Dir(name); d != "."; d = path.Dir(d) {
+		if isDir, ok := t.kind[d]; ok && !isDir {
+			return fmt.Sprintf("inside %q, which is a file", d)
+		}
+		t.implied[d] = true
+	}
+	t.kind[name] = dir
+	t.folded[foldKey(name)] = name
+	return ""
+}
+
+// ReadArchive reads a gzip'd tar bag from r. Only regular files and folders
+// are accepted; each entry's declared size is checked against the limits
+// before any of its bytes are read, and the decompressed stream as a whole
+// is capped, so a bomb fails after reading at most the limits.
+func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
+	fail := func(member, format string, args ...any) (*Bag, error) {
+		return nil, &ArchiveError{Source: "bundle", Member: member, Reason: fmt.Sprintf(format, args...)}
+	}
+	zr, err := gzip.NewReader(bufio.NewReader(r))
+	if err != nil {
+		return fail("", "not a gzip-compressed file: %v", err)
+	}
+	capped := &capReader{r: zr, n: lim.MaxTotalSize + metadataAllowance}
+	tr := tar.NewReader(capped)
+	tree := newPathTree()
+	files := map[string][]byte{}
+	var entries int
+	var total int64
+	for {
+		h, err := tr.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return fail("", "not a readable tar archive: %v", err)
+		}
+		entries++
+		if entries > lim.MaxEntries {
+			return fail(h.Name, "more than %d entries", lim.MaxEntries)
+		}
+		var dir bool
+		switch h.Typeflag {
+		case tar.TypeReg, tar.TypeRegA: //nolint:staticcheck // old tars mark files with '\x00'
+		case tar.TypeDir:
+			dir = true
+		case tar.TypeSymlink, tar.TypeLink:
+			return fail(h.Name, "a link (to %q); bundles hold only files and folders", h.Linkname)
+		case tar.TypeChar, tar.TypeBlock:
+			return fail(h.Name, "a device; bundles hold only files and folders")
+		case tar.TypeFifo:
+			return fail(h.Name, "a FIFO; bundles hold only files and folders")
+		default:
+			return fail(h.Name, "entry type %q; bundles hold only files and folders", h.Typeflag)
+		}
+		name := h.Name
+		if dir {
+			name = strings.TrimSuffix(name, "/")
+		}
+		if reason := tree.add(name, dir); reason != "" {
+			return fail(h.Name, "%s", reason)
+		}
+		if dir {
+			continue
+		}
+		if h.Size < 0 || h.Size > lim.MaxFileSize {
+			return fail(h.Name, "size %d bytes exceeds the limit of %d", h.Size, lim.MaxFileSize)
+		}
+		if total+h.Size > lim.MaxTotalSize {
+			return fail(h.Name, "total size exceeds the limit of %d bytes", lim.MaxTotalSize)
+		}
+		total += h.Size
+		data := make([]byte, h.Size)
+		if _, err := io.ReadFull(tr, data); err != nil {
+			return fail(h.Name, "truncated: %v", err)
+		}
+		files[strings.TrimPrefix(name, tree.top+"/")] = data
+	}
+	// Read to the end of the gzip stream so that its CRC-32 and length are
+	// checked; a tar writer pads with at most a few blocks of zeros.
+	if n, err := io.Copy(io.Discard, io.LimitReader(capped, 1<<20)); err != nil {
+		return fail("", "damaged compressed stream after the tar end: %v", err)
+	} else if n == 1<<20 {
+		return fail("", "more than 1 MiB of data after the tar end")
+	}
+	if tree.top == "" {
+		return fail("", "empty archive: no bag folder")
+	}
+	if _, ok := tree.kind[tree.top]; !ok && !tree.implied[tree.top] {
+		return fail(tree.top, "the top entry is not a folder")
+	}
+	return &Bag{Name: tree.top, Files: files}, nil
+}
+
+// ReadFolder reads a bag folder with the same rules as ReadArchive: only
+// regular files and folders (a symbolic link is refused, not followed),
+// names that pass the path checks, and the same limits.
+func ReadFolder(dir string, lim Limits) (*Bag, error) {
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		return nil, err
+	}
+	name := filepath.Base(abs)
+	fail := func(member, format string, args ...any) (*Bag, error) {
+		return nil, &ArchiveError{Source: dir, Member: member, Reason: fmt.Sprintf(format, args...)}
+	}
+	if err := checkBagName(name); err != nil {
+		return fail("", "%v", err)
+	}
+	root, err := os.OpenRoot(dir)
+	if err != nil {
+		return nil, err
+	}
+	defer root.Close()
+	tree := newPathTree()
+	tree.add(name, true)
+	files := map[string][]byte{}
+	var entries int
+	var total int64
+	var bag *Bag
+	walkErr := fs.WalkDir(root.FS(), ".", func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if p == "." {
+			return nil
+		}
+		entries++
+		if entries > lim.MaxEntries {
+			_, e := fail(p, "more than %d entries", lim.MaxEntries)
+			return e
+		}
+		switch t := d.Type(); {
+		case t&fs.ModeSymlink != 0:
+			_, e := fail(p, "a symbolic link; bundles hold only files and folders")
+			return e
+		case t&fs.ModeDevice != 0, t&fs.ModeCharDevice != 0:
+			_, e := fail(p, "a device; bundles hold only files and folders")
+			return e
+		case t&fs.ModeNamedPipe != 0:
+			_, e := fail(p, "a FIFO; bundles hold only files and folders")
+			return e
+		case !d.IsDir() && !t.IsRegular():
+			_, e := fail(p, "not a regular file; bundles hold only files and folders")
+			return e
+		}
+		if reason := tree.add(name+"/"+p, d.IsDir()); reason != "" {
+			_, e := fail(p, "%s", reason)
+			return e
+		}
+		if d.IsDir() {
+			return nil
+		}
+		f, err := root.OpenFile(p, os.O_RDONLY|syscallNoFollow, 0)
+		if err != nil {
+			return err
+		}
+		defer f.Close()
+		fi, err := f.Stat()
+		if err != nil {
+			return err
+		}
+		if !fi.Mode().IsRegular() {
+			_, e := fail(p, "not a regular file; bundles hold only files and folders")
+			return e
+		}
+		if fi.Size() > lim.MaxFileSize {
+			_, e := fail(p, "size %d bytes exceeds the limit of %d", fi.Size(), lim.MaxFileSize)
+			return e
+		}
+		data, err := io.ReadAll(io.LimitReader(f, lim.MaxFileSize+1))
+		if err != nil {
+			return err
+		}
+		if int64(len(data)) > lim.MaxFileSize {
+			_, e := fail(p, "size exceeds the limit of %d bytes", lim.MaxFileSize)
+			return e
+		}
+		total += int64(len(data))
+		if total > lim.MaxTotalSize {
+			_, e := fail(p, "total size exceeds the limit of %d bytes", lim.MaxTotalSize)
+			return e
+		}
+		files[p] = data
+		return nil
+	})
+	if walkErr != nil {
+		return nil, walkErr
+	}
+	bag = &Bag{Name: name, Files: files, Source: dir}
+	return bag, nil
+}
+
+// Extract reads the bundle at src (archive or folder) with [DefaultLimits]
+// and writes its bag folder inside dir (created if missing), through a
+// temporary folder in dir renamed into place. An existing dir/NAME is never
+// replaced. It returns the path of the extracted bag folder.
+func Extract(src, dir string) (string, error) {
+	b, err := Open(src)
+	if err != nil {
+		return "", err
+	}
+	return b.WriteTo(dir)
+}
+
+// WriteTo writes the bag as the folder dir/NAME, as [Extract] does.
+func (b *Bag) WriteTo(dir string) (string, error) {
+	if err := checkBagName(b.Name); err != nil {
+		return "", err
+	}
+	if err := os.MkdirAll(dir, dirMode); err != nil {
+		return "", err
+	}
+	target := filepath.Join(dir, b.Name)
+	if err := writeFolderAtomic(target, false, sortedMembers(b.Files)); err != nil {
+		return "", err
+	}
+	return target, nil
+}

@@ -1,0 +1,112 @@
+package bundle
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+	"sort"
+	"strings"
+	"time"
+)
+
+// Contents is everything a bundle is made from.
+type Contents struct {
+	// Name is the bag's top folder in an archive: the project's name.
+	Name string
+	// Created is the created time (SOURCE_DATE_EPOCH when set): every
+	// entry's mtime and the Bagging-Date.
+	Created time.Time
+	// Description goes to bag-info.txt's External-Description.
+	Description string
+	// Payload maps slash paths relative to data/ ("inputs/fitseal.toml",
+	// "results/fits.csv") to their bytes.
+	Payload map[string][]byte
+	// RunJSON is run.json, byte for byte.
+	RunJSON []byte
+	// ToolVersion goes to bag-info.txt; empty means [ToolVersion].
+	ToolVersion string
+}
+
+// Members builds every member of the signed bag: payload under data/,
+// run.json, bagit.txt, bag-info.txt, both manifests and the signature. Keys
+// are slash paths relative to the bag folder.
+func Members(c Contents, signer Signer) (map[string][]byte, error) {
+	if c.ToolVersion == "" {
+		c.ToolVersion = ToolVersion()
+	}
+	files, err := buildBag(bagContents{
+		Payload: c.Payload, RunJSON: c.RunJSON, Created: c.Created,
+		Description: c.Description, ToolVersion: c.ToolVersion,
+	})
+	if err != nil {
+		return nil, err
+	}
+	sig, err := signTagManifest(signer, files[TagManifestFile])
+	if err != nil {
+		return nil, err
+	}
+	files[SignatureFile] = sig
+	return files, nil
+}
+
+func sortedMembers(files map[string][]byte) []member {
+	out := make([]member, 0, len(files))
+	for p, b := range files {
+		out = append(out, member{p, b})
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].Path < out[j].Path })
+	return out
+}
+
+// WriteArchive writes the signed bag as a gzip-compressed tar to w (see
+// writeTarGz for what makes it deterministic).
+func WriteArchive(w io.Writer, c Contents, signer Signer) error {
+	files, err := Members(c, signer)
+	if err != nil {
+		return err
+	}
+	return writeTarGz(w, c.Name, sortedMembers(files), c.Created)
+}
+
+// IsArchivePath reports whether out names an archive (.tar.gz or .tgz)
+// rather than a bag folder.
+func IsArchivePath(out string) bool {
+	l := strings.ToLower(out)
+	return strings.HasSuffix(l, ".tar.gz") || strings.HasSuffix(l, ".tgz")
+}
+
+// WriteBundle writes the signed bag to out: a .tar.gz/.tgz archive whose top
+// folder is c.Name, or else the folder out, which is then the bag itself.
+// Either is written under a temporary name in out's folder, synced and
+// renamed; an existing out is replaced only when force is set.
+func WriteBundle(out string, force bool, c Contents, signer Signer) error {
+	if err := checkBagName(c.Name); err != nil {
+		return err
+	}
+	files, err := Members(c, signer)
+	if err != nil {
+		return err
+	}
+	if IsArchivePath(out) {
+		return writeFileAtomic(out, force, fileMode, func(w io.Writer) error {
+			return writeTarGz(w, c.Name, sortedMembers(files), c.Created)
+		})
+	}
+	return writeFolderAtomic(out, force, sortedMembers(files))
+}
+
+// Write is [WriteBundle] with its contents spelled out: out and force as
+// there, bagName the top folder, payload paths relative to data/.
+func Write(out string, force bool, bagName string, created time.Time, payload map[string][]byte, runJSON []byte, signer Signer, desc string) error {
+	return WriteBundle(out, force, Contents{
+		Name: bagName, Created: created, Description: desc, Payload: payload, RunJSON: runJSON,
+	}, signer)
+}
+
+// DefaultOutput is the bundle path that 'run' uses without -o:
+// bundles/NAME-YYYYMMDDTHHMMSSZ.tar.gz beside the project file, from the
+// created time in UTC (SPEC.md, "Command line").
+func DefaultOutput(projectFile, name string, created time.Time) string {
+	return filepath.Join(filepath.Dir(projectFile), "bundles",
+		fmt.Sprintf("%s-%s.tar.gz", name, created.UTC().Format("20060102T150405Z")))
+}
