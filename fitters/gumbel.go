@@ -1,0 +1,176 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+)
+
+// Gumbel is the Gumbel distribution of largest values (annual maxima) with
+// Location μ and Scale β > 0:
+//
+//	F(x) = exp(−e^(−z)),  f(x) = e^(−z − e^(−z))/β,  z = (x−μ)/β,  x ∈ R.
+type Gumbel struct{ Location, Scale float64 }
+
+func (d Gumbel) LogPDF(x float64) float64 {
+	z := (x - d.Location) / d.Scale
+	return -z - math.Exp(-z) - math.Log(d.Scale)
+}
+
+func (d Gumbel) LogCDF(x float64) float64 { return -math.Exp(-(x - d.Location) / d.Scale) }
+
+// LogSurvival is ln(1 − exp(−e^(−z))) through log1mExp: for large z it is
+// ≈ −z, never ln 0.
+func (d Gumbel) LogSurvival(x float64) float64 {
+	return log1mExp(-math.Exp(-(x - d.Location) / d.Scale))
+}
+
+// Quantile is μ − β ln(−ln p).
+func (d Gumbel) Quantile(p float64) float64 { return d.Location - d.Scale*math.Log(-math.Log(p)) }
+
+func (d Gumbel) Rand(r *rand.Rand) float64 {
+	return d.Location - d.Scale*math.Log(r.ExpFloat64())
+}
+
+type gumbelFamily struct{}
+
+func init() { register(gumbelFamily{}) }
+
+func (gumbelFamily) Name() string         { return "gumbel" }
+func (gumbelFamily) Parameters() []string { return []string{"location", "scale"} }
+func (gumbelFamily) Kind() Kind           { return Continuous }
+func (gumbelFamily) Support() string      { return "real line" }
+func (gumbelFamily) Route() string {
+	return "profile score equation in the scale (safeguarded Newton), location in closed form; censored data: BFGS on (location, log scale)"
+}
+
+func (gumbelFamily) New(p []float64) (Dist, error) {
+	if len(p) != 2 {
+		panic("fitters: gumbel takes 2 parameters")
+	}
+	if !(p[1] > 0) || math.IsInf(p[1], 1) || math.IsNaN(p[0]) || math.IsInf(p[0], 0) {
+		return nil, fmt.Errorf("gumbel: need finite location and scale > 0, got location=%v scale=%v", p[0], p[1])
+	}
+	return Gumbel{p[0], p[1]}, nil
+}
+
+func (f gumbelFamily) LogLik(p []float64, d *Data) float64 {
+	dist, err := f.New(p)
+	if err != nil {
+		return math.Inf(-1)
+	}
+	g := dist.(Gumbel)
+	// Σ ln f(x) = −n ln β − Σ z − Σ e^(−z)
+	var sz, se float64
+	for _, x := range d.Exact {
+		z := (x - g.Location) / g.Scale
+		sz += z
+		se += math.Exp(-z)
+	}
+	ll := -float64(len(d.Exact))*math.Log(g.Scale) - sz - se
+	return ll + censoredLogLik(g, d, false)
+}
+
+func (f gumbelFamily) Applicable(d *Data, fixed Fixed) error {
+	if err := noFixed(f.Name(), fixed); err != nil {
+		return err
+	}
+	return needDistinct(f.Name(), d, 2)
+}
+
+// gumbelMLE solves the profile score equation of the scale for complete
+// data (Johnson, Kotz & Balakrishnan, 1995, §22.7):
+//
+//	g(β) = x̄ − Σ x e^(−x/β) / Σ e^(−x/β) − β = 0,
+//
+// which decreases in β, then μ̂ = −β̂ ln(mean e^(−x/β̂)). The data enter as
+// e = (x − min x)/sd (so the weights e^(−e/β) ≤ 1 never overflow and data far
+// from zero keep their spread) and as c = e − mean e, so that the
+// difference of means is summed directly. Safeguarded Newton from the
+// moment estimate β₀ = sd·√6/π.
+func gumbelMLE(x []float64, opt Options) (location, scale, ll float64, conv Convergence) {
+	n := float64(len(x))
+	lo, _ := minMax(x)
+	_, v := meanVar(x)
+	sd := math.Sqrt(v)
+	conv = Convergence{Method: "profile equation (safeguarded Newton)"}
+	if !(sd > 0) || math.IsInf(sd, 0) {
+		conv.Reason = fmt.Sprintf("the data's spread is %v: the scale has no finite estimate", sd)
+		return math.NaN(), math.NaN(), math.NaN(), conv
+	}
+	e := make([]float64, len(x))
+	for i, xi := range x {
+		e[i] = (xi - lo) / sd
+	}
+	me, _ := meanVar(e)
+	c := make([]float64, len(e))
+	for i, v := range e {
+		c[i] = v - me
+	}
+	fdf := func(b float64) (float64, float64) {
+		conv.Evaluations++
+		var sw, swc, swcc float64
+		for i, v := range e {
+			w := math.Exp(-v / b)
+			sw += w
+			wc := w * c[i]
+			swc += wc
+			swcc += wc * c[i]
+		}
+		mc := swc / sw
+		return -mc - b, -(swcc/sw-mc*mc)/(b*b) - 1
+	}
+	fv := func(b float64) float64 { v, _ := fdf(b); return v }
+	b0 := math.Sqrt(6) / math.Pi
+	blo, bhi, ok := expandBracket(fv, b0*0.7, b0*1.4)
+	if !ok {
+		conv.Reason = "no bracket for the scale's profile equation"
+		return math.NaN(), math.NaN(), math.NaN(), conv
+	}
+	b, it, err := solveBracketed(fdf, blo, bhi, 1e-14, opt.maxIterations())
+	conv.Iterations = it
+	if err != nil {
+		conv.Reason = "profile equation: " + err.Error()
+		return math.NaN(), math.NaN(), math.NaN(), conv
+	}
+	var sw float64
+	for _, v := range e {
+		sw += math.Exp(-v / b)
+	}
+	conv.Evaluations++
+	r, _ := fdf(b)
+	conv.GradientNorm = math.Abs(r)
+	conv.Converged = true
+	mu := -b * math.Log(sw/n) // location on the e scale
+	location, scale = lo+sd*mu, sd*b
+	// ll = −n ln β − Σz − Σe^(−z) with Σe^(−z) = n and Σz = n(mean e − μ)/b.
+	ll = -n*math.Log(scale) - n*(me-mu)/b - n
+	return location, scale, ll, conv
+}
+
+func (f gumbelFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if err := f.Applicable(d, opt.Fixed); err != nil {
+		return nil, err
+	}
+	fit := newFit(f, d)
+	if d.IsComplete() {
+		m, s, ll, conv := gumbelMLE(d.Exact, opt)
+		fit.Convergence = conv
+		if conv.Converged {
+			fit.Estimates = []float64{m, s}
+			fit.LogLik = ll
+		}
+		return fit, nil
+	}
+	m0, s0 := locScaleStart(startSample(d, 2, false), math.Sqrt(6)/math.Pi)
+	if x := startSample(d, 2, false); len(x) >= 2 {
+		if m, s, _, c := gumbelMLE(x, opt); c.Converged {
+			m0, s0 = m, s
+		}
+	}
+	// θ = ((μ − m0)/s0, ln(β/s0)): a well-scaled problem even far from zero.
+	starts := [][]float64{{0, 0}, {0, math.Log(3)}}
+	toNatural := func(t []float64) []float64 { return []float64{m0 + s0*t[0], s0 * math.Exp(t[1])} }
+	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (location, log scale)")
+	return fit, nil
+}

@@ -1,0 +1,139 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+
+	"gonum.org/v1/gonum/mathext"
+)
+
+// LogNormal is the log-normal distribution: ln X is normal with mean Mu and
+// standard deviation Sigma > 0,
+//
+//	f(x) = exp(−(ln x − μ)²/(2σ²)) / (x σ √(2π)),  x > 0.
+//
+// The density is of x (it carries the 1/x), not of ln x.
+type LogNormal struct{ Mu, Sigma float64 }
+
+func (d LogNormal) LogPDF(x float64) float64 {
+	if !(x > 0) {
+		return math.Inf(-1)
+	}
+	lx := math.Log(x)
+	z := (lx - d.Mu) / d.Sigma
+	return -0.5*z*z - lx - math.Log(d.Sigma) - lnSqrt2Pi
+}
+
+func (d LogNormal) LogCDF(x float64) float64 {
+	if !(x > 0) {
+		return math.Inf(-1)
+	}
+	return logNormalCDF((math.Log(x) - d.Mu) / d.Sigma)
+}
+
+func (d LogNormal) LogSurvival(x float64) float64 {
+	if !(x > 0) {
+		return 0
+	}
+	return logNormalSurvival((math.Log(x) - d.Mu) / d.Sigma)
+}
+
+func (d LogNormal) Quantile(p float64) float64 {
+	return math.Exp(d.Mu + d.Sigma*mathext.NormalQuantile(p))
+}
+
+func (d LogNormal) Rand(r *rand.Rand) float64 { return math.Exp(d.Mu + d.Sigma*r.NormFloat64()) }
+
+type lognormalFamily struct{}
+
+func init() { register(lognormalFamily{}) }
+
+func (lognormalFamily) Name() string         { return "lognormal" }
+func (lognormalFamily) Parameters() []string { return []string{"mu", "sigma"} }
+func (lognormalFamily) Kind() Kind           { return Continuous }
+func (lognormalFamily) Support() string      { return "x > 0" }
+func (lognormalFamily) Route() string {
+	return "closed form (mean and ML standard deviation of ln x); censored data: BFGS on (mu, log sigma)"
+}
+
+func (lognormalFamily) New(p []float64) (Dist, error) {
+	if len(p) != 2 {
+		panic("fitters: lognormal takes 2 parameters")
+	}
+	if !(p[1] > 0) || math.IsInf(p[1], 1) || math.IsNaN(p[0]) || math.IsInf(p[0], 0) {
+		return nil, fmt.Errorf("lognormal: need finite mu and sigma > 0, got mu=%v sigma=%v", p[0], p[1])
+	}
+	return LogNormal{p[0], p[1]}, nil
+}
+
+func (f lognormalFamily) LogLik(p []float64, d *Data) float64 {
+	dist, err := f.New(p)
+	if err != nil {
+		return math.Inf(-1)
+	}
+	ln := dist.(LogNormal)
+	// Σ ln f(x) = −Σ ln x − n ln σ − n ln√(2π) − Σ(ln x − μ)²/(2σ²)
+	var slx, ss float64
+	for _, x := range d.Exact {
+		if !(x > 0) {
+			return math.Inf(-1)
+		}
+		lx := math.Log(x)
+		slx += lx
+		z := lx - ln.Mu
+		ss += z * z
+	}
+	n := float64(len(d.Exact))
+	ll := -slx - n*(math.Log(ln.Sigma)+lnSqrt2Pi) - 0.5*ss/(ln.Sigma*ln.Sigma)
+	return ll + censoredLogLik(ln, d, false)
+}
+
+func (f lognormalFamily) Applicable(d *Data, fixed Fixed) error {
+	if err := noFixed(f.Name(), fixed); err != nil {
+		return err
+	}
+	if err := needPositive(f.Name(), d, false); err != nil {
+		return err
+	}
+	return needDistinct(f.Name(), d, 2)
+}
+
+// lognormalMLE is the closed-form estimate from complete data x > 0 and the
+// maximum log-likelihood: μ̂ = mean ln x, σ̂² = mean (ln x − μ̂)². The logs are
+// taken about x[0] (logsAbout) so that tightly clustered data keep their spread.
+func lognormalMLE(x []float64) (mu, sigma, ll float64) {
+	lnRef, y := logsAbout(x, 0)
+	m, v := meanVar(y)
+	n := float64(len(x))
+	mu, sigma = lnRef+m, math.Sqrt(v)
+	// At the optimum Σ(ln x − μ̂)² = nσ̂², so the quadratic term is −n/2.
+	ll = -(n*lnRef + sumOf(y)) - n*(math.Log(sigma)+lnSqrt2Pi) - 0.5*n
+	return mu, sigma, ll
+}
+
+func (f lognormalFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if err := f.Applicable(d, opt.Fixed); err != nil {
+		return nil, err
+	}
+	fit := newFit(f, d)
+	if d.IsComplete() {
+		mu, sigma, ll := lognormalMLE(d.Exact)
+		fit.Estimates = []float64{mu, sigma}
+		fit.LogLik = ll
+		fit.Convergence = closedForm()
+		return fit, nil
+	}
+	mu0, s0 := 0.0, 1.0
+	if x := startSample(d, 2, true); len(x) >= 2 {
+		mu0, s0, _ = lognormalMLE(x)
+	}
+	if !(s0 > 1e-8) || math.IsInf(s0, 0) {
+		s0 = 1
+	}
+	// θ = ((μ − μ₀)/σ₀, ln(σ/σ₀)): a well-scaled problem for any spread.
+	starts := [][]float64{{0, 0}, {0, math.Log(3)}}
+	toNatural := func(t []float64) []float64 { return []float64{mu0 + s0*t[0], s0 * math.Exp(t[1])} }
+	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (mu, log sigma)")
+	return fit, nil
+}
