@@ -1,0 +1,206 @@
+package infer
+
+import (
+	"errors"
+	"fmt"
+	"math/rand/v2"
+	"runtime"
+	"slices"
+	"sync"
+	"sync/atomic"
+
+	"fitseal/fitters"
+)
+
+// BootstrapOptions configures a parametric bootstrap.
+type BootstrapOptions struct {
+	// Replicates is B, the number of simulated datasets.
+	Replicates int
+	// Workers run replicates in parallel; 0 means runtime.GOMAXPROCS(0).
+	// The result does not depend on it.
+	Workers int
+	// Stream identifies the random streams (Purpose defaults to "bootstrap").
+	Stream Stream
+	// Fit holds the refit settings (tolerance, iterations). Parameters fixed
+	// in the original fit are held at the same values in every refit.
+	Fit fitters.Options
+}
+
+// ErrBootstrapNotApplicable is matched by the error Bootstrap returns for
+// data it cannot simulate.
+var ErrBootstrapNotApplicable = errors.New("parametric bootstrap not applicable")
+
+// Replicates holds the outcome of a parametric bootstrap: for each of the
+// B simulated datasets, the refitted estimates and the goodness-of-fit
+// statistics of the refitted model on that dataset.
+type Replicates struct {
+	Requested int
+	// Estimates[r] are replicate r's refitted parameters, nil when its
+	// refit failed or did not converge.
+	Estimates [][]float64
+	// Statistics[r] are the statistics named StatNames for replicate r
+	// (nil when it failed).
+	StatNames  []string
+	Statistics [][]float64
+	// Failed counts replicates whose refit failed or did not converge;
+	// FirstFailure is the reason of the lowest-numbered one.
+	Failed       int
+	FirstFailure string
+}
+
+// Succeeded is the number of replicates that gave estimates.
+func (r *Replicates) Succeeded() int { return r.Requested - r.Failed }
+
+// statNames lists the statistics computed for a family's data.
+func statNames(kind fitters.Kind) []string {
+	if kind == fitters.Discrete {
+		return []string{ChiSquare}
+	}
+	return []string{KolmogorovSmirnov, CramerVonMises, AndersonDarling}
+}
+
+// bootstrapApplicable says whether d can be simulated from a fitted model:
+// complete data only (simulating censored data needs the censoring
+// mechanism, which the data do not record), and no per-observation trials.
+func bootstrapApplicable(d *fitters.Data) error {
+	if !d.IsComplete() {
+		return fmt.Errorf("%w: %d of %d observations are censored, and simulating censored data needs the censoring mechanism, which the data do not record",
+			ErrBootstrapNotApplicable, d.NCensored(), d.N())
+	}
+	if d.Trials != nil {
+		return fmt.Errorf("%w: observations with their own numbers of trials are not simulated yet", ErrBootstrapNotApplicable)
+	}
+	if len(d.Exact) == 0 {
+		return fmt.Errorf("%w: no observations", ErrBootstrapNotApplicable)
+	}
+	return nil
+}
+
+// Bootstrap runs a parametric bootstrap of fit (Efron & Tibshirani, 1993,
+// §6.5): replicate r draws n values from the fitted model with the stream
+// opt.Stream (replicate r), refits the family with the original fixed
+// parameters, and records the refit's estimates and its goodness-of-fit
+// statistics on the simulated values. Replicates run on opt.Workers
+// goroutines; each writes only its own slot, so the result is the same for
+// any number of workers. Each worker reuses its sample, sort and cell
+// buffers and its generator; the refit itself allocates.
+func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt BootstrapOptions) (*Replicates, error) {
+	if err := bootstrapApplicable(d); err != nil {
+		return nil, err
+	}
+	if !fit.Converged {
+		return nil, fmt.Errorf("%s: the fit did not converge; there is no model to simulate from", fam.Name())
+	}
+	dist, err := fam.New(fit.Estimates)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", fam.Name(), err)
+	}
+	B := opt.Replicates
+	if B <= 0 {
+		return nil, fmt.Errorf("bootstrap needs at least one replicate, got %d", B)
+	}
+	stream := opt.Stream
+	if stream.Purpose == "" {
+		stream.Purpose = "bootstrap"
+	}
+	fitOpt := refitOptions(fit, opt.Fit)
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, B)
+
+	k := len(fit.Estimates)
+	names := statNames(fam.Kind())
+	est := make([]float64, B*k)
+	stats := make([]float64, B*len(names))
+	rep := &Replicates{Requested: B, StatNames: names,
+		Estimates: make([][]float64, B), Statistics: make([][]float64, B)}
+	reasons := make([]string, B)
+	n := len(d.Exact)
+
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			pcg := rand.NewPCG(0, 0)
+			rng := rand.New(pcg)
+			sample := make([]float64, n)
+			sorted := make([]float64, n)
+			sim := &fitters.Data{}
+			var c cells
+			var edf [3]float64
+			for {
+				r := int(next.Add(1) - 1)
+				if r >= B {
+					return
+				}
+				stream.reseed(pcg, r)
+				for i := range sample {
+					sample[i] = dist.Rand(rng)
+				}
+				copy(sorted, sample)
+				sim.Exact = sample
+				refit, err := fam.Fit(sim, fitOpt)
+				switch {
+				case err != nil:
+					reasons[r] = err.Error()
+					continue
+				case !refit.Converged:
+					reasons[r] = "refit did not converge: " + refit.Reason
+					continue
+				}
+				rd, err := fam.New(refit.Estimates)
+				if err != nil {
+					reasons[r] = err.Error()
+					continue
+				}
+				row := est[r*k : (r+1)*k]
+				copy(row, refit.Estimates)
+				rep.Estimates[r] = row
+				slices.Sort(sorted)
+				srow := stats[r*len(names) : (r+1)*len(names)]
+				if fam.Kind() == fitters.Discrete {
+					srow[0], _ = chiSquareCounts(rd, sorted, &c)
+				} else {
+					edfStatistics(rd, sorted, &edf)
+					copy(srow, edf[:])
+				}
+				rep.Statistics[r] = srow
+			}
+		}()
+	}
+	wg.Wait()
+	for r, why := range reasons {
+		if why != "" {
+			if rep.Failed == 0 {
+				rep.FirstFailure = fmt.Sprintf("replicate %d: %s", r, why)
+			}
+			rep.Failed++
+		}
+	}
+	return rep, nil
+}
+
+// refitOptions returns the options of a refit: the caller's tolerance and
+// iteration cap, with every parameter fixed in fit held at its value.
+func refitOptions(fit *fitters.Fit, base fitters.Options) fitters.Options {
+	o := fitters.Options{Tolerance: base.Tolerance, MaxIterations: base.MaxIterations}
+	for i, fixed := range fit.Fixed {
+		if fixed {
+			if o.Fixed == nil {
+				o.Fixed = fitters.Fixed{}
+			}
+			o.Fixed[fit.Parameters[i]] = fit.Estimates[i]
+		}
+	}
+	for name, v := range base.Fixed {
+		if o.Fixed == nil {
+			o.Fixed = fitters.Fixed{}
+		}
+		o.Fixed[name] = v
+	}
+	return o
+}

@@ -1,0 +1,69 @@
+package infer
+
+import (
+	"math"
+
+	"fitseal/fitters"
+)
+
+// minExpected is the smallest expected count of a pooled cell: 5, common
+// practice (Cochran, 1954).
+const minExpected = 5
+
+// cells is reusable scratch for the pooled chi-square statistic.
+type cells struct {
+	obs, exp []float64
+}
+
+// chiSquareCounts returns Pearson's X² = Σ (O − E)²/E of a sorted complete
+// sample of counts against a discrete distribution, with cells 0, 1, …,
+// m − 1 and "≥ m" (m the largest count), adjacent cells pooled from the
+// left until each expected count is at least 5 (the last, short one
+// joined to its neighbour), and the number of pooled cells. A sample whose
+// cells all pool into one gives X² = 0 with one cell: no test.
+func chiSquareCounts(d fitters.Dist, x []float64, c *cells) (float64, int) {
+	n := float64(len(x))
+	m := x[len(x)-1]
+	c.obs, c.exp = c.obs[:0], c.exp[:0]
+	var o, e float64
+	j := 0
+	for v := 0.0; v <= m; v++ {
+		for j < len(x) && x[j] <= v {
+			o++
+			j++
+		}
+		if v < m {
+			e += n * math.Exp(d.LogPDF(v))
+		} else {
+			// the last cell is X ≥ m: P(X > m − 1)
+			e += n * math.Exp(d.LogSurvival(m-1))
+			o += float64(len(x) - j)
+		}
+		if e >= minExpected {
+			c.obs = append(c.obs, o)
+			c.exp = append(c.exp, e)
+			o, e = 0, 0
+		}
+	}
+	if e > 0 || o > 0 {
+		if len(c.obs) > 0 {
+			c.obs[len(c.obs)-1] += o
+			c.exp[len(c.exp)-1] += e
+		} else {
+			c.obs = append(c.obs, o)
+			c.exp = append(c.exp, e)
+		}
+	}
+	var x2 float64
+	for i := range c.obs {
+		if c.exp[i] <= 0 {
+			if c.obs[i] > 0 {
+				return math.Inf(1), len(c.obs)
+			}
+			continue
+		}
+		r := c.obs[i] - c.exp[i]
+		x2 += r * r / c.exp[i]
+	}
+	return x2, len(c.obs)
+}

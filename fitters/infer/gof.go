@@ -1,0 +1,135 @@
+package infer
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"fitseal/fitters"
+)
+
+// Statistic is one goodness-of-fit statistic with its parametric-bootstrap
+// p-value.
+type Statistic struct {
+	Name  string  // "ks", "cvm", "ad" or "chisq"
+	Value float64 // on the observed data with the fitted model
+	// PValue is (r + 1)/(B + 1), r the replicates whose statistic is at
+	// least Value and B the replicates that gave one; NaN without a bootstrap.
+	PValue float64
+	// Replicates is B, the replicates the p-value rests on.
+	Replicates int
+	// Note: failed replicates, pooled cells, ….
+	Note string
+}
+
+// GoodnessOfFit is the absolute check of one fit.
+type GoodnessOfFit struct {
+	// Applicable is false when no statistic is given for these data;
+	// Reason says why, in words for the report.
+	Applicable bool
+	Reason     string
+	Statistics []Statistic
+}
+
+// NotApplicableCensored is the reason given for censored data.
+const NotApplicableCensored = "the KS, CvM and AD statistics compare a complete sample with the fitted CDF; " +
+	"with censored observations they do not apply as computed, and fitseal gives no goodness-of-fit statistic for these data"
+
+// CheckFit computes the goodness-of-fit statistics of fit on d and, when
+// opt.Replicates > 0, their parametric-bootstrap p-values from a fresh
+// Bootstrap (which refits the family on every replicate: tables for known
+// parameters would be wrong here; Stephens, 1974). See CheckFitFrom to reuse
+// replicates already drawn for intervals.
+func CheckFit(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt BootstrapOptions) (*GoodnessOfFit, error) {
+	g, err := observedStatistics(fam, fit, d)
+	if err != nil || !g.Applicable || opt.Replicates <= 0 {
+		return g, err
+	}
+	rep, err := Bootstrap(fam, fit, d, opt)
+	if err != nil {
+		return nil, err
+	}
+	return checkFitFrom(g, rep), nil
+}
+
+// CheckFitFrom is CheckFit with the p-values taken from replicates rep
+// drawn by Bootstrap for the same fit and data.
+func CheckFitFrom(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, rep *Replicates) (*GoodnessOfFit, error) {
+	g, err := observedStatistics(fam, fit, d)
+	if err != nil || !g.Applicable || rep == nil {
+		return g, err
+	}
+	return checkFitFrom(g, rep), nil
+}
+
+func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
+	for si := range g.Statistics {
+		s := &g.Statistics[si]
+		var r, b int
+		for _, row := range rep.Statistics {
+			if row == nil {
+				continue
+			}
+			b++
+			if row[si] >= s.Value {
+				r++
+			}
+		}
+		s.Replicates = b
+		if b > 0 {
+			s.PValue = float64(r+1) / float64(b+1)
+		}
+		if rep.Failed > 0 {
+			s.Note = joinNote(s.Note, fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure))
+		}
+	}
+	return g
+}
+
+// observedStatistics computes the statistics on the data, or says why none apply.
+func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (*GoodnessOfFit, error) {
+	switch {
+	case !d.IsComplete():
+		return &GoodnessOfFit{Reason: NotApplicableCensored}, nil
+	case d.Trials != nil:
+		return &GoodnessOfFit{Reason: "counts with their own numbers of trials: the pooled chi-square needs one distribution for all cells, and fitseal gives no goodness-of-fit statistic for these data"}, nil
+	case len(d.Exact) == 0:
+		return &GoodnessOfFit{Reason: "no observations"}, nil
+	case !fit.Converged:
+		return &GoodnessOfFit{Reason: "the fit did not converge"}, nil
+	}
+	dist, err := fam.New(fit.Estimates)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", fam.Name(), err)
+	}
+	x := slices.Clone(d.Exact)
+	slices.Sort(x)
+	g := &GoodnessOfFit{Applicable: true}
+	if fam.Kind() == fitters.Discrete {
+		var c cells
+		v, nc := chiSquareCounts(dist, x, &c)
+		s := Statistic{Name: ChiSquare, Value: v, PValue: math.NaN(),
+			Note: fmt.Sprintf("%d cells after pooling to expected counts ≥ %d (common practice)", nc, minExpected)}
+		if nc < 2 {
+			s.Note = "every cell pooled into one: the statistic carries no information"
+		}
+		g.Statistics = []Statistic{s}
+		return g, nil
+	}
+	var edf [3]float64
+	edfStatistics(dist, x, &edf)
+	for i, name := range statNames(fitters.Continuous) {
+		g.Statistics = append(g.Statistics, Statistic{Name: name, Value: edf[i], PValue: math.NaN()})
+	}
+	return g, nil
+}
+
+func joinNote(a, b string) string {
+	if a == "" {
+		return b
+	}
+	if b == "" {
+		return a
+	}
+	return a + "; " + b
+}

@@ -1,0 +1,249 @@
+package infer
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"fitseal/fitters"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Method is an interval method, as named in the project file's
+// `intervals` setting.
+type Method string
+
+const (
+	MethodWald      Method = "wald"
+	MethodProfile   Method = "profile"
+	MethodBootstrap Method = "bootstrap"
+)
+
+// ParseMethod accepts "wald", "profile" or "bootstrap".
+func ParseMethod(s string) (Method, error) {
+	switch m := Method(s); m {
+	case MethodWald, MethodProfile, MethodBootstrap:
+		return m, nil
+	}
+	return "", fmt.Errorf("unknown interval method %q: use \"wald\", \"profile\" or \"bootstrap\"", s)
+}
+
+// Settings are what every interval computation needs besides the fit.
+type Settings struct {
+	// Level is the confidence level, 0 < Level < 1 (0 means 0.95).
+	Level float64
+	// Information, when not nil, is the fit's observed information, computed
+	// once by the caller; otherwise it is computed as needed.
+	Information *Information
+	// Replicates, when not nil, are the bootstrap replicates of this fit
+	// (drawn once by Bootstrap and shared by intervals, derived quantities
+	// and the goodness-of-fit p-values); otherwise the bootstrap method draws
+	// them with Bootstrap options.
+	Replicates *Replicates
+	Bootstrap  BootstrapOptions
+}
+
+func (s *Settings) level() (float64, error) {
+	if s.Level == 0 {
+		return 0.95, nil
+	}
+	if !(s.Level > 0 && s.Level < 1) {
+		return 0, fmt.Errorf("confidence level must lie strictly between 0 and 1, got %v", s.Level)
+	}
+	return s.Level, nil
+}
+
+func (s *Settings) information(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (*Information, error) {
+	if s.Information != nil {
+		return s.Information, nil
+	}
+	info, err := ObservedInformation(fam, fit, d)
+	s.Information = info
+	return info, err
+}
+
+func (s *Settings) replicates(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (*Replicates, error) {
+	if s.Replicates != nil {
+		return s.Replicates, nil
+	}
+	rep, err := Bootstrap(fam, fit, d, s.Bootstrap)
+	s.Replicates = rep
+	return rep, err
+}
+
+// ParameterInterval is one row of parameters.csv.
+type ParameterInterval struct {
+	Parameter string
+	Estimate  float64
+	// StdError is from the observed information (NaN when fixed or when the
+	// information could not be inverted).
+	StdError float64
+	// Lower and Upper bound the interval (NaN when none could be given; the
+	// limit of the parameter's range on an open side).
+	Lower, Upper float64
+	// LowerOpen and UpperOpen mark sides the data do not bound.
+	LowerOpen, UpperOpen bool
+	// Method is the ci_method text, e.g. "profile likelihood" or
+	// "wald (log scale)"; "fixed" for a fixed parameter.
+	Method string
+	Fixed  bool
+	Note   string
+}
+
+// Intervals returns one row per parameter of fit: the estimate, its
+// standard error from the observed information and a confidence interval
+// by method at the settings' level.
+//
+//   - Wald: t̂ ± z·se(t̂) on the parameter's scale (log for positive
+//     parameters, logit for probabilities), mapped back, se(t̂) = se(θ̂)/|dθ/dt|
+//     (delta method; Meeker & Escobar, 1998, §8.3).
+//   - Profile likelihood: the set {ψ : ℓp(ψ) ≥ ℓ̂ − χ²₁(level)/2}, ℓp the
+//     log-likelihood maximised over the other free parameters (Venzon &
+//     Moolgavkar, 1988, by walking out and root finding); a side where ℓp
+//     never falls that far is reported open.
+//   - Bootstrap: percentiles (1 ∓ level)/2 of the replicates' estimates
+//     (Efron & Tibshirani, 1993, §13.3), by linear interpolation between
+//     order statistics (Hyndman & Fan, 1996, type 7).
+//
+// A fit that did not converge gets rows without intervals.
+func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Method, s Settings) ([]ParameterInterval, error) {
+	level, err := s.level()
+	if err != nil {
+		return nil, err
+	}
+	rows := make([]ParameterInterval, len(fit.Estimates))
+	for i := range rows {
+		rows[i] = ParameterInterval{Parameter: fit.Parameters[i], Estimate: fit.Estimates[i],
+			StdError: math.NaN(), Lower: math.NaN(), Upper: math.NaN()}
+		if i < len(fit.Fixed) && fit.Fixed[i] {
+			rows[i].Fixed = true
+			rows[i].Method = "fixed"
+		}
+	}
+	if !fit.Converged {
+		for i := range rows {
+			rows[i].Note = "the fit did not converge: no interval"
+		}
+		return rows, nil
+	}
+	info, infoErr := s.information(fam, fit, d)
+	if info != nil {
+		for i := range rows {
+			rows[i].StdError = info.StdErrors[i]
+		}
+	}
+	scales := scalesOf(fam, fit.Estimates)
+	switch method {
+	case MethodWald:
+		z := distuv.UnitNormal.Quantile(0.5 + level/2)
+		for _, i := range freeIndices(fit) {
+			r := &rows[i]
+			r.Method = fmt.Sprintf("wald (%s scale)", scales[i])
+			if infoErr != nil {
+				r.Note = infoErr.Error()
+				continue
+			}
+			r.Lower, r.Upper = waldInterval(fit.Estimates[i], r.StdError, scales[i], z)
+		}
+	case MethodProfile:
+		cut := chiSquareCut(level)
+		for _, i := range freeIndices(fit) {
+			r := &rows[i]
+			r.Method = "profile likelihood"
+			sc := scales[i]
+			that := sc.To(fit.Estimates[i])
+			step := 0.1 * math.Max(1, math.Abs(that))
+			if se := r.StdError / math.Abs(sc.Deriv(fit.Estimates[i])); se > 0 && !math.IsInf(se, 0) {
+				step = se
+			}
+			p := parameterProfiler(fam, fit, d, scales, i)
+			lo, hi := sc.Bounds()
+			lb, ub := p.interval(that, fit.LogLik, step, cut, spanOf(sc), sc.From, lo, hi)
+			r.Lower, r.LowerOpen = lb.Value, lb.Open
+			r.Upper, r.UpperOpen = ub.Value, ub.Open
+			r.Note = joinNote(lowerNote(lb.Note), upperNote(ub.Note))
+		}
+	case MethodBootstrap:
+		rep, err := s.replicates(fam, fit, d)
+		if err != nil {
+			for _, i := range freeIndices(fit) {
+				rows[i].Method = "bootstrap percentile"
+				rows[i].Note = err.Error()
+			}
+			return rows, nil
+		}
+		vals := make([]float64, 0, rep.Requested)
+		for _, i := range freeIndices(fit) {
+			vals = vals[:0]
+			for _, e := range rep.Estimates {
+				if e != nil {
+					vals = append(vals, e[i])
+				}
+			}
+			r := &rows[i]
+			r.Method = fmt.Sprintf("bootstrap percentile (B = %d)", len(vals))
+			r.Lower, r.Upper = percentileInterval(vals, level)
+			if rep.Failed > 0 {
+				r.Note = fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure)
+			}
+		}
+	default:
+		return nil, fmt.Errorf("unknown interval method %q", method)
+	}
+	return rows, nil
+}
+
+// waldInterval is t̂ ± z·se(θ̂)/|dθ/dt| on scale sc, mapped back to θ.
+func waldInterval(est, se float64, sc Scale, z float64) (float64, float64) {
+	if math.IsNaN(se) {
+		return math.NaN(), math.NaN()
+	}
+	t := sc.To(est)
+	st := se / math.Abs(sc.Deriv(est))
+	return sc.From(t - z*st), sc.From(t + z*st)
+}
+
+// spanOf limits the profile walk: e^50 either way on log and logit scales.
+func spanOf(sc Scale) float64 {
+	if sc == Natural {
+		return math.Inf(1)
+	}
+	return 50
+}
+
+// percentileInterval returns the (1 − level)/2 and (1 + level)/2 sample
+// quantiles of v (Hyndman & Fan, 1996, type 7); v is sorted in place.
+func percentileInterval(v []float64, level float64) (float64, float64) {
+	if len(v) == 0 {
+		return math.NaN(), math.NaN()
+	}
+	slices.Sort(v)
+	return quantile7(v, (1-level)/2), quantile7(v, (1+level)/2)
+}
+
+// quantile7 is the type-7 sample quantile of sorted v: linear interpolation
+// at position (m − 1)p.
+func quantile7(v []float64, p float64) float64 {
+	h := float64(len(v)-1) * p
+	lo := math.Floor(h)
+	i := int(lo)
+	if i >= len(v)-1 {
+		return v[len(v)-1]
+	}
+	return v[i] + (h-lo)*(v[i+1]-v[i])
+}
+
+func lowerNote(s string) string {
+	if s == "" {
+		return ""
+	}
+	return "lower: " + s
+}
+
+func upperNote(s string) string {
+	if s == "" {
+		return ""
+	}
+	return "upper: " + s
+}

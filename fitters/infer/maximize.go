@@ -1,0 +1,84 @@
+package infer
+
+import (
+	"errors"
+	"math"
+
+	"gonum.org/v1/gonum/diff/fd"
+	"gonum.org/v1/gonum/optimize"
+)
+
+// maximize returns the maximum of f (a log-likelihood on unconstrained
+// nuisance coordinates u) found by BFGS (gonum/optimize) from u0, with a
+// central finite-difference gradient, and a Nelder–Mead polish when BFGS
+// stops short. ok reports whether the optimiser met its convergence test
+// (a gradient below 1e-7·max(1, |f|), or f stable to 1e-12 relative).
+// f returns −Inf where u is unusable.
+func maximize(f func(u []float64) float64, u0 []float64) (u []float64, value float64, ok bool) {
+	dim := len(u0)
+	if dim == 0 {
+		return nil, f(nil), true
+	}
+	f0 := f(u0)
+	if math.IsNaN(f0) || math.IsInf(f0, 0) {
+		return append([]float64(nil), u0...), f0, false
+	}
+	neg := func(x []float64) float64 {
+		v := -f(x)
+		if math.IsNaN(v) {
+			return math.Inf(1)
+		}
+		return v
+	}
+	grad := func(g, x []float64) {
+		fd.Gradient(g, neg, x, &fd.Settings{Formula: fd.Central, Step: 1e-6})
+		for i, v := range g {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				g[i] = 0
+			}
+		}
+	}
+	scale := math.Max(1, math.Abs(f0))
+	gtol := 1e-7 * scale
+	settings := &optimize.Settings{
+		GradientThreshold: gtol,
+		Converger: &optimize.FunctionConverge{
+			Absolute:   1e-12 * scale,
+			Relative:   1e-12,
+			Iterations: 20,
+		},
+		MajorIterations: 500,
+	}
+	best, bestF := append([]float64(nil), u0...), -f0
+	res, err := optimize.Minimize(optimize.Problem{Func: neg, Grad: grad}, append([]float64(nil), u0...), settings, &optimize.BFGS{})
+	if res != nil && res.F <= bestF {
+		best, bestF = res.X, res.F
+	}
+	g := make([]float64, dim)
+	grad(g, best)
+	if res != nil && small(g, 100*gtol) {
+		switch {
+		case res.Status == optimize.GradientThreshold, res.Status == optimize.FunctionConvergence,
+			errors.Is(err, optimize.ErrLinesearcherFailure):
+			return best, -bestF, true
+		}
+	}
+	// Polish with Nelder–Mead from the best point, then judge by the gradient.
+	nm, _ := optimize.Minimize(optimize.Problem{Func: neg}, append([]float64(nil), best...),
+		&optimize.Settings{Converger: &optimize.FunctionConverge{Absolute: 1e-12 * scale, Relative: 1e-12, Iterations: 50}, MajorIterations: 2000},
+		&optimize.NelderMead{})
+	if nm != nil && nm.F <= bestF {
+		best, bestF = nm.X, nm.F
+	}
+	grad(g, best)
+	return best, -bestF, small(g, 1000*gtol)
+}
+
+func small(g []float64, tol float64) bool {
+	for _, v := range g {
+		if !(math.Abs(v) <= tol) {
+			return false
+		}
+	}
+	return true
+}

@@ -1,0 +1,161 @@
+package infer
+
+import (
+	"fmt"
+	"math"
+
+	"fitseal/fitters"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// profiler evaluates a profile log-likelihood ℓp(v) = max ln L(θ) over the
+// θ with ψ(θ) = v, v being the profiled quantity on its transformed scale.
+// The nuisance coordinates u are the other free parameters on their own
+// transformed scales; build turns (v, u) into a full θ, or reports that no
+// valid θ has these coordinates (the edge of the parameter space).
+type profiler struct {
+	fam   fitters.Family
+	data  *fitters.Data
+	build func(v float64, u, theta []float64) bool
+	u0    []float64 // nuisance coordinates at the MLE
+	theta []float64 // scratch
+	evals int
+}
+
+// at returns ℓp(v), maximising from warm. edge is true when θ is invalid
+// for every u tried (v is beyond the parameter space); ok false when the
+// inner maximisation did not converge.
+func (p *profiler) at(v float64, warm []float64) (ll float64, u []float64, edge, ok bool) {
+	p.evals++
+	valid := false
+	f := func(u []float64) float64 {
+		if !p.build(v, u, p.theta) {
+			return math.Inf(-1)
+		}
+		if _, err := p.fam.New(p.theta); err != nil {
+			return math.Inf(-1)
+		}
+		valid = true
+		return p.fam.LogLik(p.theta, p.data)
+	}
+	u, ll, ok = maximize(f, warm)
+	if !valid {
+		return math.Inf(-1), warm, true, true
+	}
+	return ll, u, false, ok || math.IsInf(ll, -1)
+}
+
+// ProfileBound is one end of a profile-likelihood interval.
+type ProfileBound struct {
+	// Value is the end on the natural scale of the quantity; for an open
+	// side, the limit of the quantity's range (0, ±Inf, 1).
+	Value float64
+	// Open is true when the profile log-likelihood never fell to the
+	// cut-off on this side: the data do not bound the quantity there.
+	Open bool
+	// Note says why a side is open or uncertain.
+	Note string
+}
+
+// chiSquareCut returns the cut-off of the profile-likelihood interval at
+// the given level: ℓp(ψ) ≥ ℓ̂ − χ²₁(level)/2 (Cox & Hinkley, 1974, §9.3).
+func chiSquareCut(level float64) float64 {
+	return distuv.ChiSquared{K: 1}.Quantile(level) / 2
+}
+
+// maxDoublings bounds the outward walk of an interval search.
+const maxDoublings = 40
+
+// interval walks outwards from the MLE vhat on each side, in steps of
+// step, 2·step, 4·step, … until ℓp falls below the cut-off llhat − cut, then
+// finds the crossing by regula falsi. span limits the walk on the
+// transformed scale (the log of a positive quantity cannot usefully move
+// more than a few hundred units). from maps v back to the natural scale and
+// lo, hi are the natural scale's limits for an open side.
+func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(float64) float64, lo, hi float64) (lower, upper ProfileBound) {
+	target := llhat - cut
+	side := func(dir float64, limit float64) ProfileBound {
+		prev, uprev, dprev := vhat, p.u0, cut
+		for k := 0; k < maxDoublings; k++ {
+			v := vhat + dir*step*math.Ldexp(1, k)
+			if math.Abs(v-vhat) > span {
+				break
+			}
+			ll, u, edge, ok := p.at(v, uprev)
+			if edge {
+				return ProfileBound{Value: limit, Open: true,
+					Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space near %.6g", from(prev))}
+			}
+			if !ok {
+				return ProfileBound{Value: math.NaN(),
+					Note: fmt.Sprintf("the maximisation over the other parameters failed near %.6g", from(v))}
+			}
+			if ll > llhat+1e-6*math.Max(1, math.Abs(llhat)) {
+				return ProfileBound{Value: math.NaN(),
+					Note: fmt.Sprintf("the profile log-likelihood %.10g at %.6g exceeds the fit's %.10g: the fit is not the maximum", ll, from(v), llhat)}
+			}
+			if ll < target {
+				warm := uprev
+				g := func(x float64) float64 {
+					l, _, edge, ok := p.at(x, warm)
+					if edge {
+						return math.Inf(-1)
+					}
+					if !ok {
+						return math.NaN()
+					}
+					return l - target
+				}
+				root, found := findRoot(g, prev, v, dprev, ll-target, 1e-10, 1e-9, 200)
+				if !found {
+					return ProfileBound{Value: math.NaN(),
+						Note: fmt.Sprintf("root finding on the profile failed between %.6g and %.6g", from(prev), from(v))}
+				}
+				return ProfileBound{Value: from(root)}
+			}
+			prev, uprev, dprev = v, u, ll-target
+		}
+		return ProfileBound{Value: limit, Open: true,
+			Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off out to %.6g", from(prev))}
+	}
+	lower = side(-1, lo)
+	upper = side(+1, hi)
+	return lower, upper
+}
+
+// parameterProfiler profiles free parameter i of fit.
+func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, scales []Scale, i int) *profiler {
+	free := freeIndices(fit)
+	var others []int
+	for _, j := range free {
+		if j != i {
+			others = append(others, j)
+		}
+	}
+	est := fit.Estimates
+	u0 := make([]float64, len(others))
+	for a, j := range others {
+		u0[a] = scales[j].To(est[j])
+	}
+	return &profiler{
+		fam: fam, data: d, u0: u0,
+		theta: append([]float64(nil), est...),
+		build: func(v float64, u, theta []float64) bool {
+			theta[i] = scales[i].From(v)
+			for a, j := range others {
+				theta[j] = scales[j].From(u[a])
+			}
+			return finite(theta)
+		},
+	}
+}
+
+func finite(x []float64) bool {
+	for _, v := range x {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
+}

@@ -1,0 +1,51 @@
+package infer
+
+import (
+	"math"
+
+	"fitseal/fitters"
+)
+
+// Names of the goodness-of-fit statistics, as written in gof.csv.
+const (
+	KolmogorovSmirnov = "ks"
+	CramerVonMises    = "cvm"
+	AndersonDarling   = "ad"
+	ChiSquare         = "chisq"
+)
+
+// edfStatistics computes, for a sorted complete sample x and a fully
+// specified continuous distribution, the three empirical-distribution-
+// function statistics (Stephens, 1974; D'Agostino & Stephens, 1986, §4.2),
+// with Fᵢ = F(x₍ᵢ₎):
+//
+//	KS   D  = max over i of max(i/n − Fᵢ, Fᵢ − (i−1)/n)
+//	CvM  W² = 1/(12n) + Σ (Fᵢ − (2i−1)/(2n))²
+//	AD   A² = −n − (1/n) Σ (2i−1) [ln Fᵢ + ln(1 − F₍ₙ₊₁₋ᵢ₎)]
+//
+// The logarithms of A² come from LogCDF and LogSurvival, never from
+// ln(1 − F), so a point far in a tail gives a large finite term rather
+// than ln 0. out receives (D, W², A²).
+func edfStatistics(d fitters.Dist, x []float64, out *[3]float64) {
+	n := len(x)
+	nf := float64(n)
+	var ks, cvm, ad float64
+	for i, v := range x {
+		lf := d.LogCDF(v)
+		f := math.Exp(lf)
+		fi := float64(i)
+		ks = math.Max(ks, math.Max((fi+1)/nf-f, f-fi/nf))
+		e := f - (2*fi+1)/(2*nf)
+		cvm += e * e
+		ls := d.LogSurvival(x[n-1-i])
+		ad += (2*fi + 1) * (lf + ls)
+	}
+	out[0] = ks
+	out[1] = cvm + 1/(12*nf)
+	out[2] = -nf - ad/nf
+	for i, v := range out {
+		if math.IsNaN(v) {
+			out[i] = math.Inf(1)
+		}
+	}
+}
