@@ -1,0 +1,151 @@
+package runner
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"fitseal/fitters"
+)
+
+// RunOptions controls the execution of a plan; none of them changes a
+// result.
+type RunOptions struct {
+	// Workers is the number of fits run at once (default runtime.NumCPU()).
+	Workers int
+	// Progress, when not nil, receives a progress line (tasks done / total,
+	// elapsed time, estimated time left), redrawn in place; the caller
+	// passes a terminal only.
+	Progress io.Writer
+}
+
+// taskResult is the outcome of one task.
+type taskResult struct {
+	fit *fitters.Fit
+	err error
+}
+
+// Run reads the project's datasets, fits every task of the plan on a pool
+// of workers and assembles the results in plan order. Cancelling ctx stops
+// the run; Run then returns ctx's error and no results.
+func Run(ctx context.Context, p *Project, opt RunOptions) (*Results, error) {
+	data, err := ReadAll(p)
+	if err != nil {
+		return nil, err
+	}
+	plan := MakePlan(p, data)
+	out, err := Execute(ctx, p, plan, opt)
+	if err != nil {
+		return nil, err
+	}
+	out.Data = data
+	return out, nil
+}
+
+// ReadAll reads every dataset that an analysis uses, in project order. A
+// dataset that is not split must have at least one observation.
+func ReadAll(p *Project) (map[string]*DatasetData, error) {
+	used := map[string]bool{}
+	for _, a := range p.Analyses {
+		used[a.Dataset] = true
+	}
+	data := map[string]*DatasetData{}
+	for _, d := range p.Datasets {
+		if !used[d.Name] {
+			continue
+		}
+		dd, err := ReadDataset(p, d)
+		if err != nil {
+			return nil, err
+		}
+		if len(dd.Groups) == 0 || (d.SplitBy == "" && dd.Groups[0].Data.N() == 0) {
+			return nil, &DataError{File: d.File, Msg: fmt.Sprintf("dataset %q has no observations (%d rows, %d left out by where, %d missing)", d.Name, dd.Rows, dd.Filtered, dd.Missing),
+				Hint: "check column, where and missing in the project file"}
+		}
+		data[d.Name] = dd
+	}
+	return data, nil
+}
+
+// Execute runs the plan's tasks on opt.Workers workers. Each task writes
+// only its own slot, and everything after the fits runs in plan order, so
+// the results do not depend on the number of workers.
+func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Results, error) {
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.NumCPU()
+	}
+	workers = min(workers, max(1, len(plan.Tasks)))
+	results := make([]taskResult, len(plan.Tasks))
+	var next, done atomic.Int64
+	var failOnce sync.Once
+	var failure error
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	var prog *progress
+	if opt.Progress != nil {
+		prog = startProgress(opt.Progress, len(plan.Tasks), &done)
+	}
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for ctx.Err() == nil {
+				i := int(next.Add(1)) - 1
+				if i >= len(plan.Tasks) {
+					return
+				}
+				if err := runTask(p, plan, i, &results[i]); err != nil {
+					failOnce.Do(func() { failure = err })
+					cancel()
+					return
+				}
+				done.Add(1)
+			}
+		}()
+	}
+	wg.Wait()
+	if prog != nil {
+		prog.stop()
+	}
+	if failure != nil {
+		return nil, failure
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	return assemble(p, plan, results)
+}
+
+// runTask fits one family; a panic inside a family is turned into an error
+// that names the task, so one broken family does not take the process down
+// silently.
+func runTask(p *Project, plan *Plan, i int, out *taskResult) (err error) {
+	t := plan.Tasks[i]
+	a := plan.Analyses[t.Analysis]
+	defer func() {
+		if r := recover(); r != nil {
+			err = fmt.Errorf("internal error fitting %s to analysis %q: %v (please report this with the project)", t.Family, a.Name, r)
+		}
+	}()
+	fam, ok := fitters.Lookup(t.Family)
+	if !ok {
+		return fmt.Errorf("internal error: family %q vanished from the catalogue", t.Family)
+	}
+	d := &a.Group.Data
+	if d.N() == 0 {
+		out.err = &fitters.InapplicableError{Family: t.Family, Reason: "the dataset has no observations"}
+		return nil
+	}
+	opt := fitters.Options{
+		Tolerance:     p.Settings.Tolerance,
+		MaxIterations: p.Settings.MaxIterations,
+		Fixed:         fitters.Fixed(a.Candidates.Fixed[t.Family]),
+	}
+	out.fit, out.err = fam.Fit(d, opt)
+	return nil
+}

@@ -1,0 +1,276 @@
+package runner
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// splitProject writes a project with one split dataset of groups × n
+// lifetimes (invented for the test: Weibull draws from a fixed seed, a
+// suspension every seventh row) and returns its path.
+func splitProject(t testing.TB, groups, n int, families string) string {
+	t.Helper()
+	dir := t.TempDir()
+	var b strings.Builder
+	b.WriteString("unit,hours,state\n")
+	r := rand.New(rand.NewPCG(1, 2))
+	for g := 0; g < groups; g++ {
+		for i := 0; i < n; i++ {
+			x := 1000 * math.Pow(-math.Log(1-r.Float64()), 1/1.5) // Weibull(shape 1.5, scale 1000)
+			state := ""
+			if i%7 == 6 {
+				state = "+"
+			}
+			fmt.Fprintf(&b, "u%03d,%s,%s\n", g, strconv.FormatFloat(x, 'g', 8, 64), state)
+		}
+	}
+	if err := os.WriteFile(filepath.Join(dir, "life.csv"), []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	proj := fmt.Sprintf(`name = "split"
+[settings]
+seed = 42
+[[dataset]]
+name = "life"
+file = "life.csv"
+column = "hours"
+status_column = "state"
+right = ["+"]
+split_by = "unit"
+[[candidates]]
+name = "c"
+families = [%s]
+[[analysis]]
+dataset = "life"
+candidates = "c"
+quantiles = [0.1, 0.5]
+thresholds = [2000]
+`, families)
+	path := filepath.Join(dir, "fitseal.toml")
+	if err := os.WriteFile(path, []byte(proj), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+func runFiles(t testing.TB, path string, workers int) map[string][]byte {
+	t.Helper()
+	p, err := Load(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Run(context.Background(), p, RunOptions{Workers: workers})
+	if err != nil {
+		t.Fatal(err)
+	}
+	files, err := res.Files()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return files
+}
+
+func TestRunIsDeterministicAcrossWorkerCounts(t *testing.T) {
+	path := splitProject(t, 12, 40, `"weibull", "lognormal", "gamma", "exponential", "normal", "gev"`)
+	ref := runFiles(t, path, 1)
+	for _, w := range []int{1, 2, 8} {
+		got := runFiles(t, path, w)
+		for name, want := range ref {
+			if !bytes.Equal(got[name], want) {
+				t.Errorf("-j %d: %s differs from -j 1", w, name)
+			}
+		}
+	}
+}
+
+func TestRunResults(t *testing.T) {
+	path := splitProject(t, 3, 30, `"weibull", "normal", "lognormal"`)
+	files := runFiles(t, path, 2)
+	fits, err := csv.NewReader(bytes.NewReader(files[FitsFile])).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := strings.Join(fits[0][:16], ","); got != "analysis,dataset,family,n,n_censored,k,loglik,aic,aicc,bic,criterion,delta,weight,rank,converged,note" {
+		t.Fatalf("fits.csv header %q", got)
+	}
+	if len(fits) != 1+3*3 {
+		t.Fatalf("%d rows, want 9 (3 groups × 3 families)", len(fits)-1)
+	}
+	// Plan order: groups in order of appearance, families in candidate order.
+	for i, want := range []string{"life/u000,life/u000,weibull", "life/u000,life/u000,normal", "life/u000,life/u000,lognormal", "life/u001,life/u001,weibull"} {
+		if got := strings.Join(fits[1+i][:3], ","); got != want {
+			t.Errorf("row %d = %s, want %s", i+1, got, want)
+		}
+	}
+	// Weights of the fitted rows of each analysis sum to 1 (Burnham & Anderson, 2002, §2.9).
+	sums := map[string]float64{}
+	for _, row := range fits[1:] {
+		if row[12] != "" {
+			w, _ := strconv.ParseFloat(row[12], 64)
+			sums[row[0]] += w
+		}
+		if row[3] != "30" || row[4] != "4" {
+			t.Errorf("%s %s: n %s n_censored %s, want 30 and 4 (rows 7, 14, 21, 28 suspended)", row[0], row[2], row[3], row[4])
+		}
+	}
+	for a, s := range sums {
+		if math.Abs(s-1) > 1e-12 {
+			t.Errorf("%s: weights sum to %v", a, s)
+		}
+	}
+	// Derived rows: each quantile equals the fitted family's quantile at the
+	// estimates in parameters.csv (distuv's Weibull as the outside reference).
+	params, _ := csv.NewReader(bytes.NewReader(files[ParametersFile])).ReadAll()
+	est := map[string]float64{}
+	for _, row := range params[1:] {
+		if row[0] == "life/u000" && row[1] == "weibull" {
+			est[row[2]], _ = strconv.ParseFloat(row[3], 64)
+		}
+	}
+	wb := distuv.Weibull{K: est["shape"], Lambda: est["scale"]}
+	derived, _ := csv.NewReader(bytes.NewReader(files[DerivedFile])).ReadAll()
+	found := 0
+	for _, row := range derived[1:] {
+		if row[0] != "life/u000" || row[1] != "weibull" {
+			continue
+		}
+		arg, _ := strconv.ParseFloat(row[3], 64)
+		got, _ := strconv.ParseFloat(row[4], 64)
+		var want float64
+		switch row[2] {
+		case "quantile":
+			want = wb.Quantile(arg)
+		case "exceedance":
+			want = wb.Survival(arg)
+		}
+		if math.Abs(got-want) > 1e-9*math.Abs(want) {
+			t.Errorf("%s(%v) = %v, distuv gives %v", row[2], arg, got, want)
+		}
+		found++
+	}
+	if found != 3 {
+		t.Errorf("%d derived weibull rows for life/u000, want 3", found)
+	}
+	// Model-averaged rows: Σ wᵢ θ̂ᵢ over the ranked fits, one per quantity.
+	avg := 0
+	for _, row := range derived[1:] {
+		if row[0] == "life/u000" && row[1] == ModelAverage {
+			avg++
+		}
+	}
+	if avg != 3 {
+		t.Errorf("%d model-average rows for life/u000, want 3", avg)
+	}
+}
+
+func TestInapplicableFamiliesAreListed(t *testing.T) {
+	dir := t.TempDir()
+	os.WriteFile(filepath.Join(dir, "d.csv"), []byte("x\n-1.5\n0.3\n2.2\n0.9\n-0.4\n"), 0o644)
+	path := filepath.Join(dir, "p.toml")
+	os.WriteFile(path, []byte(`name = "neg"
+[[dataset]]
+name = "d"
+file = "d.csv"
+column = "x"
+[[candidates]]
+name = "c"
+families = ["normal", "lognormal"]
+[[analysis]]
+dataset = "d"
+candidates = "c"
+`), 0o644)
+	files := runFiles(t, path, 1)
+	fits, _ := csv.NewReader(bytes.NewReader(files[FitsFile])).ReadAll()
+	if len(fits) != 3 {
+		t.Fatalf("%d rows, want 2", len(fits)-1)
+	}
+	ln := fits[2]
+	if ln[2] != "lognormal" || ln[14] != "false" || ln[7] != "" || ln[13] != "" || !strings.Contains(ln[15], "not applicable") {
+		t.Errorf("lognormal row %q: want converged false, empty numbers and a note saying why", ln)
+	}
+	if fits[1][13] != "1" || fits[1][12] != "1" {
+		t.Errorf("normal row %q: want rank 1 and weight 1", fits[1])
+	}
+}
+
+func TestSeedsAreDerivedFromIdentity(t *testing.T) {
+	a := DeriveSeed(1, "life/u001", "weibull", "gof-bootstrap")
+	if a != DeriveSeed(1, "life/u001", "weibull", "gof-bootstrap") {
+		t.Fatal("DeriveSeed is not a function of its arguments")
+	}
+	for _, other := range []uint64{
+		DeriveSeed(2, "life/u001", "weibull", "gof-bootstrap"),
+		DeriveSeed(1, "life/u002", "weibull", "gof-bootstrap"),
+		DeriveSeed(1, "life/u001", "gamma", "gof-bootstrap"),
+		DeriveSeed(1, "life/u001", "weibull", "interval-bootstrap"),
+		DeriveSeed(1, "life/u00", "1weibull", "gof-bootstrap"),
+	} {
+		if other == a {
+			t.Errorf("two identities share the seed %d", a)
+		}
+	}
+	// The recorded seeds are those of DeriveSeed, whatever the order of execution.
+	p, err := Load(splitProject(t, 2, 10, `"normal", "exponential"`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Run(context.Background(), p, RunOptions{Workers: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rec := res.Record()
+	if len(rec.Seeds) != 2*2*len(SeedPurposes) {
+		t.Fatalf("%d seeds recorded, want %d", len(rec.Seeds), 2*2*len(SeedPurposes))
+	}
+	for _, s := range rec.Seeds {
+		if s.Seed != DeriveSeed(42, s.Analysis, s.Family, s.Purpose) {
+			t.Errorf("seed %+v is not DeriveSeed of its identity", s)
+		}
+	}
+	if len(rec.Optimizers) != 4 {
+		t.Errorf("%d optimiser records, want 4", len(rec.Optimizers))
+	}
+}
+
+func TestRunCancelled(t *testing.T) {
+	p, err := Load(splitProject(t, 4, 20, `"weibull", "gamma"`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	res, err := Run(ctx, p, RunOptions{Workers: 2})
+	if !errors.Is(err, context.Canceled) || res != nil {
+		t.Fatalf("Run after cancel = %v, %v; want no results and context.Canceled", res, err)
+	}
+}
+
+func TestProgressLine(t *testing.T) {
+	for _, c := range []struct {
+		done, total int
+		elapsed     string
+		want        string
+	}{
+		{0, 10, "3s", "fitting 0/10 tasks   0%  elapsed 3s  ETA …"},
+		{5, 10, "4s", "fitting 5/10 tasks  50%  elapsed 4s  ETA 4s"},
+		{10, 10, "9s", "fitting 10/10 tasks 100%  elapsed 9s  ETA 0s"},
+	} {
+		d, _ := time.ParseDuration(c.elapsed)
+		if got := strings.TrimSpace(progressLine(c.done, c.total, d)); got != c.want {
+			t.Errorf("progressLine(%d, %d, %s) = %q, want %q", c.done, c.total, c.elapsed, got, c.want)
+		}
+	}
+}

@@ -1,0 +1,67 @@
+package runner
+
+import (
+	"fmt"
+	"io"
+	"sync"
+	"sync/atomic"
+	"time"
+)
+
+// progress redraws one status line (tasks done / total, elapsed, ETA) on a
+// terminal every quarter second until stopped.
+type progress struct {
+	w     io.Writer
+	total int
+	done  *atomic.Int64
+	start time.Time
+	quit  chan struct{}
+	wg    sync.WaitGroup
+}
+
+func startProgress(w io.Writer, total int, done *atomic.Int64) *progress {
+	p := &progress{w: w, total: total, done: done, start: time.Now(), quit: make(chan struct{})}
+	p.wg.Add(1)
+	go func() {
+		defer p.wg.Done()
+		tick := time.NewTicker(250 * time.Millisecond)
+		defer tick.Stop()
+		for {
+			select {
+			case <-p.quit:
+				p.draw()
+				fmt.Fprintln(p.w)
+				return
+			case <-tick.C:
+				p.draw()
+			}
+		}
+	}()
+	return p
+}
+
+func (p *progress) draw() {
+	fmt.Fprintf(p.w, "\r%s", progressLine(int(p.done.Load()), p.total, time.Since(p.start)))
+}
+
+func (p *progress) stop() {
+	close(p.quit)
+	p.wg.Wait()
+}
+
+// progressLine formats "fitting 120/900 tasks  13%  elapsed 4s  ETA 26s";
+// the ETA assumes the remaining tasks take as long as the finished ones.
+func progressLine(done, total int, elapsed time.Duration) string {
+	pct := 100
+	if total > 0 {
+		pct = done * 100 / total
+	}
+	eta := "…"
+	if done > 0 && done < total {
+		left := time.Duration(float64(elapsed) * float64(total-done) / float64(done))
+		eta = left.Round(time.Second).String()
+	} else if done >= total {
+		eta = "0s"
+	}
+	return fmt.Sprintf("fitting %d/%d tasks %3d%%  elapsed %s  ETA %s   ", done, total, pct, elapsed.Round(time.Second), eta)
+}
