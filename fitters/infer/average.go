@@ -1,0 +1,73 @@
+package infer
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Candidate is one family's contribution to a model average: its Akaike
+// weight (from fitters.Compare) and its estimate of the derived quantity
+// with the estimate's standard error.
+type Candidate struct {
+	Family   string
+	Weight   float64
+	Estimate float64
+	StdError float64
+}
+
+// ModelAverage returns the Akaike-weighted estimate of a derived quantity
+// over the candidates and its unconditional standard error (Burnham &
+// Anderson, 2002, eqs. 4.1 and 4.9):
+//
+//	θ̄ = Σ wᵢ θ̂ᵢ,   se(θ̄) = Σ wᵢ √(var̂(θ̂ᵢ) + (θ̂ᵢ − θ̄)²),
+//
+// with the interval θ̄ ± z·se(θ̄) at the level. Candidates with no weight
+// (NaN or 0) are left out; candidates with a weight but no finite estimate or
+// standard error are left out too, the remaining weights renormalised to sum
+// to 1, and the note names them. The returned value carries the quantity and
+// argument given.
+func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (DerivedValue, error) {
+	if !(level > 0 && level < 1) {
+		return DerivedValue{}, fmt.Errorf("confidence level must lie strictly between 0 and 1, got %v", level)
+	}
+	nan := math.NaN()
+	out := DerivedValue{Quantity: q, Argument: arg, Estimate: nan, StdError: nan, Lower: nan, Upper: nan,
+		Method: "model average: Akaike weights, unconditional se (Burnham & Anderson 2002 eq. 4.9), normal interval"}
+	var used []Candidate
+	var left []string
+	var total float64
+	for _, c := range cands {
+		if math.IsNaN(c.Weight) || c.Weight <= 0 {
+			continue
+		}
+		if math.IsNaN(c.Estimate) || math.IsInf(c.Estimate, 0) || math.IsNaN(c.StdError) || math.IsInf(c.StdError, 0) {
+			left = append(left, c.Family)
+			continue
+		}
+		used = append(used, c)
+		total += c.Weight
+	}
+	if len(left) > 0 {
+		out.Note = fmt.Sprintf("left out for want of an estimate or standard error: %s; weights renormalised", strings.Join(left, ", "))
+	}
+	if len(used) == 0 {
+		out.Note = joinNote(out.Note, "no candidate to average")
+		return out, nil
+	}
+	var mean float64
+	for _, c := range used {
+		mean += c.Weight / total * c.Estimate
+	}
+	var se float64
+	for _, c := range used {
+		dv := c.Estimate - mean
+		se += c.Weight / total * math.Sqrt(c.StdError*c.StdError+dv*dv)
+	}
+	z := distuv.UnitNormal.Quantile(0.5 + level/2)
+	out.Estimate, out.StdError = mean, se
+	out.Lower, out.Upper = mean-z*se, mean+z*se
+	return out, nil
+}

@@ -1,0 +1,75 @@
+package infer
+
+import (
+	"math"
+	"testing"
+
+	"fitseal/fitters"
+)
+
+// TestModelAverageByHand works a model average through by hand, from the
+// log-likelihoods to the interval.
+//
+// Three candidates on n = 20 observations, AICc = 2k − 2 ln L + 2k(k+1)/(n−k−1):
+//
+//	A: ln L = −50,   k = 1: AICc = 102 + 4/18  = 102.2222222
+//	B: ln L = −48.5, k = 2: AICc = 101 + 12/17 = 101.7058824
+//	C: ln L = −48,   k = 3: AICc = 102 + 24/16 = 103.5
+//
+// Δ = (0.5163399, 0, 1.7941176); exp(−Δ/2) = (0.7724640, 1, 0.4077672),
+// Σ = 2.1802312, w = (0.3543037, 0.4586670, 0.1870293).
+// Estimates 10, 12, 13 with standard errors 1, 1.5, 2:
+//
+//	θ̄ = 0.3543037·10 + 0.4586670·12 + 0.1870293·13 = 11.478422
+//	(θ̂ᵢ − θ̄)² = (2.1857315, 0.2720436, 2.3151997)
+//	se = 0.3543037·√(1 + 2.1857315) + 0.4586670·√(2.25 + 0.2720436) + 0.1870293·√(4 + 2.3151997)
+//	   = 0.6323831 + 0.7284064 + 0.4700059 = 1.8307954
+//	interval 11.478422 ± 1.959964·1.8307954.
+//
+// The by-hand figures carry 7–8 digits, hence the tolerance.
+func TestModelAverageByHand(t *testing.T) {
+	fit := func(ll float64, k int) *fitters.Fit {
+		return &fitters.Fit{LogLik: ll, K: k, N: 20, Convergence: fitters.Convergence{Converged: true}}
+	}
+	c, err := fitters.Compare([]fitters.Entry{
+		{Family: "exponential", Fit: fit(-50, 1)},
+		{Family: "gamma", Fit: fit(-48.5, 2)},
+		{Family: "gev", Fit: fit(-48, 3)},
+	}, fitters.AICc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantW := []float64{0.3543037, 0.4586670, 0.1870293}
+	est := []float64{10, 12, 13}
+	se := []float64{1, 1.5, 2}
+	var cands []Candidate
+	for i, r := range c.Rows {
+		if !close(r.Weight, wantW[i], 2e-6) {
+			t.Errorf("weight %s = %v, want %v", r.Family, r.Weight, wantW[i])
+		}
+		cands = append(cands, Candidate{Family: r.Family, Weight: r.Weight, Estimate: est[i], StdError: se[i]})
+	}
+	// A candidate without weight (not converged) is ignored.
+	cands = append(cands, Candidate{Family: "weibull", Weight: math.NaN(), Estimate: 99, StdError: 1})
+	got, err := ModelAverage(Quantile, 0.9, cands, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !close(got.Estimate, 11.478422, 1e-5) || !close(got.StdError, 1.8307954, 1e-5) {
+		t.Errorf("average %v se %v, want 11.478422 se 1.8307954", got.Estimate, got.StdError)
+	}
+	if !close(got.Lower, 11.478422-1.959964*1.8307954, 1e-5) || !close(got.Upper, 11.478422+1.959964*1.8307954, 1e-5) {
+		t.Errorf("interval [%v, %v]", got.Lower, got.Upper)
+	}
+	if got.Note != "" {
+		t.Errorf("note %q, want none", got.Note)
+	}
+
+	// A weighted candidate without a standard error is left out, visibly,
+	// and the rest renormalised: with A alone left, the average is 10 ± 1.
+	cands[1].StdError, cands[2].StdError = math.NaN(), math.NaN()
+	got, _ = ModelAverage(Quantile, 0.9, cands, 0.95)
+	if got.Estimate != 10 || got.StdError != 1 || got.Note == "" {
+		t.Errorf("renormalised average %v se %v note %q, want 10, 1 and a note", got.Estimate, got.StdError, got.Note)
+	}
+}

@@ -1,0 +1,358 @@
+package infer
+
+import (
+	"fmt"
+	"math"
+
+	"fitseal/fitters"
+
+	"gonum.org/v1/gonum/diff/fd"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Quantity names a derived quantity, as written in derived.csv.
+type Quantity string
+
+const (
+	// Quantile at lower-tail probability p (a percentile; B10 life is p = 0.1).
+	Quantile Quantity = "quantile"
+	// ReturnLevel for return period T: the quantile at 1 − 1/T.
+	ReturnLevel Quantity = "return_level"
+	// Exceedance probability P(X > t) at threshold t.
+	Exceedance Quantity = "exceedance"
+)
+
+// DerivedValue is one row of derived.csv.
+type DerivedValue struct {
+	Quantity Quantity
+	Argument float64
+	Estimate float64
+	// StdError is the delta-method standard error (NaN when unavailable).
+	StdError             float64
+	Lower, Upper         float64
+	LowerOpen, UpperOpen bool
+	Method               string
+	Note                 string
+}
+
+// quantityFunc returns ψ(θ) for q at arg, checking arg.
+func quantityFunc(fam fitters.Family, q Quantity, arg float64) (func(theta []float64) float64, error) {
+	var p float64
+	switch q {
+	case Quantile:
+		if !(arg > 0 && arg < 1) {
+			return nil, fmt.Errorf("quantile probability must lie strictly between 0 and 1, got %v", arg)
+		}
+		p = arg
+	case ReturnLevel:
+		if !(arg > 1) || math.IsInf(arg, 1) {
+			return nil, fmt.Errorf("return period must be a finite number above 1, got %v", arg)
+		}
+		p = 1 - 1/arg
+	case Exceedance:
+		if math.IsNaN(arg) || math.IsInf(arg, 0) {
+			return nil, fmt.Errorf("exceedance threshold must be a finite number, got %v", arg)
+		}
+		return func(theta []float64) float64 {
+			d, err := fam.New(theta)
+			if err != nil {
+				return math.NaN()
+			}
+			return math.Exp(d.LogSurvival(arg))
+		}, nil
+	default:
+		return nil, fmt.Errorf("unknown derived quantity %q: use quantile, return_level or exceedance", q)
+	}
+	return func(theta []float64) float64 {
+		d, err := fam.New(theta)
+		if err != nil {
+			return math.NaN()
+		}
+		return d.Quantile(p)
+	}, nil
+}
+
+// quantityScale is the scale of a derived quantity's Wald interval and
+// profile: logit for an exceedance probability strictly between 0 and 1,
+// log for a positive quantile of a family without mass at or below 0,
+// natural otherwise.
+func quantityScale(fam fitters.Family, fit *fitters.Fit, q Quantity, est float64) Scale {
+	if q == Exceedance {
+		if est > 0 && est < 1 {
+			return Logit
+		}
+		return Natural
+	}
+	d, err := fam.New(fit.Estimates)
+	if err == nil && est > 0 && math.IsInf(d.LogCDF(0), -1) {
+		return Log
+	}
+	return Natural
+}
+
+// Derived returns a derived quantity of fit with an interval by method:
+//
+//   - Wald (delta method): t̂ ± z·se(t̂) with t = the quantity on its scale
+//     (logit for a probability, log for a positive quantile),
+//     se(t̂)² = ∇tᵀ Σ ∇t, Σ the inverse observed information and ∇t by
+//     central finite differences (gonum/diff/fd) (Meeker & Escobar, 1998, §8.4).
+//   - Profile likelihood: ℓp(ψ) = max ln L(θ) over the θ with ψ(θ) = ψ,
+//     by reparameterisation: for each value of the other free parameters,
+//     the free parameter to which ψ is most sensitive (largest
+//     |∂t/∂θⱼ|·se(θ̂ⱼ)) is solved for from ψ(θ) = ψ by bracketed root finding,
+//     and the others are maximised over by BFGS; the interval is
+//     {ψ : ℓp(ψ) ≥ ℓ̂ − χ²₁(level)/2} (Coles, 2001, §4.3.3 for return levels).
+//   - Bootstrap: percentiles of ψ over the replicates' refits.
+//
+// A quantile of a discrete family is a step function of the parameters,
+// so it gets bootstrap intervals only.
+func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, arg float64, method Method, s Settings) (DerivedValue, error) {
+	level, err := s.level()
+	if err != nil {
+		return DerivedValue{}, err
+	}
+	g, err := quantityFunc(fam, q, arg)
+	if err != nil {
+		return DerivedValue{}, err
+	}
+	nan := math.NaN()
+	out := DerivedValue{Quantity: q, Argument: arg, Estimate: nan, StdError: nan, Lower: nan, Upper: nan}
+	switch method {
+	case MethodWald:
+		out.Method = "delta method"
+	case MethodProfile:
+		out.Method = "profile likelihood"
+	case MethodBootstrap:
+		out.Method = "bootstrap percentile"
+	default:
+		return out, fmt.Errorf("unknown interval method %q", method)
+	}
+	if !fit.Converged {
+		out.Note = "the fit did not converge: no estimate"
+		return out, nil
+	}
+	out.Estimate = g(fit.Estimates)
+	if math.IsNaN(out.Estimate) {
+		out.Note = "the quantity is not defined for this fit"
+		return out, nil
+	}
+	discreteQuantile := fam.Kind() == fitters.Discrete && q != Exceedance
+	sc := quantityScale(fam, fit, q, out.Estimate)
+	free := freeIndices(fit)
+
+	// The delta method's gradient and standard error, used by Wald, for the
+	// profile's step and the choice of the parameter solved for.
+	var grad []float64
+	seT := nan
+	info, infoErr := s.information(fam, fit, d)
+	if !discreteQuantile {
+		grad = quantityGradient(g, sc, fit.Estimates, free, info)
+		if infoErr == nil && info != nil && info.Covariance != nil {
+			var v float64
+			for a := range free {
+				for b := range free {
+					v += grad[a] * info.Covariance.At(a, b) * grad[b]
+				}
+			}
+			if v >= 0 {
+				seT = math.Sqrt(v)
+				out.StdError = seT * math.Abs(sc.Deriv(out.Estimate))
+			}
+		}
+	}
+	switch method {
+	case MethodWald:
+		out.Method = fmt.Sprintf("delta method (%s scale)", sc)
+		switch {
+		case discreteQuantile:
+			out.Note = "a quantile of a discrete family is a step function of the parameters: no delta-method interval"
+		case infoErr != nil:
+			out.Note = infoErr.Error()
+		case math.IsNaN(seT):
+			out.Note = "the delta-method variance is not available"
+		default:
+			z := distuv.UnitNormal.Quantile(0.5 + level/2)
+			t := sc.To(out.Estimate)
+			out.Lower, out.Upper = sc.From(t-z*seT), sc.From(t+z*seT)
+		}
+	case MethodProfile:
+		if discreteQuantile {
+			out.Note = "a quantile of a discrete family is a step function of the parameters: no profile interval"
+			break
+		}
+		if len(free) == 0 {
+			out.Note = "no free parameters"
+			break
+		}
+		p, j := quantityProfiler(fam, fit, d, g, sc, grad, info)
+		vhat := sc.To(out.Estimate)
+		step := seT
+		if !(step > 0) || math.IsInf(step, 0) {
+			step = 0.1 * math.Max(1, math.Abs(vhat))
+		}
+		lo, hi := sc.Bounds()
+		lb, ub := p.interval(vhat, fit.LogLik, step, chiSquareCut(level), spanOf(sc), sc.From, lo, hi)
+		out.Lower, out.LowerOpen = lb.Value, lb.Open
+		out.Upper, out.UpperOpen = ub.Value, ub.Open
+		out.Method = fmt.Sprintf("profile likelihood (solved for %s)", fit.Parameters[j])
+		out.Note = joinNote(lowerNote(lb.Note), upperNote(ub.Note))
+	case MethodBootstrap:
+		rep, err := s.replicates(fam, fit, d)
+		if err != nil {
+			out.Note = err.Error()
+			break
+		}
+		vals := make([]float64, 0, rep.Requested)
+		undefined := 0
+		for _, e := range rep.Estimates {
+			if e == nil {
+				continue
+			}
+			if v := g(e); !math.IsNaN(v) {
+				vals = append(vals, v)
+			} else {
+				undefined++
+			}
+		}
+		out.Method = fmt.Sprintf("bootstrap percentile (B = %d)", len(vals))
+		out.Lower, out.Upper = percentileInterval(vals, level)
+		if rep.Failed > 0 {
+			out.Note = fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure)
+		}
+		if undefined > 0 {
+			out.Note = joinNote(out.Note, fmt.Sprintf("the quantity is undefined for %d replicates, left out", undefined))
+		}
+	}
+	return out, nil
+}
+
+// quantityGradient returns ∂t/∂θ over the free parameters, t = sc.To(g(θ)),
+// by central differences with steps of 1e-4 standard errors (or 1e-6·|θ|
+// without an information matrix).
+func quantityGradient(g func([]float64) float64, sc Scale, est []float64, free []int, info *Information) []float64 {
+	step := make([]float64, len(free))
+	for a, i := range free {
+		step[a] = 1e-6 * math.Max(math.Abs(est[i]), 1e-3)
+		if info != nil {
+			if se := info.StdErrors[i]; se > 0 && !math.IsInf(se, 0) {
+				step[a] = 1e-4 * se
+			}
+		}
+	}
+	theta := append([]float64(nil), est...)
+	f := func(u []float64) float64 {
+		for a, i := range free {
+			theta[i] = est[i] + step[a]*u[a]
+		}
+		return sc.To(g(theta))
+	}
+	grad := make([]float64, len(free))
+	fd.Gradient(grad, f, make([]float64, len(free)), &fd.Settings{Formula: fd.Central, Step: 1})
+	for a := range grad {
+		grad[a] /= step[a]
+	}
+	return grad
+}
+
+// quantityProfiler builds the profiler of a derived quantity and returns
+// the index of the parameter it solves for.
+func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g func([]float64) float64, sc Scale, grad []float64, info *Information) (*profiler, int) {
+	est := fit.Estimates
+	scales := scalesOf(fam, est)
+	free := freeIndices(fit)
+	// The parameter solved for: the largest |∂t/∂θⱼ|·se(θ̂ⱼ).
+	best, bestA := -1.0, 0
+	for a, i := range free {
+		w := math.Abs(grad[a])
+		if info != nil && info.StdErrors[i] > 0 {
+			w *= info.StdErrors[i]
+		} else {
+			w *= math.Abs(scales[i].Deriv(est[i]))
+		}
+		if w > best {
+			best, bestA = w, a
+		}
+	}
+	j := free[bestA]
+	var others []int
+	for _, i := range free {
+		if i != j {
+			others = append(others, i)
+		}
+	}
+	u0 := make([]float64, len(others))
+	for a, i := range others {
+		u0[a] = scales[i].To(est[i])
+	}
+	stepJ := 0.1 * math.Max(1, math.Abs(scales[j].To(est[j])))
+	if info != nil {
+		if se := info.StdErrors[j] / math.Abs(scales[j].Deriv(est[j])); se > 0 && !math.IsInf(se, 0) {
+			stepJ = se
+		}
+	}
+	warm := scales[j].To(est[j])
+	return &profiler{
+		fam: fam, data: d, u0: u0,
+		theta: append([]float64(nil), est...),
+		build: func(v float64, u, theta []float64) bool {
+			for a, i := range others {
+				theta[i] = scales[i].From(u[a])
+			}
+			h := func(t float64) float64 {
+				theta[j] = scales[j].From(t)
+				return sc.To(g(theta)) - v
+			}
+			tj, ok := solveNear(h, warm, stepJ)
+			if !ok {
+				return false
+			}
+			warm = tj
+			theta[j] = scales[j].From(tj)
+			return finite(theta)
+		},
+	}, j
+}
+
+// solveNear finds a root of h near t0: it widens a search around t0 by
+// doubling steps on both sides until h changes sign (at most 60 times), then
+// refines the bracket by regula falsi.
+func solveNear(h func(float64) float64, t0, step float64) (float64, bool) {
+	h0 := h(t0)
+	if h0 == 0 {
+		return t0, true
+	}
+	if math.IsNaN(h0) || math.IsInf(h0, 0) {
+		return math.NaN(), false
+	}
+	downOK, upOK := true, true
+	for k := 0; k < 60 && (downOK || upOK); k++ {
+		delta := step * math.Ldexp(1, k)
+		for _, dir := range []float64{-1, 1} {
+			if (dir < 0 && !downOK) || (dir > 0 && !upOK) {
+				continue
+			}
+			t := t0 + dir*delta
+			ht := h(t)
+			if math.IsNaN(ht) || math.IsInf(ht, 0) {
+				if dir < 0 {
+					downOK = false
+				} else {
+					upOK = false
+				}
+				continue
+			}
+			if (ht > 0) != (h0 > 0) {
+				a, b := t0+dir*delta/2, t
+				if k == 0 {
+					a = t0
+				}
+				ha := h(a)
+				if (ha > 0) == (ht > 0) {
+					a, ha = t0, h0
+				}
+				return findRoot(h, a, b, ha, ht, 1e-14, 0, 300)
+			}
+		}
+	}
+	return math.NaN(), false
+}
