@@ -1,0 +1,227 @@
+package infer
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"math"
+	"os"
+	"slices"
+	"strconv"
+	"testing"
+
+	"fitseal/fitters"
+)
+
+type edfCase struct {
+	Data          string    `json:"data"`
+	X             []float64 `json:"x"`
+	Family        string    `json:"family"`
+	Params        []float64 `json:"params"`
+	KS, CvM, AD   float64
+	Chisq         float64   `json:"chisq"`
+	Cells         int       `json:"cells"`
+	Observed      []float64 `json:"observed"`
+	Expected      []float64 `json:"expected"`
+	Statistic     string    `json:"statistic"`
+	Value, PValue float64
+	Replicates    int       `json:"replicates"`
+	Fitted        []float64 `json:"fitted"`
+}
+
+func loadCases(t *testing.T, file string) (cases, chisq []edfCase) {
+	t.Helper()
+	b, err := os.ReadFile("../../testdata/infer/" + file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Cases []edfCase `json:"cases"`
+		Chisq []edfCase `json:"chisq"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	return doc.Cases, doc.Chisq
+}
+
+// TestEDFStatisticsAgainstScipy compares KS, CvM and AD for given
+// parameters with scipy.stats.kstest, scipy.stats.cramervonmises and A²
+// from scipy's logcdf/logsf (testdata/infer/make_reference.py), including a
+// point 40 standard deviations out, where A² must not hit ln 0.
+func TestEDFStatisticsAgainstScipy(t *testing.T) {
+	cases, chisq := loadCases(t, "edf_statistics.json")
+	for _, c := range cases {
+		t.Run(c.Data+"/"+c.Family, func(t *testing.T) {
+			d, err := family(t, c.Family).New(c.Params)
+			if err != nil {
+				t.Fatal(err)
+			}
+			x := slices.Clone(c.X)
+			slices.Sort(x)
+			var got [3]float64
+			edfStatistics(d, x, &got)
+			for i, want := range []float64{c.KS, c.CvM, c.AD} {
+				if !close(got[i], want, 1e-9) {
+					t.Errorf("%s = %.15g, scipy %.15g", statNames(fitters.Continuous)[i], got[i], want)
+				}
+			}
+		})
+	}
+	for _, c := range chisq {
+		d, err := family(t, c.Family).New(c.Params)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var cl cells
+		got, n := chiSquareCounts(d, c.X, &cl)
+		if n != c.Cells || !close(got, c.Chisq, 1e-9) {
+			t.Errorf("%s chi-square %.15g on %d cells, scipy.stats.chisquare %.15g on %d", c.Data, got, n, c.Chisq, c.Cells)
+		}
+		for i := range cl.obs {
+			if cl.obs[i] != c.Observed[i] || !close(cl.exp[i], c.Expected[i], 1e-12) {
+				t.Errorf("cell %d: %v/%v, want %v/%v", i, cl.obs[i], cl.exp[i], c.Observed[i], c.Expected[i])
+			}
+		}
+	}
+}
+
+// TestBootstrapPValuesAgainstScipy compares parametric-bootstrap p-values
+// with scipy.stats.goodness_of_fit on the same data (normal and gamma with
+// known location 0): both are Monte Carlo estimates, so they must agree
+// within 4 standard errors √(p(1−p)(1/B₁ + 1/B₂)). The statistic and the
+// fitted parameters must agree closely.
+func TestBootstrapPValuesAgainstScipy(t *testing.T) {
+	cases, _ := loadCases(t, "gof_pvalues.json")
+	results := map[string]*GoodnessOfFit{}
+	const B = 1999
+	for _, c := range cases {
+		fam := family(t, c.Family)
+		d := fitters.Complete(c.X)
+		fit := fitOf(t, fam, d)
+		g := results[c.Family]
+		if g == nil {
+			var err error
+			g, err = CheckFit(fam, fit, d, BootstrapOptions{Replicates: B, Stream: Stream{Master: 1, Analysis: "ball", Family: c.Family}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			results[c.Family] = g
+		}
+		// scipy's gamma is (a, loc, scale); fitseal's (shape, rate).
+		want := c.Fitted
+		if c.Family == "gamma" {
+			want = []float64{c.Fitted[0], 1 / c.Fitted[2]}
+		}
+		for i := range want {
+			if !close(fit.Estimates[i], want[i], 1e-5) {
+				t.Errorf("%s %s = %v, scipy %v", c.Family, fit.Parameters[i], fit.Estimates[i], want[i])
+			}
+		}
+		var s Statistic
+		for _, st := range g.Statistics {
+			if st.Name == c.Statistic {
+				s = st
+			}
+		}
+		if !close(s.Value, c.Value, 1e-5) {
+			t.Errorf("%s %s = %v, scipy %v", c.Family, c.Statistic, s.Value, c.Value)
+		}
+		t.Logf("%s %s: fitseal p = %v (B = %d), scipy p = %v (B = %d)", c.Family, c.Statistic, s.PValue, s.Replicates, c.PValue, c.Replicates)
+		p := (s.PValue + c.PValue) / 2
+		tol := 4 * math.Sqrt(p*(1-p)*(1/float64(s.Replicates)+1/float64(c.Replicates)))
+		if s.Replicates != B || math.Abs(s.PValue-c.PValue) > tol {
+			t.Errorf("%s %s p = %v (B = %d), scipy %v (B = %d): differ by more than %v",
+				c.Family, c.Statistic, s.PValue, s.Replicates, c.PValue, c.Replicates, tol)
+		}
+	}
+}
+
+// replicateBytes serialises a bootstrap's every number exactly.
+func replicateBytes(r *Replicates) []byte {
+	var b bytes.Buffer
+	for i := range r.Estimates {
+		for _, v := range r.Estimates[i] {
+			b.WriteString(strconv.FormatUint(math.Float64bits(v), 16) + " ")
+		}
+		for _, v := range r.Statistics[i] {
+			b.WriteString(strconv.FormatUint(math.Float64bits(v), 16) + " ")
+		}
+		b.WriteByte('\n')
+	}
+	b.WriteString(strconv.Itoa(r.Failed) + r.FirstFailure)
+	return b.Bytes()
+}
+
+// TestBootstrapDeterministicAcrossWorkers: 1, 2 and 8 workers give the
+// same bytes, and a different master seed gives different ones.
+func TestBootstrapDeterministicAcrossWorkers(t *testing.T) {
+	for _, name := range []string{"gamma", "weibull", "poisson"} {
+		fam := family(t, name)
+		x := ballBearings
+		if name == "poisson" {
+			x = []float64{0, 1, 1, 2, 0, 3, 1, 0, 2, 1, 4, 0, 1, 2, 1}
+		}
+		d := fitters.Complete(x)
+		fit := fitOf(t, fam, d)
+		var first []byte
+		for _, w := range []int{1, 2, 8} {
+			rep, err := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 64, Workers: w,
+				Stream: Stream{Master: 7, Analysis: "a", Family: name}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			b := replicateBytes(rep)
+			if first == nil {
+				first = b
+			} else if !bytes.Equal(b, first) {
+				t.Errorf("%s: %d workers give different replicates", name, w)
+			}
+		}
+		rep, _ := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 64, Workers: 2,
+			Stream: Stream{Master: 8, Analysis: "a", Family: name}})
+		if bytes.Equal(replicateBytes(rep), first) {
+			t.Errorf("%s: master seed 8 gives the replicates of seed 7", name)
+		}
+	}
+}
+
+// TestStreamSeed pins the documented derivation: the first 16 bytes of
+// SHA-256("7|a|gamma|bootstrap|3"), big-endian (from `printf %s
+// '7|a|gamma|bootstrap|3' | sha256sum`).
+func TestStreamSeed(t *testing.T) {
+	s := Stream{Master: 7, Analysis: "a", Family: "gamma", Purpose: "bootstrap"}
+	if id := s.Identity(3); id != "7|a|gamma|bootstrap|3" {
+		t.Fatalf("identity %q", id)
+	}
+	a, b := s.StreamSeed(3)
+	got := strconv.FormatUint(a, 16) + strconv.FormatUint(b, 16)
+	if got != sha256Prefix {
+		t.Errorf("seed words %s, want %s", got, sha256Prefix)
+	}
+}
+
+func TestCensoredNotApplicable(t *testing.T) {
+	fam := family(t, "weibull")
+	d := &fitters.Data{Exact: ballBearings[:20], Right: []float64{150, 150, 150}}
+	fit := fitOf(t, fam, d)
+	g, err := CheckFit(fam, fit, d, BootstrapOptions{Replicates: 9})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if g.Applicable || g.Reason != NotApplicableCensored || len(g.Statistics) != 0 {
+		t.Errorf("censored data: %+v, want not applicable", g)
+	}
+	_, err = Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 9})
+	if !errors.Is(err, ErrBootstrapNotApplicable) {
+		t.Errorf("bootstrap of censored data: %v, want ErrBootstrapNotApplicable", err)
+	}
+	rows, err := Intervals(fam, fit, d, MethodBootstrap, Settings{Bootstrap: BootstrapOptions{Replicates: 9}})
+	if err != nil || !math.IsNaN(rows[0].Lower) || rows[0].Note == "" {
+		t.Errorf("bootstrap interval on censored data: %+v %v, want no interval and a note", rows[0], err)
+	}
+}
+
+// sha256Prefix is the first 32 hex digits of sha256sum's output for
+// "7|a|gamma|bootstrap|3".
+const sha256Prefix = "e0672305facc14be41aac71b24bd6c5a"
