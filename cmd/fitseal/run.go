@@ -1,0 +1,268 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"runtime"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"golang.org/x/term"
+
+	"fitseal/runner"
+)
+
+func init() {
+	commands["run"] = command{
+		summary: "load a project, fit everything, write the results",
+		run:     cmdRun,
+	}
+}
+
+// runOptions are the settings of `fitseal run`.
+type runOptions struct {
+	Project string // the project file (default ./fitseal.toml)
+	Output  string // the results folder ("" = bundles/NAME-TIME beside the project)
+	Workers int    // fits run at once (0 = all cores)
+	Quiet   bool   // no progress line
+	Force   bool   // replace an existing output
+}
+
+func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error {
+	var o runOptions
+	fs := newFlagSet("run", "[PROJECT]", "Load PROJECT (default ./fitseal.toml), fit every analysis × candidate family,\nrank them and write the result tables into a new folder.", stderr)
+	fs.StringVar(&o.Output, "o", "", "output `PATH` (default bundles/NAME-YYYYMMDDTHHMMSSZ beside the project file)")
+	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once (default: all cores); never changes a result")
+	fs.BoolVar(&o.Quiet, "q", false, "no progress line")
+	fs.BoolVar(&o.Force, "force", false, "replace an existing output")
+	pos, err := parseInterleaved(fs, args)
+	if err != nil {
+		return err
+	}
+	switch len(pos) {
+	case 0:
+		o.Project = "fitseal.toml"
+	case 1:
+		o.Project = pos[0]
+	default:
+		return usageError{fmt.Errorf("run takes one project file, got %d arguments", len(pos))}
+	}
+	if o.Workers < 0 {
+		return usageError{fmt.Errorf("-j %d: the number of workers must be at least 1", o.Workers)}
+	}
+	return runRun(ctx, o, stdout, stderr)
+}
+
+// runRun loads, fits and writes; nothing is written unless everything
+// succeeded.
+func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
+	p, err := runner.Load(o.Project)
+	if errors.Is(err, os.ErrNotExist) {
+		return usageError{fmt.Errorf("%w\nfitseal: hint: give the project file as an argument, or create one with 'fitseal init'", err)}
+	}
+	if err != nil {
+		return inputError(err)
+	}
+	out := o.Output
+	if out == "" {
+		created, err := createdTime()
+		if err != nil {
+			return usageError{err}
+		}
+		out = filepath.Join(p.Dir, "bundles", p.Name+"-"+created.Format("20060102T150405Z"))
+	}
+	if _, err := os.Lstat(out); err == nil && !o.Force {
+		return usageError{fmt.Errorf("%s already exists; choose another output with -o or replace it with --force", out)}
+	}
+	opt := runner.RunOptions{Workers: o.Workers}
+	if o.Workers == 0 {
+		opt.Workers = runtime.NumCPU()
+	}
+	if !o.Quiet && isTerminal(stderr) {
+		opt.Progress = stderr
+	}
+	res, err := runner.Run(ctx, p, opt)
+	if err != nil {
+		if errors.Is(err, context.Canceled) {
+			return fmt.Errorf("interrupted: nothing was written")
+		}
+		return inputError(err)
+	}
+	files, err := res.Files()
+	if err != nil {
+		return err
+	}
+	if err := writeFolder(out, files, o.Force); err != nil {
+		return err
+	}
+	if !o.Quiet {
+		reportMissing(stderr, res)
+	}
+	fmt.Fprintln(stdout, summary(res))
+	fmt.Fprintf(stdout, "results: %s\n", out)
+	return nil
+}
+
+// summary counts the analyses and fits of a run in one line.
+func summary(res *runner.Results) string {
+	var ranked, notConverged, inapplicable int
+	for _, a := range res.Analyses {
+		for _, r := range a.Comparison.Rows {
+			switch {
+			case r.Rank > 0:
+				ranked++
+			case r.Inapplicable != "":
+				inapplicable++
+			default:
+				notConverged++
+			}
+		}
+	}
+	return fmt.Sprintf("%d analyses: %d fits ranked, %d not converged, %d families not applicable",
+		len(res.Analyses), ranked, notConverged, inapplicable)
+}
+
+// reportMissing says on stderr how many cells each dataset skipped as missing.
+func reportMissing(w io.Writer, res *runner.Results) {
+	for _, d := range res.Project.Datasets {
+		dd := res.Data[d.Name]
+		if dd == nil || dd.Missing == 0 {
+			continue
+		}
+		fmt.Fprintf(w, "fitseal: note: dataset %q: %d rows skipped as missing (cells %s)\n", d.Name, dd.Missing, quoteAll(d.Missing))
+	}
+}
+
+func quoteAll(list []string) string {
+	q := make([]string, len(list))
+	for i, s := range list {
+		q[i] = strconv.Quote(s)
+	}
+	return strings.Join(q, ", ")
+}
+
+// createdTime is SOURCE_DATE_EPOCH when set (reproducible builds), else now,
+// in UTC.
+func createdTime() (time.Time, error) {
+	if s := os.Getenv("SOURCE_DATE_EPOCH"); s != "" {
+		sec, err := strconv.ParseInt(s, 10, 64)
+		if err != nil || sec < 0 {
+			return time.Time{}, fmt.Errorf("SOURCE_DATE_EPOCH=%q is not a count of seconds since 1970", s)
+		}
+		return time.Unix(sec, 0).UTC(), nil
+	}
+	return time.Now().UTC(), nil
+}
+
+// writeFolder writes files into a new folder out: first into a temporary
+// folder beside it, then renamed, so out is either complete or absent.
+func writeFolder(out string, files map[string][]byte, force bool) (err error) {
+	parent := filepath.Dir(out)
+	if err := os.MkdirAll(parent, 0o755); err != nil {
+		return fmt.Errorf("writing %s: %w", out, err)
+	}
+	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(out)+".tmp-*")
+	if err != nil {
+		return fmt.Errorf("writing %s: %w", out, err)
+	}
+	defer func() {
+		if err != nil {
+			os.RemoveAll(tmp)
+		}
+	}()
+	if err := os.Chmod(tmp, 0o755); err != nil {
+		return err
+	}
+	names := make([]string, 0, len(files))
+	for n := range files {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		if err := os.WriteFile(filepath.Join(tmp, n), files[n], 0o644); err != nil {
+			return fmt.Errorf("writing %s: %w", out, err)
+		}
+	}
+	if _, serr := os.Lstat(out); serr == nil {
+		if !force {
+			return fmt.Errorf("%s already exists; choose another output with -o or replace it with --force", out)
+		}
+		old := tmp + ".old"
+		if err := os.Rename(out, old); err != nil {
+			return fmt.Errorf("replacing %s: %w", out, err)
+		}
+		if err := os.Rename(tmp, out); err != nil {
+			os.Rename(old, out)
+			return fmt.Errorf("replacing %s: %w", out, err)
+		}
+		return os.RemoveAll(old)
+	}
+	if err := os.Rename(tmp, out); err != nil {
+		return fmt.Errorf("writing %s: %w", out, err)
+	}
+	return nil
+}
+
+// isTerminal reports whether w is a terminal (progress is drawn only there).
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	return ok && term.IsTerminal(int(f.Fd()))
+}
+
+// inputError turns a project or data error into a usage error (exit 2)
+// whose message lists every problem with its hint, in fitseal's format.
+func inputError(err error) error {
+	var b strings.Builder
+	var pes runner.ProjectErrors
+	if errors.As(err, &pes) {
+		for i, e := range pes {
+			if i == 20 {
+				fmt.Fprintf(&b, "\nfitseal: error: … and %d more problems", len(pes)-20)
+				break
+			}
+			if i > 0 {
+				b.WriteString("\n")
+			}
+			b.WriteString("fitseal: error: " + e.Error())
+			if e.Hint != "" {
+				b.WriteString("\nfitseal: hint: " + e.Hint)
+			}
+		}
+		return usageError{errors.New(b.String())}
+	}
+	b.WriteString("fitseal: error: " + err.Error())
+	for _, h := range runner.Hints(err) {
+		b.WriteString("\nfitseal: hint: " + h)
+	}
+	if runner.IsInputError(err) || errors.Is(err, os.ErrNotExist) {
+		return usageError{errors.New(b.String())}
+	}
+	return errors.New(b.String())
+}
+
+// parseInterleaved parses flags that may come after positional arguments
+// (`fitseal run fitseal.toml -j 4`), returning the positional ones.
+func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
+	var pos []string
+	for {
+		if err := parseFlags(fs, args); err != nil {
+			return nil, err
+		}
+		rest := fs.Args()
+		if len(rest) == 0 {
+			return pos, nil
+		}
+		if rest[0] == "--" {
+			return append(pos, rest[1:]...), nil
+		}
+		pos = append(pos, rest[0])
+		args = rest[1:]
+	}
+}

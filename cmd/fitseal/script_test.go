@@ -1,0 +1,125 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/rogpeppe/go-internal/testscript"
+)
+
+// TestMain lets the scripts run fitseal as a program: testscript re-executes
+// this test binary as "fitseal", which runs main.
+func TestMain(m *testing.M) {
+	testscript.Main(m, map[string]func(){"fitseal": main})
+}
+
+// TestScript runs every end-to-end script in testdata/script, one behaviour
+// per file (see the comment at the top of each).
+//
+// Extra script commands:
+//
+//	status N PROG ARGS…  run PROG and require exit status N (stdout and stderr
+//	                     are kept for the stdout/stderr commands)
+//	notemp DIR           DIR holds no temporary file or folder (".tmp-")
+//	cmpdir A B           folders A and B hold the same files, byte for byte
+func TestScript(t *testing.T) {
+	testscript.Run(t, testscript.Params{
+		Dir: "testdata/script",
+		Setup: func(env *testscript.Env) error {
+			env.Setenv("SOURCE_DATE_EPOCH", "1764633600") // 2025-12-02T00:00:00Z
+			return nil
+		},
+		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
+			"status": cmdStatus,
+			"notemp": cmdNoTemp,
+			"cmpdir": cmdCmpDir,
+		},
+	})
+}
+
+func cmdStatus(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) < 2 {
+		ts.Fatalf("usage: status N PROG ARGS…")
+	}
+	want, err := strconv.Atoi(args[0])
+	if err != nil {
+		ts.Fatalf("status: %v", err)
+	}
+	got := 0
+	if err := ts.Exec(args[1], args[2:]...); err != nil {
+		var ee *exec.ExitError
+		if !errors.As(err, &ee) {
+			ts.Fatalf("status: %v", err)
+		}
+		got = ee.ExitCode()
+	}
+	if got != want {
+		ts.Fatalf("exit status %d, want %d", got, want)
+	}
+}
+
+func cmdNoTemp(ts *testscript.TestScript, neg bool, args []string) {
+	if len(args) != 1 {
+		ts.Fatalf("usage: notemp DIR")
+	}
+	var found []string
+	filepath.WalkDir(ts.MkAbs(args[0]), func(path string, d os.DirEntry, err error) error {
+		if err == nil && strings.Contains(d.Name(), ".tmp-") {
+			found = append(found, path)
+		}
+		return nil
+	})
+	if neg != (len(found) == 0) {
+		return
+	}
+	if neg {
+		ts.Fatalf("no temporary files, want some")
+	}
+	ts.Fatalf("temporary files left behind: %v", found)
+}
+
+func cmdCmpDir(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) != 2 {
+		ts.Fatalf("usage: cmpdir A B")
+	}
+	list := func(dir string) map[string][]byte {
+		out := map[string][]byte{}
+		filepath.WalkDir(ts.MkAbs(dir), func(path string, d os.DirEntry, err error) error {
+			ts.Check(err)
+			if !d.IsDir() {
+				rel, _ := filepath.Rel(ts.MkAbs(dir), path)
+				b, err := os.ReadFile(path)
+				ts.Check(err)
+				out[rel] = b
+			}
+			return nil
+		})
+		return out
+	}
+	a, b := list(args[0]), list(args[1])
+	var names []string
+	for n := range a {
+		names = append(names, n)
+	}
+	for n := range b {
+		if _, ok := a[n]; !ok {
+			names = append(names, n)
+		}
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		if !bytes.Equal(a[n], b[n]) {
+			ts.Fatalf("%s differs between %s and %s", n, args[0], args[1])
+		}
+	}
+	if len(names) == 0 {
+		ts.Fatalf("%s and %s are both empty", args[0], args[1])
+	}
+}

@@ -1,0 +1,129 @@
+package runner
+
+import (
+	"errors"
+	"path/filepath"
+	"strings"
+
+	"fitseal/fitters"
+)
+
+// QuickSpec describes a one-file look without a project file (`fitseal
+// fit`): the data file, how to read it, and the families to rank.
+type QuickSpec struct {
+	// File is the CSV file's path.
+	File string
+	// Dataset says how to read it; Name and File are ignored, and a nil
+	// Missing takes the default.
+	Dataset Dataset
+	// Families to rank; empty means every family of the data's kind
+	// (count families when Discrete or a trials column is given).
+	Families  []string
+	Discrete  bool
+	Criterion string
+}
+
+// QuickProject builds and checks a one-analysis project from spec, with the
+// same rules as a project file. Its errors name command-line flags instead
+// of key paths (a key such as dataset[0].status_column becomes
+// --status-column).
+func QuickProject(spec QuickSpec) (*Project, error) {
+	d := spec.Dataset
+	ds := map[string]any{"name": "data", "file": filepath.Base(spec.File)}
+	put := func(k, v string) {
+		if v != "" {
+			ds[k] = v
+		}
+	}
+	putList := func(k string, v []string) {
+		if v != nil {
+			l := make([]any, len(v))
+			for i, s := range v {
+				l[i] = s
+			}
+			ds[k] = l
+		}
+	}
+	put("column", d.Column)
+	put("status_column", d.StatusColumn)
+	put("lower_column", d.LowerColumn)
+	put("upper_column", d.UpperColumn)
+	put("trials_column", d.TrialsColumn)
+	put("delimiter", d.Delimiter)
+	put("split_by", d.SplitBy)
+	putList("left", d.Left)
+	putList("right", d.Right)
+	putList("missing", d.Missing)
+	if d.Where != nil {
+		ds["where"] = map[string]any{"column": d.Where.Column, "equals": d.Where.Equals}
+	}
+	families := spec.Families
+	if len(families) == 0 {
+		kind := fitters.Continuous
+		if spec.Discrete || d.TrialsColumn != "" {
+			kind = fitters.Discrete
+		}
+		for _, f := range fitters.Families() {
+			if f.Kind() == kind {
+				families = append(families, f.Name())
+			}
+		}
+	}
+	fams := make([]any, len(families))
+	for i, f := range families {
+		fams[i] = f
+	}
+	analysis := map[string]any{"name": "data", "dataset": "data", "candidates": "families"}
+	if spec.Criterion != "" {
+		analysis["criterion"] = spec.Criterion
+	}
+	raw := map[string]any{
+		"name":       "fit",
+		"dataset":    []map[string]any{ds},
+		"candidates": []map[string]any{{"name": "families", "families": fams}},
+		"analysis":   []map[string]any{analysis},
+	}
+	l := &loader{file: "fitseal fit", lines: keyLines{}}
+	p := &Project{File: spec.File, Dir: filepath.Dir(spec.File)}
+	l.project(p, l.newTable("", raw))
+	if len(l.errs) > 0 {
+		for _, e := range l.errs {
+			e.Key = flagOfKey(e.Key)
+			e.Msg = strings.ReplaceAll(e.Msg, "[[dataset]]", "data file")
+		}
+		return nil, l.errs
+	}
+	p.Defaulted = l.defaulted
+	return p, nil
+}
+
+// flagOfKey names the command-line flag that set a key of the synthetic
+// project: "dataset[0].status_column" → "--status-column".
+func flagOfKey(key string) string {
+	k := key
+	if i := strings.LastIndexByte(k, '.'); i >= 0 {
+		k = k[i+1:]
+	}
+	if i := strings.IndexByte(k, '['); i >= 0 {
+		k = k[:i]
+	}
+	switch k {
+	case "file":
+		return "FILE"
+	case "candidates":
+		return "--families"
+	}
+	if strings.HasPrefix(key, "candidates[0].fixed") {
+		return "--families"
+	}
+	return "--" + strings.ReplaceAll(k, "_", "-")
+}
+
+// IsInputError reports whether err is a problem of the user's input (a
+// project or data error) rather than of the machine.
+func IsInputError(err error) bool {
+	var pes ProjectErrors
+	var pe *ProjectError
+	var de *DataError
+	return errors.As(err, &pes) || errors.As(err, &pe) || errors.As(err, &de)
+}
