@@ -14,8 +14,8 @@ import (
 // Johnson, Kemp & Kotz, Univariate Discrete Distributions, 2005).
 func TestCountRand(t *testing.T) {
 	cases := []struct {
-		name      string
-		d         Dist
+		name       string
+		d          Dist
 		mean, var_ float64
 	}{
 		{"poisson", Poisson{3.5}, 3.5, 3.5},
