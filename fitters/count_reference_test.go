@@ -83,7 +83,7 @@ func countDist(t *testing.T, family string, params map[string]float64, trials *i
 	return d
 }
 
-func closeRel(got, want, rel float64) bool {
+func countCloseRel(got, want, rel float64) bool {
 	if math.IsInf(want, 0) || math.IsInf(got, 0) {
 		return got == want
 	}
@@ -109,7 +109,7 @@ func TestCountPointValues(t *testing.T) {
 			{"logcdf", d.LogCDF(pt.X), pt.Logcdf},
 			{"logsf", d.LogSurvival(pt.X), logsf},
 		} {
-			if !closeRel(c.got, c.want, 1e-9) {
+			if !countCloseRel(c.got, c.want, 1e-9) {
 				t.Errorf("%s %v trials=%v x=%v: %s = %.17g, want %.17g (%s)", pt.Family, pt.Params, pt.Trials, pt.X, c.what, c.got, c.want, pt.Source)
 			}
 		}
@@ -163,7 +163,7 @@ func TestCountReferenceFits(t *testing.T) {
 					}
 					continue
 				}
-				if !closeRel(got, *want, 1e-6) {
+				if !countCloseRel(got, *want, 1e-6) {
 					t.Errorf("%s = %.12g, reference %.12g", name, got, *want)
 				}
 			}
