@@ -129,6 +129,7 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			rng := rand.New(pcg)
 			sample := make([]float64, n)
 			sorted := make([]float64, n)
+			logF, logS := make([]float64, n), make([]float64, n)
 			sim := &fitters.Data{}
 			var c cells
 			var edf [3]float64
@@ -165,7 +166,7 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				if fam.Kind() == fitters.Discrete {
 					srow[0], _ = chiSquareCounts(rd, sorted, &c)
 				} else {
-					edfStatistics(rd, sorted, &edf)
+					edfStatistics(rd, sorted, logF, logS, &edf)
 					copy(srow, edf[:])
 				}
 				rep.Statistics[r] = srow

@@ -117,7 +117,7 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 		return g, nil
 	}
 	var edf [3]float64
-	edfStatistics(dist, x, &edf)
+	edfStatistics(dist, x, make([]float64, len(x)), make([]float64, len(x)), &edf)
 	for i, name := range statNames(fitters.Continuous) {
 		g.Statistics = append(g.Statistics, Statistic{Name: name, Value: edf[i], PValue: math.NaN()})
 	}

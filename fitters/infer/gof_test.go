@@ -60,7 +60,7 @@ func TestEDFStatisticsAgainstScipy(t *testing.T) {
 			x := slices.Clone(c.X)
 			slices.Sort(x)
 			var got [3]float64
-			edfStatistics(d, x, &got)
+			edfStatistics(d, x, make([]float64, len(x)), make([]float64, len(x)), &got)
 			for i, want := range []float64{c.KS, c.CvM, c.AD} {
 				if !close(got[i], want, 1e-9) {
 					t.Errorf("%s = %.15g, scipy %.15g", statNames(fitters.Continuous)[i], got[i], want)
