@@ -41,7 +41,8 @@ func Funcs() template.FuncMap {
 
 // Sig formats x to n significant digits: fixed-point when 1e-3 ≤ |x| < 1e6
 // (trailing zeros kept, so a column reads at one precision), e-notation
-// otherwise. NaN and infinities give "".
+// otherwise. Digits before the decimal point are never rounded away
+// (10576 stays 10576, not 10580). NaN and infinities give "".
 func Sig(n int, x float64) string {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return ""
@@ -63,7 +64,7 @@ func Sig(n int, x float64) string {
 	}
 	decimals := n - 1 - int(math.Floor(math.Log10(a)))
 	if decimals < 0 {
-		decimals = 0
+		return strconv.FormatFloat(x, 'f', 0, 64)
 	}
 	return strconv.FormatFloat(r, 'f', decimals, 64)
 }

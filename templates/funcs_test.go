@@ -15,6 +15,8 @@ func TestSig(t *testing.T) {
 		want string
 	}{
 		{4, 1234.5678, "1235"},
+		{4, 10576, "10576"}, // integer digits are kept
+		{4, 9012.7, "9013"},
 		{4, 0.012345, "0.01235"}, // round half to even on the binary value
 		{4, 9.99961, "10.00"},
 		{4, -2.5, "-2.500"},

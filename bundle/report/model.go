@@ -14,6 +14,8 @@ import (
 	"strings"
 	"time"
 
+	"gonum.org/v1/plot"
+
 	"fitseal/templates"
 )
 
@@ -31,14 +33,18 @@ type Identity struct {
 	// TagManifestSHA256 is the hex SHA-256 of tagmanifest-sha256.txt: the
 	// bundle's identity. Empty when the PDF is rendered before sealing.
 	TagManifestSHA256 string
-	SignerFingerprint string // "SHA256:…" of the signing key
-	Created           time.Time
-	GitCommit         string // empty: not run from a git repository
-	GitBranch         string
-	GitDirty          bool // uncommitted changes to the inputs or project file
-	ToolVersion       string
-	GoVersion         string
-	Platform          string // GOOS/GOARCH
+	// BundleIdentityLabel says what TagManifestSHA256 is the hash of, when
+	// the caller hashes something else (default: "Bundle identity (SHA-256
+	// of tagmanifest-sha256.txt)").
+	BundleIdentityLabel string
+	SignerFingerprint   string // "SHA256:…" of the signing key
+	Created             time.Time
+	GitCommit           string // empty: not run from a git repository
+	GitBranch           string
+	GitDirty            bool // uncommitted changes to the inputs or project file
+	ToolVersion         string
+	GoVersion           string
+	Platform            string // GOOS/GOARCH
 }
 
 // Settings are the run's recorded settings shown on the cover.
@@ -137,11 +143,16 @@ type Derived struct {
 	Method   string
 }
 
-// Figure is a rendered figure for the PDF: a PNG with its caption.
+// Figure is a rendered figure for the PDF with its caption. A figure made
+// by [RenderFigures] (via [RenderedFigure.ForPDF]) is drawn as vector
+// graphics; one that only has PNG bytes is embedded as an image, and then
+// the PDF's bytes can vary between runs when several images share a pixel
+// width (gofpdf orders such images by map iteration).
 type Figure struct {
 	Name    string // file name in the bundle, e.g. "seal-life-density.png"
 	Caption string
 	PNG     []byte
+	plot    *plot.Plot
 }
 
 // CriterionName is the criterion as printed: "AIC", "AICc" or "BIC".

@@ -1,0 +1,602 @@
+package report
+
+import (
+	"bytes"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"codeberg.org/go-fonts/liberation/liberationmonoregular"
+	"codeberg.org/go-fonts/liberation/liberationsansbold"
+	"codeberg.org/go-fonts/liberation/liberationsansitalic"
+	"codeberg.org/go-fonts/liberation/liberationsansregular"
+	"github.com/jung-kurt/gofpdf"
+	"gonum.org/v1/plot/vg/draw"
+
+	"fitseal/templates"
+)
+
+// PDFOptions tunes [RenderPDF]; the zero value is what a bundle uses.
+type PDFOptions struct {
+	// Uncompressed leaves the page content streams readable (for tests).
+	Uncompressed bool
+	// ContentsFrom is the number of analyses from which a table of contents
+	// is added (0: DefaultContentsFrom).
+	ContentsFrom int
+}
+
+// DefaultContentsFrom: projects with this many analyses or more get a table
+// of contents.
+const DefaultContentsFrom = 4
+
+// Page geometry (mm, A4 portrait).
+const (
+	pageW, pageH = 210.0, 297.0
+	margin       = 15.0
+	bottomMargin = 18.0
+	textW        = pageW - 2*margin
+	rowH         = 5.2
+)
+
+// RenderPDF lays out the summary: a cover with the bundle's identity, a
+// table of contents for long projects, the methods and cautions, then one
+// section per analysis (data summary, ranking, parameters, derived
+// quantities, notes, figures). The bytes depend only on r: the creation
+// date is r.Identity.Created and nothing random is written.
+func RenderPDF(r *Report, opt PDFOptions) ([]byte, error) {
+	d := &doc{f: gofpdf.New("P", "mm", "A4", ""), r: r}
+	f := d.f
+	f.SetCompression(!opt.Uncompressed)
+	f.SetCatalogSort(true)
+	f.SetCreationDate(r.Identity.Created)
+	f.SetModificationDate(r.Identity.Created)
+	f.SetProducer("fitseal "+r.Identity.ToolVersion, true)
+	f.SetCreator("fitseal "+r.Identity.ToolVersion, true)
+	f.SetTitle(r.Name+": fitting summary", true)
+	f.SetSubject(r.Description, true)
+	f.AddUTF8FontFromBytes("sans", "", liberationsansregular.TTF)
+	f.AddUTF8FontFromBytes("sans", "B", liberationsansbold.TTF)
+	f.AddUTF8FontFromBytes("sans", "I", liberationsansitalic.TTF)
+	f.AddUTF8FontFromBytes("mono", "", liberationmonoregular.TTF)
+	f.SetMargins(margin, margin, margin)
+	f.SetAutoPageBreak(true, bottomMargin)
+	f.AliasNbPages("{nb}")
+	f.SetFooterFunc(d.footer)
+
+	d.cover()
+	from := opt.ContentsFrom
+	if from <= 0 {
+		from = DefaultContentsFrom
+	}
+	if len(r.Analyses) >= from {
+		d.contents()
+	}
+	d.methods()
+	for i := range r.Analyses {
+		d.analysis(i)
+	}
+	d.resolveContents()
+	if err := f.Error(); err != nil {
+		return nil, fmt.Errorf("report PDF: %w", err)
+	}
+	var buf bytes.Buffer
+	if err := f.Output(&buf); err != nil {
+		return nil, fmt.Errorf("report PDF: %w", err)
+	}
+	return buf.Bytes(), nil
+}
+
+type doc struct {
+	f *gofpdf.Fpdf
+	r *Report
+	// Table of contents: one entry per section, its link and the page it
+	// starts on (filled as the sections are laid out).
+	toc []tocEntry
+}
+
+type tocEntry struct {
+	title string
+	link  int
+	page  int
+	alias string
+}
+
+func (d *doc) font(style string, size float64) { d.f.SetFont("sans", style, size) }
+
+func (d *doc) footer() {
+	f := d.f
+	f.SetY(-12)
+	f.SetFont("sans", "", 7.5)
+	f.SetTextColor(110, 110, 110)
+	f.CellFormat(textW/2, 5, d.r.Name+" · fitseal "+d.r.Identity.ToolVersion, "", 0, "L", false, 0, "")
+	f.CellFormat(textW/2, 5, fmt.Sprintf("page %d of {nb}", f.PageNo()), "", 0, "R", false, 0, "")
+	f.SetTextColor(0, 0, 0)
+}
+
+func (d *doc) cover() {
+	f, r := d.f, d.r
+	f.AddPage()
+	f.SetY(40)
+	d.font("", 11)
+	f.SetTextColor(90, 90, 90)
+	f.CellFormat(textW, 6, "Distribution fitting summary", "", 1, "L", false, 0, "")
+	f.SetTextColor(0, 0, 0)
+	d.font("B", 22)
+	f.MultiCell(textW, 10, r.Name, "", "L", false)
+	f.Ln(2)
+	if r.Description != "" {
+		d.font("", 11)
+		f.MultiCell(textW, 5.5, r.Description, "", "L", false)
+	}
+	f.Ln(8)
+
+	id, s := r.Identity, r.Settings
+	bundleLabel := id.BundleIdentityLabel
+	if bundleLabel == "" {
+		bundleLabel = "Bundle identity (SHA-256 of tagmanifest-sha256.txt)"
+	}
+	bundle := id.TagManifestSHA256
+	if bundle == "" {
+		bundle = "(not given)"
+	}
+	git := "not run from a git repository"
+	if id.GitCommit != "" {
+		git = id.GitCommit
+		if id.GitBranch != "" {
+			git += " on " + id.GitBranch
+		}
+		if id.GitDirty {
+			git += ", with uncommitted changes (dirty)"
+		} else {
+			git += ", clean"
+		}
+	}
+	created := "(not given)"
+	if !id.Created.IsZero() {
+		created = id.Created.UTC().Format("2006-01-02 15:04:05 UTC")
+	}
+	bootstrap := "off"
+	if s.Bootstrap > 0 {
+		bootstrap = strconv.Itoa(s.Bootstrap) + " replicates"
+	}
+	rows := []struct {
+		label, value string
+		mono         bool
+	}{
+		{bundleLabel, bundle, true},
+		{"Signer key", orDash(id.SignerFingerprint), true},
+		{"Created", created, false},
+		{"Git commit", git, id.GitCommit != ""},
+		{"Tool", strings.TrimSpace("fitseal " + id.ToolVersion + " " + platform(id)), false},
+		{"Master seed", strconv.FormatUint(s.Seed, 10), true},
+		{"Criterion", CriterionName(s.Criterion), false},
+		{"Interval level", templates.Percent(s.Confidence) + " %", false},
+		{"Parameter intervals", orDash(s.Intervals), false},
+		{"Bootstrap", bootstrap, false},
+		{"Analyses", strconv.Itoa(len(r.Analyses)), false},
+	}
+	const labelW = 62.0
+	for _, row := range rows {
+		y := f.GetY()
+		d.font("B", 9.5)
+		f.MultiCell(labelW-2, 5, row.label, "", "L", false)
+		yLabel := f.GetY()
+		f.SetXY(margin+labelW, y)
+		if row.mono {
+			f.SetFont("mono", "", 8)
+		} else {
+			d.font("", 9.5)
+		}
+		f.MultiCell(textW-labelW, 5, row.value, "", "L", false)
+		f.SetY(math.Max(yLabel, f.GetY()) + 1.5)
+	}
+	f.Ln(6)
+	d.font("I", 9)
+	f.SetTextColor(70, 70, 70)
+	f.MultiCell(textW, 4.6, "Every number in this summary is in the bundle's result tables (data/results/), "+
+		"and `fitseal verify` re-runs the analysis from the bundled inputs and compares them. "+
+		"Read the methods and cautions before using the results.", "", "L", false)
+	f.SetTextColor(0, 0, 0)
+}
+
+func platform(id Identity) string {
+	var parts []string
+	if id.GoVersion != "" {
+		parts = append(parts, id.GoVersion)
+	}
+	if id.Platform != "" {
+		parts = append(parts, id.Platform)
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return "(" + strings.Join(parts, ", ") + ")"
+}
+
+func orDash(s string) string {
+	if s == "" {
+		return "–"
+	}
+	return s
+}
+
+// contents reserves the table of contents. Page numbers are written as
+// aliases and resolved when every section's page is known.
+func (d *doc) contents() {
+	f := d.f
+	d.toc = append(d.toc, tocEntry{title: "Methods and cautions"})
+	for i, a := range d.r.Analyses {
+		t := fmt.Sprintf("%d  %s", i+1, a.Name)
+		if b := a.Best(); b != "" {
+			t += "  (best: " + b + ")"
+		}
+		d.toc = append(d.toc, tocEntry{title: t})
+	}
+	f.AddPage()
+	d.heading("Contents")
+	d.font("", 9.5)
+	for i := range d.toc {
+		e := &d.toc[i]
+		e.link = f.AddLink()
+		e.alias = fmt.Sprintf("{toc%06d}", i)
+		if f.GetY()+rowH > pageH-bottomMargin {
+			f.AddPage()
+		}
+		d.fitCell(textW-20, rowH, e.title, "L", "", e.link)
+		f.CellFormat(20, rowH, e.alias, "", 1, "R", false, e.link, "")
+	}
+}
+
+// mark records that section i of the contents starts here.
+func (d *doc) mark(i int) {
+	if i >= len(d.toc) {
+		return
+	}
+	d.toc[i].page = d.f.PageNo()
+	d.f.SetLink(d.toc[i].link, d.f.GetY(), -1)
+}
+
+func (d *doc) resolveContents() {
+	for _, e := range d.toc {
+		d.f.RegisterAlias(e.alias, strconv.Itoa(e.page))
+	}
+}
+
+func (d *doc) heading(s string) {
+	d.font("B", 15)
+	d.f.MultiCell(textW, 7.5, s, "", "L", false)
+	d.f.Ln(2)
+}
+
+func (d *doc) subheading(s string) {
+	if d.f.GetY()+rowH*4 > pageH-bottomMargin {
+		d.f.AddPage()
+	}
+	d.f.Ln(2)
+	d.font("B", 10.5)
+	d.f.CellFormat(textW, 6, s, "", 1, "L", false, 0, "")
+}
+
+func (d *doc) paragraph(s string) {
+	d.font("", 9.5)
+	d.f.MultiCell(textW, 4.6, s, "", "L", false)
+	d.f.Ln(1.5)
+}
+
+func (d *doc) methods() {
+	f := d.f
+	f.AddPage()
+	d.f.Bookmark("Methods and cautions", 0, 0)
+	d.mark(0)
+	d.heading("Methods and cautions")
+	d.subheading("Methods")
+	for _, p := range methodsText(d.r) {
+		d.paragraph(p)
+	}
+	d.subheading("Cautions")
+	for _, p := range Cautions {
+		d.font("", 9.5)
+		x := f.GetX()
+		f.CellFormat(5, 4.6, "•", "", 0, "L", false, 0, "")
+		f.MultiCell(textW-5, 4.6, p, "", "L", false)
+		f.SetX(x)
+		f.Ln(1.5)
+	}
+}
+
+// Cautions are printed in every summary.
+var Cautions = []string{
+	"An information criterion compares models fitted to the same observations, and only those. " +
+		"Criterion values, Δ and weights of different analyses (other datasets, other wells or groups, " +
+		"other subsets or censoring codes) cannot be set against one another.",
+	"The top-ranked family is only the best of the candidates that were tried. It can still describe " +
+		"the data poorly: look at the adequacy p-values and at the Q–Q, P–P and CDF plots before relying " +
+		"on it. A small p-value says the data are unlikely under the model; a large one does not prove the model right.",
+	"Do not attach significance tests to a model chosen this way as if it had been fixed in advance: " +
+		"choosing among candidates with the same data makes such tests and the intervals of the chosen family " +
+		"look more certain than they are. The model-averaged rows carry part of that selection uncertainty.",
+	"Return levels for periods much longer than the record, and quantiles far in a tail, rest on the shape " +
+		"of the fitted tail more than on the data; their intervals widen accordingly and may still be too narrow.",
+	"Where these results inform safety or compliance (design floods, component lives, discharge or " +
+		"drinking-water limits), they support, and do not replace, the judgement of a licensed professional " +
+		"applying the local codes and standards.",
+}
+
+func methodsText(r *Report) []string {
+	s := r.Settings
+	intervals := map[string]string{
+		"profile":   "profile likelihood: the parameter values whose profile log-likelihood lies within half the chi-square quantile (1 degree of freedom) at that level of the maximum (Venzon & Moolgavkar 1988)",
+		"wald":      "Wald: the estimate ± the normal quantile times the standard error from the observed information",
+		"bootstrap": "parametric bootstrap percentiles: the model is simulated at the estimates and refitted",
+	}[s.Intervals]
+	if intervals == "" {
+		intervals = "as named in each table's interval column"
+	}
+	boot := "Adequacy p-values were not computed (bootstrap = 0); the tables leave them empty."
+	if s.Bootstrap > 0 {
+		boot = fmt.Sprintf("Adequacy: the goodness-of-fit statistic (Anderson–Darling, Cramér–von Mises or Kolmogorov–Smirnov for complete continuous data, "+
+			"chi-square for counts) is compared with its distribution under the fitted model, found by a parametric bootstrap of %d replicates, each "+
+			"simulated from the fit and refitted; p = (r + 1)/(B + 1), where r replicates give a statistic at least as large as the data's.", s.Bootstrap)
+	}
+	return []string{
+		"Fitting. Each candidate family is fitted by maximum likelihood to the same observations. An exact value contributes ln f(x); " +
+			"a non-detect (left-censored) ln F(x); a suspension (right-censored) ln S(x) = ln(1 − F(x)); an interval ln(F(u) − F(l)). " +
+			"The log-likelihood keeps every constant, so all families of one comparison are on the same footing. A family that cannot take " +
+			"the data, or whose fit did not converge, is listed as not ranked, with the reason.",
+		"Ranking. AIC = 2k − 2 ln L (Akaike 1974); AICc = AIC + 2k(k + 1)/(n − k − 1) (Hurvich & Tsai 1989); BIC = k ln n − 2 ln L " +
+			"(Schwarz 1978), with k free parameters and n observations. Δ is a family's criterion minus the smallest; the Akaike weight is " +
+			"exp(−Δ/2) divided by the sum over the ranked families (Burnham & Anderson 2002). The support label restates Δ in the words of " +
+			"Burnham & Anderson's rough guide (Δ ≤ 2 substantial, 4–7 considerably less, > 10 essentially none); it is a description, not a test.",
+		boot,
+		"Intervals at " + templates.Percent(s.Confidence) + " %: " + intervals + ".",
+		"Derived quantities. The quantile at lower-tail probability p is the value x with F(x) = p, the inverse CDF at p (p = 0.1 gives the B10 life); the return level for a " +
+			"period of T years is the 1 − 1/T quantile of the annual-maximum distribution (Coles 2001); an exceedance probability is " +
+			"P(X > t) = 1 − F(t), so the chance of a value at or below t is one minus it. Model-averaged rows combine the ranked " +
+			"families with their Akaike weights (Burnham & Anderson 2002, ch. 4).",
+		"Figures. Densities (or probability mass functions) of the leading candidates are drawn over a histogram of the exact values; " +
+			"the empirical CDF (Kaplan–Meier for suspensions, Turnbull for other censoring) is set against the fitted CDFs; Q–Q and P–P plots " +
+			"show the best candidate, with a pointwise simulation envelope where the bootstrap ran.",
+	}
+}
+
+// analysis lays out one analysis's section.
+func (d *doc) analysis(i int) {
+	f, a := d.f, d.r.Analyses[i]
+	f.AddPage()
+	title := fmt.Sprintf("%d  %s", i+1, a.Name)
+	f.Bookmark(title, 0, 0)
+	d.mark(i + 1)
+	d.heading(title)
+
+	d.subheading("Data")
+	s := a.Summary
+	d.table([]column{{"n", 14, "R"}, {"exact", 16, "R"}, {"left-cens.", 19, "R"}, {"right-cens.", 20, "R"},
+		{"interval", 16, "R"}, {"missing", 16, "R"}, {"min", 22, "R"}, {"median", 22, "R"}, {"max", 22, "R"}},
+		[][]string{{strconv.Itoa(s.N), strconv.Itoa(s.Exact), strconv.Itoa(s.LeftCensored), strconv.Itoa(s.RightCensored),
+			strconv.Itoa(s.IntervalCensored), strconv.Itoa(s.Missing), templates.Sig(4, s.Min), templates.Sig(4, s.Median), templates.Sig(4, s.Max)}}, nil)
+	d.font("", 8.5)
+	units := a.Units
+	if units == "" {
+		units = "not given"
+	}
+	kind := "continuous"
+	if a.Discrete {
+		kind = "counts"
+	}
+	f.MultiCell(textW, 4.4, fmt.Sprintf("Dataset %s; units: %s; data: %s. Censored values count at their recorded value in min, median and max.", a.Dataset, units, kind), "", "L", false)
+
+	crit := a.CriterionName()
+	d.subheading("Ranking by " + crit)
+	var rows [][]string
+	for _, c := range a.Fitted() {
+		p := templates.Fixed(3, c.AdequacyP)
+		if p != "" && c.Statistic != "" {
+			p += " (" + strings.ToUpper(c.Statistic) + ")"
+		}
+		rows = append(rows, []string{strconv.Itoa(c.Rank), c.Family, strconv.Itoa(c.K), templates.Fixed(2, c.LogLik),
+			templates.Fixed(2, c.Criterion), templates.Fixed(2, c.Delta), templates.Fixed(3, c.Weight), c.Support, orDash(p)})
+	}
+	d.table([]column{{"rank", 11, "R"}, {"family", 27, "L"}, {"k", 8, "R"}, {"ln L", 22, "R"}, {crit, 22, "R"},
+		{"Δ" + crit, 18, "R"}, {"weight", 15, "R"}, {"support", 29, "L"}, {"adequacy p", 28, "R"}}, rows, nil)
+	var notes []string
+	if a.CriterionNote != "" {
+		notes = append(notes, a.CriterionNote)
+	}
+	for _, c := range a.NotRanked() {
+		n := "Not ranked: " + c.Family
+		if c.Note != "" {
+			n += ": " + c.Note
+		}
+		notes = append(notes, n)
+	}
+	for _, c := range a.Fitted() {
+		if c.Note != "" {
+			notes = append(notes, c.Family+": "+c.Note)
+		}
+	}
+	notes = append(notes, a.Notes...)
+
+	if len(a.Parameters) > 0 {
+		d.subheading(fmt.Sprintf("Parameters (%s %% intervals)", a.Level()))
+		rows, styles := [][]string(nil), []string(nil)
+		for _, p := range a.Parameters {
+			se, method := templates.Sig(3, p.StdError), p.Method
+			if p.Fixed {
+				se, method = "fixed", "fixed"
+			}
+			rows = append(rows, []string{p.Family, p.Name, templates.Sig(4, p.Estimate), orDash(se),
+				orDash(templates.Sig(4, p.Lower)), orDash(templates.Sig(4, p.Upper)), orDash(method)})
+			style := ""
+			if p.BestFamily {
+				style = "B"
+			}
+			styles = append(styles, style)
+		}
+		d.table([]column{{"family", 28, "L"}, {"parameter", 26, "L"}, {"estimate", 26, "R"}, {"std. error", 24, "R"},
+			{"lower", 25, "R"}, {"upper", 25, "R"}, {"interval", 26, "L"}}, rows, styles)
+		d.font("I", 7.5)
+		f.CellFormat(textW, 4, "Bold rows: the top-ranked family.", "", 1, "L", false, 0, "")
+	}
+
+	if len(a.Derived) > 0 {
+		d.subheading(fmt.Sprintf("Derived quantities (%s %% intervals)", a.Level()))
+		rows, styles := [][]string(nil), []string(nil)
+		for _, q := range a.Derived {
+			fam, style := q.Family, ""
+			if q.IsModelAverage() {
+				fam, style = "model average", "I"
+			}
+			rows = append(rows, []string{fam, q.Label(), templates.Sig(4, q.Estimate),
+				orDash(templates.Sig(4, q.Lower)), orDash(templates.Sig(4, q.Upper)), orDash(q.Method)})
+			styles = append(styles, style)
+		}
+		d.table([]column{{"family", 27, "L"}, {"quantity", 35, "L"}, {"estimate", 22, "R"}, {"lower", 22, "R"},
+			{"upper", 22, "R"}, {"interval", 52, "L"}}, rows, styles)
+	}
+
+	if len(notes) > 0 {
+		d.subheading("Notes")
+		for _, n := range notes {
+			d.font("", 8.5)
+			x := f.GetX()
+			f.CellFormat(4, 4.4, "–", "", 0, "L", false, 0, "")
+			f.MultiCell(textW-4, 4.4, n, "", "L", false)
+			f.SetX(x)
+		}
+	}
+
+	if len(a.Figures) > 0 {
+		d.subheading("Figures")
+		d.figures(i, a.Figures)
+	}
+}
+
+type column struct {
+	head  string
+	w     float64
+	align string
+}
+
+// table draws a booktabs-style table: rules above and below the header and
+// at the end, no vertical lines. A row that would cross the bottom margin
+// starts a new page with the header repeated. styles (optional) sets each
+// row's font style.
+func (d *doc) table(cols []column, rows [][]string, styles []string) {
+	f := d.f
+	x0 := margin
+	width := 0.0
+	for _, c := range cols {
+		width += c.w
+	}
+	header := func() {
+		f.SetLineWidth(0.35)
+		f.Line(x0, f.GetY(), x0+width, f.GetY())
+		f.SetX(x0)
+		d.font("B", 8.5)
+		for _, c := range cols {
+			d.fitCell(c.w, rowH+0.6, c.head, c.align, "B", 0)
+		}
+		f.Ln(rowH + 0.6)
+		f.SetLineWidth(0.2)
+		f.Line(x0, f.GetY(), x0+width, f.GetY())
+	}
+	if f.GetY()+2*rowH+2 > pageH-bottomMargin {
+		f.AddPage()
+	}
+	header()
+	for i, row := range rows {
+		if f.GetY()+rowH+1 > pageH-bottomMargin {
+			f.SetLineWidth(0.35)
+			f.Line(x0, f.GetY(), x0+width, f.GetY())
+			f.AddPage()
+			header()
+		}
+		style := ""
+		if i < len(styles) {
+			style = styles[i]
+		}
+		f.SetX(x0)
+		for j, c := range cols {
+			cell := ""
+			if j < len(row) {
+				cell = row[j]
+			}
+			d.font(style, 8.5)
+			d.fitCell(c.w, rowH, cell, c.align, style, 0)
+		}
+		f.Ln(rowH)
+	}
+	f.SetLineWidth(0.35)
+	f.Line(x0, f.GetY(), x0+width, f.GetY())
+	f.SetLineWidth(0.2)
+	f.Ln(1)
+}
+
+// fitCell writes s in a cell of width w without clipping: the font shrinks
+// (to 6 pt at least) until s fits, and past that s is cut with "…".
+func (d *doc) fitCell(w, h float64, s, align, style string, link int) {
+	f := d.f
+	size, _ := f.GetFontSize()
+	avail := w - 1.6
+	cur := size
+	for f.GetStringWidth(s) > avail && cur > 6 {
+		cur -= 0.5
+		f.SetFontSize(cur)
+	}
+	if f.GetStringWidth(s) > avail {
+		r := []rune(s)
+		for len(r) > 1 && f.GetStringWidth(string(r)+"…") > avail {
+			r = r[:len(r)-1]
+		}
+		s = string(r) + "…"
+	}
+	f.CellFormat(w, h, s, "", 0, align, false, link, "")
+	f.SetFontSize(size)
+}
+
+// figures places the figures two to a row, each with its caption beneath:
+// as vector graphics when drawn by RenderFigures, else as the PNG.
+func (d *doc) figures(i int, figs []Figure) {
+	f := d.f
+	const gap = 6.0
+	w := (textW - gap) / 2
+	for j := 0; j < len(figs); j += 2 {
+		pair := figs[j:min(j+2, len(figs))]
+		heights := make([]float64, len(pair))
+		rowHt := 0.0
+		for k, fig := range pair {
+			h := w * float64(figureHeight) / float64(figureWidth)
+			if fig.plot == nil {
+				info := f.RegisterImageOptionsReader(fmt.Sprintf("a%d-f%d", i, j+k), gofpdf.ImageOptions{ImageType: "PNG"}, bytes.NewReader(fig.PNG))
+				if f.Err() {
+					return
+				}
+				h = w * info.Height() / info.Width()
+			}
+			heights[k] = h
+			d.font("I", 7.5)
+			capH := float64(len(f.SplitText(fig.Caption, w))) * 3.6
+			rowHt = math.Max(rowHt, h+capH+2)
+		}
+		if f.GetY()+rowHt > pageH-bottomMargin {
+			f.AddPage()
+		}
+		y := f.GetY()
+		for k, fig := range pair {
+			x := margin + float64(k)*(w+gap)
+			if fig.plot != nil {
+				fig.plot.Draw(draw.New(newPDFCanvas(f, x, y, w, figureWidth, figureHeight)))
+				f.SetLineWidth(0.2)
+				f.SetDrawColor(0, 0, 0)
+				f.SetFillColor(255, 255, 255)
+			} else {
+				f.ImageOptions(fmt.Sprintf("a%d-f%d", i, j+k), x, y, w, heights[k], false, gofpdf.ImageOptions{ImageType: "PNG"}, 0, "")
+			}
+			f.SetXY(x, y+heights[k]+0.8)
+			d.font("I", 7.5)
+			f.MultiCell(w, 3.6, fig.Caption, "", "L", false)
+		}
+		f.SetXY(margin, y+rowHt+2)
+	}
+}

@@ -1,0 +1,189 @@
+package report
+
+import (
+	"bytes"
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+)
+
+// figuresOf renders an input's figures for embedding.
+func figuresOf(t testing.TB, in FigureInput) []Figure {
+	t.Helper()
+	figs, err := RenderFigures(slug(in.Analysis), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := make([]Figure, len(figs))
+	for i, f := range figs {
+		out[i] = f.ForPDF()
+	}
+	return out
+}
+
+// testReport builds a report of n analyses cycling through the seal, rain
+// and defect fixtures; figures are rendered once per fixture and reused.
+func testReport(t testing.TB, n int) *Report {
+	seal, rain := sealAnalysis(), rainAnalysis()
+	seal.Figures = figuresOf(t, sealFigures(1))
+	rain.Figures = figuresOf(t, rainFigures())
+	defects := Analysis{Name: "defects", Dataset: "defects", Units: "defects per batch", Discrete: true, Criterion: "aicc", Confidence: 0.95,
+		Summary: DataSummary{N: 60, Exact: 60, Min: 0, Median: 2, Max: 12},
+		Ranking: []Candidate{{Family: "negbinomial", Rank: 1, K: 2, LogLik: -120.5, Criterion: 245.2, Delta: 0, Weight: 0.98, Support: "substantial", Statistic: "chisq", AdequacyP: 0.31, Converged: true},
+			{Family: "poisson", Rank: 2, K: 1, LogLik: -126.4, Criterion: 254.9, Delta: 9.7, Weight: 0.02, Support: "little", Statistic: "chisq", AdequacyP: 0.01, Converged: true}},
+		Figures: figuresOf(t, defectFigures())}
+	base := []Analysis{seal, rain, defects}
+	r := &Report{
+		Name:        "millbrook-asset-review",
+		Description: "Demo with invented data: seal lives, storm rainfall, well nitrate and inspection defects.",
+		Identity: Identity{
+			TagManifestSHA256: strings.Repeat("3f9a", 16), SignerFingerprint: "SHA256:6bq0uZ1c0qJ1ZyT0yI8cVZ0o0k8XxkXo7jv0iSvx2mM",
+			Created: testCreated, GitCommit: "0123456789abcdef0123456789abcdef01234567", GitBranch: "main", GitDirty: true,
+			ToolVersion: "0.1.0", GoVersion: "go1.26.8", Platform: "linux/amd64",
+		},
+		Settings: Settings{Seed: 20261202, Criterion: "aicc", Confidence: 0.95, Intervals: "profile", Bootstrap: 199},
+	}
+	for i := range n {
+		a := base[i%3]
+		if n > 3 {
+			a.Name = fmt.Sprintf("%s/G-%03d", a.Name, i+1)
+		}
+		r.Analyses = append(r.Analyses, a)
+	}
+	return r
+}
+
+func TestRenderPDFDeterministic(t *testing.T) {
+	r := testReport(t, 3)
+	a, err := RenderPDF(r, PDFOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := RenderPDF(testReport(t, 3), PDFOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(a, b) {
+		t.Fatal("two renderings of the same report differ")
+	}
+	if !bytes.Contains(a, []byte("/CreationDate (D:20261202030405")) {
+		t.Error("the creation date is not the report's created time")
+	}
+	if bytes.Contains(a, []byte("/ID")) {
+		t.Error("the PDF carries a file identifier; it must hold nothing random")
+	}
+	if dir := os.Getenv("FITSEAL_KEEP_PDF"); dir != "" {
+		os.WriteFile(filepath.Join(dir, "report-3.pdf"), a, 0o644)
+	}
+}
+
+func pdftotext(t *testing.T, pdf []byte) string {
+	t.Helper()
+	bin, err := exec.LookPath("pdftotext")
+	if err != nil {
+		t.Skip("pdftotext (Debian's poppler-utils) is not installed")
+	}
+	file := filepath.Join(t.TempDir(), "r.pdf")
+	if err := os.WriteFile(file, pdf, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, err := exec.Command(bin, "-layout", file, "-").Output()
+	if err != nil {
+		t.Fatalf("pdftotext: %v", err)
+	}
+	return string(out)
+}
+
+func TestRenderPDFText(t *testing.T) {
+	r := testReport(t, 5)
+	pdf, err := RenderPDF(r, PDFOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := pdftotext(t, pdf)
+	flat := strings.Join(strings.Fields(text), " ")
+	for _, want := range []string{
+		"millbrook-asset-review", "Distribution fitting summary", strings.Repeat("3f9a", 16),
+		"SHA256:6bq0uZ1c0qJ1ZyT0yI8cVZ0o0k8XxkXo7jv0iSvx2mM", "2026-12-02 03:04:05 UTC",
+		"0123456789abcdef0123456789abcdef01234567 on main, with uncommitted changes (dirty)", "fitseal 0.1.0", "20261202",
+		"Contents", "Methods and cautions",
+		"same observations", "only the best of the candidates that were tried", "Do not attach significance tests",
+		"licensed professional", "Burnham & Anderson 2002",
+		"Ranking by AICc", "ΔAICc", "Ranking by AIC ", "ranked by AIC: AICc is undefined",
+		"Not ranked: lognormal: did not converge: iteration cap reached",
+		"0.415 (AD)", "P(X > 4000)", "model average", "return level 100 yr",
+		"page 1 of", "Bold rows: the top-ranked family.",
+	} {
+		if !strings.Contains(flat, want) {
+			t.Errorf("report text lacks %q", want)
+		}
+	}
+	for _, a := range r.Analyses {
+		if !strings.Contains(flat, a.Name) {
+			t.Errorf("report text lacks analysis %s", a.Name)
+		}
+	}
+	// The contents give each analysis the page its section starts on.
+	pages := strings.Split(text, "\f")
+	for i, a := range r.Analyses {
+		m := regexp.MustCompile(regexp.QuoteMeta(fmt.Sprintf("%d %s", i+1, a.Name)) + `.*?(\d+)\s*$`).FindStringSubmatch(strings.Join(strings.Fields(pageLine(pages[1], a.Name)), " "))
+		if m == nil {
+			t.Errorf("contents line for %s not found", a.Name)
+			continue
+		}
+		p, _ := strconv.Atoi(m[1])
+		if p < 1 || p > len(pages) || !strings.Contains(pages[p-1], fmt.Sprintf("%d  %s", i+1, a.Name)) && !strings.Contains(strings.Join(strings.Fields(pages[p-1]), " "), fmt.Sprintf("%d %s", i+1, a.Name)) {
+			t.Errorf("contents send %s to page %d, which does not start it", a.Name, p)
+		}
+	}
+}
+
+func pageLine(page, name string) string {
+	for _, l := range strings.Split(page, "\n") {
+		if strings.Contains(l, name) {
+			return l
+		}
+	}
+	return ""
+}
+
+// TestRenderPDFHundredAnalyses measures the layout of a 100-analysis report
+// (figures rendered once and reused; figure rendering is measured in
+// BenchmarkRenderFigures). FITSEAL_KEEP_PDF=DIR keeps the file.
+func TestRenderPDFHundredAnalyses(t *testing.T) {
+	r := testReport(t, 100)
+	start := time.Now()
+	pdf, err := RenderPDF(r, PDFOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	took := time.Since(start)
+	t.Logf("100 analyses: %d bytes in %v", len(pdf), took)
+	if took > 60*time.Second {
+		t.Errorf("100 analyses took %v; the report must stay fast", took)
+	}
+	if dir := os.Getenv("FITSEAL_KEEP_PDF"); dir != "" {
+		os.WriteFile(filepath.Join(dir, "report-100.pdf"), pdf, 0o644)
+	}
+	text := pdftotext(t, pdf)
+	for _, a := range []string{"seal-life/G-001", "storm_rainfall/G-050", "defects/G-099"} {
+		if !strings.Contains(text, a) {
+			t.Errorf("no %s in the 100-analysis report", a)
+		}
+	}
+}
+
+func BenchmarkRenderFigures(b *testing.B) {
+	in := sealFigures(1)
+	for b.Loop() {
+		if _, err := RenderFigures("x", in); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
