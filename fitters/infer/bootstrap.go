@@ -24,6 +24,9 @@ type BootstrapOptions struct {
 	// Fit holds the refit settings (tolerance, iterations). Parameters fixed
 	// in the original fit are held at the same values in every refit.
 	Fit fitters.Options
+	// NoStatistics skips the goodness-of-fit statistics of each replicate,
+	// for replicates that serve intervals only.
+	NoStatistics bool
 }
 
 // ErrBootstrapNotApplicable is matched by the error Bootstrap returns for
@@ -39,7 +42,7 @@ type Replicates struct {
 	// refit failed or did not converge.
 	Estimates [][]float64
 	// Statistics[r] are the statistics named StatNames for replicate r
-	// (nil when it failed).
+	// (nil when it failed, or when they were not asked for).
 	StatNames  []string
 	Statistics [][]float64
 	// Failed counts replicates whose refit failed or did not converge;
@@ -161,6 +164,9 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				row := est[r*k : (r+1)*k]
 				copy(row, refit.Estimates)
 				rep.Estimates[r] = row
+				if opt.NoStatistics {
+					continue
+				}
 				slices.Sort(sorted)
 				srow := stats[r*len(names) : (r+1)*len(names)]
 				if fam.Kind() == fitters.Discrete {

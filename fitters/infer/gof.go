@@ -45,6 +45,7 @@ func CheckFit(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootstr
 	if err != nil || !g.Applicable || opt.Replicates <= 0 {
 		return g, err
 	}
+	opt.NoStatistics = false
 	rep, err := Bootstrap(fam, fit, d, opt)
 	if err != nil {
 		return nil, err
@@ -78,6 +79,8 @@ func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
 		s.Replicates = b
 		if b > 0 {
 			s.PValue = float64(r+1) / float64(b+1)
+		} else if rep.Succeeded() > 0 {
+			s.Note = "the replicates were drawn without statistics (BootstrapOptions.NoStatistics): no p-value"
 		}
 		if rep.Failed > 0 {
 			s.Note = joinNote(s.Note, fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure))

@@ -1,0 +1,251 @@
+package infer
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"runtime"
+	"strconv"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"testing"
+	"time"
+
+	"fitseal/fitters"
+)
+
+// coverageCase is one family of the coverage study: the true parameters,
+// the parameter whose intervals are checked, and the 0.99 quantile.
+type coverageCase struct {
+	family string
+	truth  []float64
+	param  int
+}
+
+var coverageCases = []coverageCase{
+	{"exponential", []float64{0.5}, 0},
+	{"normal", []float64{10, 2}, 1},
+	{"gamma", []float64{2, 0.5}, 0},
+	{"weibull", []float64{1.5, 100}, 0},
+	{"gev", []float64{10, 2, 0.1}, 2},
+}
+
+// coverageCell counts, for one family, n, quantity and method, the
+// datasets whose interval covered the truth.
+type coverageCell struct {
+	family, quantity, method string
+	n, covered, noInterval   int
+	datasets, failedFits     int
+}
+
+var methods = []Method{MethodWald, MethodProfile, MethodBootstrap}
+
+// runCoverage simulates `datasets` samples of size n from each case
+// (dataset i from Stream{Master: 2026, Analysis: "coverage/n", Family,
+// Purpose: "dataset"}), fits each, and counts how often the Wald, profile
+// and bootstrap (B replicates) intervals at 95% cover the true parameter
+// and the true 0.99 quantile. Datasets run in parallel; the counts do not
+// depend on the number of workers.
+func runCoverage(t testing.TB, cases []coverageCase, ns []int, datasets, B int) []coverageCell {
+	var out []coverageCell
+	for _, c := range cases {
+		fam := family(t, c.family)
+		truthDist, err := fam.New(c.truth)
+		if err != nil {
+			t.Fatal(err)
+		}
+		q99 := truthDist.Quantile(0.99)
+		for _, n := range ns {
+			stream := Stream{Master: 2026, Analysis: "coverage/" + strconv.Itoa(n), Family: c.family, Purpose: "dataset"}
+			// covered[i][m] for the parameter (m) and the quantile (3+m); -1 no interval.
+			res := make([][6]int, datasets)
+			failed := make([]bool, datasets)
+			var next atomic.Int64
+			var wg sync.WaitGroup
+			for w := 0; w < runtime.GOMAXPROCS(0); w++ {
+				wg.Add(1)
+				go func() {
+					defer wg.Done()
+					x := make([]float64, n)
+					for {
+						i := int(next.Add(1) - 1)
+						if i >= datasets {
+							return
+						}
+						r := stream.Rand(i)
+						for j := range x {
+							x[j] = truthDist.Rand(r)
+						}
+						d := fitters.Complete(append([]float64(nil), x...))
+						fit, err := fam.Fit(d, fitters.Options{})
+						if err != nil || !fit.Converged {
+							failed[i] = true
+							continue
+						}
+						s := Settings{Level: 0.95, Bootstrap: BootstrapOptions{Replicates: B, Workers: 1, NoStatistics: true,
+							Stream: Stream{Master: 2026, Analysis: stream.Analysis + "/" + strconv.Itoa(i), Family: c.family}}}
+						for m, method := range methods {
+							rows, _ := Intervals(fam, fit, d, method, s)
+							res[i][m] = covers(rows[c.param].Lower, rows[c.param].Upper, c.truth[c.param])
+							dv, _ := Derived(fam, fit, d, Quantile, 0.99, method, s)
+							res[i][3+m] = covers(dv.Lower, dv.Upper, q99)
+						}
+					}
+				}()
+			}
+			wg.Wait()
+			for k := 0; k < 6; k++ {
+				cell := coverageCell{family: c.family, n: n, datasets: datasets, method: string(methods[k%3]),
+					quantity: fam.Parameters()[c.param]}
+				if k >= 3 {
+					cell.quantity = "quantile 0.99"
+				}
+				for i := range res {
+					switch {
+					case failed[i]:
+						if k == 0 {
+							cell.failedFits++
+						}
+					case res[i][k] == 1:
+						cell.covered++
+					case res[i][k] == -1:
+						cell.noInterval++
+					}
+				}
+				out = append(out, cell)
+			}
+		}
+	}
+	return out
+}
+
+func covers(lo, hi, truth float64) int {
+	if math.IsNaN(lo) || math.IsNaN(hi) {
+		return -1
+	}
+	if lo <= truth && truth <= hi {
+		return 1
+	}
+	return 0
+}
+
+// TestCoverageSmoke is the small version of the coverage study that runs
+// with every `+"`make test`"+`: 60 exponential and normal datasets of n = 15 and
+// 50, B = 99. At 95% nominal coverage, fewer than 50 of 60 covered has
+// probability below 0.1% (binomial), so a broken interval shows. At n = 15
+// only the profile intervals are held to that: Wald and percentile-bootstrap
+// intervals under-cover there (for the normal σ the percentile bootstrap's
+// coverage is P(χ²₁₄ ≥ 8.61) ≈ 0.86 in theory), and are only required to
+// cover 40 of 60.
+func TestCoverageSmoke(t *testing.T) {
+	cells := runCoverage(t, coverageCases[:2], []int{15, 50}, 60, 99)
+	for _, c := range cells {
+		if c.failedFits > 0 || c.noInterval > 0 {
+			t.Errorf("%s n=%d %s %s: %d failed fits, %d without interval", c.family, c.n, c.quantity, c.method, c.failedFits, c.noInterval)
+		}
+		least := 50
+		if c.n == 15 && c.method != string(MethodProfile) {
+			least = 40
+		}
+		if c.covered < least {
+			t.Errorf("%s n=%d %s %s: covered %d of 60, want at least %d", c.family, c.n, c.quantity, c.method, c.covered, least)
+		}
+	}
+}
+
+// TestCoverageLong is the coverage study of docs/COVERAGE.md: 400 datasets
+// for each family and n ∈ {15, 50, 200}, B = 199 bootstrap replicates.
+// It runs with FITSEAL_LONG=1 (make check-long) and rewrites the note.
+func TestCoverageLong(t *testing.T) {
+	if os.Getenv("FITSEAL_LONG") != "1" {
+		t.Skip("long study: set FITSEAL_LONG=1")
+	}
+	const datasets, B = 400, 199
+	start := time.Now()
+	cells := runCoverage(t, coverageCases, []int{15, 50, 200}, datasets, B)
+	elapsed := time.Since(start)
+	if err := os.WriteFile("../../docs/COVERAGE.md", []byte(coverageReport(cells, datasets, B, elapsed)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	// Profile and bootstrap intervals for n ≥ 50 must be within three
+	// binomial standard errors of 95%.
+	se := math.Sqrt(0.95 * 0.05 / datasets)
+	for _, c := range cells {
+		if c.n < 50 || c.method == string(MethodWald) {
+			continue
+		}
+		used := c.datasets - c.failedFits
+		if p := float64(c.covered) / float64(used); math.Abs(p-0.95) > 3*se {
+			t.Errorf("%s n=%d %s %s: coverage %.3f", c.family, c.n, c.quantity, c.method, p)
+		}
+	}
+}
+
+func coverageReport(cells []coverageCell, datasets, B int, elapsed time.Duration) string {
+	var b strings.Builder
+	se := math.Sqrt(0.95 * 0.05 / float64(datasets))
+	fmt.Fprintf(&b, `# Coverage of fitseal's 95%% intervals
+
+Written by TestCoverageLong in fitters/infer/coverage_test.go
+(`+"`FITSEAL_LONG=1 go test ./fitters/infer -run TestCoverageLong -timeout 3h`"+`;
+%d datasets per family and n; bootstrap with B = %d; %s on this machine).
+
+Each dataset of size n is drawn from the family with the true parameters
+below (seeded: dataset i of family F at size n uses the stream
+"2026|coverage/n|F|dataset|i"), fitted by maximum likelihood, and given 95%%
+intervals for one parameter and for the 0.99 quantile by three methods:
+Wald (delta method for the quantile; on the log scale for positive
+quantities), profile likelihood, and parametric-bootstrap percentiles.
+The table gives the share of datasets whose interval contains the truth.
+With %d datasets the binomial standard error at 95%% is %.1f percentage
+points, so anything within 95 ± %.1f (two standard errors) is as good as
+nominal.
+
+| family | truth | n | quantity | Wald | profile | bootstrap | failed fits |
+|---|---|---|---|---|---|---|---|
+`, datasets, B, elapsed.Round(time.Second), datasets, 100*se, 200*se)
+	for i := 0; i < len(cells); i += 3 {
+		c := cells[i]
+		cs := cells[i : i+3]
+		truth := ""
+		for _, cc := range coverageCases {
+			if cc.family == c.family {
+				var parts []string
+				fam, _ := fitters.Lookup(cc.family)
+				for k, v := range cc.truth {
+					parts = append(parts, fam.Parameters()[k]+" = "+strconv.FormatFloat(v, 'g', -1, 64))
+				}
+				truth = strings.Join(parts, ", ")
+			}
+		}
+		fmt.Fprintf(&b, "| %s | %s | %d | %s | %s | %s | %s | %d |\n", c.family, truth, c.n, c.quantity,
+			pct(cs[0]), pct(cs[1]), pct(cs[2]), c.failedFits)
+	}
+	b.WriteString(`
+A cell reads "covered %" and, where some datasets gave no interval (a
+singular information, a failed profile), "(k without)". Datasets whose fit
+failed are left out of every method alike.
+
+## Reading it
+
+- Wald intervals are the large-sample approximation: at n = 15 they
+  under-cover for the skewed quantities (shape parameters, the 0.99
+  quantile, the GEV shape), which is why fitseal's default is the profile
+  likelihood. The log scale already repairs most of the under-coverage of
+  positive scale-type parameters.
+- Profile-likelihood intervals stay close to nominal from n = 15 on.
+- Percentile-bootstrap intervals inherit the bias of the estimator at
+  small n (for example the GEV shape); they are close to nominal at n = 200.
+`)
+	return b.String()
+}
+
+func pct(c coverageCell) string {
+	used := c.datasets - c.failedFits
+	s := strconv.FormatFloat(100*float64(c.covered)/float64(used), 'f', 1, 64)
+	if c.noInterval > 0 {
+		s += fmt.Sprintf(" (%d without)", c.noInterval)
+	}
+	return s
+}
