@@ -1,6 +1,7 @@
 #!/usr/bin/python3
 """Reference maxima and spot values for the multi-parameter families of fitseal
-(gev, gpd, beta, studentt, weibull3, lognormal3), computed with Debian's scipy.
+(gev, gpd, beta, studentt, weibull3, lognormal3), computed with Debian's scipy
+(and, for the beta and Student t spot values in the far tails, mpmath at 60 digits).
 
 Run: /usr/bin/python3 testdata/families/make_multi.py   (from the repository root)
 Writes testdata/families/<family>.json.
@@ -18,6 +19,7 @@ import json
 import os
 import sys
 
+import mpmath
 import numpy as np
 import scipy
 from scipy import optimize, stats
@@ -60,6 +62,36 @@ def spots(dist, xs, ps):
                     "logsf": float(dist.logsf(x))})
     qs = [{"p": float(p), "x": float(dist.ppf(p))} for p in ps]
     return out, qs
+
+
+def mp_beta_points(a, b, xs):
+    """Beta log-density, log-CDF and log-survival by mpmath at 60 digits
+    (scipy's own logcdf underflows to -inf in the far tails)."""
+    mpmath.mp.dps = 60
+    out = []
+    for x in xs:
+        X, A, B = mpmath.mpf(x), mpmath.mpf(a), mpmath.mpf(b)
+        lp = (A - 1) * mpmath.log(X) + (B - 1) * mpmath.log(1 - X) - mpmath.log(mpmath.beta(A, B))
+        lc = mpmath.log(mpmath.betainc(A, B, 0, X, regularized=True))
+        ls = mpmath.log(mpmath.betainc(B, A, 0, 1 - X, regularized=True))
+        out.append({"x": float(x), "logpdf": float(lp), "logcdf": float(lc), "logsf": float(ls)})
+    return out
+
+
+def mp_t_points(mu, sig, df, xs):
+    """Student t log-density, log-CDF and log-survival by mpmath at 60 digits,
+    through F(t) = I_{ν/(ν+t²)}(ν/2, 1/2)/2 for t < 0."""
+    mpmath.mp.dps = 60
+    out = []
+    nu = mpmath.mpf(df)
+    for x in xs:
+        t = (mpmath.mpf(x) - mpmath.mpf(mu)) / mpmath.mpf(sig)
+        lp = (mpmath.loggamma((nu + 1) / 2) - mpmath.loggamma(nu / 2) - mpmath.log(nu * mpmath.pi) / 2
+              - mpmath.log(mpmath.mpf(sig)) - (nu + 1) / 2 * mpmath.log(1 + t * t / nu))
+        tail = mpmath.betainc(nu / 2, mpmath.mpf(1) / 2, 0, nu / (nu + t * t), regularized=True) / 2
+        lo, hi = (tail, 1 - tail) if t < 0 else (1 - tail, tail)
+        out.append({"x": float(x), "logpdf": float(lp), "logcdf": float(mpmath.log(lo)), "logsf": float(mpmath.log(hi))})
+    return out
 
 
 def write(family, cases, spotcases):
@@ -129,7 +161,7 @@ def gpd():
         d = stats.genpareto(xi, loc=u, scale=sig)
         xs = [u + 1e-8, u + 0.5 * sig, u + 2 * sig, u + 40 * sig]
         if xi < 0:
-            xs = [u + 1e-8, u + 0.5 * sig, u + 2 * sig, u + 4.9 * sig]
+            xs = [u + 1e-8, u + 0.5 * sig, u + 2 * sig, u + 2.45 * sig]
         pts, qs = spots(d, xs, [1e-12, 0.01, 0.5, 0.99, 1 - 1e-12])
         sp.append({"params": [sig, xi, u], "points": pts, "quantiles": qs})
     write("gpd", cases, sp)
@@ -154,7 +186,8 @@ def beta():
     for a, b in [(2.0, 5.0), (0.5, 0.5), (30.0, 0.8), (200.0, 300.0)]:
         d = stats.beta(a, b)
         xs = [1e-200, 1e-8, 0.01, 0.3, 0.5, 0.9, 1 - 1e-9]
-        pts, qs = spots(d, xs, [1e-12, 0.01, 0.5, 0.99, 1 - 1e-12])
+        _, qs = spots(d, [], [1e-12, 0.01, 0.5, 0.99, 1 - 1e-12])
+        pts = mp_beta_points(a, b, xs)
         sp.append({"params": [a, b], "points": pts, "quantiles": qs})
     write("beta", cases, sp)
 
@@ -183,7 +216,8 @@ def studentt():
     for mu, sig, df in [(0.0, 1.0, 4.0), (1.0, 2.0, 1.0), (0.0, 1.0, 50.0), (1e7, 0.1, 6.0)]:
         d = stats.t(df, loc=mu, scale=sig)
         xs = [mu - 1e6 * sig, mu - 40 * sig, mu - sig, mu, mu + 1e-3 * sig, mu + 3 * sig, mu + 1e8 * sig]
-        pts, qs = spots(d, xs, [1e-12, 0.01, 0.4999, 0.5, 0.99, 1 - 1e-12])
+        _, qs = spots(d, [], [1e-12, 0.01, 0.4999, 0.5, 0.99, 1 - 1e-12])
+        pts = mp_t_points(mu, sig, df, xs)
         sp.append({"params": [mu, sig, df], "points": pts, "quantiles": qs})
     write("studentt", cases, sp)
 

@@ -1,0 +1,147 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+
+	"gonum.org/v1/gonum/mathext"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Beta is the beta distribution of a proportion with shapes Alpha = α > 0
+// and Beta = β > 0:
+//
+//	f(x) = x^(α−1) (1−x)^(β−1) / B(α, β),  0 < x < 1,
+//
+// F(x) = I_x(α, β), the regularised incomplete beta function, and
+// S(x) = I_(1−x)(β, α) by symmetry, so the upper tail keeps its digits.
+type Beta struct{ Alpha, Beta float64 }
+
+func (d Beta) LogPDF(x float64) float64 {
+	if !(x > 0 && x < 1) {
+		return math.Inf(-1)
+	}
+	return (d.Alpha-1)*math.Log(x) + (d.Beta-1)*math.Log1p(-x) - mathext.Lbeta(d.Alpha, d.Beta)
+}
+
+func (d Beta) LogCDF(x float64) float64 {
+	switch {
+	case x <= 0:
+		return math.Inf(-1)
+	case x >= 1:
+		return 0
+	}
+	return logRegIncBeta(d.Alpha, d.Beta, x, 1-x)
+}
+
+func (d Beta) LogSurvival(x float64) float64 {
+	switch {
+	case x <= 0:
+		return 0
+	case x >= 1:
+		return math.Inf(-1)
+	}
+	return logRegIncBeta(d.Beta, d.Alpha, 1-x, x)
+}
+
+// Quantile inverts I_x(α, β) = p, through the upper tail's I_(1−x)(β, α) =
+// 1 − p above p = 1/2.
+func (d Beta) Quantile(p float64) float64 {
+	switch {
+	case p < 0 || p > 1 || math.IsNaN(p):
+		return math.NaN()
+	case p > 0.5:
+		return 1 - mathext.InvRegIncBeta(d.Beta, d.Alpha, 1-p)
+	}
+	return mathext.InvRegIncBeta(d.Alpha, d.Beta, p)
+}
+
+func (d Beta) Rand(r *rand.Rand) float64 {
+	return distuv.Beta{Alpha: d.Alpha, Beta: d.Beta, Src: r}.Rand()
+}
+
+type betaFamily struct{}
+
+func init() { register(betaFamily{}) }
+
+func (betaFamily) Name() string         { return "beta" }
+func (betaFamily) Parameters() []string { return []string{"alpha", "beta"} }
+func (betaFamily) Kind() Kind           { return Continuous }
+func (betaFamily) Support() string      { return "0 < x < 1" }
+func (betaFamily) Route() string {
+	return "BFGS on (log alpha, log beta) with analytic score from the sufficient statistics Σ ln x and Σ ln(1−x) (one pass), from moment and spread starts"
+}
+
+func (betaFamily) New(p []float64) (Dist, error) {
+	if len(p) != 2 {
+		panic("fitters: beta takes 2 parameters")
+	}
+	if !(p[0] > 0) || !(p[1] > 0) || math.IsInf(p[0], 1) || math.IsInf(p[1], 1) {
+		return nil, fmt.Errorf("beta: need alpha > 0 and beta > 0, got alpha=%v beta=%v", p[0], p[1])
+	}
+	return Beta{p[0], p[1]}, nil
+}
+
+func (f betaFamily) LogLik(p []float64, d *Data) float64 { return logLikOf(f, p, d) }
+
+func (f betaFamily) Applicable(d *Data, fixed Fixed) error {
+	if err := noFixed(f.Name(), fixed); err != nil {
+		return err
+	}
+	for _, v := range d.Values() {
+		if !(v > 0 && v < 1) {
+			return inapplicable(f.Name(), "needs proportions strictly between 0 and 1, the data have %v", v)
+		}
+	}
+	return needDistinct(f.Name(), d, 2)
+}
+
+// betaNLL is −Σ ln f at θ = (ln α, ln β) from the sufficient statistics
+// s1 = Σ ln x and s2 = Σ ln(1−x) of n exact values, with the score
+// ∂ℓ/∂ln α = α(s1 − n(ψ(α) − ψ(α+β))) and likewise for β.
+func betaNLL(n, s1, s2 float64) exactNLL {
+	return func(theta, g []float64) float64 {
+		a, b := math.Exp(theta[0]), math.Exp(theta[1])
+		if a == 0 || b == 0 || math.IsInf(a, 1) || math.IsInf(b, 1) {
+			return math.Inf(1)
+		}
+		if g != nil && n > 0 {
+			pab := mathext.Digamma(a + b)
+			g[0] = -a * (s1 - n*(mathext.Digamma(a)-pab))
+			g[1] = -b * (s2 - n*(mathext.Digamma(b)-pab))
+		} else if g != nil {
+			g[0], g[1] = 0, 0
+		}
+		if n == 0 {
+			return 0
+		}
+		return -((a-1)*s1 + (b-1)*s2 - n*mathext.Lbeta(a, b))
+	}
+}
+
+func (f betaFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if err := f.Applicable(d, opt.Fixed); err != nil {
+		return nil, err
+	}
+	fit := newFit(f, d)
+	var s1, s2 float64
+	for _, x := range d.Exact {
+		s1 += math.Log(x)
+		s2 += math.Log1p(-x)
+	}
+	m, v := meanVar(d.Values())
+	var starts [][]float64
+	if c := m*(1-m)/v - 1; v > 0 && c > 0 {
+		starts = append(starts, []float64{math.Log(m * c), math.Log((1 - m) * c)})
+	}
+	starts = append(starts, []float64{0, 0}, []float64{math.Log(0.5), math.Log(0.5)}, []float64{math.Log(5 * m), math.Log(5 * (1 - m))})
+	dist := func(t []float64) Dist { return Beta{math.Exp(t[0]), math.Exp(t[1])} }
+	o := minimize(likelihoodProblem(2, betaNLL(float64(len(d.Exact)), s1, s2), dist, d), starts, opt)
+	var est []float64
+	if o.theta != nil {
+		est = []float64{math.Exp(o.theta[0]), math.Exp(o.theta[1])}
+	}
+	fit.setOptimum(o, est, "BFGS on (log alpha, log beta)")
+	return fit, nil
+}

@@ -1,0 +1,62 @@
+package fitters
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// Reference: testdata/families/beta.json (scipy beta, careful multi-start
+// maximisation; spot values by mpmath at 60 digits, make_multi.py).
+func TestBetaReferenceFits(t *testing.T) {
+	multiCheckFits(t, "beta", 1e-6, func(int, []float64) float64 { return 0 })
+}
+
+func TestBetaSpotValues(t *testing.T) { multiCheckSpots(t, "beta", 1e-9) }
+
+func TestBetaGradient(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 2))
+	var s1, s2 float64
+	for i := 0; i < 30; i++ {
+		x := Beta{2, 5}.Rand(r)
+		s1 += math.Log(x)
+		s2 += math.Log1p(-x)
+	}
+	for _, th := range [][]float64{{0, 0}, {math.Log(2), math.Log(5)}, {-1, 3}, {4, 4}} {
+		multiCheckGradient(t, "beta", betaNLL(30, s1, s2), th, 1e-6)
+	}
+	multiCheckRoundTrip(t, Beta{2, 5}, []float64{1e-6, 0.01, 0.3, 0.7, 0.99})
+	multiCheckRoundTrip(t, Beta{0.5, 0.5}, []float64{1e-9, 0.01, 0.5, 0.999999})
+}
+
+func TestBetaApplicable(t *testing.T) {
+	for _, x := range [][]float64{{0, 0.5, 0.7}, {0.2, 1, 0.4}, {0.2, -0.1}, {0.3}} {
+		if err := (betaFamily{}).Applicable(Complete(x), nil); !errors.Is(err, ErrInapplicable) {
+			t.Errorf("%v: got %v, want an InapplicableError", x, err)
+		}
+	}
+}
+
+func TestBetaCensored(t *testing.T) {
+	// Non-detects below 0.05 and interval-censored values, as proportions
+	// are often reported; the fit converges and is a local maximum.
+	ref := loadMultiRef(t, "beta")
+	d := &Data{}
+	for i, v := range ref.Cases[0].Data {
+		switch {
+		case v < 0.1:
+			d.Left = append(d.Left, 0.1)
+		case i%7 == 0:
+			d.Lower = append(d.Lower, math.Floor(v*10)/10)
+			d.Upper = append(d.Upper, math.Floor(v*10)/10+0.1)
+		default:
+			d.Exact = append(d.Exact, v)
+		}
+	}
+	fit, err := betaFamily{}.Fit(d, Options{})
+	if err != nil || !fit.Converged {
+		t.Fatalf("err %v fit %+v", err, fit)
+	}
+	multiCheckNearby(t, betaFamily{}, fit, d)
+}
