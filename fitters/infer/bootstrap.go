@@ -64,14 +64,17 @@ func statNames(kind fitters.Kind) []string {
 
 // bootstrapApplicable says whether d can be simulated from a fitted model:
 // complete data only (simulating censored data needs the censoring
-// mechanism, which the data do not record), and no per-observation trials.
-func bootstrapApplicable(d *fitters.Data) error {
+// mechanism, which the data do not record), and per-observation trials only
+// for the binomial-type families.
+func bootstrapApplicable(d *fitters.Data, dist fitters.Dist) error {
 	if !d.IsComplete() {
 		return fmt.Errorf("%w: %d of %d observations are censored, and simulating censored data needs the censoring mechanism, which the data do not record",
 			ErrBootstrapNotApplicable, d.NCensored(), d.N())
 	}
 	if d.Trials != nil {
-		return fmt.Errorf("%w: observations with their own numbers of trials are not simulated yet", ErrBootstrapNotApplicable)
+		if _, ok := withTrials(dist, 1); !ok {
+			return fmt.Errorf("%w: the data give numbers of trials, which this family does not take", ErrBootstrapNotApplicable)
+		}
 	}
 	if len(d.Exact) == 0 {
 		return fmt.Errorf("%w: no observations", ErrBootstrapNotApplicable)
@@ -88,15 +91,23 @@ func bootstrapApplicable(d *fitters.Data) error {
 // any number of workers. Each worker reuses its sample, sort and cell
 // buffers and its generator; the refit itself allocates.
 func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt BootstrapOptions) (*Replicates, error) {
-	if err := bootstrapApplicable(d); err != nil {
-		return nil, err
-	}
 	if !fit.Converged {
 		return nil, fmt.Errorf("%s: the fit did not converge; there is no model to simulate from", fam.Name())
 	}
 	dist, err := fam.New(fit.Estimates)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", fam.Name(), err)
+	}
+	if err := bootstrapApplicable(d, dist); err != nil {
+		return nil, err
+	}
+	// Observations with their own numbers of trials are simulated from the
+	// member with those trials, one member per distinct number.
+	var groups *trialGroups
+	var simDists []component
+	if d.Trials != nil {
+		groups = groupTrials(d.Trials)
+		simDists, _ = groups.components(dist, nil)
 	}
 	B := opt.Replicates
 	if B <= 0 {
@@ -133,8 +144,9 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			sample := make([]float64, n)
 			sorted := make([]float64, n)
 			logF, logS := make([]float64, n), make([]float64, n)
-			sim := &fitters.Data{}
+			sim := &fitters.Data{Trials: d.Trials}
 			var c cells
+			comps := make([]component, 0, 8)
 			var edf [3]float64
 			for {
 				r := int(next.Add(1) - 1)
@@ -142,8 +154,14 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 					return
 				}
 				stream.reseed(pcg, r)
-				for i := range sample {
-					sample[i] = dist.Rand(rng)
+				if groups == nil {
+					for i := range sample {
+						sample[i] = dist.Rand(rng)
+					}
+				} else {
+					for i := range sample {
+						sample[i] = simDists[groups.index[i]].dist.Rand(rng)
+					}
 				}
 				copy(sorted, sample)
 				sim.Exact = sample
@@ -170,7 +188,12 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				slices.Sort(sorted)
 				srow := stats[r*len(names) : (r+1)*len(names)]
 				if fam.Kind() == fitters.Discrete {
-					srow[0], _ = chiSquareCounts(rd, sorted, &c)
+					if groups != nil {
+						comps, _ = groups.components(rd, comps)
+					} else {
+						comps = append(comps[:0], component{rd, float64(n)})
+					}
+					srow[0], _ = chiSquareCounts(comps, sorted, &c)
 				} else {
 					edfStatistics(rd, sorted, logF, logS, &edf)
 					copy(srow, edf[:])

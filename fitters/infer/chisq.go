@@ -1,10 +1,6 @@
 package infer
 
-import (
-	"math"
-
-	"fitseal/fitters"
-)
+import "math"
 
 // minExpected is the smallest expected count of a pooled cell: 5, common
 // practice (Cochran, 1954).
@@ -16,13 +12,14 @@ type cells struct {
 }
 
 // chiSquareCounts returns Pearson's X² = Σ (O − E)²/E of a sorted complete
-// sample of counts against a discrete distribution, with cells 0, 1, …,
+// sample of counts against a discrete distribution (for observations with
+// their own numbers of trials, a sum of components: E = Σ wⱼ Pⱼ(cell) over
+// the groups of equal trials), with cells 0, 1, …,
 // m − 1 and "≥ m" (m the largest count), adjacent cells pooled from the
 // left until each expected count is at least 5 (the last, short one
 // joined to its neighbour), and the number of pooled cells. A sample whose
 // cells all pool into one gives X² = 0 with one cell: no test.
-func chiSquareCounts(d fitters.Dist, x []float64, c *cells) (float64, int) {
-	n := float64(len(x))
+func chiSquareCounts(comps []component, x []float64, c *cells) (float64, int) {
 	m := x[len(x)-1]
 	c.obs, c.exp = c.obs[:0], c.exp[:0]
 	var o, e float64
@@ -32,11 +29,15 @@ func chiSquareCounts(d fitters.Dist, x []float64, c *cells) (float64, int) {
 			o++
 			j++
 		}
-		if v < m {
-			e += n * math.Exp(d.LogPDF(v))
-		} else {
-			// the last cell is X ≥ m: P(X > m − 1)
-			e += n * math.Exp(d.LogSurvival(m-1))
+		for _, cp := range comps {
+			if v < m {
+				e += cp.weight * math.Exp(cp.dist.LogPDF(v))
+			} else {
+				// the last cell is X ≥ m: P(X > m − 1)
+				e += cp.weight * math.Exp(cp.dist.LogSurvival(m-1))
+			}
+		}
+		if v == m {
 			o += float64(len(x) - j)
 		}
 		if e >= minExpected {

@@ -131,6 +131,10 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 		out.Note = "the fit did not converge: no estimate"
 		return out, nil
 	}
+	if d.Trials != nil {
+		out.Note = "each observation has its own number of trials, so the quantity has no single value: not given"
+		return out, nil
+	}
 	out.Estimate = g(fit.Estimates)
 	if math.IsNaN(out.Estimate) {
 		out.Note = "the quantity is not defined for this fit"

@@ -94,8 +94,6 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 	switch {
 	case !d.IsComplete():
 		return &GoodnessOfFit{Reason: NotApplicableCensored}, nil
-	case d.Trials != nil:
-		return &GoodnessOfFit{Reason: "counts with their own numbers of trials: the pooled chi-square needs one distribution for all cells, and fitseal gives no goodness-of-fit statistic for these data"}, nil
 	case len(d.Exact) == 0:
 		return &GoodnessOfFit{Reason: "no observations"}, nil
 	case !fit.Converged:
@@ -109,8 +107,15 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 	slices.Sort(x)
 	g := &GoodnessOfFit{Applicable: true}
 	if fam.Kind() == fitters.Discrete {
+		comps := []component{{dist, float64(len(x))}}
+		if d.Trials != nil {
+			var ok bool
+			if comps, ok = groupTrials(d.Trials).components(dist, nil); !ok {
+				return &GoodnessOfFit{Reason: "the data give numbers of trials, which this family does not take"}, nil
+			}
+		}
 		var c cells
-		v, nc := chiSquareCounts(dist, x, &c)
+		v, nc := chiSquareCounts(comps, x, &c)
 		s := Statistic{Name: ChiSquare, Value: v, PValue: math.NaN(),
 			Note: fmt.Sprintf("%d cells after pooling to expected counts ≥ %d (common practice)", nc, minExpected)}
 		if nc < 2 {

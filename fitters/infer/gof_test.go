@@ -27,6 +27,7 @@ type edfCase struct {
 	Value, PValue float64
 	Replicates    int       `json:"replicates"`
 	Fitted        []float64 `json:"fitted"`
+	Trials        []int     `json:"trials"`
 }
 
 func loadCases(t *testing.T, file string) (cases, chisq []edfCase) {
@@ -73,8 +74,14 @@ func TestEDFStatisticsAgainstScipy(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
+		comps := []component{{d, float64(len(c.X))}}
+		if c.Trials != nil {
+			comps, _ = groupTrials(c.Trials).components(d, nil)
+		}
+		x := slices.Clone(c.X)
+		slices.Sort(x)
 		var cl cells
-		got, n := chiSquareCounts(d, c.X, &cl)
+		got, n := chiSquareCounts(comps, x, &cl)
 		if n != c.Cells || !close(got, c.Chisq, 1e-9) {
 			t.Errorf("%s chi-square %.15g on %d cells, scipy.stats.chisquare %.15g on %d", c.Data, got, n, c.Chisq, c.Cells)
 		}
@@ -156,32 +163,41 @@ func replicateBytes(r *Replicates) []byte {
 // TestBootstrapDeterministicAcrossWorkers: 1, 2 and 8 workers give the
 // same bytes, and a different master seed gives different ones.
 func TestBootstrapDeterministicAcrossWorkers(t *testing.T) {
-	for _, name := range []string{"gamma", "weibull", "poisson"} {
-		fam := family(t, name)
-		x := ballBearings
-		if name == "poisson" {
-			x = []float64{0, 1, 1, 2, 0, 3, 1, 0, 2, 1, 4, 0, 1, 2, 1}
-		}
-		d := fitters.Complete(x)
+	counts := []float64{0, 1, 1, 2, 0, 3, 1, 0, 2, 1, 4, 0, 1, 2, 1}
+	trials := []int{4, 4, 5, 5, 3, 6, 4, 2, 5, 5, 8, 3, 4, 6, 2}
+	for _, c := range []struct {
+		name string
+		data *fitters.Data
+	}{
+		{"gamma", fitters.Complete(ballBearings)},
+		{"weibull", fitters.Complete(ballBearings)},
+		{"poisson", fitters.Complete(counts)},
+		{"binomial", &fitters.Data{Exact: counts, Trials: trials}},
+	} {
+		fam := family(t, c.name)
+		d := c.data
 		fit := fitOf(t, fam, d)
 		var first []byte
 		for _, w := range []int{1, 2, 8} {
 			rep, err := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 64, Workers: w,
-				Stream: Stream{Master: 7, Analysis: "a", Family: name}})
+				Stream: Stream{Master: 7, Analysis: "a", Family: c.name}})
 			if err != nil {
 				t.Fatal(err)
+			}
+			if rep.Failed > 0 {
+				t.Errorf("%s: %d replicates failed: %s", c.name, rep.Failed, rep.FirstFailure)
 			}
 			b := replicateBytes(rep)
 			if first == nil {
 				first = b
 			} else if !bytes.Equal(b, first) {
-				t.Errorf("%s: %d workers give different replicates", name, w)
+				t.Errorf("%s: %d workers give different replicates", c.name, w)
 			}
 		}
 		rep, _ := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 64, Workers: 2,
-			Stream: Stream{Master: 8, Analysis: "a", Family: name}})
+			Stream: Stream{Master: 8, Analysis: "a", Family: c.name}})
 		if bytes.Equal(replicateBytes(rep), first) {
-			t.Errorf("%s: master seed 8 gives the replicates of seed 7", name)
+			t.Errorf("%s: master seed 8 gives the replicates of seed 7", c.name)
 		}
 	}
 }

@@ -104,10 +104,32 @@ def pooled(x, d):
     return obs, exp
 
 
+def pooled_trials(x, trials, p):
+    m = max(x)
+    obs, exp, o, e = [], [], 0.0, 0.0
+    for v in range(m + 1):
+        o += sum(1 for y in x if y == v)
+        e += math.fsum(stats.binom(t, p).pmf(v) if v < m else stats.binom(t, p).sf(m - 1) for t in trials)
+        if e >= 5:
+            obs.append(o); exp.append(e); o, e = 0.0, 0.0
+    if o > 0 or e > 0:
+        obs[-1] += o; exp[-1] += e
+    return obs, exp
+
+
+# Binomial counts with their own numbers of trials (40 rows drawn from a fixed
+# generator; test data only): expected counts sum the binomial of every row.
+TRIALS = [int(v) for v in rng.integers(5, 13, 40)]
+SUCC = [int(v) for v in rng.binomial(TRIALS, 0.3)]
+tobs, texp = pooled_trials(SUCC, TRIALS, 0.3)
+
 obs, exp = pooled(KICKS, stats.poisson(0.61))
 out["chisq"] = [{"data": "horse-kicks", "x": KICKS, "family": "poisson", "params": [0.61],
                  "cells": len(obs), "observed": obs, "expected": exp,
-                 "chisq": float(stats.chisquare(obs, exp).statistic)}]
+                 "chisq": float(stats.chisquare(obs, exp).statistic)},
+                {"data": "drawn-binomial", "x": SUCC, "trials": TRIALS, "family": "binomial", "params": [0.3],
+                 "cells": len(tobs), "observed": tobs, "expected": texp,
+                 "chisq": float(stats.chisquare(tobs, texp).statistic)}]
 with open(os.path.join(HERE, "edf_statistics.json"), "w") as f:
     json.dump(out, f, indent=1)
     f.write("\n")
