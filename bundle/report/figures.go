@@ -454,6 +454,7 @@ func qqPlot(in FigureInput, pts []ProbPoint) (*plot.Plot, error) {
 	if err := addPoints(p, xys, "observations"); err != nil {
 		return nil, err
 	}
+	p.Legend.Left = true // the points run up the diagonal; the top-left is free
 	return p, nil
 }
 
@@ -489,6 +490,7 @@ func ppPlot(in FigureInput, pts []ProbPoint) (*plot.Plot, error) {
 	if err := addPoints(p, xys, "observations"); err != nil {
 		return nil, err
 	}
+	p.Legend.Left = true
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = 0, 1, 0, 1
 	return p, nil
 }
@@ -629,8 +631,9 @@ func profilePlot(in FigureInput, pr Profile) (*plot.Plot, error) {
 			p.Legend.Add(v.name, vl)
 		}
 	}
-	p.Legend.Top = false
-	p.Legend.YOffs = vg.Points(4)
+	// The curve peaks inside the range and falls towards both ends: the
+	// top-left corner is free.
+	p.Legend.Left = true
 	return p, nil
 }
 

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -244,7 +245,8 @@ func (d *doc) contents() {
 			f.AddPage()
 		}
 		d.fitCell(textW-20, rowH, e.title, "L", "", e.link)
-		f.CellFormat(20, rowH, e.alias, "", 1, "R", false, e.link, "")
+		// Left-aligned: the alias is wider than the number that replaces it.
+		f.CellFormat(20, rowH, e.alias, "", 1, "L", false, e.link, "")
 	}
 }
 
@@ -374,7 +376,7 @@ func (d *doc) analysis(i int) {
 	d.table([]column{{"n", 14, "R"}, {"exact", 16, "R"}, {"left-cens.", 19, "R"}, {"right-cens.", 20, "R"},
 		{"interval", 16, "R"}, {"missing", 16, "R"}, {"min", 22, "R"}, {"median", 22, "R"}, {"max", 22, "R"}},
 		[][]string{{strconv.Itoa(s.N), strconv.Itoa(s.Exact), strconv.Itoa(s.LeftCensored), strconv.Itoa(s.RightCensored),
-			strconv.Itoa(s.IntervalCensored), strconv.Itoa(s.Missing), templates.Sig(4, s.Min), templates.Sig(4, s.Median), templates.Sig(4, s.Max)}}, nil)
+			strconv.Itoa(s.IntervalCensored), strconv.Itoa(s.Missing), summaryNumber(a, s.Min), summaryNumber(a, s.Median), summaryNumber(a, s.Max)}}, nil)
 	d.font("", 8.5)
 	units := a.Units
 	if units == "" {
@@ -392,13 +394,28 @@ func (d *doc) analysis(i int) {
 	for _, c := range a.Fitted() {
 		p := templates.Fixed(3, c.AdequacyP)
 		if p != "" && c.Statistic != "" {
-			p += " (" + strings.ToUpper(c.Statistic) + ")"
+			p += " (" + statisticAbbreviation(c.Statistic) + ")"
 		}
 		rows = append(rows, []string{strconv.Itoa(c.Rank), c.Family, strconv.Itoa(c.K), templates.Fixed(2, c.LogLik),
 			templates.Fixed(2, c.Criterion), templates.Fixed(2, c.Delta), templates.Fixed(3, c.Weight), c.Support, orDash(p)})
 	}
 	d.table([]column{{"rank", 11, "R"}, {"family", 27, "L"}, {"k", 8, "R"}, {"ln L", 22, "R"}, {crit, 22, "R"},
 		{"Δ" + crit, 18, "R"}, {"weight", 15, "R"}, {"support", 29, "L"}, {"adequacy p", 28, "R"}}, rows, nil)
+	var used []string
+	for _, c := range a.Fitted() {
+		if c.Statistic != "" && !slices.Contains(used, c.Statistic) {
+			used = append(used, c.Statistic)
+		}
+	}
+	if len(used) > 0 {
+		var parts []string
+		for _, u := range used {
+			parts = append(parts, statisticAbbreviation(u)+": "+statisticName(u))
+		}
+		d.font("I", 7.5)
+		f.MultiCell(textW, 4, "Adequacy p: parametric-bootstrap p-value of the goodness-of-fit statistic ("+strings.Join(parts, "; ")+
+			"); – where not computed. Δ and weights compare the families of this analysis only.", "", "L", false)
+	}
 	var notes []string
 	if a.CriterionNote != "" {
 		notes = append(notes, a.CriterionNote)
@@ -599,4 +616,28 @@ func (d *doc) figures(i int, figs []Figure) {
 		}
 		f.SetXY(margin, y+rowHt+2)
 	}
+}
+
+// summaryNumber prints a data summary value: counts as they are, measured
+// values to four significant digits (integer digits kept).
+func summaryNumber(a Analysis, x float64) string {
+	if a.Discrete {
+		return orDash(g(x))
+	}
+	return orDash(templates.Sig(4, x))
+}
+
+// statisticAbbreviation is the adequacy statistic's short name in tables.
+func statisticAbbreviation(s string) string {
+	switch s {
+	case "ad":
+		return "AD"
+	case "cvm":
+		return "CvM"
+	case "ks":
+		return "KS"
+	case "chisq":
+		return "χ²"
+	}
+	return s
 }

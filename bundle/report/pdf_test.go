@@ -9,6 +9,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 )
@@ -27,17 +28,25 @@ func figuresOf(t testing.TB, in FigureInput) []Figure {
 	return out
 }
 
+var (
+	fixtureOnce    sync.Once
+	fixtureFigures [][]Figure
+)
+
 // testReport builds a report of n analyses cycling through the seal, rain
 // and defect fixtures; figures are rendered once per fixture and reused.
 func testReport(t testing.TB, n int) *Report {
+	fixtureOnce.Do(func() {
+		fixtureFigures = [][]Figure{figuresOf(t, sealFigures(1)), figuresOf(t, rainFigures()), figuresOf(t, defectFigures())}
+	})
 	seal, rain := sealAnalysis(), rainAnalysis()
-	seal.Figures = figuresOf(t, sealFigures(1))
-	rain.Figures = figuresOf(t, rainFigures())
+	seal.Figures = fixtureFigures[0]
+	rain.Figures = fixtureFigures[1]
 	defects := Analysis{Name: "defects", Dataset: "defects", Units: "defects per batch", Discrete: true, Criterion: "aicc", Confidence: 0.95,
 		Summary: DataSummary{N: 60, Exact: 60, Min: 0, Median: 2, Max: 12},
 		Ranking: []Candidate{{Family: "negbinomial", Rank: 1, K: 2, LogLik: -120.5, Criterion: 245.2, Delta: 0, Weight: 0.98, Support: "substantial", Statistic: "chisq", AdequacyP: 0.31, Converged: true},
 			{Family: "poisson", Rank: 2, K: 1, LogLik: -126.4, Criterion: 254.9, Delta: 9.7, Weight: 0.02, Support: "little", Statistic: "chisq", AdequacyP: 0.01, Converged: true}},
-		Figures: figuresOf(t, defectFigures())}
+		Figures: fixtureFigures[2]}
 	base := []Analysis{seal, rain, defects}
 	r := &Report{
 		Name:        "millbrook-asset-review",
@@ -83,7 +92,7 @@ func TestRenderPDFDeterministic(t *testing.T) {
 	}
 }
 
-func pdftotext(t *testing.T, pdf []byte) string {
+func pdftotext(t *testing.T, pdf []byte, pages ...string) string {
 	t.Helper()
 	bin, err := exec.LookPath("pdftotext")
 	if err != nil {
@@ -93,7 +102,8 @@ func pdftotext(t *testing.T, pdf []byte) string {
 	if err := os.WriteFile(file, pdf, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	out, err := exec.Command(bin, "-layout", file, "-").Output()
+	args := append(append([]string{"-layout"}, pages...), file, "-")
+	out, err := exec.Command(bin, args...).Output()
 	if err != nil {
 		t.Fatalf("pdftotext: %v", err)
 	}
@@ -171,7 +181,7 @@ func TestRenderPDFHundredAnalyses(t *testing.T) {
 	if dir := os.Getenv("FITSEAL_KEEP_PDF"); dir != "" {
 		os.WriteFile(filepath.Join(dir, "report-100.pdf"), pdf, 0o644)
 	}
-	text := pdftotext(t, pdf)
+	text := pdftotext(t, pdf, "-f", "1", "-l", "4") // the cover and the contents
 	for _, a := range []string{"seal-life/G-001", "storm_rainfall/G-050", "defects/G-099"} {
 		if !strings.Contains(text, a) {
 			t.Errorf("no %s in the 100-analysis report", a)
