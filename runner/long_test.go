@@ -1,0 +1,82 @@
+package runner
+
+import (
+	"context"
+	"os"
+	"runtime"
+	"strconv"
+	"sync"
+	"testing"
+	"time"
+)
+
+// largeFamilies are nine continuous families that take positive lifetimes.
+const largeFamilies = `"weibull", "lognormal", "gamma", "exponential", "normal", "gumbel", "gev", "loglogistic", "invgauss"`
+
+// TestLargeRun fits 9 families to each of 1,000 groups of a split dataset
+// (n = 1,000 each, one suspension in seven) and reports the time and the
+// peak heap. It runs with FITSEAL_LONG=1; FITSEAL_LONG_GROUPS overrides
+// the number of groups (e.g. for a quick estimate).
+func TestLargeRun(t *testing.T) {
+	if os.Getenv("FITSEAL_LONG") != "1" {
+		t.Skip("long study: set FITSEAL_LONG=1")
+	}
+	groups := 1000
+	if s := os.Getenv("FITSEAL_LONG_GROUPS"); s != "" {
+		groups, _ = strconv.Atoi(s)
+	}
+	path := splitProject(t, groups, 1000, largeFamilies)
+	runtime.GC()
+	var peak uint64
+	stop := make(chan struct{})
+	var wg sync.WaitGroup
+	wg.Add(1)
+	go func() {
+		defer wg.Done()
+		var ms runtime.MemStats
+		for {
+			runtime.ReadMemStats(&ms)
+			peak = max(peak, ms.HeapInuse)
+			select {
+			case <-stop:
+				return
+			case <-time.After(200 * time.Millisecond):
+			}
+		}
+	}()
+	start := time.Now()
+	p, err := Load(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Run(context.Background(), p, RunOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fitted := time.Since(start)
+	files, err := res.Files()
+	if err != nil {
+		t.Fatal(err)
+	}
+	total := time.Since(start)
+	close(stop)
+	wg.Wait()
+	var ms runtime.MemStats
+	runtime.ReadMemStats(&ms)
+	ranked, failed := 0, 0
+	for _, a := range res.Analyses {
+		for _, r := range a.Comparison.Rows {
+			if r.Rank > 0 {
+				ranked++
+			} else {
+				failed++
+			}
+		}
+	}
+	if len(res.Analyses) != groups || ranked+failed != 9*groups {
+		t.Fatalf("%d analyses and %d rows, want %d and %d", len(res.Analyses), ranked+failed, groups, 9*groups)
+	}
+	t.Logf("%d groups × 9 families, n = 1000: fits %v, with tables %v on %d cores; %d ranked, %d not ranked; peak heap in use %.0f MiB, total allocated %.0f MiB; fits.csv %d bytes",
+		groups, fitted.Round(time.Millisecond), total.Round(time.Millisecond), runtime.NumCPU(), ranked, failed,
+		float64(peak)/(1<<20), float64(ms.TotalAlloc)/(1<<20), len(files[FitsFile]))
+}
