@@ -1,0 +1,102 @@
+package fitters
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"testing"
+)
+
+// benchSample draws n values from the family's member at the reference
+// generating parameters and censors them: a non-detect limit at the 0.1
+// quantile and another at the 0.2 quantile (alternately) and suspensions at
+// the 0.8 quantile, about 25 % censored in all. With complete = true the
+// values are returned as they are.
+func benchSample(b *testing.B, f Family, truth []float64, n int, complete bool) *Data {
+	b.Helper()
+	dist, err := f.New(truth)
+	if err != nil {
+		b.Fatal(err)
+	}
+	r := rand.New(rand.NewPCG(1, uint64(n)))
+	limits := []float64{dist.Quantile(0.1), dist.Quantile(0.2)}
+	susp := dist.Quantile(0.8)
+	d := &Data{}
+	for i := 0; i < n; i++ {
+		x := dist.Rand(r)
+		switch l := limits[i%2]; {
+		case complete:
+			d.Exact = append(d.Exact, x)
+		case x < l:
+			d.Left = append(d.Left, l)
+		case x > susp:
+			d.Right = append(d.Right, susp)
+		default:
+			d.Exact = append(d.Exact, x)
+		}
+	}
+	return d
+}
+
+// BenchmarkFitCensored fits every continuous family to 1000 values with
+// non-detects at two limits and suspensions, next to the same values
+// complete ("complete/n=1000").
+func BenchmarkFitCensored(b *testing.B) {
+	ref := loadCensoredReference(b)
+	seen := map[string]bool{}
+	for _, c := range ref.Cases {
+		if seen[c.Family] {
+			continue
+		}
+		seen[c.Family] = true
+		f, ok := Lookup(c.Family)
+		if !ok {
+			continue
+		}
+		opt := censoredOptions(c.Family, ref)
+		truth := paramsOf(f, c.Generating, opt)
+		for _, complete := range []bool{false, true} {
+			name := c.Family + "/n=1000"
+			if complete {
+				name = c.Family + "/complete/n=1000"
+			}
+			d := benchSample(b, f, truth, 1000, complete)
+			b.Run(name, func(b *testing.B) {
+				for i := 0; i < b.N; i++ {
+					fit, err := f.Fit(d, opt)
+					if err != nil || !fit.Converged {
+						b.Fatalf("%v %v", err, fit)
+					}
+				}
+			})
+		}
+	}
+}
+
+// BenchmarkFitCounts fits every count family to 1000 counts (overdispersed
+// for the unbounded families; 5–40 trials each for the binomial types).
+func BenchmarkFitCounts(b *testing.B) {
+	r := rand.New(rand.NewPCG(3, 4))
+	counts := make([]float64, 1000)
+	bx := make([]float64, 1000)
+	trials := make([]int, 1000)
+	for i := range counts {
+		counts[i] = NegBinomial{2, 7}.Rand(r)
+		trials[i] = 5 + r.IntN(36)
+		bx[i] = BetaBinomial{Alpha: 2, Beta: 5, Trials: trials[i]}.Rand(r)
+	}
+	for _, name := range []string{"poisson", "negbinomial", "geometric", "binomial", "betabinomial"} {
+		f, _ := Lookup(name)
+		d := Complete(counts)
+		if name == "binomial" || name == "betabinomial" {
+			d = &Data{Exact: bx, Trials: trials}
+		}
+		b.Run(fmt.Sprintf("%s/n=1000", name), func(b *testing.B) {
+			for i := 0; i < b.N; i++ {
+				fit, err := f.Fit(d, Options{})
+				if err != nil || !fit.Converged {
+					b.Fatalf("%v %v", err, fit)
+				}
+			}
+		})
+	}
+}
