@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"os"
 	"os/exec"
@@ -121,5 +122,31 @@ func cmdCmpDir(ts *testscript.TestScript, neg bool, args []string) {
 	}
 	if len(names) == 0 {
 		ts.Fatalf("%s and %s are both empty", args[0], args[1])
+	}
+}
+
+// TestRunInterruptedLeavesNothing: a run whose context is cancelled (ctrl-C)
+// stops, says so, and writes nothing.
+func TestRunInterruptedLeavesNothing(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, content string) {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(content), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	write("x.csv", "x\n1.5\n2.5\n0.5\n3.1\n")
+	write("fitseal.toml", "name = \"stop\"\n[[dataset]]\nname = \"x\"\nfile = \"x.csv\"\ncolumn = \"x\"\n"+
+		"[[candidates]]\nname = \"c\"\nfamilies = [\"weibull\", \"gamma\"]\n[[analysis]]\ndataset = \"x\"\ncandidates = \"c\"\n")
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	var stdout, stderr bytes.Buffer
+	out := filepath.Join(dir, "out")
+	err := runRun(ctx, runOptions{Project: filepath.Join(dir, "fitseal.toml"), Output: out, Quiet: true}, &stdout, &stderr)
+	if err == nil || !strings.Contains(err.Error(), "interrupted: nothing was written") {
+		t.Fatalf("runRun after cancel: %v", err)
+	}
+	entries, _ := os.ReadDir(dir)
+	if len(entries) != 2 || stdout.Len() != 0 {
+		t.Errorf("folder holds %d entries (want the 2 inputs only), stdout %q", len(entries), stdout.String())
 	}
 }
