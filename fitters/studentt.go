@@ -1,0 +1,264 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+
+	"gonum.org/v1/gonum/mathext"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// StudentT is Student's t distribution with location Location, scale
+// Scale = σ > 0 and degrees of freedom DF = ν > 0:
+//
+//	f(x) = Γ((ν+1)/2) / (Γ(ν/2) σ √(νπ)) · (1 + z²/ν)^(−(ν+1)/2),  z = (x − μ)/σ.
+//
+// F(x) = I_(ν/(ν+z²))(ν/2, 1/2)/2 for z < 0 (Abramowitz & Stegun 26.7.1 in
+// incomplete-beta form), the upper tail by symmetry. DF = +Inf is the normal
+// limit, the value a fit reports when the likelihood increases all the way
+// to it.
+type StudentT struct{ Location, Scale, DF float64 }
+
+func (d StudentT) normal() Normal { return Normal{d.Location, d.Scale} }
+
+func (d StudentT) LogPDF(x float64) float64 {
+	if math.IsInf(d.DF, 1) {
+		return d.normal().LogPDF(x)
+	}
+	z := (x - d.Location) / d.Scale
+	return tLogConst(d.DF) - math.Log(d.Scale) - 0.5*(d.DF+1)*math.Log1p(z*z/d.DF)
+}
+
+// tLogConst returns ln Γ((ν+1)/2) − ln Γ(ν/2) − ln(νπ)/2.
+func tLogConst(nu float64) float64 {
+	return lnGammaHalfStep(nu/2) - 0.5*math.Log(nu*math.Pi)
+}
+
+// lnGammaHalfStep returns ln Γ(x + 1/2) − ln Γ(x). From x = 10 on it uses
+// Stirling's series for both terms, whose difference keeps absolute
+// precision for large x (where the two lgamma values would be ~x ln x):
+// x ln(1 + 1/(2x)) − 1/2 + (ln x)/2 + s(x + 1/2) − s(x),
+// s(z) = 1/(12z) − 1/(360z³) + 1/(1260z⁵) − 1/(1680z⁷) + 1/(1188z⁹) − 691/(360360z¹¹)
+// (Abramowitz & Stegun 6.1.41; truncation error below 1e-16 for x ≥ 10).
+func lnGammaHalfStep(x float64) float64 {
+	if x < 10 {
+		a, _ := math.Lgamma(x + 0.5)
+		b, _ := math.Lgamma(x)
+		return a - b
+	}
+	s := func(z float64) float64 {
+		z2 := z * z
+		return (1.0/12 - (1.0/360-(1.0/1260-(1.0/1680-(1.0/1188-691.0/(360360*z2))/z2)/z2)/z2)/z2) / z
+	}
+	return x*math.Log1p(0.5/x) - 0.5 + 0.5*math.Log(x) + (s(x+0.5) - s(x))
+}
+
+// tDFScore returns ∂/∂ν of ln Γ((ν+1)/2) − ln Γ(ν/2) − ln(νπ)/2, that is
+// (ψ((ν+1)/2) − ψ(ν/2))/2 − 1/(2ν); beyond ν = 2·10⁵ its asymptotic
+// series 1/(16x²) − 1/(128x⁴) in x = ν/2 (derivative of A&S 6.1.41's
+// difference), which has no cancellation.
+func tDFScore(nu float64) float64 {
+	x := nu / 2
+	if x > 1e5 {
+		x2 := x * x
+		return 1/(16*x2) - 1/(128*x2*x2)
+	}
+	return 0.5*(mathext.Digamma(x+0.5)-mathext.Digamma(x)) - 0.5/nu
+}
+
+// logLowerTail returns ln P(T ≤ z) for a standard t variate with ν degrees
+// of freedom, z ≤ 0: ln(I_x(ν/2, 1/2)/2), x = ν/(ν+z²), 1 − x = z²/(ν+z²).
+func tLogLowerTail(z, nu float64) float64 {
+	r := z / math.Sqrt(nu)
+	r2 := r * r
+	return -math.Ln2 + logRegIncBeta(nu/2, 0.5, 1/(1+r2), r2/(1+r2))
+}
+
+func (d StudentT) LogCDF(x float64) float64 {
+	if math.IsInf(d.DF, 1) {
+		return d.normal().LogCDF(x)
+	}
+	z := (x - d.Location) / d.Scale
+	if z <= 0 {
+		return tLogLowerTail(z, d.DF)
+	}
+	return log1mExp(tLogLowerTail(-z, d.DF))
+}
+
+func (d StudentT) LogSurvival(x float64) float64 {
+	if math.IsInf(d.DF, 1) {
+		return d.normal().LogSurvival(x)
+	}
+	z := (x - d.Location) / d.Scale
+	if z >= 0 {
+		return tLogLowerTail(-z, d.DF)
+	}
+	return log1mExp(tLogLowerTail(z, d.DF))
+}
+
+// Quantile inverts the tail q = min(p, 1−p): 2q = I_x(ν/2, 1/2) with
+// t² = ν(1−x)/x, or, where 2q > 1/2 and x is near 1, through
+// 1 − 2q = I_y(1/2, ν/2) with t² = νy/(1−y), y = 1 − x.
+func (d StudentT) Quantile(p float64) float64 {
+	if p < 0 || p > 1 || math.IsNaN(p) {
+		return math.NaN()
+	}
+	if math.IsInf(d.DF, 1) {
+		return d.normal().Quantile(p)
+	}
+	q, sign := p, -1.0
+	if p > 0.5 {
+		q, sign = 1-p, 1
+	}
+	if q == 0.5 {
+		return d.Location
+	}
+	var t2 float64
+	if 2*q < 0.5 {
+		x := mathext.InvRegIncBeta(d.DF/2, 0.5, 2*q)
+		t2 = d.DF * (1 - x) / x
+	} else {
+		y := mathext.InvRegIncBeta(0.5, d.DF/2, 1-2*q)
+		t2 = d.DF * y / (1 - y)
+	}
+	return d.Location + sign*d.Scale*math.Sqrt(t2)
+}
+
+func (d StudentT) Rand(r *rand.Rand) float64 {
+	if math.IsInf(d.DF, 1) {
+		return d.normal().Rand(r)
+	}
+	return distuv.StudentsT{Mu: d.Location, Sigma: d.Scale, Nu: d.DF, Src: r}.Rand()
+}
+
+type studentTFamily struct{}
+
+func init() { register(studentTFamily{}) }
+
+func (studentTFamily) Name() string         { return "studentt" }
+func (studentTFamily) Parameters() []string { return []string{"location", "scale", "df"} }
+func (studentTFamily) Kind() Kind           { return Continuous }
+func (studentTFamily) Support() string      { return "real line" }
+func (studentTFamily) Route() string {
+	return "BFGS on (location, log scale, log df) with analytic score from median/MAD, moment and spread starts; df → ∞ reports the normal limit"
+}
+
+func (studentTFamily) New(p []float64) (Dist, error) {
+	if len(p) != 3 {
+		panic("fitters: studentt takes 3 parameters")
+	}
+	if !finiteParam(p[0]) || !(p[1] > 0) || !finiteParam(p[1]) || !(p[2] > 0) || math.IsNaN(p[2]) {
+		return nil, fmt.Errorf("studentt: need finite location, scale > 0 and df > 0 (+Inf for the normal limit), got %v", p)
+	}
+	return StudentT{p[0], p[1], p[2]}, nil
+}
+
+func (f studentTFamily) LogLik(p []float64, d *Data) float64 { return logLikOf(f, p, d) }
+
+func (f studentTFamily) Applicable(d *Data, fixed Fixed) error {
+	if err := noFixed(f.Name(), fixed); err != nil {
+		return err
+	}
+	return needDistinct(f.Name(), d, 3)
+}
+
+// studentTNLL is −Σ ln f over x at θ = (μ, ln σ, ln ν) with its gradient in
+// one pass: with q = z²/ν and w = (ν+1)/(ν+z²),
+// ∂ln f/∂μ = wz/σ, ∂ln f/∂ln σ = −1 + wz², and
+// ∂ln f/∂ν = tDFScore(ν) − ln(1+q)/2 + (ν+1)q/(2ν(1+q)).
+func studentTNLL(x []float64) exactNLL {
+	return func(theta, g []float64) float64 {
+		mu, ls, lnu := theta[0], theta[1], theta[2]
+		s, nu := math.Exp(ls), math.Exp(lnu)
+		if !(nu > 0) || math.IsInf(nu, 1) {
+			return math.Inf(1)
+		}
+		var sl, swz, swz2, sqq float64
+		for _, v := range x {
+			z := (v - mu) / s
+			z2 := z * z
+			q := z2 / nu
+			sl += math.Log1p(q)
+			w := (nu + 1) / (nu + z2)
+			swz += w * z
+			swz2 += w * z2
+			sqq += z2 / (nu + z2)
+		}
+		n := float64(len(x))
+		if g != nil {
+			g[0] = -swz / s
+			g[1] = n - swz2
+			g[2] = -nu * (n*tDFScore(nu) - 0.5*sl + 0.5*(nu+1)/nu*sqq)
+		}
+		return n*(ls-tLogConst(nu)) + 0.5*(nu+1)*sl
+	}
+}
+
+// studentTStarts returns (μ, ln σ, ln ν) starts: median and MAD with ν = 1,
+// 4 and 30, and a moment start with ν = 4 + 6/excess kurtosis.
+func studentTStarts(values []float64) [][]float64 {
+	s := sortedStartSample(values)
+	n := len(s)
+	med := 0.5 * (s[(n-1)/2] + s[n/2])
+	dev := make([]float64, n)
+	for i, v := range s {
+		dev[i] = math.Abs(v - med)
+	}
+	dev = sortedStartSample(dev)
+	mad := 1.4826 * 0.5 * (dev[(n-1)/2] + dev[n/2])
+	mean, v := meanVar(values)
+	sd := math.Sqrt(v)
+	if !(mad > 0) {
+		mad = sd
+	}
+	var starts [][]float64
+	for _, nu := range []float64{1, 4, 30} {
+		starts = append(starts, []float64{med, math.Log(mad), math.Log(nu)})
+	}
+	var m4 float64
+	for _, x := range values {
+		d := (x - mean) / sd
+		m4 += d * d * d * d
+	}
+	if k := m4/float64(len(values)) - 3; k > 0.01 {
+		nu := 4 + 6/k
+		starts = append(starts, []float64{mean, math.Log(sd * math.Sqrt((nu-2)/nu)), math.Log(nu)})
+	} else {
+		starts = append(starts, []float64{mean, math.Log(sd), math.Log(1000)})
+	}
+	return starts
+}
+
+func (f studentTFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if err := f.Applicable(d, opt.Fixed); err != nil {
+		return nil, err
+	}
+	fit := newFit(f, d)
+	dist := func(t []float64) Dist { return StudentT{t[0], math.Exp(t[1]), math.Exp(t[2])} }
+	o := minimize(likelihoodProblem(3, studentTNLL(d.Exact), dist, d), studentTStarts(d.Values()), opt)
+	const method = "BFGS on (location, log scale, log df)"
+	var est []float64
+	if o.theta != nil {
+		est = []float64{o.theta[0], math.Exp(o.theta[1]), math.Exp(o.theta[2])}
+	}
+	fit.setOptimum(o, est, method)
+	// The normal limit (df → ∞) is the supremum when it is at least as
+	// likely as the best finite df found.
+	nfit, err := normalFamily{}.Fit(d, Options{Tolerance: opt.Tolerance, MaxIterations: opt.MaxIterations})
+	if err == nil && nfit.Converged && (o.theta == nil || nfit.LogLik >= fit.LogLik) {
+		fit.Estimates = []float64{nfit.Estimates[0], nfit.Estimates[1], math.Inf(1)}
+		fit.LogLik = nfit.LogLik
+		fit.Convergence.Converged = true
+		fit.Convergence.Reason = ""
+		fit.Convergence.Iterations += nfit.Iterations
+		fit.Convergence.Evaluations += nfit.Evaluations
+		fit.Note = "df → ∞: the likelihood increases towards the normal limit; reported df = +Inf with the normal distribution's maximum log-likelihood"
+		return fit, nil
+	}
+	if fit.Converged && est[2] < 0.01 {
+		fit.Converged = false
+		fit.Reason = "non-regular likelihood: df → 0 with the scale shrinking onto tied values; no interior maximum"
+	}
+	return fit, nil
+}
