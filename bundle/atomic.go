@@ -16,7 +16,7 @@ import (
 var ErrExists = errors.New("already exists")
 
 func existsError(out string) error {
-	return fmt.Errorf("%s %w; choose another output or use --force to replace it", out, ErrExists)
+	return fmt.Errorf("%s %w", out, ErrExists)
 }
 
 // writeFileAtomic writes a file through write to a temporary file in out's

@@ -32,8 +32,10 @@ var DefaultLimits = Limits{
 }
 
 // metadataAllowance is how many decompressed bytes beyond MaxTotalSize the
-// tar headers, PAX records and padding of an archive may take.
-const metadataAllowance = 64 << 20
+// tar headers, PAX records, padding and end blocks of an archive may take:
+// 8 KiB an entry (a header, a PAX header for a long name and padding take
+// under 3 KiB) and 1 MiB more.
+func (l Limits) metadataAllowance() int64 { return int64(l.MaxEntries)*8<<10 + 1<<20 }
 
 // ErrUnsafeArchive is wrapped by every [ArchiveError].
 var ErrUnsafeArchive = errors.New("unsafe or damaged archive")
@@ -201,7 +203,7 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 	if err != nil {
 		return fail("", "not a gzip-compressed file: %v", err)
 	}
-	capped := &capReader{r: zr, n: lim.MaxTotalSize + metadataAllowance}
+	capped := &capReader{r: zr, n: lim.MaxTotalSize + lim.metadataAllowance()}
 	tr := tar.NewReader(capped)
 	tree := newPathTree()
 	files := map[string][]byte{}
@@ -211,6 +213,9 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 		h, err := tr.Next()
 		if err == io.EOF {
 			break
+		}
+		if errors.Is(err, errOverCap) {
+			return fail("", "the archive's headers exceed the size limits")
 		}
 		if err != nil {
 			return fail("", "not a readable tar archive: %v", err)
@@ -241,6 +246,9 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 			return fail(h.Name, "%s", reason)
 		}
 		if dir {
+			if h.Size != 0 {
+				return fail(h.Name, "a folder entry that carries %d bytes of data", h.Size)
+			}
 			continue
 		}
 		if h.Size < 0 || h.Size > lim.MaxFileSize {
@@ -393,6 +401,9 @@ func (b *Bag) WriteTo(dir string) (string, error) {
 	}
 	target := filepath.Join(dir, b.Name)
 	if err := writeFolderAtomic(target, false, sortedMembers(b.Files)); err != nil {
+		if errors.Is(err, ErrExists) {
+			return "", fmt.Errorf("%w; extract into another folder, or move it away first", err)
+		}
 		return "", err
 	}
 	return target, nil

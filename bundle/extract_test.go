@@ -217,9 +217,9 @@ func zeroBomb(entries int, size int64) (io.Reader, func() int64) {
 // memory never exceeds the limit.
 func TestZeroBomb(t *testing.T) {
 	for _, tc := range []struct {
-		name    string
-		entries int
-		size    int64
+		name     string
+		entries  int
+		size     int64
 		lim      Limits
 		want     string
 		maxAlloc int64 // bytes allocated by reader and generator together

@@ -1,6 +1,7 @@
 package bundle
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -88,11 +89,16 @@ func WriteBundle(out string, force bool, c Contents, signer Signer) error {
 		return err
 	}
 	if IsArchivePath(out) {
-		return writeFileAtomic(out, force, fileMode, func(w io.Writer) error {
+		err = writeFileAtomic(out, force, fileMode, func(w io.Writer) error {
 			return writeTarGz(w, c.Name, sortedMembers(files), c.Created)
 		})
+	} else {
+		err = writeFolderAtomic(out, force, sortedMembers(files))
 	}
-	return writeFolderAtomic(out, force, sortedMembers(files))
+	if errors.Is(err, ErrExists) {
+		return fmt.Errorf("%w; choose another output with -o, or use --force to replace it", err)
+	}
+	return err
 }
 
 // Write is [WriteBundle] with its contents spelled out: out and force as
