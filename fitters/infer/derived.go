@@ -98,9 +98,10 @@ func quantityScale(fam fitters.Family, fit *fitters.Fit, q Quantity, est float64
 //     central finite differences (gonum/diff/fd) (Meeker & Escobar, 1998, §8.4).
 //   - Profile likelihood: ℓp(ψ) = max ln L(θ) over the θ with ψ(θ) = ψ,
 //     by reparameterisation: for each value of the other free parameters,
-//     the free parameter to which ψ is most sensitive (largest
-//     |∂t/∂θⱼ|·se(θ̂ⱼ)) is solved for from ψ(θ) = ψ by bracketed root finding,
-//     and the others are maximised over by BFGS; the interval is
+//     one free parameter (a location, else a scale, else the one to which ψ
+//     is most sensitive; see solveFor) is solved for from ψ(θ) = ψ by
+//     bracketed root finding, and the others are maximised over by BFGS
+//     (no penalty, no Lagrange multiplier); the interval is
 //     {ψ : ℓp(ψ) ≥ ℓ̂ − χ²₁(level)/2} (Coles, 2001, §4.3.3 for return levels).
 //   - Bootstrap: percentiles of ψ over the replicates' refits.
 //
@@ -138,6 +139,14 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 	out.Estimate = g(fit.Estimates)
 	if math.IsNaN(out.Estimate) {
 		out.Note = "the quantity is not defined for this fit"
+		return out, nil
+	}
+	if limit := atLimit(fit); limit != "" && method != MethodBootstrap {
+		out.Note = limit
+		return out, nil
+	}
+	if q == Exceedance && (out.Estimate == 0 || out.Estimate == 1) && method != MethodBootstrap {
+		out.Note = fmt.Sprintf("P(X > %v) is exactly %v at the estimates: the threshold lies outside the fitted support; no interval", arg, out.Estimate)
 		return out, nil
 	}
 	discreteQuantile := fam.Kind() == fitters.Discrete && q != Exceedance
@@ -264,19 +273,33 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 	est := fit.Estimates
 	scales := scalesOf(fam, est)
 	free := freeIndices(fit)
-	// The parameter solved for: the largest |∂t/∂θⱼ|·se(θ̂ⱼ).
-	best, bestA := -1.0, 0
-	for a, i := range free {
-		w := math.Abs(grad[a])
-		if info != nil && info.StdErrors[i] > 0 {
-			w *= info.StdErrors[i]
-		} else {
-			w *= math.Abs(scales[i].Deriv(est[i]))
-		}
-		if w > best {
-			best, bestA = w, a
+	// The parameter solved for: a location, else a scale-type parameter
+	// (these move a quantile or an exceedance probability over its whole
+	// range with the others held), else the one with the largest
+	// |∂t/∂θⱼ|·se(θ̂ⱼ).
+	bestA := -1
+	for _, name := range solveFor(fam.Name()) {
+		for a, i := range free {
+			if fam.Parameters()[i] == name && grad[a] != 0 && !math.IsNaN(grad[a]) && !math.IsInf(grad[a], 0) && bestA < 0 {
+				bestA = a
+			}
 		}
 	}
+	if bestA < 0 {
+		best := -1.0
+		for a, i := range free {
+			w := math.Abs(grad[a])
+			if info != nil && info.StdErrors[i] > 0 {
+				w *= info.StdErrors[i]
+			} else {
+				w *= math.Abs(scales[i].Deriv(est[i]))
+			}
+			if w > best {
+				best, bestA = w, a
+			}
+		}
+	}
+	bestA = max(bestA, 0)
 	j := free[bestA]
 	var others []int
 	for _, i := range free {
@@ -299,9 +322,7 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 		fam: fam, data: d, u0: u0,
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
-			for a, i := range others {
-				theta[i] = scales[i].From(u[a])
-			}
+			fromScales(theta, u, u0, est, others, scales)
 			h := func(t float64) float64 {
 				theta[j] = scales[j].From(t)
 				return sc.To(g(theta)) - v
@@ -315,6 +336,22 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 			return finite(theta)
 		},
 	}, j
+}
+
+// solveFor lists, in order of preference, the parameters a derived
+// quantity's profile solves for. Pareto's scale sits at the sample minimum,
+// so its shape is solved for; an inverse Gaussian's mean alone cannot reach
+// every quantile, so it falls to the sensitivity rule.
+func solveFor(family string) []string {
+	switch family {
+	case "pareto":
+		return []string{"shape"}
+	case "negbinomial":
+		return []string{"mean"}
+	case "invgauss":
+		return nil
+	}
+	return []string{"location", "mu", "scale", "sigma", "rate"}
 }
 
 // solveNear finds a root of h near t0: it widens a search around t0 by

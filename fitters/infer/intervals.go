@@ -127,6 +127,13 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 		}
 		return rows, nil
 	}
+	if limit := atLimit(fit); limit != "" && method != MethodBootstrap {
+		for _, i := range freeIndices(fit) {
+			rows[i].Method = methodLabel(method)
+			rows[i].Note = limit
+		}
+		return rows, nil
+	}
 	info, infoErr := s.information(fam, fit, d)
 	if info != nil {
 		for i := range rows {
@@ -194,6 +201,29 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 	return rows, nil
 }
 
+// methodLabel is the ci_method text of a row that got no interval.
+func methodLabel(m Method) string {
+	switch m {
+	case MethodWald:
+		return "wald"
+	case MethodProfile:
+		return "profile likelihood"
+	}
+	return "bootstrap percentile"
+}
+
+// atLimit says, when a free estimate is infinite (an optimum at a limiting
+// family: negbinomial size → ∞ is the Poisson), that Wald and profile
+// intervals are not computed; "" otherwise.
+func atLimit(fit *fitters.Fit) string {
+	for _, i := range freeIndices(fit) {
+		if math.IsInf(fit.Estimates[i], 0) {
+			return fmt.Sprintf("%s = %v: the optimum is the limiting family, so the likelihood has no curvature or profile to give an interval from", fit.Parameters[i], fit.Estimates[i])
+		}
+	}
+	return ""
+}
+
 // waldInterval is t̂ ± z·se(θ̂)/|dθ/dt| on scale sc, mapped back to θ.
 func waldInterval(est, se float64, sc Scale, z float64) (float64, float64) {
 	if math.IsNaN(se) {
@@ -230,6 +260,9 @@ func quantile7(v []float64, p float64) float64 {
 	i := int(lo)
 	if i >= len(v)-1 {
 		return v[len(v)-1]
+	}
+	if h == lo || v[i] == v[i+1] {
+		return v[i] // also keeps an infinite order statistic from giving NaN
 	}
 	return v[i] + (h-lo)*(v[i+1]-v[i])
 }

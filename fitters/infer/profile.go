@@ -39,11 +39,43 @@ func (p *profiler) at(v float64, warm []float64) (ll float64, u []float64, edge,
 		valid = true
 		return p.fam.LogLik(p.theta, p.data)
 	}
-	u, ll, ok = maximize(f, warm)
+	u, ll, ok = maximize(f, p.feasible(f, warm))
 	if !valid {
 		return math.Inf(-1), warm, true, true
 	}
 	return ll, u, false, ok || math.IsInf(ll, -1)
+}
+
+// feasible returns a start with a finite log-likelihood for the inner
+// maximisation: warm itself, else the MLE's nuisance values, else warm
+// moved along one coordinate by ±½, ±1, ±2, ±4 or ±8 (on the transformed
+// scale). A point where the likelihood vanishes at the warm start (a GPD
+// whose upper endpoint has moved below the largest value, say) is not a
+// point where the profile vanishes, so the search matters.
+func (p *profiler) feasible(f func([]float64) float64, warm []float64) []float64 {
+	ok := func(u []float64) bool {
+		v := f(u)
+		return !math.IsNaN(v) && !math.IsInf(v, -1)
+	}
+	if len(warm) == 0 || ok(warm) {
+		return warm
+	}
+	if ok(p.u0) {
+		return p.u0
+	}
+	try := make([]float64, len(warm))
+	for _, d := range []float64{0.5, 1, 2, 4, 8} {
+		for a := range warm {
+			for _, sign := range []float64{1, -1} {
+				copy(try, warm)
+				try[a] += sign * d
+				if ok(try) {
+					return try
+				}
+			}
+		}
+	}
+	return warm
 }
 
 // ProfileBound is one end of a profile-likelihood interval.
@@ -143,11 +175,23 @@ func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, sc
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
 			theta[i] = scales[i].From(v)
-			for a, j := range others {
-				theta[j] = scales[j].From(u[a])
-			}
+			fromScales(theta, u, u0, est, others, scales)
 			return finite(theta)
 		},
+	}
+}
+
+// fromScales sets theta[others[a]] from the transformed u[a]; where u[a]
+// is exactly the MLE's own value u0[a], the estimate itself is used, so an
+// estimate on a boundary (a pareto scale at the sample minimum) survives the
+// round trip exp(ln θ) bit for bit.
+func fromScales(theta, u, u0, est []float64, others []int, scales []Scale) {
+	for a, j := range others {
+		if u[a] == u0[a] {
+			theta[j] = est[j]
+		} else {
+			theta[j] = scales[j].From(u[a])
+		}
 	}
 }
 
