@@ -1,0 +1,188 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+)
+
+// thresholdModel describes a three-parameter family X = γ + Y, Y in a
+// two-parameter positive family, for fitThreshold. The two parameters of Y
+// are optimised on transformed scales (θ0, θ1); the threshold as
+// γ = m − e^t, m the smallest value that must exceed it, so that γ < m.
+type thresholdModel struct {
+	// nll returns −Σ ln f over the exact values, given dev = x − m (free
+	// threshold, θ = (θ0, θ1, t), y = dev + e^t) or dev = x − u (fixed
+	// threshold u, θ = (θ0, θ1), y = dev).
+	nll func(dev []float64, free bool) exactNLL
+	// natural maps (θ0, θ1) to the family's first two parameters.
+	natural func(t0, t1 float64) (float64, float64)
+	// dist builds the member with natural parameters a, b and threshold g.
+	dist func(a, b, g float64) Dist
+	// start fits Y to y > 0 by a quick explicit rule, returning (θ0, θ1).
+	start func(y []float64) (float64, float64)
+	// limit names the two-parameter limit reached as γ → −∞.
+	limit string
+	// note returns a caution for a converged free-threshold fit.
+	note func(a, b float64) string
+}
+
+// thresholdFloor is the smallest value that must lie above the threshold:
+// the least exact value, non-detect limit or finite interval upper bound
+// (right-censored values and interval lower bounds may lie below it).
+func thresholdFloor(d *Data) (float64, bool) {
+	m, ok := math.Inf(1), false
+	for _, v := range d.Exact {
+		m, ok = math.Min(m, v), true
+	}
+	for _, v := range d.Left {
+		m, ok = math.Min(m, v), true
+	}
+	for _, v := range d.Upper {
+		if !math.IsInf(v, 1) {
+			m, ok = math.Min(m, v), true
+		}
+	}
+	return m, ok
+}
+
+// thresholdApplicable checks the fixed parameters (only "threshold") and
+// the support x > threshold.
+func thresholdApplicable(f Family, d *Data, fixed Fixed) error {
+	if err := checkFixedNames(f, fixed, "threshold"); err != nil {
+		return err
+	}
+	if u, ok := fixed["threshold"]; ok {
+		for _, v := range d.Values() {
+			if !(v > u) {
+				return inapplicable(f.Name(), "needs every value above the fixed threshold %v, the data have %v", u, v)
+			}
+		}
+		return needDistinct(f.Name(), d, 2)
+	}
+	if _, ok := thresholdFloor(d); !ok {
+		return inapplicable(f.Name(), "needs an exact value, a non-detect limit or an interval upper bound to bound the threshold")
+	}
+	return needDistinct(f.Name(), d, 3)
+}
+
+// fitThreshold fits a threshold family. With the threshold fixed it is an
+// excess model: BFGS over (θ0, θ1), k = 2. With the threshold free, the
+// likelihood is unbounded as γ approaches the sample minimum (Smith, 1985;
+// Cheng & Amin, 1983), so each start is run on its own and only runs that
+// converge to a stationary point count: the largest of these interior local
+// maxima is reported. Runs that run away to the boundary or off to γ → −∞
+// never are; when no run converges the fit is reported as non-regular.
+func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error) {
+	if err := thresholdApplicable(f, d, opt.Fixed); err != nil {
+		return nil, err
+	}
+	fit := newFit(f, d)
+	values := d.Values()
+	if u, ok := opt.Fixed["threshold"]; ok {
+		fit.Fixed[2], fit.K, fit.Estimates[2] = true, 2, u
+		dev := make([]float64, len(d.Exact))
+		for i, x := range d.Exact {
+			dev[i] = x - u
+		}
+		y := make([]float64, 0, len(values))
+		for _, v := range values {
+			y = append(y, v-u)
+		}
+		a0, b0 := m.start(y)
+		starts := [][]float64{{a0, b0}, {a0 + 0.5, b0}, {a0 - 0.5, b0}}
+		dist := func(t []float64) Dist { a, b := m.natural(t[0], t[1]); return m.dist(a, b, u) }
+		o := minimize(likelihoodProblem(2, m.nll(dev, false), dist, d), starts, opt)
+		var est []float64
+		if o.theta != nil {
+			a, b := m.natural(o.theta[0], o.theta[1])
+			est = []float64{a, b, u}
+		}
+		fit.setOptimum(o, est, "BFGS on the excesses over the fixed threshold")
+		return fit, nil
+	}
+
+	floor, _ := thresholdFloor(d)
+	_, hi := minMax(values)
+	span := hi - floor
+	if !(span > 0) {
+		span = math.Max(math.Abs(floor), 1) * 1e-3
+	}
+	dev := make([]float64, len(d.Exact))
+	for i, x := range d.Exact {
+		dev[i] = x - floor
+	}
+	dist := func(t []float64) Dist {
+		a, b := m.natural(t[0], t[1])
+		return m.dist(a, b, floor-math.Exp(t[2]))
+	}
+	prob := likelihoodProblem(3, m.nll(dev, true), dist, d)
+	var starts [][]float64
+	for _, c := range []float64{0.02, 0.2, 1, 5} {
+		gap := c * span
+		y := make([]float64, 0, len(values))
+		for _, v := range values {
+			if v-floor+gap > 0 {
+				y = append(y, v-floor+gap)
+			}
+		}
+		a0, b0 := m.start(y)
+		if finiteParam(a0) && finiteParam(b0) {
+			starts = append(starts, []float64{a0, b0, math.Log(gap)})
+		}
+	}
+	var (
+		best            *optimum
+		iters, evals    int
+		runaway, tooFar bool
+		lastReason      string
+		farLimit        = math.Log(1e4 * span)
+		nearBoundary    = math.Log(1e-3 * span)
+	)
+	for _, s := range starts {
+		o := minimize(prob, [][]float64{s}, opt)
+		iters += o.iterations
+		evals += o.evaluations
+		if o.theta == nil {
+			continue
+		}
+		t := o.theta[2]
+		switch {
+		case t > farLimit:
+			tooFar = true
+			continue
+		case !o.converged && t < nearBoundary:
+			runaway = true
+			continue
+		case !o.converged:
+			lastReason = o.reason
+			continue
+		}
+		if best == nil || o.negLogLik < best.negLogLik {
+			oc := o
+			best = &oc
+		}
+	}
+	const method = "BFGS on the two shape/scale parameters and log(min − threshold), each start separately"
+	if best != nil {
+		best.iterations, best.evaluations, best.starts = iters, evals, len(starts)
+		a, b := m.natural(best.theta[0], best.theta[1])
+		fit.setOptimum(*best, []float64{a, b, floor - math.Exp(best.theta[2])}, method)
+		fit.Note = "the likelihood is unbounded as the threshold approaches the sample minimum; reported the largest interior local maximum found (Smith, 1985)"
+		if n := m.note(a, b); n != "" {
+			fit.Note += "; " + n
+		}
+		return fit, nil
+	}
+	fit.Convergence = Convergence{Method: fmt.Sprintf("%s, %d start(s)", method, len(starts)), Iterations: iters, Evaluations: evals}
+	switch {
+	case runaway:
+		fit.Reason = "non-regular likelihood: it grows without bound as the threshold approaches the sample minimum, and no interior local maximum was found"
+	case tooFar:
+		fit.Reason = fmt.Sprintf("no finite maximum: the likelihood keeps increasing as the threshold → −∞ (towards the %s limit)", m.limit)
+	case lastReason != "":
+		fit.Reason = lastReason
+	default:
+		fit.Reason = "no start gave a finite log-likelihood"
+	}
+	return fit, nil
+}
