@@ -357,7 +357,7 @@ func methodsText(r *Report) []string {
 			"P(X > t) = 1 − F(t), so the chance of a value at or below t is one minus it. Model-averaged rows combine the ranked " +
 			"families with their Akaike weights (Burnham & Anderson 2002, ch. 4).",
 		"Figures. Densities (or probability mass functions) of the leading candidates are drawn over a histogram of the exact values; " +
-			"the empirical CDF (Kaplan–Meier for suspensions, Turnbull for other censoring) is set against the fitted CDFs; Q–Q and P–P plots " +
+			"the empirical CDF (Kaplan–Meier for suspensions, its reverse for non-detects, Turnbull for other censoring) is set against the fitted CDFs; Q–Q and P–P plots " +
 			"show the best candidate, with a pointwise simulation envelope where the bootstrap ran.",
 	}
 }
@@ -484,6 +484,10 @@ func (d *doc) analysis(i int) {
 	}
 
 	if len(a.Figures) > 0 {
+		// Keep the heading with the first row of figures.
+		if f.GetY()+8+(textW-6)/2*float64(figureHeight)/float64(figureWidth)+10 > pageH-bottomMargin {
+			f.AddPage()
+		}
 		d.subheading("Figures")
 		d.figures(i, a.Figures)
 	}
@@ -522,27 +526,48 @@ func (d *doc) table(cols []column, rows [][]string, styles []string) {
 		f.AddPage()
 	}
 	header()
+	const lineH = 3.8
 	for i, row := range rows {
-		if f.GetY()+rowH+1 > pageH-bottomMargin {
+		style := ""
+		if i < len(styles) {
+			style = styles[i]
+		}
+		// Text columns wrap onto further lines; number columns shrink.
+		d.font(style, 8.5)
+		wrapped := make([][]string, len(cols))
+		lines := 1
+		for j, c := range cols {
+			if j < len(row) && c.align == "L" && f.GetStringWidth(row[j]) > c.w-1.6 {
+				wrapped[j] = f.SplitText(row[j], c.w-1.6)
+				lines = max(lines, len(wrapped[j]))
+			}
+		}
+		h := rowH + float64(lines-1)*lineH
+		if f.GetY()+h+1 > pageH-bottomMargin {
 			f.SetLineWidth(0.35)
 			f.Line(x0, f.GetY(), x0+width, f.GetY())
 			f.AddPage()
 			header()
 		}
-		style := ""
-		if i < len(styles) {
-			style = styles[i]
-		}
-		f.SetX(x0)
+		y, x := f.GetY(), x0
 		for j, c := range cols {
 			cell := ""
 			if j < len(row) {
 				cell = row[j]
 			}
 			d.font(style, 8.5)
-			d.fitCell(c.w, rowH, cell, c.align, style, 0)
+			if wrapped[j] != nil {
+				for k, l := range wrapped[j] {
+					f.SetXY(x, y+(rowH-lineH)/2+float64(k)*lineH)
+					f.CellFormat(c.w, lineH, l, "", 0, c.align, false, 0, "")
+				}
+			} else {
+				f.SetXY(x, y)
+				d.fitCell(c.w, rowH, cell, c.align, style, 0)
+			}
+			x += c.w
 		}
-		f.Ln(rowH)
+		f.SetXY(x0, y+h)
 	}
 	f.SetLineWidth(0.35)
 	f.Line(x0, f.GetY(), x0+width, f.GetY())
@@ -618,13 +643,13 @@ func (d *doc) figures(i int, figs []Figure) {
 	}
 }
 
-// summaryNumber prints a data summary value: counts as they are, measured
-// values to four significant digits (integer digits kept).
-func summaryNumber(a Analysis, x float64) string {
-	if a.Discrete {
-		return orDash(g(x))
+// summaryNumber prints a data summary value as recorded: up to six
+// significant digits without padding (0.2, 26.75, 10576).
+func summaryNumber(_ Analysis, x float64) string {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return "–"
 	}
-	return orDash(templates.Sig(4, x))
+	return strconv.FormatFloat(x, 'g', 6, 64)
 }
 
 // statisticAbbreviation is the adequacy statistic's short name in tables.

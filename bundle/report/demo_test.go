@@ -1,0 +1,134 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"fitseal/runner"
+	"fitseal/templates"
+)
+
+// demoOutputs runs the `fitseal init` demo through the runner and renders
+// everything a bundle holds: tables, figures, the PDF.
+func demoOutputs(t *testing.T, workers int) (*Report, []File, []RenderedFigure, []byte) {
+	t.Helper()
+	dir := t.TempDir()
+	if _, err := templates.WriteScaffold(dir); err != nil {
+		t.Fatal(err)
+	}
+	p, err := runner.Load(filepath.Join(dir, "fitseal.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := runner.Run(context.Background(), p, runner.RunOptions{Workers: workers})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := FromResults(res, Identity{Created: testCreated, ToolVersion: "test", TagManifestSHA256: strings.Repeat("0", 64)})
+	slugs := Slugs(r.Analyses)
+	var figs []RenderedFigure
+	for i := range r.Analyses {
+		fs, err := RenderFigures(slugs[i], FigureInputFor(res, i))
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, f := range fs {
+			r.Analyses[i].Figures = append(r.Analyses[i].Figures, f.ForPDF())
+		}
+		figs = append(figs, fs...)
+	}
+	tmpls, err := templates.LoadTables("")
+	if err != nil {
+		t.Fatal(err)
+	}
+	tables, err := RenderTables(tmpls, r.Analyses, []string{"md", "tex"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pdf, err := RenderPDF(r, PDFOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r, tables, figs, pdf
+}
+
+// TestDemoReport renders the demo project's report twice (with one worker
+// and with four) and checks that every output is byte-identical, that each
+// analysis has its figures and tables, and that the PDF names every
+// analysis, the criterion and the cautions. FITSEAL_KEEP_PDF=DIR keeps the
+// PDF and figures for looking at.
+func TestDemoReport(t *testing.T) {
+	r, tables, figs, pdf := demoOutputs(t, 1)
+	_, tables2, figs2, pdf2 := demoOutputs(t, 4)
+	if !bytes.Equal(pdf, pdf2) {
+		t.Error("the demo's PDF differs between two runs")
+	}
+	if len(figs) != len(figs2) || len(tables) != len(tables2) {
+		t.Fatalf("outputs differ in number: %d/%d figures, %d/%d tables", len(figs), len(figs2), len(tables), len(tables2))
+	}
+	for i := range figs {
+		if !bytes.Equal(figs[i].SVG, figs2[i].SVG) || !bytes.Equal(figs[i].PNG, figs2[i].PNG) {
+			t.Errorf("figure %s differs between two runs", figs[i].Name)
+		}
+	}
+	for i := range tables {
+		if !bytes.Equal(tables[i].Data, tables2[i].Data) {
+			t.Errorf("table %s differs between two runs", tables[i].Name)
+		}
+	}
+
+	wantNames := []string{"seal-life", "storm-rainfall", "nitrate/MW-1", "nitrate/MW-2", "nitrate/MW-3", "nitrate/MW-4", "defects"}
+	var names []string
+	for _, a := range r.Analyses {
+		names = append(names, a.Name)
+	}
+	if strings.Join(names, " ") != strings.Join(wantNames, " ") {
+		t.Fatalf("analyses %v, want %v", names, wantNames)
+	}
+	kinds := map[string][]string{}
+	for _, f := range figs {
+		base := strings.TrimSuffix(f.Name, "-"+f.Kind)
+		kinds[base] = append(kinds[base], f.Kind)
+	}
+	for _, s := range Slugs(r.Analyses) {
+		got := strings.Join(kinds[s], " ")
+		if !strings.HasPrefix(got, "density cdf qq pp") {
+			t.Errorf("%s: figures %q, want density, cdf, qq, pp at least", s, got)
+		}
+	}
+	if got := strings.Join(kinds["storm-rainfall"], " "); !strings.Contains(got, "return-level") {
+		t.Errorf("storm-rainfall has no return-level figure: %s", got)
+	}
+	tableNames := map[string]bool{}
+	for _, f := range tables {
+		tableNames[f.Name] = true
+	}
+	for _, s := range Slugs(r.Analyses) {
+		for _, k := range []string{"ranking.md", "ranking.tex", "parameters.md", "parameters.tex", "derived.md", "derived.tex"} {
+			if !tableNames[s+"-"+k] {
+				t.Errorf("no table %s-%s", s, k)
+			}
+		}
+	}
+
+	if dir := os.Getenv("FITSEAL_KEEP_PDF"); dir != "" {
+		os.WriteFile(filepath.Join(dir, "demo.pdf"), pdf, 0o644)
+		for _, f := range figs {
+			os.WriteFile(filepath.Join(dir, f.Name+".png"), f.PNG, 0o644)
+		}
+		for _, f := range tables {
+			os.WriteFile(filepath.Join(dir, f.Name), f.Data, 0o644)
+		}
+	}
+	text := strings.Join(strings.Fields(pdftotext(t, pdf)), " ")
+	for _, want := range append(wantNames, "Ranking by AICc", "Methods and cautions", "licensed professional",
+		"only the best of the candidates that were tried", "same observations", "Kaplan–Meier", "Contents") {
+		if !strings.Contains(text, want) {
+			t.Errorf("the demo's PDF lacks %q", want)
+		}
+	}
+}
