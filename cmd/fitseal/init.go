@@ -43,14 +43,13 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) error {
 	for _, p := range written {
 		fmt.Fprintf(stdout, "wrote %s\n", filepath.Join(dir, filepath.FromSlash(p)))
 	}
-	cd := ""
-	if dir != "." {
-		cd = "cd " + dir + " && "
-	}
 	fmt.Fprintf(stdout, "\nThe demo data are invented (see README.txt). Next steps:\n")
-	fmt.Fprintf(stdout, "  %sfitseal run              fit every analysis and write a signed bundle to bundles/\n", cd)
-	fmt.Fprintf(stdout, "  fitseal verify BUNDLE      check the bundle's hashes and signature, and re-run it\n")
-	fmt.Fprintf(stdout, "  fitseal show BUNDLE        print the ranking, parameter and derived-quantity tables\n")
+	if dir != "." {
+		fmt.Fprintf(stdout, "  cd %s\n", dir)
+	}
+	fmt.Fprintf(stdout, "  fitseal run             fit every analysis and write a signed bundle to bundles/\n")
+	fmt.Fprintf(stdout, "  fitseal verify BUNDLE   check the bundle's hashes and signature, and re-run it\n")
+	fmt.Fprintf(stdout, "  fitseal show BUNDLE     print the ranking, parameter and derived-quantity tables\n")
 	fmt.Fprintf(stdout, "Then edit fitseal.toml and data/ for your own work.\n")
 	return nil
 }
