@@ -227,16 +227,44 @@ A cell reads "covered %" and, where some datasets gave no interval (a
 singular information, a failed profile), "(k without)". Datasets whose fit
 failed are left out of every method alike.
 
-## Reading it
+## Summary (computed from the table)
 
-- Wald intervals are the large-sample approximation: at n = 15 they
-  under-cover for the skewed quantities (shape parameters, the 0.99
-  quantile, the GEV shape), which is why fitseal's default is the profile
-  likelihood. The log scale already repairs most of the under-coverage of
-  positive scale-type parameters.
-- Profile-likelihood intervals stay close to nominal from n = 15 on.
-- Percentile-bootstrap intervals inherit the bias of the estimator at
-  small n (for example the GEV shape); they are close to nominal at n = 200.
+`)
+	lowCut := 95 - 200*se
+	for _, m := range methods {
+		for _, n := range []int{15, 50, 200} {
+			var sum float64
+			var cnt int
+			var low []string
+			for _, c := range cells {
+				if c.method != string(m) || c.n != n {
+					continue
+				}
+				p := 100 * float64(c.covered) / float64(c.datasets-c.failedFits)
+				sum += p
+				cnt++
+				if p < lowCut {
+					low = append(low, fmt.Sprintf("%s %s %.1f", c.family, c.quantity, p))
+				}
+			}
+			if cnt == 0 {
+				continue
+			}
+			fmt.Fprintf(&b, "- %s, n = %d: mean coverage %.1f%%", m, n, sum/float64(cnt))
+			if len(low) > 0 {
+				fmt.Fprintf(&b, "; below %.1f%%: %s", lowCut, strings.Join(low, "; "))
+			} else {
+				fmt.Fprintf(&b, "; none below %.1f%%", lowCut)
+			}
+			b.WriteString("\n")
+		}
+	}
+	b.WriteString(`
+Wald intervals rest on the estimate being close to normal, which fails at
+small n for skewed quantities (shape parameters, far quantiles); the
+profile likelihood does not assume it. Percentile-bootstrap intervals
+inherit the small-sample bias of the estimator (for the normal σ at n = 15
+their coverage is P(χ²₁₄ ≥ 8.61) ≈ 0.86 in theory).
 `)
 	return b.String()
 }
