@@ -66,6 +66,9 @@ func CheckFitFrom(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, rep *Re
 func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
 	for si := range g.Statistics {
 		s := &g.Statistics[si]
+		if math.IsInf(s.Value, 1) {
+			continue // no p-value for an infinite statistic (see observedStatistics)
+		}
 		var r, b int
 		for _, row := range rep.Statistics {
 			if row == nil {
@@ -127,7 +130,11 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 	var edf [3]float64
 	edfStatistics(dist, x, make([]float64, len(x)), make([]float64, len(x)), &edf)
 	for i, name := range statNames(fitters.Continuous) {
-		g.Statistics = append(g.Statistics, Statistic{Name: name, Value: edf[i], PValue: math.NaN()})
+		st := Statistic{Name: name, Value: edf[i], PValue: math.NaN()}
+		if math.IsInf(edf[i], 1) {
+			st.Note = "infinite: an observation lies on the edge of the fitted support (as pareto's smallest value, which is its scale estimate), where ln F or ln S is −∞; no p-value"
+		}
+		g.Statistics = append(g.Statistics, st)
 	}
 	return g, nil
 }

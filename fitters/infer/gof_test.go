@@ -241,3 +241,24 @@ func TestCensoredNotApplicable(t *testing.T) {
 // sha256Prefix is the first 32 hex digits of sha256sum's output for
 // "7|a|gamma|bootstrap|3".
 const sha256Prefix = "e0672305facc14be41aac71b24bd6c5a"
+
+// TestInfiniteStatistic: pareto's scale estimate is the sample minimum, so
+// F(x₍₁₎) = 0 and A² = +∞: reported with a note and no p-value, while KS and
+// CvM keep theirs.
+func TestInfiniteStatistic(t *testing.T) {
+	fam := family(t, "pareto")
+	d := fitters.Complete(ballBearings)
+	fit := fitOf(t, fam, d)
+	g, err := CheckFit(fam, fit, d, BootstrapOptions{Replicates: 19, Stream: Stream{Master: 1, Family: "pareto"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, s := range g.Statistics {
+		switch {
+		case s.Name == AndersonDarling && (!math.IsInf(s.Value, 1) || !math.IsNaN(s.PValue) || s.Note == ""):
+			t.Errorf("ad: %+v, want +Inf without p-value, with a note", s)
+		case s.Name != AndersonDarling && (math.IsNaN(s.PValue) || s.Replicates != 19):
+			t.Errorf("%s: %+v, want a p-value on 19 replicates", s.Name, s)
+		}
+	}
+}
