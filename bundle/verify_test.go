@@ -8,6 +8,7 @@ import (
 	"reflect"
 	"strings"
 	"testing"
+	"time"
 )
 
 func openArchiveBytes(t *testing.T, b []byte) *Bag {
@@ -178,6 +179,24 @@ func TestTamperMembersAddedDeletedAndKeys(t *testing.T) {
 			SignatureFile, KindPin, otherSigner(t).Fingerprint()},
 		{"signature not armored", func(b *Bag) { b.Files[SignatureFile] = []byte("hello") }, opts,
 			SignatureFile, KindSignature, ""},
+		{"bagit.txt version changed", func(b *Bag) {
+			b.Files[BagItFile] = []byte("BagIt-Version: 0.97\nTag-File-Character-Encoding: UTF-8\n")
+		}, opts, BagItFile, KindFormat, "1.0"},
+		{"bagit.txt garbage", func(b *Bag) { b.Files[BagItFile] = []byte("garbage") }, opts, BagItFile, KindFormat, ""},
+		{"deleted bagit.txt", func(b *Bag) { delete(b.Files, BagItFile) }, opts, BagItFile, KindMissing, ""},
+		{"manifest lists a tag file", func(b *Bag) {
+			b.Files[ManifestFile] = append(b.Files[ManifestFile], []byte(sha256Hex(b.Files[RunFile])+"  run.json\n")...)
+		}, opts, ManifestFile, KindFormat, ""},
+		{"manifest malformed", func(b *Bag) { b.Files[ManifestFile] = []byte("zz  data/x\n") }, opts, ManifestFile, KindFormat, ""},
+		{"tag manifest lists a payload file", func(b *Bag) {
+			b.Files[TagManifestFile] = append(b.Files[TagManifestFile], []byte(sha256Hex(b.Files["data/results/fits.csv"])+"  data/results/fits.csv\n")...)
+		}, opts, TagManifestFile, KindFormat, ""},
+		{"tag manifest drops run.json", func(b *Bag) {
+			b.Files[TagManifestFile] = manifest(b.Files, []string{BagInfoFile, BagItFile, ManifestFile})
+			sig, _ := signTagManifest(testSigner(t), b.Files[TagManifestFile])
+			b.Files[SignatureFile] = sig
+		}, opts, RunFile, KindExtra, ""},
+		{"deleted bag-info.txt", func(b *Bag) { delete(b.Files, BagInfoFile) }, opts, BagInfoFile, KindMissing, ""},
 		{"oxum edited and re-listed", func(b *Bag) {
 			b.Files[BagInfoFile] = bytes.Replace(b.Files[BagInfoFile], []byte("Payload-Oxum: "), []byte("Payload-Oxum: 9"), 1)
 			b.Files[TagManifestFile] = manifest(b.Files, tagManifestCovers)
@@ -238,4 +257,13 @@ func hasFinding(fs []Finding, member, kind string) bool {
 		}
 	}
 	return false
+}
+
+func TestDefaultOutput(t *testing.T) {
+	got := DefaultOutput(filepath.Join("studies", "pumps", "fitseal.toml"), "harbor-pumps-2026",
+		time.Date(2026, 12, 2, 4, 5, 6, 0, time.FixedZone("CET", 3600)))
+	want := filepath.Join("studies", "pumps", "bundles", "harbor-pumps-2026-20261202T030506Z.tar.gz")
+	if got != want || !IsArchivePath(got) || IsArchivePath("bundles/x") {
+		t.Errorf("DefaultOutput = %s, want %s", got, want)
+	}
 }
