@@ -267,3 +267,21 @@ func TestDefaultOutput(t *testing.T) {
 		t.Errorf("DefaultOutput = %s, want %s", got, want)
 	}
 }
+
+func TestPrivateKeyNeverSealed(t *testing.T) {
+	private, _, _, err := GenerateKey(nil, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := testContents()
+	c.Payload["inputs/data/id_ed25519"] = private
+	_, err = Members(c, testSigner(t))
+	if err == nil || !strings.Contains(err.Error(), "data/inputs/data/id_ed25519 holds a private key") {
+		t.Errorf("private key in the payload: %v", err)
+	}
+	c = testContents()
+	c.RunJSON = append([]byte("{\"key\":\""), private...)
+	if _, err := Members(c, testSigner(t)); err == nil || !strings.Contains(err.Error(), "run.json") {
+		t.Errorf("private key in run.json: %v", err)
+	}
+}
