@@ -218,3 +218,27 @@ func TestCountLogLikRefusesCensored(t *testing.T) {
 		}
 	}
 }
+
+// TestNegBinomialBracket: counts that are mostly zero with a few very large
+// values put the size's root far below the method-of-moments guess; the
+// fit must still find it (checked by the profile score's sign change and
+// against nearby sizes).
+func TestNegBinomialBracket(t *testing.T) {
+	x := make([]float64, 200)
+	x[0], x[1], x[2], x[3] = 4000, 1500, 900, 2
+	d := Complete(x)
+	fit, err := negBinomialFamily{}.Fit(d, Options{})
+	if err != nil || !fit.Converged || fit.Note != "" {
+		t.Fatalf("%v %+v", err, fit)
+	}
+	r := fit.Estimates[0]
+	for _, h := range []float64{0.999, 1.001} {
+		if ll := (negBinomialFamily{}).LogLik([]float64{r * h, fit.Estimates[1]}, d); ll > fit.LogLik {
+			t.Errorf("size %v·%v beats the fit: %v > %v", r, h, ll, fit.LogLik)
+		}
+	}
+	xb, s2 := meanVar(x)
+	if r0 := xb * xb / (s2 - xb); r > r0/2 {
+		t.Logf("root %v not below half the moment guess %v: the case does not exercise the bracket", r, r0)
+	}
+}

@@ -255,8 +255,19 @@ func (f negBinomialFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	evals := 0
 	fdf := func(r float64) (float64, float64) { evals++; return sc.eval(r) }
 	score := func(r float64) float64 { v, _ := fdf(r); return v }
-	r0 := xb * xb / (s2 - xb) // method of moments
-	lo, hi, ok := expandBracket(score, r0/2, 2*r0)
+	// The score is positive below the root and negative above it (the root
+	// is unique), so the bracket grows on each side separately from the
+	// method-of-moments size.
+	r0 := xb * xb / (s2 - xb)
+	lo, hi := r0/2, 2*r0
+	for i := 0; i < 2000 && score(lo) <= 0; i++ {
+		lo /= 2
+	}
+	ok := score(lo) > 0
+	for i := 0; ok && i < 2000 && score(hi) >= 0; i++ {
+		hi *= 2
+	}
+	ok = ok && score(hi) < 0
 	if !ok {
 		return limit("the profile likelihood in size keeps increasing (no root of the score up to size " +
 			fmt.Sprintf("%.3g", hi) + ")"), nil
