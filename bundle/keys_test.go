@@ -86,7 +86,7 @@ func TestLoadSignerErrors(t *testing.T) {
 }
 
 // TestSSHKeygenKeys: keys made by OpenSSH's ssh-keygen load (Ed25519,
-// unencrypted) or are refused with a clear error (encrypted, RSA); the
+// unencrypted) or are refused with a clear error (encrypted, ECDSA); the
 // fingerprint matches 'ssh-keygen -l'.
 func TestSSHKeygenKeys(t *testing.T) {
 	keygen := needSSHKeygen(t)
@@ -112,13 +112,13 @@ func TestSSHKeygenKeys(t *testing.T) {
 		t.Errorf("ssh-keygen -l says %q, fitseal says %s", out, s.Fingerprint())
 	}
 
-	enc := mk("enc", "-t", "ed25519", "-N", "correct horse")
+	enc := mk("enc", "-t", "ed25519", "-a", "1", "-N", "correct horse")
 	if _, err := LoadSigner(enc); !errors.Is(err, ErrEncryptedKey) || !strings.Contains(err.Error(), "fitseal keygen") {
 		t.Errorf("encrypted key: %v, want ErrEncryptedKey with a hint", err)
 	}
-	rsa := mk("rsa", "-t", "rsa", "-b", "2048", "-N", "")
-	if _, err := LoadSigner(rsa); err == nil || !strings.Contains(err.Error(), "Ed25519") {
-		t.Errorf("RSA key: %v, want a refusal naming Ed25519", err)
+	ecdsa := mk("ecdsa", "-t", "ecdsa", "-N", "")
+	if _, err := LoadSigner(ecdsa); err == nil || !strings.Contains(err.Error(), "Ed25519") {
+		t.Errorf("ECDSA key: %v, want a refusal naming Ed25519", err)
 	}
 }
 
