@@ -14,21 +14,38 @@
 //
 // # Data
 //
+// Group order is the order of first appearance among the rows that `where`
+// keeps. In interval data an empty cell is an open bound; a row with both
+// bounds open, or with another missing token, counts as missing; a row with
+// lower ≥ upper is an error. A trials column cannot be combined with
+// censoring, and a count above its trials is an error.
+//
 // [ReadDataset] streams one CSV file and returns one group per value of the
 // dataset's split_by column (or a single group), with censoring taken from a
 // status column or from lower/upper columns. Every problem is a
 // [*DataError] naming file:line:column.
 //
+// # Inference
+//
+// Every converged fit gets, from package fitters/infer: standard errors from
+// the observed information and intervals by the project's method (wald,
+// profile or bootstrap); the derived quantities asked for (quantiles, return
+// levels, exceedance probabilities) with intervals, and their
+// Akaike-weighted model averages; goodness-of-fit statistics with
+// parametric-bootstrap p-values. One bootstrap of settings.bootstrap
+// replicates per fit serves both the bootstrap intervals and the p-values;
+// censored data are not simulated (the censoring mechanism is not recorded),
+// and results.json says so.
+//
 // # Seeds
 //
-// Every random stream of a run has its own seed, derived from the master
-// seed and the task's identity by [DeriveSeed]: the first eight bytes
-// (big-endian) of the SHA-256 digest of
-//
-//	"fitseal seed v1\x00" + decimal(master) + "\x00" + analysis + "\x00" + family + "\x00" + purpose
-//
-// so a seed never depends on the order in which tasks run, and one task's
-// seed does not change when other analyses are added or removed.
+// Every random stream of a run belongs to one fit: replicate r of the
+// bootstrap of family F in analysis A draws from a PCG generator seeded with
+// the first 16 bytes of SHA-256("MASTER|A|F|bootstrap|r") (see
+// [SeedDerivation] and infer.Stream), so no seed depends on the order in which
+// tasks run or on the number of workers, and one fit's streams do not change
+// when other analyses are added or removed. [Results.Record] lists every
+// stream with its replicate count and replicate 0's seed.
 //
 // # Results
 //

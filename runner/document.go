@@ -79,18 +79,22 @@ type docFit struct {
 	Support       string         `json:"support"`
 	Converged     bool           `json:"converged"`
 	Note          string         `json:"note"`
+	Inference     string         `json:"inference_note"`
 	Parameters    []docParameter `json:"parameters"`
 	Optimizer     *Optimizer     `json:"optimizer,omitempty"`
 }
 
 type docParameter struct {
-	Name     string `json:"name"`
-	Estimate Number `json:"estimate"`
-	StdError Number `json:"std_error"`
-	CILower  Number `json:"ci_lower"`
-	CIUpper  Number `json:"ci_upper"`
-	CIMethod string `json:"ci_method"`
-	Fixed    bool   `json:"fixed"`
+	Name      string `json:"name"`
+	Estimate  Number `json:"estimate"`
+	StdError  Number `json:"std_error"`
+	CILower   Number `json:"ci_lower"`
+	CIUpper   Number `json:"ci_upper"`
+	LowerOpen bool   `json:"ci_lower_open"`
+	UpperOpen bool   `json:"ci_upper_open"`
+	CIMethod  string `json:"ci_method"`
+	Fixed     bool   `json:"fixed"`
+	Note      string `json:"note"`
 }
 
 // Optimizer is the convergence record of one fit as results.json and run.json show it.
@@ -105,13 +109,17 @@ type Optimizer struct {
 }
 
 type docDerived struct {
-	Family   string `json:"family"`
-	Quantity string `json:"quantity"`
-	Argument Number `json:"argument"`
-	Estimate Number `json:"estimate"`
-	CILower  Number `json:"ci_lower"`
-	CIUpper  Number `json:"ci_upper"`
-	CIMethod string `json:"ci_method"`
+	Family    string `json:"family"`
+	Quantity  string `json:"quantity"`
+	Argument  Number `json:"argument"`
+	Estimate  Number `json:"estimate"`
+	StdError  Number `json:"std_error"`
+	CILower   Number `json:"ci_lower"`
+	CIUpper   Number `json:"ci_upper"`
+	LowerOpen bool   `json:"ci_lower_open"`
+	UpperOpen bool   `json:"ci_upper_open"`
+	CIMethod  string `json:"ci_method"`
+	Note      string `json:"note"`
 }
 
 type docGOF struct {
@@ -120,6 +128,7 @@ type docGOF struct {
 	Value      Number `json:"value"`
 	PValue     Number `json:"p_value"`
 	Replicates int    `json:"replicates"`
+	Note       string `json:"note"`
 }
 
 func optimizer(f *fitters.Fit) *Optimizer {
@@ -153,7 +162,7 @@ func (r *Results) document() docRoot {
 			df := docFit{Family: row.Family, Applicable: row.Inapplicable == "", Inapplicable: row.Inapplicable,
 				N: da.N, NCensored: da.NCensored, LogLik: Number(math.NaN()),
 				AIC: Number(row.AIC), AICc: Number(row.AICc), BIC: Number(row.BIC), Delta: Number(row.Delta), Weight: Number(row.Weight),
-				EvidenceRatio: Number(row.EvidenceRatio), Rank: row.Rank, Support: row.Support, Note: row.Note,
+				EvidenceRatio: Number(row.EvidenceRatio), Rank: row.Rank, Support: row.Support, Note: row.Note, Inference: a.Inference[i],
 				Parameters: []docParameter{}}
 			if f := row.Fit; f != nil {
 				df.N, df.NCensored, df.Converged = f.N, f.NCensored, f.Converged
@@ -165,16 +174,18 @@ func (r *Results) document() docRoot {
 			}
 			for _, pr := range a.Parameters[i] {
 				df.Parameters = append(df.Parameters, docParameter{Name: pr.Parameter, Estimate: Number(pr.Estimate),
-					StdError: Number(pr.StdError), CILower: Number(pr.CILower), CIUpper: Number(pr.CIUpper), CIMethod: pr.CIMethod, Fixed: pr.Fixed})
+					StdError: Number(pr.StdError), CILower: Number(pr.CILower), CIUpper: Number(pr.CIUpper), LowerOpen: pr.LowerOpen, UpperOpen: pr.UpperOpen,
+					CIMethod: pr.CIMethod, Fixed: pr.Fixed, Note: pr.Note})
 			}
 			da.Fits = append(da.Fits, df)
 		}
 		for _, d := range a.Derived {
 			da.Derived = append(da.Derived, docDerived{Family: d.Family, Quantity: d.Quantity, Argument: Number(d.Argument),
-				Estimate: Number(d.Estimate), CILower: Number(d.CILower), CIUpper: Number(d.CIUpper), CIMethod: d.CIMethod})
+				Estimate: Number(d.Estimate), StdError: Number(d.StdError), CILower: Number(d.CILower), CIUpper: Number(d.CIUpper),
+				LowerOpen: d.LowerOpen, UpperOpen: d.UpperOpen, CIMethod: d.CIMethod, Note: d.Note})
 		}
 		for _, g := range a.GOF {
-			da.GOF = append(da.GOF, docGOF{Family: g.Family, Statistic: g.Statistic, Value: Number(g.Value), PValue: Number(g.PValue), Replicates: g.Replicates})
+			da.GOF = append(da.GOF, docGOF{Family: g.Family, Statistic: g.Statistic, Value: Number(g.Value), PValue: Number(g.PValue), Replicates: g.Replicates, Note: g.Note})
 		}
 		doc.Analyses = append(doc.Analyses, da)
 	}

@@ -20,12 +20,19 @@ type RunOptions struct {
 	// elapsed time, estimated time left), redrawn in place; the caller
 	// passes a terminal only.
 	Progress io.Writer
+	// RankOnly fits and ranks but skips intervals, derived quantities and
+	// goodness of fit (for `fitseal fit`, which prints the ranking only).
+	RankOnly bool
 }
 
 // taskResult is the outcome of one task.
 type taskResult struct {
 	fit *fitters.Fit
 	err error
+	// inf is what package infer adds to a converged fit; infErr says why it
+	// could not (the fit itself stands).
+	inf    *inference
+	infErr error
 }
 
 // Run reads the project's datasets, fits every task of the plan on a pool
@@ -78,6 +85,12 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 	if workers <= 0 {
 		workers = runtime.NumCPU()
 	}
+	// Bootstrap replicates run inside a task: in parallel only when there are
+	// fewer tasks than workers. Neither changes a number.
+	bootWorkers := 1
+	if len(plan.Tasks) < workers {
+		bootWorkers = workers
+	}
 	workers = min(workers, max(1, len(plan.Tasks)))
 	results := make([]taskResult, len(plan.Tasks))
 	var next, done atomic.Int64
@@ -99,7 +112,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 				if i >= len(plan.Tasks) {
 					return
 				}
-				if err := runTask(p, plan, i, &results[i]); err != nil {
+				if err := runTask(p, plan, i, bootWorkers, opt.RankOnly, &results[i]); err != nil {
 					failOnce.Do(func() { failure = err })
 					cancel()
 					return
@@ -124,7 +137,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 // runTask fits one family; a panic inside a family is turned into an error
 // that names the task, so one broken family does not take the process down
 // silently.
-func runTask(p *Project, plan *Plan, i int, out *taskResult) (err error) {
+func runTask(p *Project, plan *Plan, i, bootWorkers int, rankOnly bool, out *taskResult) (err error) {
 	t := plan.Tasks[i]
 	a := plan.Analyses[t.Analysis]
 	defer func() {
@@ -147,5 +160,8 @@ func runTask(p *Project, plan *Plan, i int, out *taskResult) (err error) {
 		Fixed:         fitters.Fixed(a.Candidates.Fixed[t.Family]),
 	}
 	out.fit, out.err = fam.Fit(d, opt)
+	if !rankOnly && out.err == nil && out.fit != nil && out.fit.Converged {
+		out.inf, out.infErr = inferFit(p, a, fam, out.fit, opt, bootWorkers)
+	}
 	return nil
 }

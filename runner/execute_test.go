@@ -16,12 +16,15 @@ import (
 	"time"
 
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"fitseal/fitters/infer"
 )
 
 // splitProject writes a project with one split dataset of groups × n
 // lifetimes (invented for the test: Weibull draws from a fixed seed, a
-// suspension every seventh row) and returns its path.
-func splitProject(t testing.TB, groups, n int, families string) string {
+// suspension every seventh row when censored) with the given extra
+// [settings] lines, and returns its path.
+func splitProject(t testing.TB, groups, n int, families, settings string, censored bool) string {
 	t.Helper()
 	dir := t.TempDir()
 	var b strings.Builder
@@ -31,7 +34,7 @@ func splitProject(t testing.TB, groups, n int, families string) string {
 		for i := 0; i < n; i++ {
 			x := 1000 * math.Pow(-math.Log(1-r.Float64()), 1/1.5) // Weibull(shape 1.5, scale 1000)
 			state := ""
-			if i%7 == 6 {
+			if censored && i%7 == 6 {
 				state = "+"
 			}
 			fmt.Fprintf(&b, "u%03d,%s,%s\n", g, strconv.FormatFloat(x, 'g', 8, 64), state)
@@ -43,6 +46,7 @@ func splitProject(t testing.TB, groups, n int, families string) string {
 	proj := fmt.Sprintf(`name = "split"
 [settings]
 seed = 42
+%s
 [[dataset]]
 name = "life"
 file = "life.csv"
@@ -58,7 +62,7 @@ dataset = "life"
 candidates = "c"
 quantiles = [0.1, 0.5]
 thresholds = [2000]
-`, families)
+`, settings, families)
 	path := filepath.Join(dir, "fitseal.toml")
 	if err := os.WriteFile(path, []byte(proj), 0o644); err != nil {
 		t.Fatal(err)
@@ -84,7 +88,9 @@ func runFiles(t testing.TB, path string, workers int) map[string][]byte {
 }
 
 func TestRunIsDeterministicAcrossWorkerCounts(t *testing.T) {
-	path := splitProject(t, 12, 40, `"weibull", "lognormal", "gamma", "exponential", "normal", "gev"`)
+	// Complete data, so the bootstrap (p-values and intervals) runs too.
+	path := splitProject(t, 6, 40, `"weibull", "lognormal", "gamma", "exponential", "normal", "gev"`,
+		"bootstrap = 19\nintervals = \"bootstrap\"", false)
 	ref := runFiles(t, path, 1)
 	for _, w := range []int{1, 2, 8} {
 		got := runFiles(t, path, w)
@@ -97,7 +103,7 @@ func TestRunIsDeterministicAcrossWorkerCounts(t *testing.T) {
 }
 
 func TestRunResults(t *testing.T) {
-	path := splitProject(t, 3, 30, `"weibull", "normal", "lognormal"`)
+	path := splitProject(t, 3, 30, `"weibull", "normal", "lognormal"`, "bootstrap = 0\nintervals = \"wald\"", true)
 	files := runFiles(t, path, 2)
 	fits, err := csv.NewReader(bytes.NewReader(files[FitsFile])).ReadAll()
 	if err != nil {
@@ -206,24 +212,8 @@ candidates = "c"
 	}
 }
 
-func TestSeedsAreDerivedFromIdentity(t *testing.T) {
-	a := DeriveSeed(1, "life/u001", "weibull", "gof-bootstrap")
-	if a != DeriveSeed(1, "life/u001", "weibull", "gof-bootstrap") {
-		t.Fatal("DeriveSeed is not a function of its arguments")
-	}
-	for _, other := range []uint64{
-		DeriveSeed(2, "life/u001", "weibull", "gof-bootstrap"),
-		DeriveSeed(1, "life/u002", "weibull", "gof-bootstrap"),
-		DeriveSeed(1, "life/u001", "gamma", "gof-bootstrap"),
-		DeriveSeed(1, "life/u001", "weibull", "interval-bootstrap"),
-		DeriveSeed(1, "life/u00", "1weibull", "gof-bootstrap"),
-	} {
-		if other == a {
-			t.Errorf("two identities share the seed %d", a)
-		}
-	}
-	// The recorded seeds are those of DeriveSeed, whatever the order of execution.
-	p, err := Load(splitProject(t, 2, 10, `"normal", "exponential"`))
+func TestSeedsAreRecordedForEveryBootstrap(t *testing.T) {
+	p, err := Load(splitProject(t, 2, 10, `"normal", "exponential"`, "bootstrap = 9\nintervals = \"wald\"", false))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -232,12 +222,15 @@ func TestSeedsAreDerivedFromIdentity(t *testing.T) {
 		t.Fatal(err)
 	}
 	rec := res.Record()
-	if len(rec.Seeds) != 2*2*len(SeedPurposes) {
-		t.Fatalf("%d seeds recorded, want %d", len(rec.Seeds), 2*2*len(SeedPurposes))
+	if len(rec.Seeds) != 4 {
+		t.Fatalf("%d streams recorded, want 4 (2 groups × 2 families)", len(rec.Seeds))
 	}
 	for _, s := range rec.Seeds {
-		if s.Seed != DeriveSeed(42, s.Analysis, s.Family, s.Purpose) {
-			t.Errorf("seed %+v is not DeriveSeed of its identity", s)
+		st := infer.Stream{Master: 42, Analysis: s.Analysis, Family: s.Family, Purpose: "bootstrap"}
+		a, b := st.StreamSeed(0)
+		want := "42|" + s.Analysis + "|" + s.Family + "|bootstrap|0"
+		if s.Replicates != 9 || s.Identity != want || s.FirstSeed != [2]uint64{a, b} {
+			t.Errorf("stream %+v, want 9 replicates, identity %q and seed %d, %d", s, want, a, b)
 		}
 	}
 	if len(rec.Optimizers) != 4 {
@@ -246,7 +239,7 @@ func TestSeedsAreDerivedFromIdentity(t *testing.T) {
 }
 
 func TestRunCancelled(t *testing.T) {
-	p, err := Load(splitProject(t, 4, 20, `"weibull", "gamma"`))
+	p, err := Load(splitProject(t, 4, 20, `"weibull", "gamma"`, "", true))
 	if err != nil {
 		t.Fatal(err)
 	}

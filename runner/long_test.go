@@ -10,6 +10,10 @@ import (
 	"time"
 )
 
+// longSettings are the study's settings: Wald intervals and no bootstrap
+// (999 refits of each of 9,000 fits is a different study).
+const longSettings = "intervals = \"wald\"\nbootstrap = 0"
+
 // largeFamilies are nine continuous families that take positive lifetimes.
 const largeFamilies = `"weibull", "lognormal", "gamma", "exponential", "normal", "gumbel", "gev", "loglogistic", "invgauss"`
 
@@ -25,7 +29,7 @@ func TestLargeRun(t *testing.T) {
 	if s := os.Getenv("FITSEAL_LONG_GROUPS"); s != "" {
 		groups, _ = strconv.Atoi(s)
 	}
-	path := splitProject(t, groups, 1000, largeFamilies)
+	path := splitProject(t, groups, 1000, largeFamilies, longSettings, true)
 	runtime.GC()
 	var peak uint64
 	stop := make(chan struct{})

@@ -1,11 +1,5 @@
 package runner
 
-import (
-	"crypto/sha256"
-	"encoding/binary"
-	"strconv"
-)
-
 // PlannedAnalysis is one analysis of the plan: an [[analysis]] table applied
 // to one dataset, or to one group of a split dataset.
 type PlannedAnalysis struct {
@@ -56,33 +50,19 @@ func MakePlan(p *Project, data map[string]*DatasetData) *Plan {
 	return pl
 }
 
-// Seed is one derived seed with the identity it was derived from.
+// Seed records one random stream of a run: the parametric bootstrap of one
+// fit. Replicate r of the stream draws from a PCG generator seeded with the
+// first 16 bytes of SHA-256 of the stream's identity with r in place of the
+// last field (see [SeedDerivation]); FirstSeed gives replicate 0's two
+// seed words so that a reader can check the derivation.
 type Seed struct {
-	Analysis string `json:"analysis"`
-	Family   string `json:"family"`
-	Purpose  string `json:"purpose"`
-	Seed     uint64 `json:"seed"`
+	Analysis   string    `json:"analysis"`
+	Family     string    `json:"family"`
+	Purpose    string    `json:"purpose"`
+	Replicates int       `json:"replicates"`
+	Identity   string    `json:"identity_of_replicate_0"`
+	FirstSeed  [2]uint64 `json:"seed_of_replicate_0"`
 }
 
-// SeedPurposes are the random streams each task owns: the parametric
-// bootstrap of the goodness-of-fit p-values and of bootstrap intervals.
-var SeedPurposes = []string{"gof-bootstrap", "interval-bootstrap"}
-
-// SeedDerivation describes DeriveSeed for the record.
-const SeedDerivation = `first 8 bytes, big-endian, of SHA-256("fitseal seed v1\x00" + decimal(master) + "\x00" + analysis + "\x00" + family + "\x00" + purpose)`
-
-// DeriveSeed returns the seed of one task's random stream from the master
-// seed and the task's identity (see [SeedDerivation]). It depends on nothing
-// else, so the seed is the same whatever the order or the worker that runs
-// the task.
-func DeriveSeed(master uint64, analysis, family, purpose string) uint64 {
-	h := sha256.New()
-	h.Write([]byte("fitseal seed v1\x00"))
-	h.Write(strconv.AppendUint(nil, master, 10))
-	for _, s := range []string{analysis, family, purpose} {
-		h.Write([]byte{0})
-		h.Write([]byte(s))
-	}
-	var sum [sha256.Size]byte
-	return binary.BigEndian.Uint64(h.Sum(sum[:0])[:8])
-}
+// SeedDerivation describes how every random stream is seeded, for the record.
+const SeedDerivation = `replicate r of a stream: math/rand/v2 PCG seeded with the first two big-endian 64-bit words of SHA-256("MASTER|ANALYSIS|FAMILY|PURPOSE|r"), MASTER the project's seed in decimal`

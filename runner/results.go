@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"fitseal/fitters"
+	"fitseal/fitters/infer"
 )
 
 // Results is everything a run found, in plan order.
@@ -27,65 +28,74 @@ type AnalysisResult struct {
 	// Parameters per family row (nil for a family that was not fitted or
 	// did not converge), in the order of Comparison.Rows.
 	Parameters [][]ParameterRow
-	Derived    []DerivedRow
-	GOF        []GOFRow
+	// Inference holds, per family row, a note on the intervals and the
+	// bootstrap (why none was drawn, or why inference failed), "" when none.
+	Inference []string
+	Derived   []DerivedRow
+	GOF       []GOFRow
 }
 
-// ParameterRow is one parameter of one fit.
-//
-// Extension point: StdError and the interval stay NaN and CIMethod empty
-// until the inference package (fitters/infer) is wired in; the tables then
-// fill them without changing their layout.
+// ParameterRow is one parameter of one fit: the estimate, its standard
+// error from the observed information and its confidence interval by the
+// project's interval method (package fitters/infer). A side the data do not
+// bound is open: its bound is the limit of the parameter's range.
 type ParameterRow struct {
-	Parameter        string
-	Estimate         float64
-	StdError         float64
-	CILower, CIUpper float64
-	CIMethod         string
-	Fixed            bool
+	Parameter            string
+	Estimate             float64
+	StdError             float64
+	CILower, CIUpper     float64
+	LowerOpen, UpperOpen bool
+	CIMethod             string
+	Fixed                bool
+	Note                 string
 }
 
 // DerivedRow is one derived quantity of one family, or of the Akaike-weighted
 // model average (Family = "model-average").
-//
-// Extension point: the interval stays NaN and CIMethod empty until the
-// inference package provides intervals for derived quantities.
 type DerivedRow struct {
-	Family           string
-	Quantity         string // "quantile", "return_level" or "exceedance"
-	Argument         float64
-	Estimate         float64
-	CILower, CIUpper float64
-	CIMethod         string
+	Family               string
+	Quantity             string // "quantile", "return_level" or "exceedance"
+	Argument             float64
+	Estimate             float64
+	StdError             float64
+	CILower, CIUpper     float64
+	LowerOpen, UpperOpen bool
+	CIMethod             string
+	Note                 string
 }
 
-// GOFRow is one goodness-of-fit statistic (filled when the inference
-// package's goodness-of-fit tests are wired in).
+// GOFRow is one goodness-of-fit statistic of one fit, with its
+// parametric-bootstrap p-value (NaN when bootstrap = 0).
 type GOFRow struct {
 	Family     string
 	Statistic  string
 	Value      float64
 	PValue     float64
 	Replicates int
+	Note       string
 }
 
 // ModelAverage names the Akaike-weighted rows of derived.csv.
 const ModelAverage = "model-average"
 
-// assemble ranks each analysis's candidates and computes the derived
-// quantities, in plan order.
+// assemble ranks each analysis's candidates and gathers intervals, derived
+// quantities and goodness of fit, in plan order.
 func assemble(p *Project, plan *Plan, tasks []taskResult) (*Results, error) {
 	res := &Results{Project: p}
 	ti := 0
 	for _, pa := range plan.Analyses {
 		entries := make([]fitters.Entry, 0, len(pa.Candidates.Families))
+		infs := make([]*taskResult, 0, len(pa.Candidates.Families))
 		for _, fam := range pa.Candidates.Families {
-			tr := tasks[ti]
+			tr := &tasks[ti]
 			ti++
 			entries = append(entries, fitters.Entry{Family: fam, Fit: tr.fit, Err: tr.err})
-			for _, purpose := range SeedPurposes {
-				res.Seeds = append(res.Seeds, Seed{Analysis: pa.Name, Family: fam, Purpose: purpose,
-					Seed: DeriveSeed(p.Settings.Seed, pa.Name, fam, purpose)})
+			infs = append(infs, tr)
+			if tr.inf != nil && tr.inf.replicates > 0 {
+				st := stream(p, pa.Name, fam)
+				a, b := st.StreamSeed(0)
+				res.Seeds = append(res.Seeds, Seed{Analysis: pa.Name, Family: fam, Purpose: st.Purpose,
+					Replicates: tr.inf.replicates, Identity: st.Identity(0), FirstSeed: [2]uint64{a, b}})
 			}
 		}
 		crit, err := fitters.ParseCriterion(pa.Spec.Criterion)
@@ -97,23 +107,49 @@ func assemble(p *Project, plan *Plan, tasks []taskResult) (*Results, error) {
 			return nil, fmt.Errorf("analysis %q: %w", pa.Name, err)
 		}
 		ar := &AnalysisResult{Name: pa.Name, Dataset: pa.DatasetName, Group: pa.Group, Spec: pa.Spec, Comparison: cmp,
-			Parameters: make([][]ParameterRow, len(cmp.Rows))}
+			Parameters: make([][]ParameterRow, len(cmp.Rows)), Inference: make([]string, len(cmp.Rows))}
 		for i, row := range cmp.Rows {
+			tr := infs[i]
+			switch {
+			case tr.infErr != nil:
+				ar.Inference[i] = "no intervals: " + tr.infErr.Error()
+			case tr.inf != nil:
+				ar.Inference[i] = tr.inf.note
+			}
 			if row.Rank > 0 {
-				ar.Parameters[i] = parameterRows(row.Fit)
+				ar.Parameters[i] = parameterRows(row.Fit, tr.inf)
+				ar.GOF = append(ar.GOF, gofRows(row.Family, tr.inf)...)
 			}
 		}
-		ar.Derived = derived(pa.Spec, cmp)
+		ar.Derived = derived(p, pa.Spec, cmp, infs)
 		res.Analyses = append(res.Analyses, ar)
 	}
 	return res, nil
 }
 
-func parameterRows(f *fitters.Fit) []ParameterRow {
+func parameterRows(f *fitters.Fit, inf *inference) []ParameterRow {
 	rows := make([]ParameterRow, len(f.Parameters))
 	for i, name := range f.Parameters {
 		rows[i] = ParameterRow{Parameter: name, Estimate: f.Estimates[i], StdError: math.NaN(),
 			CILower: math.NaN(), CIUpper: math.NaN(), Fixed: f.Fixed[i]}
+		if inf != nil && i < len(inf.parameters) {
+			pi := inf.parameters[i]
+			r := &rows[i]
+			r.StdError, r.CILower, r.CIUpper = pi.StdError, pi.Lower, pi.Upper
+			r.LowerOpen, r.UpperOpen, r.CIMethod, r.Note = pi.LowerOpen, pi.UpperOpen, pi.Method, pi.Note
+		}
+	}
+	return rows
+}
+
+func gofRows(family string, inf *inference) []GOFRow {
+	if inf == nil || inf.gof == nil || !inf.gof.Applicable {
+		return nil
+	}
+	var rows []GOFRow
+	for _, st := range inf.gof.Statistics {
+		rows = append(rows, GOFRow{Family: family, Statistic: st.Name, Value: st.Value, PValue: st.PValue,
+			Replicates: st.Replicates, Note: st.Note})
 	}
 	return rows
 }
@@ -122,80 +158,87 @@ func parameterRows(f *fitters.Fit) []ParameterRow {
 type quantity struct {
 	kind string
 	arg  float64
-	// of evaluates it under one fitted distribution.
-	of func(fitters.Dist) float64
 }
 
+// quantities lists an analysis's derived quantities: quantiles, then return
+// levels (the quantile at 1 − 1/T), then exceedance probabilities P(X > t).
 func quantities(a *Analysis) []quantity {
 	var qs []quantity
 	for _, q := range a.Quantiles {
-		qs = append(qs, quantity{"quantile", q, func(d fitters.Dist) float64 { return d.Quantile(q) }})
+		qs = append(qs, quantity{"quantile", q})
 	}
-	// The T-year return level is the quantile at 1 − 1/T (annual maxima).
 	for _, t := range a.ReturnPeriods {
-		qs = append(qs, quantity{"return_level", t, func(d fitters.Dist) float64 { return d.Quantile(1 - 1/t) }})
+		qs = append(qs, quantity{"return_level", t})
 	}
 	for _, x := range a.Thresholds {
-		qs = append(qs, quantity{"exceedance", x, func(d fitters.Dist) float64 { return math.Exp(d.LogSurvival(x)) }})
+		qs = append(qs, quantity{"exceedance", x})
 	}
 	return qs
 }
 
-// derived evaluates each quantity under every ranked fit, then the
-// Akaike-weighted model average Σ wᵢ θ̂ᵢ over the ranked fits (Burnham &
-// Anderson, 2002, §4.2.1). The average is left out (NaN) when any ranked
-// fit's value is not finite.
-func derived(a *Analysis, cmp *fitters.Comparison) []DerivedRow {
+func derivedRow(family string, v infer.DerivedValue) DerivedRow {
+	return DerivedRow{Family: family, Quantity: string(v.Quantity), Argument: v.Argument, Estimate: v.Estimate,
+		StdError: v.StdError, CILower: v.Lower, CIUpper: v.Upper, LowerOpen: v.LowerOpen, UpperOpen: v.UpperOpen,
+		CIMethod: v.Method, Note: v.Note}
+}
+
+// derived lists each quantity under every ranked fit, then the
+// Akaike-weighted model average over the ranked fits with its unconditional
+// standard error (Burnham & Anderson, 2002, eqs. 4.1 and 4.9; computed by
+// infer.ModelAverage).
+func derived(p *Project, a *Analysis, cmp *fitters.Comparison, tasks []*taskResult) []DerivedRow {
 	qs := quantities(a)
 	if len(qs) == 0 {
 		return nil
 	}
 	var rows []DerivedRow
-	dists := make([]fitters.Dist, len(cmp.Rows))
+	ranked := 0
 	for i, r := range cmp.Rows {
 		if r.Rank == 0 {
 			continue
 		}
-		fam, _ := fitters.Lookup(r.Family)
-		if d, err := fam.New(r.Fit.Estimates); err == nil {
-			dists[i] = d
-		}
-	}
-	for i, r := range cmp.Rows {
-		if dists[i] == nil {
-			continue
-		}
-		for _, q := range qs {
-			rows = append(rows, DerivedRow{Family: r.Family, Quantity: q.kind, Argument: q.arg, Estimate: q.of(dists[i]),
-				CILower: math.NaN(), CIUpper: math.NaN()})
-		}
-	}
-	ranked := 0
-	for _, r := range cmp.Rows {
-		if r.Rank > 0 {
-			ranked++
+		ranked++
+		inf := tasks[i].inf
+		for k, q := range qs {
+			if inf != nil && k < len(inf.derived) {
+				rows = append(rows, derivedRow(r.Family, inf.derived[k]))
+				continue
+			}
+			nan := math.NaN()
+			rows = append(rows, DerivedRow{Family: r.Family, Quantity: q.kind, Argument: q.arg, Estimate: nan,
+				StdError: nan, CILower: nan, CIUpper: nan, Note: "not computed: " + errText(tasks[i].infErr)})
 		}
 	}
 	if ranked == 0 {
 		return rows
 	}
-	for _, q := range qs {
-		avg := 0.0
+	for k, q := range qs {
+		var cands []infer.Candidate
 		for i, r := range cmp.Rows {
 			if r.Rank == 0 {
 				continue
 			}
-			if dists[i] == nil {
-				avg = math.NaN()
-				break
+			c := infer.Candidate{Family: r.Family, Weight: r.Weight, Estimate: math.NaN(), StdError: math.NaN()}
+			if inf := tasks[i].inf; inf != nil && k < len(inf.derived) {
+				c.Estimate, c.StdError = inf.derived[k].Estimate, inf.derived[k].StdError
 			}
-			avg += r.Weight * q.of(dists[i])
+			cands = append(cands, c)
 		}
-		if math.IsInf(avg, 0) {
-			avg = math.NaN()
+		v, err := infer.ModelAverage(infer.Quantity(q.kind), q.arg, cands, p.Settings.Confidence)
+		if err != nil {
+			nan := math.NaN()
+			rows = append(rows, DerivedRow{Family: ModelAverage, Quantity: q.kind, Argument: q.arg, Estimate: nan,
+				StdError: nan, CILower: nan, CIUpper: nan, Note: err.Error()})
+			continue
 		}
-		rows = append(rows, DerivedRow{Family: ModelAverage, Quantity: q.kind, Argument: q.arg, Estimate: avg,
-			CILower: math.NaN(), CIUpper: math.NaN()})
+		rows = append(rows, derivedRow(ModelAverage, v))
 	}
 	return rows
+}
+
+func errText(err error) string {
+	if err == nil {
+		return "no inference for this fit"
+	}
+	return err.Error()
 }

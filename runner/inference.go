@@ -1,0 +1,84 @@
+package runner
+
+import (
+	"errors"
+	"fmt"
+
+	"fitseal/fitters"
+	"fitseal/fitters/infer"
+)
+
+// BootstrapPurpose is the purpose of the one random stream family each fit
+// owns: its parametric-bootstrap replicates, shared by the bootstrap
+// intervals and the goodness-of-fit p-values.
+const BootstrapPurpose = "bootstrap"
+
+// inference is what package infer adds to one converged fit.
+type inference struct {
+	parameters []infer.ParameterInterval
+	// derived holds one value per quantity of the analysis, in the order of
+	// quantities().
+	derived []infer.DerivedValue
+	gof     *infer.GoodnessOfFit
+	// replicates is the bootstrap actually drawn (0 when none was); note
+	// says why none was, when one was asked for.
+	replicates, failed int
+	note               string
+}
+
+// stream is the identity of a fit's bootstrap stream.
+func stream(p *Project, analysis, family string) infer.Stream {
+	return infer.Stream{Master: p.Settings.Seed, Analysis: analysis, Family: family, Purpose: BootstrapPurpose}
+}
+
+// infer computes intervals, derived quantities and goodness of fit for a
+// converged fit: one parametric bootstrap of B = settings.bootstrap
+// replicates (when the data are complete) serves both the bootstrap
+// intervals and the p-values; the observed information is computed once.
+// bootWorkers is the parallelism of the bootstrap (it never changes a
+// number).
+func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.Fit, opt fitters.Options, bootWorkers int) (*inference, error) {
+	d := &pa.Group.Data
+	s := p.Settings
+	out := &inference{}
+	method, err := infer.ParseMethod(s.Intervals)
+	if err != nil {
+		return nil, err
+	}
+	settings := infer.Settings{Level: s.Confidence, Bootstrap: infer.BootstrapOptions{
+		Replicates: s.Bootstrap, Workers: bootWorkers, Stream: stream(p, pa.Name, fam.Name()), Fit: opt}}
+	if info, err := infer.ObservedInformation(fam, fit, d); err == nil {
+		settings.Information = info
+	}
+	if s.Bootstrap > 0 {
+		rep, err := infer.Bootstrap(fam, fit, d, settings.Bootstrap)
+		switch {
+		case errors.Is(err, infer.ErrBootstrapNotApplicable):
+			out.note = "no bootstrap: " + err.Error()
+		case err != nil:
+			out.note = "bootstrap failed: " + err.Error()
+		default:
+			settings.Replicates = rep
+			out.replicates, out.failed = rep.Requested, rep.Failed
+		}
+	}
+	if method == infer.MethodBootstrap && settings.Replicates == nil {
+		// Without replicates the bootstrap method would only try again and
+		// fail the same way: say so once, on every row.
+		settings.Bootstrap.Replicates = 0
+	}
+	if out.parameters, err = infer.Intervals(fam, fit, d, method, settings); err != nil {
+		return nil, fmt.Errorf("intervals: %w", err)
+	}
+	for _, q := range quantities(pa.Spec) {
+		v, err := infer.Derived(fam, fit, d, infer.Quantity(q.kind), q.arg, method, settings)
+		if err != nil {
+			return nil, fmt.Errorf("%s %v: %w", q.kind, q.arg, err)
+		}
+		out.derived = append(out.derived, v)
+	}
+	if out.gof, err = infer.CheckFitFrom(fam, fit, d, settings.Replicates); err != nil {
+		return nil, fmt.Errorf("goodness of fit: %w", err)
+	}
+	return out, nil
+}
