@@ -137,7 +137,7 @@ func (f betaFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	starts = append(starts, []float64{0, 0}, []float64{math.Log(0.5), math.Log(0.5)}, []float64{math.Log(5 * m), math.Log(5 * (1 - m))})
 	dist := func(t []float64) Dist { return Beta{math.Exp(t[0]), math.Exp(t[1])} }
-	o := minimize(likelihoodProblem(2, betaNLL(float64(len(d.Exact)), s1, s2), dist, d), starts, opt)
+	o := minimizeRestarted(likelihoodProblem(2, betaNLL(float64(len(d.Exact)), s1, s2), dist, d), starts, opt)
 	var est []float64
 	if o.theta != nil {
 		est = []float64{math.Exp(o.theta[0]), math.Exp(o.theta[1])}

@@ -214,14 +214,16 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	dist := func(t []float64) Dist { return GEV{t[0], math.Exp(t[1]), t[2]} }
 	starts := gevStarts(d.Values())
 	prob := likelihoodProblem(3, gevNLL(d.Exact), dist, d)
-	o := minimize(prob, starts, opt)
+	sub, ratio := stagedSubproblem(d, d.Exact, 3, gevNLL)
+	o, staged := minimizeStaged(prob, sub, ratio, starts, opt)
+	method := stagedMethod("BFGS on (location, log scale, shape)", staged)
 	if o.theta == nil {
-		fit.setOptimum(o, nil, "BFGS on (location, log scale, shape)")
+		fit.setOptimum(o, nil, method)
 		return fit, nil
 	}
 	est := []float64{o.theta[0], math.Exp(o.theta[1]), o.theta[2]}
 	if est[2] > -1 {
-		fit.setOptimum(o, est, "BFGS on (location, log scale, shape)")
+		fit.setOptimum(o, est, method)
 		if est[2] < -0.5 {
 			fit.Note = "shape < −0.5: the maximum is a regular local maximum, but the usual asymptotic standard errors do not hold (Smith, 1985)"
 		}
@@ -246,16 +248,16 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			cstarts = append(cstarts, []float64{s[0], s[1], math.Log(s[2] + 1)})
 		}
 	}
-	c := minimize(cprob, cstarts, opt)
-	const method = "BFGS on (location, log scale, log(shape + 1))"
+	c := minimizeRestarted(cprob, cstarts, opt)
+	const cmethod = "BFGS on (location, log scale, log(shape + 1))"
 	if c.theta != nil && c.converged && c.theta[2] > math.Log(1e-6) {
 		u := constrained(c.theta)
-		fit.setOptimum(c, []float64{u[0], math.Exp(u[1]), u[2]}, method)
+		fit.setOptimum(c, []float64{u[0], math.Exp(u[1]), u[2]}, cmethod)
 		fit.Note = fmt.Sprintf("likelihood unbounded for shape < −1 (upper endpoint at the sample maximum); reported the largest local maximum with shape > −1 (log-likelihood %.6g there); usual standard errors do not hold (Smith, 1985)", fit.LogLik)
 		return fit, nil
 	}
 	fit.Convergence = Convergence{
-		Method:      method,
+		Method:      cmethod,
 		Iterations:  o.iterations + c.iterations,
 		Evaluations: o.evaluations + c.evaluations,
 		Converged:   false,

@@ -195,13 +195,15 @@ func (f gpdFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	starts := gpdStarts(excess)
 	dist := func(t []float64) Dist { return GPD{math.Exp(t[0]), t[1], u} }
-	o := minimize(likelihoodProblem(2, gpdNLL(y), dist, d), starts, opt)
+	sub, ratio := stagedSubproblem(d, y, 2, gpdNLL)
+	o, staged := minimizeStaged(likelihoodProblem(2, gpdNLL(y), dist, d), sub, ratio, starts, opt)
+	method := stagedMethod("BFGS on (log scale, shape)", staged)
 	if o.theta == nil {
-		fit.setOptimum(o, nil, "BFGS on (log scale, shape)")
+		fit.setOptimum(o, nil, method)
 		return fit, nil
 	}
 	if o.theta[1] > -1 {
-		fit.setOptimum(o, []float64{math.Exp(o.theta[0]), o.theta[1], u}, "BFGS on (log scale, shape)")
+		fit.setOptimum(o, []float64{math.Exp(o.theta[0]), o.theta[1], u}, method)
 		if o.theta[1] < -0.5 {
 			fit.Note = "shape < −0.5: a regular local maximum, but the usual asymptotic standard errors do not hold (Smith, 1985)"
 		}
@@ -222,16 +224,16 @@ func (f gpdFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	for _, s := range starts {
 		cstarts = append(cstarts, []float64{s[0], math.Log(s[1] + 1)})
 	}
-	c := minimize(cprob, cstarts, opt)
-	const method = "BFGS on (log scale, log(shape + 1))"
+	c := minimizeRestarted(cprob, cstarts, opt)
+	const cmethod = "BFGS on (log scale, log(shape + 1))"
 	if c.theta != nil && c.converged && c.theta[1] > math.Log(1e-6) {
 		xi := -1 + math.Exp(c.theta[1])
-		fit.setOptimum(c, []float64{math.Exp(c.theta[0]), xi, u}, method)
+		fit.setOptimum(c, []float64{math.Exp(c.theta[0]), xi, u}, cmethod)
 		fit.Note = "likelihood unbounded for shape < −1 (upper endpoint at the largest value); reported the largest local maximum with shape > −1; usual standard errors do not hold (Smith, 1985)"
 		return fit, nil
 	}
 	fit.Convergence = Convergence{
-		Method:      method,
+		Method:      cmethod,
 		Iterations:  o.iterations + c.iterations,
 		Evaluations: o.evaluations + c.evaluations,
 		Reason:      "non-regular likelihood: it grows without bound as shape < −1 and the upper endpoint approaches the largest value, and no local maximum with shape > −1 was found",

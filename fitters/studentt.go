@@ -236,8 +236,9 @@ func (f studentTFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	fit := newFit(f, d)
 	dist := func(t []float64) Dist { return StudentT{t[0], math.Exp(t[1]), math.Exp(t[2])} }
-	o := minimize(likelihoodProblem(3, studentTNLL(d.Exact), dist, d), studentTStarts(d.Values()), opt)
-	const method = "BFGS on (location, log scale, log df)"
+	sub, ratio := stagedSubproblem(d, d.Exact, 3, studentTNLL)
+	o, staged := minimizeStaged(likelihoodProblem(3, studentTNLL(d.Exact), dist, d), sub, ratio, studentTStarts(d.Values()), opt)
+	method := stagedMethod("BFGS on (location, log scale, log df)", staged)
 	var est []float64
 	if o.theta != nil {
 		est = []float64{o.theta[0], math.Exp(o.theta[1]), math.Exp(o.theta[2])}

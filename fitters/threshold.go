@@ -91,13 +91,14 @@ func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error
 		a0, b0 := m.start(y)
 		starts := [][]float64{{a0, b0}, {a0 + 0.5, b0}, {a0 - 0.5, b0}}
 		dist := func(t []float64) Dist { a, b := m.natural(t[0], t[1]); return m.dist(a, b, u) }
-		o := minimize(likelihoodProblem(2, m.nll(dev, false), dist, d), starts, opt)
+		sub, ratio := stagedSubproblem(d, dev, 2, func(x []float64) exactNLL { return m.nll(x, false) })
+		o, staged := minimizeStaged(likelihoodProblem(2, m.nll(dev, false), dist, d), sub, ratio, starts, opt)
 		var est []float64
 		if o.theta != nil {
 			a, b := m.natural(o.theta[0], o.theta[1])
 			est = []float64{a, b, u}
 		}
-		fit.setOptimum(o, est, "BFGS on the excesses over the fixed threshold")
+		fit.setOptimum(o, est, stagedMethod("BFGS on the excesses over the fixed threshold", staged))
 		return fit, nil
 	}
 
@@ -130,39 +131,33 @@ func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error
 			starts = append(starts, []float64{a0, b0, math.Log(gap)})
 		}
 	}
-	var (
-		best            *optimum
-		iters, evals    int
-		runaway, tooFar bool
-		lastReason      string
-		farLimit        = math.Log(1e4 * span)
-		nearBoundary    = math.Log(1e-3 * span)
-	)
-	for _, s := range starts {
-		o := minimize(prob, [][]float64{s}, opt)
-		iters += o.iterations
-		evals += o.evaluations
-		if o.theta == nil {
-			continue
-		}
-		t := o.theta[2]
-		switch {
-		case t > farLimit:
-			tooFar = true
-			continue
-		case !o.converged && t < nearBoundary:
-			runaway = true
-			continue
-		case !o.converged:
-			lastReason = o.reason
-			continue
-		}
-		if best == nil || o.negLogLik < best.negLogLik {
-			oc := o
-			best = &oc
+	farLimit, nearBoundary := math.Log(1e4*span), math.Log(1e-3*span)
+	staged := false
+	r := thresholdRuns{}
+	if d.IsComplete() && len(dev) > stageAbove {
+		// Staged: the starts on a subsample that keeps the minimum (dev 0),
+		// the best interior maximum polished on all values.
+		sdev := append(startSubsample(dev, stageSubsample), 0)
+		sub := likelihoodProblem(3, m.nll(sdev, true), nil, Complete(sdev))
+		r = runThresholdStarts(sub, starts, opt, farLimit, nearBoundary)
+		if r.best != nil {
+			o := whitenedPolish(prob, sub, float64(len(dev))/float64(len(sdev)), r.best.theta, opt)
+			r.iters += o.iterations
+			r.evals += o.evaluations
+			if o.converged && o.theta[2] < farLimit {
+				r.best, staged = &o, true
+			}
 		}
 	}
-	const method = "BFGS on the two shape/scale parameters and log(min − threshold), each start separately"
+	if !staged {
+		full := runThresholdStarts(prob, starts, opt, farLimit, nearBoundary)
+		full.iters += r.iters
+		full.evals += r.evals
+		r = full
+	}
+	best, iters, evals := r.best, r.iters, r.evals
+	runaway, tooFar, lastReason := r.runaway, r.tooFar, r.lastReason
+	method := stagedMethod("BFGS on the two shape/scale parameters and log(min − threshold), each start separately", staged)
 	if best != nil {
 		best.iterations, best.evaluations, best.starts = iters, evals, len(starts)
 		a, b := m.natural(best.theta[0], best.theta[1])
@@ -185,4 +180,54 @@ func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error
 		fit.Reason = "no start gave a finite log-likelihood"
 	}
 	return fit, nil
+}
+
+// thresholdRuns collects the separate runs of fitThreshold's starts.
+type thresholdRuns struct {
+	best            *optimum // the converged run with the highest likelihood
+	iters, evals    int
+	runaway, tooFar bool   // some run went to the minimum, or to γ → −∞
+	lastReason      string // why the last other run failed
+}
+
+// runThresholdStarts runs each start on its own and classifies the result:
+// t = ln(min − γ) beyond farLimit is the γ → −∞ limit, a run that did not
+// converge below nearBoundary ran away to the minimum, and only converged
+// runs (stationary points, interior by construction) compete for best.
+func runThresholdStarts(prob problem, starts [][]float64, opt Options, farLimit, nearBoundary float64) thresholdRuns {
+	var r thresholdRuns
+	for _, s := range starts {
+		o := minimize(prob, [][]float64{s}, opt)
+		if o.theta != nil && !o.converged && o.theta[2] >= nearBoundary && o.theta[2] <= farLimit {
+			// A restart at the end point judges it by its own gradient scale.
+			o2 := minimize(prob, [][]float64{o.theta}, opt)
+			o2.iterations += o.iterations
+			o2.evaluations += o.evaluations
+			if o2.theta != nil && o2.negLogLik <= o.negLogLik {
+				o = o2
+			}
+		}
+		r.iters += o.iterations
+		r.evals += o.evaluations
+		if o.theta == nil {
+			continue
+		}
+		t := o.theta[2]
+		switch {
+		case t > farLimit:
+			r.tooFar = true
+			continue
+		case !o.converged && t < nearBoundary:
+			r.runaway = true
+			continue
+		case !o.converged:
+			r.lastReason = o.reason
+			continue
+		}
+		if r.best == nil || o.negLogLik < r.best.negLogLik {
+			oc := o
+			r.best = &oc
+		}
+	}
+	return r
 }

@@ -1,0 +1,69 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// BenchmarkFitMulti times the multi-start fits of gev, gpd, beta, studentt,
+// weibull3 and lognormal3 on seeded samples from the family itself, beside
+// the floor: one pass of math.Log over data of the same size. Their ratio is
+// the cost of a fit in "log passes" (see the engineers' report in docs/).
+func BenchmarkFitMulti(b *testing.B) {
+	cases := []struct {
+		family string
+		dist   Dist
+		opt    Options
+	}{
+		{"gev", GEV{10, 2, 0.2}, Options{}},
+		{"gpd", GPD{5, 0.2, 30}, Options{Fixed: Fixed{"threshold": 30}}},
+		{"beta", Beta{2, 5}, Options{}},
+		{"studentt", StudentT{3, 2, 5}, Options{}},
+		{"weibull3", Weibull3{2.5, 10, 5}, Options{}},
+		{"lognormal3", Lognormal3{1, 0.5, 10}, Options{}},
+	}
+	for _, n := range []int{1000, 100000} {
+		r := rand.New(rand.NewPCG(1, 2))
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = 1 + r.Float64()
+		}
+		b.Run(fmt.Sprintf("floor-log/n=%d", n), func(b *testing.B) {
+			var s float64
+			for i := 0; i < b.N; i++ {
+				for _, v := range x {
+					s += math.Log(v)
+				}
+			}
+			if s == 0 {
+				b.Fatal("no work")
+			}
+		})
+	}
+	for _, c := range cases {
+		f, _ := Lookup(c.family)
+		for _, n := range []int{1000, 100000} {
+			r := rand.New(rand.NewPCG(1, 2))
+			x := make([]float64, n)
+			for i := range x {
+				x[i] = c.dist.Rand(r)
+			}
+			d := Complete(x)
+			b.Run(fmt.Sprintf("%s/n=%d", c.family, n), func(b *testing.B) {
+				var fit *Fit
+				for i := 0; i < b.N; i++ {
+					var err error
+					if fit, err = f.Fit(d, c.opt); err != nil {
+						b.Fatal(err)
+					}
+				}
+				if !fit.Converged {
+					b.Fatalf("not converged: %s", fit.Reason)
+				}
+				b.ReportMetric(float64(fit.Evaluations), "evals")
+			})
+		}
+	}
+}
