@@ -102,6 +102,22 @@ func TestRunIsDeterministicAcrossWorkerCounts(t *testing.T) {
 	}
 }
 
+// With fewer fits than workers the bootstrap replicates run in parallel
+// inside a fit; the bytes must not change either.
+func TestBootstrapInsideFitIsDeterministic(t *testing.T) {
+	path := splitProject(t, 1, 50, `"gamma", "weibull"`, "bootstrap = 40\nintervals = \"bootstrap\"", false)
+	ref := runFiles(t, path, 1)
+	got := runFiles(t, path, 8)
+	for name, want := range ref {
+		if !bytes.Equal(got[name], want) {
+			t.Errorf("-j 8: %s differs from -j 1", name)
+		}
+	}
+	if !bytes.Contains(ref[ParametersFile], []byte("bootstrap percentile (B = 40)")) {
+		t.Errorf("parameters.csv lacks bootstrap intervals:\n%s", ref[ParametersFile])
+	}
+}
+
 func TestRunResults(t *testing.T) {
 	path := splitProject(t, 3, 30, `"weibull", "normal", "lognormal"`, "bootstrap = 0\nintervals = \"wald\"", true)
 	files := runFiles(t, path, 2)
