@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"reflect"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -158,5 +159,28 @@ func TestReadCSVErrors(t *testing.T) {
 				t.Errorf("message %q does not name the file", de.Error())
 			}
 		})
+	}
+}
+
+// BenchmarkReadCSV reads 100,000 rows with a status column and a split
+// column (invented values).
+func BenchmarkReadCSV(b *testing.B) {
+	var sb strings.Builder
+	sb.WriteString("well,value,flag\n")
+	for i := 0; i < 100000; i++ {
+		flag := ""
+		if i%9 == 0 {
+			flag = "<"
+		}
+		sb.WriteString("mw-" + strconv.Itoa(i%40) + "," + strconv.FormatFloat(float64(i%997)*0.173+0.5, 'g', -1, 64) + "," + flag + "\n")
+	}
+	data := sb.String()
+	d := Dataset{Column: "value", StatusColumn: "flag", Left: []string{"<"}, SplitBy: "well", Missing: []string{"", "NA"}}
+	b.SetBytes(int64(len(data)))
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := ReadCSV("bench.csv", strings.NewReader(data), &d); err != nil {
+			b.Fatal(err)
+		}
 	}
 }
