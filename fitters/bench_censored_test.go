@@ -100,3 +100,41 @@ func BenchmarkFitCounts(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkNonparametric times the estimates a report draws for 1000
+// values: Kaplan–Meier with suspensions and Turnbull on binned values with
+// some exact ones.
+func BenchmarkNonparametric(b *testing.B) {
+	r := rand.New(rand.NewPCG(5, 1000))
+	var exact, right []float64
+	iv := &Data{}
+	for i := 0; i < 1000; i++ {
+		x := 100 * r.ExpFloat64()
+		if c := 150 * r.Float64(); x > c {
+			right = append(right, c)
+		} else {
+			exact = append(exact, x)
+		}
+		if i%4 == 0 {
+			iv.Exact = append(iv.Exact, x)
+		} else {
+			lo := 10 * float64(int(x/10))
+			iv.Lower = append(iv.Lower, lo)
+			iv.Upper = append(iv.Upper, lo+10)
+		}
+	}
+	b.Run("kaplan-meier/n=1000", func(b *testing.B) {
+		for i := 0; i < b.N; i++ {
+			if _, err := KaplanMeier(exact, right); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("turnbull/n=1000", func(b *testing.B) {
+		for i := 0; i < b.N; i++ {
+			if s, err := Turnbull(iv, TurnbullOptions{}); err != nil || !s.Converged {
+				b.Fatal(err)
+			}
+		}
+	})
+}

@@ -252,41 +252,45 @@ func Turnbull(d *Data, opt TurnbullOptions) (*StepCDF, error) {
 			inner = append(inner, run{a, b})
 		}
 	}
-	// Membership lists and the EM iteration.
+	// The innermost intervals are disjoint and sorted, so those inside an
+	// observation form one index range [first, last]; each iteration then
+	// costs O(n + J) through prefix sums of the masses and a difference array
+	// of the weights 1/Σ_k α_ik p_k.
 	n := float64(len(obs))
-	members := make([][]int, len(obs))
+	first := make([]int, len(obs))
+	lastIn := make([]int, len(obs))
 	for i, o := range obs {
-		for j, r := range inner {
-			if o.lo <= r.lo && r.hi <= o.hi {
-				members[i] = append(members[i], j)
-			}
-		}
-		if len(members[i]) == 0 {
+		first[i] = sort.Search(len(inner), func(j int) bool { return inner[j].lo >= o.lo })
+		lastIn[i] = sort.Search(len(inner), func(j int) bool { return inner[j].hi > o.hi }) - 1
+		if lastIn[i] < first[i] {
 			panic("fitters: Turnbull observation contains no innermost interval")
 		}
 	}
-	p := make([]float64, len(inner))
+	J := len(inner)
+	p := make([]float64, J)
 	for j := range p {
-		p[j] = 1 / float64(len(p))
+		p[j] = 1 / float64(J)
 	}
-	next := make([]float64, len(p))
+	next := make([]float64, J)
+	prefix := make([]float64, J+1)
+	weight := make([]float64, J+1)
 	out := &StepCDF{Method: "Turnbull"}
 	for it := 1; it <= maxIter; it++ {
-		for j := range next {
-			next[j] = 0
+		for j, v := range p {
+			prefix[j+1] = prefix[j] + v
 		}
-		for _, m := range members {
-			var s float64
-			for _, j := range m {
-				s += p[j]
-			}
-			for _, j := range m {
-				next[j] += p[j] / s
-			}
+		for j := range weight {
+			weight[j] = 0
 		}
-		var change float64
+		for i := range obs {
+			w := 1 / (prefix[lastIn[i]+1] - prefix[first[i]])
+			weight[first[i]] += w
+			weight[lastIn[i]+1] -= w
+		}
+		var c, change float64
 		for j := range p {
-			next[j] /= n
+			c += weight[j]
+			next[j] = p[j] * c / n
 			change = math.Max(change, math.Abs(next[j]-p[j]))
 		}
 		p, next = next, p

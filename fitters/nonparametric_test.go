@@ -3,6 +3,7 @@ package fitters
 import (
 	"encoding/json"
 	"math"
+	"math/rand/v2"
 	"os"
 	"testing"
 )
@@ -256,5 +257,35 @@ func TestNonparametricErrors(t *testing.T) {
 	}
 	if _, err := Turnbull(&Data{Lower: []float64{2}, Upper: []float64{1}}, TurnbullOptions{}); err == nil {
 		t.Error("an interval with lower > upper accepted")
+	}
+}
+
+// TestTurnbullEqualsKaplanMeierLarge repeats Efron's equivalence on 2000
+// seeded Weibull lifetimes with random suspensions, where the innermost
+// intervals number in the hundreds.
+func TestTurnbullEqualsKaplanMeierLarge(t *testing.T) {
+	r := rand.New(rand.NewPCG(8, 9))
+	var exact, right []float64
+	for i := 0; i < 2000; i++ {
+		x := math.Round(100*math.Pow(r.ExpFloat64(), 1/1.5)) / 10 // ties by rounding
+		c := math.Round(150*r.Float64()) / 10
+		if x > c {
+			right = append(right, c)
+		} else {
+			exact = append(exact, x)
+		}
+	}
+	km, _ := KaplanMeier(exact, right)
+	tb, err := Turnbull(&Data{Exact: exact, Right: right}, TurnbullOptions{})
+	if err != nil || !tb.Converged {
+		t.Fatalf("%v, converged %v after %d iterations", err, tb != nil && tb.Converged, tb.Iterations)
+	}
+	var worst float64
+	for i, x := range km.Times {
+		worst = math.Max(worst, math.Abs(tb.At(x)-km.CDF[i]))
+	}
+	t.Logf("%d failures, %d suspensions, %d steps, %d iterations, largest difference %.3g", len(exact), len(right), len(km.Times), tb.Iterations, worst)
+	if worst > 1e-8 {
+		t.Errorf("Turnbull and Kaplan–Meier differ by %.3g", worst)
 	}
 }
