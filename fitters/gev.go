@@ -211,18 +211,28 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		return nil, err
 	}
 	fit := newFit(f, d)
-	dist := func(t []float64) Dist { return GEV{t[0], math.Exp(t[1]), t[2]} }
-	starts := gevStarts(d.Values())
-	prob := likelihoodProblem(3, gevNLL(d.Exact), dist, d)
-	sub, ratio := stagedSubproblem(d, d.Exact, 3, gevNLL)
+	natStarts := gevStarts(d.Values())
+	// Optimise on θ = ((μ − C)/S, ln(σ/S), ξ), the data's own units.
+	ls := locScale{natStarts[0][0], math.Exp(natStarts[0][1])}
+	starts := make([][]float64, len(natStarts))
+	for i, s := range natStarts {
+		starts[i] = ls.toTheta(s)
+	}
+	natural := func(t []float64) []float64 {
+		u := ls.fromTheta(t)
+		return []float64{u[0], math.Exp(u[1]), u[2]}
+	}
+	dist := func(t []float64) Dist { p := natural(t); return GEV{p[0], p[1], p[2]} }
+	nll := func(x []float64) exactNLL { return ls.wrap(gevNLL(x)) }
+	prob := likelihoodProblem(3, nll(d.Exact), dist, d)
+	sub, ratio := stagedSubproblem(d, d.Exact, 3, nll)
 	o, staged := minimizeStaged(prob, sub, ratio, starts, opt)
 	method := stagedMethod("BFGS on (location, log scale, shape)", staged)
 	if o.theta == nil {
 		fit.setOptimum(o, nil, method)
 		return fit, nil
 	}
-	est := []float64{o.theta[0], math.Exp(o.theta[1]), o.theta[2]}
-	if est[2] > -1 {
+	if est := natural(o.theta); est[2] > -1 {
 		fit.setOptimum(o, est, method)
 		if est[2] < -0.5 {
 			fit.Note = "shape < −0.5: the maximum is a regular local maximum, but the usual asymptotic standard errors do not hold (Smith, 1985)"
@@ -233,10 +243,9 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	// μ − σ/ξ approaches the sample maximum. Look for the largest local
 	// maximum with shape > −1, on ξ = −1 + e^s.
 	constrained := func(t []float64) []float64 { return []float64{t[0], t[1], -1 + math.Exp(t[2])} }
-	inner := gevNLL(d.Exact)
+	inner := nll(d.Exact)
 	cprob := likelihoodProblem(3, func(t, g []float64) float64 {
-		u := constrained(t)
-		v := inner(u, g)
+		v := inner(constrained(t), g)
 		if g != nil {
 			g[2] *= math.Exp(t[2])
 		}
@@ -251,9 +260,8 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	c := minimizeRestarted(cprob, cstarts, opt)
 	const cmethod = "BFGS on (location, log scale, log(shape + 1))"
 	if c.theta != nil && c.converged && c.theta[2] > math.Log(1e-6) {
-		u := constrained(c.theta)
-		fit.setOptimum(c, []float64{u[0], math.Exp(u[1]), u[2]}, cmethod)
-		fit.Note = fmt.Sprintf("likelihood unbounded for shape < −1 (upper endpoint at the sample maximum); reported the largest local maximum with shape > −1 (log-likelihood %.6g there); usual standard errors do not hold (Smith, 1985)", fit.LogLik)
+		fit.setOptimum(c, natural(constrained(c.theta)), cmethod)
+		fit.Note = "likelihood unbounded for shape < −1 (upper endpoint at the sample maximum); reported the largest local maximum with shape > −1; usual standard errors do not hold (Smith, 1985)"
 		return fit, nil
 	}
 	fit.Convergence = Convergence{

@@ -156,3 +156,35 @@ func logRegIncBeta(a, b, x, y float64) float64 {
 	}
 	return a*math.Log(x) + b*math.Log(y) - math.Log(a) - mathext.Lbeta(a, b) + math.Log(sum)
 }
+
+// locScale standardises a (location, log scale, …) parameter vector on the
+// data's own units: θ0 = (μ − C)/S and θ1 = ln σ − ln S, the rest unchanged.
+// The optimiser's convergence tests compare gradients with the size of the
+// log-likelihood, so without this a fit of the same data in other units
+// (x·10⁵ or x·10⁻⁶) would stop at a different point.
+type locScale struct{ C, S float64 }
+
+func (l locScale) toTheta(nat []float64) []float64 {
+	th := append([]float64(nil), nat...)
+	th[0] = (nat[0] - l.C) / l.S
+	th[1] = nat[1] - math.Log(l.S)
+	return th
+}
+
+func (l locScale) fromTheta(th []float64) []float64 {
+	nat := append([]float64(nil), th...)
+	nat[0] = l.C + l.S*th[0]
+	nat[1] = th[1] + math.Log(l.S)
+	return nat
+}
+
+// wrap turns a value-and-gradient function of (μ, ln σ, …) into one of θ.
+func (l locScale) wrap(nll exactNLL) exactNLL {
+	return func(th, g []float64) float64 {
+		v := nll(l.fromTheta(th), g)
+		if g != nil {
+			g[0] *= l.S
+		}
+		return v
+	}
+}

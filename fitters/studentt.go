@@ -235,13 +235,25 @@ func (f studentTFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		return nil, err
 	}
 	fit := newFit(f, d)
-	dist := func(t []float64) Dist { return StudentT{t[0], math.Exp(t[1]), math.Exp(t[2])} }
-	sub, ratio := stagedSubproblem(d, d.Exact, 3, studentTNLL)
-	o, staged := minimizeStaged(likelihoodProblem(3, studentTNLL(d.Exact), dist, d), sub, ratio, studentTStarts(d.Values()), opt)
+	natStarts := studentTStarts(d.Values())
+	// Optimise on θ = ((μ − C)/S, ln(σ/S), ln ν), the data's own units.
+	ls := locScale{natStarts[0][0], math.Exp(natStarts[0][1])}
+	starts := make([][]float64, len(natStarts))
+	for i, s := range natStarts {
+		starts[i] = ls.toTheta(s)
+	}
+	natural := func(t []float64) []float64 {
+		u := ls.fromTheta(t)
+		return []float64{u[0], math.Exp(u[1]), math.Exp(u[2])}
+	}
+	dist := func(t []float64) Dist { p := natural(t); return StudentT{p[0], p[1], p[2]} }
+	nll := func(x []float64) exactNLL { return ls.wrap(studentTNLL(x)) }
+	sub, ratio := stagedSubproblem(d, d.Exact, 3, nll)
+	o, staged := minimizeStaged(likelihoodProblem(3, nll(d.Exact), dist, d), sub, ratio, starts, opt)
 	method := stagedMethod("BFGS on (location, log scale, log df)", staged)
 	var est []float64
 	if o.theta != nil {
-		est = []float64{o.theta[0], math.Exp(o.theta[1]), math.Exp(o.theta[2])}
+		est = natural(o.theta)
 	}
 	fit.setOptimum(o, est, method)
 	// The normal limit (df → ∞) is the supremum when it is at least as
