@@ -305,7 +305,6 @@ func ReadFolder(dir string, lim Limits) (*Bag, error) {
 	files := map[string][]byte{}
 	var entries int
 	var total int64
-	var bag *Bag
 	walkErr := fs.WalkDir(root.FS(), ".", func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
 			return err
@@ -375,8 +374,7 @@ func ReadFolder(dir string, lim Limits) (*Bag, error) {
 	if walkErr != nil {
 		return nil, walkErr
 	}
-	bag = &Bag{Name: name, Files: files, Source: dir}
-	return bag, nil
+	return &Bag{Name: name, Files: files, Source: dir}, nil
 }
 
 // Extract reads the bundle at src (archive or folder) with [DefaultLimits]
