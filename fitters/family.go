@@ -175,7 +175,7 @@ func register(f Family) {
 	if _, dup := registry[f.Name()]; dup {
 		panic("fitters: family registered twice: " + f.Name())
 	}
-	registry[f.Name()] = f
+	registry[f.Name()] = checkedFamily{f}
 }
 
 // Lookup returns the family with the given name.

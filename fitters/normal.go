@@ -90,6 +90,10 @@ func (f normalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}}
 	starts := [][]float64{{mu0, math.Log(s0)}, {mu0, math.Log(s0 * 3)}}
 	o := minimize(prob, starts, opt)
-	fit.setOptimum(o, []float64{o.theta[0], math.Exp(o.theta[1])}, "BFGS on (mu, log sigma)")
+	var est []float64
+	if o.theta != nil {
+		est = []float64{o.theta[0], math.Exp(o.theta[1])}
+	}
+	fit.setOptimum(o, est, "BFGS on (mu, log sigma)")
 	return fit, nil
 }
