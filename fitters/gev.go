@@ -259,6 +259,15 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	c := minimizeRestarted(cprob, cstarts, opt)
 	const cmethod = "BFGS on (location, log scale, log(shape + 1))"
+	// A converged unconstrained run with shape ≤ −1 whose upper endpoint
+	// stays clear of the sample maximum is itself an interior local maximum;
+	// it competes with the constrained one.
+	if est := natural(o.theta); o.converged && gevEndpointGap(est, d.Values()) > 1e-6 &&
+		(c.theta == nil || !c.converged || o.negLogLik < c.negLogLik) {
+		fit.setOptimum(o, est, method)
+		fit.Note = "shape ≤ −1: an interior local maximum; the likelihood is unbounded as the upper endpoint approaches the sample maximum, and the usual standard errors do not hold (Smith, 1985)"
+		return fit, nil
+	}
 	if c.theta != nil && c.converged && c.theta[2] > math.Log(1e-6) {
 		fit.setOptimum(c, natural(constrained(c.theta)), cmethod)
 		fit.Note = "likelihood unbounded for shape < −1 (upper endpoint at the sample maximum); reported the largest local maximum with shape > −1; usual standard errors do not hold (Smith, 1985)"
@@ -272,4 +281,15 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		Reason:      "non-regular likelihood: it grows without bound as shape < −1 and the upper endpoint approaches the sample maximum, and no interior local maximum with shape > −1 was found",
 	}
 	return fit, nil
+}
+
+// gevEndpointGap returns min over the values of 1 + ξ(x − μ)/σ at p =
+// (μ, σ, ξ): how far the sample stays inside the support, on the scale of
+// the standardised tail variable (0 at an endpoint).
+func gevEndpointGap(p []float64, values []float64) float64 {
+	gap := math.Inf(1)
+	for _, x := range values {
+		gap = math.Min(gap, 1+p[2]*(x-p[0])/p[1])
+	}
+	return gap
 }

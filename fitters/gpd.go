@@ -226,6 +226,16 @@ func (f gpdFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	c := minimizeRestarted(cprob, cstarts, opt)
 	const cmethod = "BFGS on (log scale, log(shape + 1))"
+	// A converged unconstrained run with shape ≤ −1 whose upper endpoint
+	// stays clear of the largest value is itself an interior local maximum.
+	if sc, xi := math.Exp(o.theta[0]), o.theta[1]; o.converged && (c.theta == nil || !c.converged || o.negLogLik < c.negLogLik) {
+		_, ymax := minMax(excess)
+		if 1+xi*ymax/sc > 1e-6 {
+			fit.setOptimum(o, []float64{sc, xi, u}, method)
+			fit.Note = "shape ≤ −1: an interior local maximum; the likelihood is unbounded as the upper endpoint approaches the largest value, and the usual standard errors do not hold (Smith, 1985)"
+			return fit, nil
+		}
+	}
 	if c.theta != nil && c.converged && c.theta[1] > math.Log(1e-6) {
 		xi := -1 + math.Exp(c.theta[1])
 		fit.setOptimum(c, []float64{math.Exp(c.theta[0]), xi, u}, cmethod)

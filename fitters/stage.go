@@ -93,6 +93,7 @@ func whitenedPolish(full, sub problem, ratio float64, theta0 []float64, opt Opti
 		},
 	}
 	o := minimizeRestarted(prob, [][]float64{make([]float64, dim)}, opt)
+	o.evaluations += 2 * dim // the gradients of the Hessian estimate
 	if o.theta != nil {
 		o.theta = at(o.theta)
 	}
