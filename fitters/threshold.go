@@ -118,10 +118,11 @@ func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error
 	}
 	prob := likelihoodProblem(3, m.nll(dev, true), dist, d)
 	var starts [][]float64
+	few := startSubsample(values, stageSubsample) // starts need no more
 	for _, c := range []float64{0.02, 0.2, 1, 5} {
 		gap := c * span
-		y := make([]float64, 0, len(values))
-		for _, v := range values {
+		y := make([]float64, 0, len(few))
+		for _, v := range few {
 			if v-floor+gap > 0 {
 				y = append(y, v-floor+gap)
 			}
