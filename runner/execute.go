@@ -96,6 +96,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 	var next, done atomic.Int64
 	var failOnce sync.Once
 	var failure error
+	parent := ctx
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
 	var prog *progress
@@ -121,15 +122,27 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 			}
 		}()
 	}
-	wg.Wait()
+	finished := make(chan struct{})
+	go func() {
+		wg.Wait()
+		close(finished)
+	}()
+	// A fit has no context and cannot be interrupted: on cancellation, return
+	// at once and leave the fits under way to end in the background (their
+	// results are never read).
+	select {
+	case <-finished:
+	case <-parent.Done():
+	}
 	if prog != nil {
 		prog.stop()
 	}
+	if err := parent.Err(); err != nil {
+		return nil, err
+	}
+	<-finished
 	if failure != nil {
 		return nil, failure
-	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
 	}
 	return assemble(p, plan, results)
 }

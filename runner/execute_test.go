@@ -267,6 +267,29 @@ func TestRunCancelled(t *testing.T) {
 	}
 }
 
+// Cancelling a run under way returns at once, without waiting for the fits
+// in progress.
+func TestRunCancelledMidway(t *testing.T) {
+	p, err := Load(splitProject(t, 4, 300, `"gev", "weibull", "gamma"`, "bootstrap = 500", false))
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	var cancelled time.Time
+	go func() {
+		time.Sleep(100 * time.Millisecond)
+		cancelled = time.Now()
+		cancel()
+	}()
+	res, err := Run(ctx, p, RunOptions{Workers: 2})
+	if !errors.Is(err, context.Canceled) || res != nil {
+		t.Fatalf("Run = %v, %v; want no results and context.Canceled", res, err)
+	}
+	if wait := time.Since(cancelled); wait > 2*time.Second {
+		t.Errorf("Run returned %v after the cancellation", wait)
+	}
+}
+
 func TestProgressLine(t *testing.T) {
 	for _, c := range []struct {
 		done, total int
