@@ -85,7 +85,7 @@ type csvReading struct {
 	cr   *csv.Reader
 	out  *DatasetData
 
-	header_                           []string
+	columns                           []string
 	obs, status, lower, upper, trials int // column indexes, -1 when unused
 	split, where                      int
 	byName                            map[string]*Group
@@ -119,13 +119,13 @@ func (rd *csvReading) header() error {
 		return rd.csvError(err)
 	}
 	rd.line, _ = rd.cr.FieldPos(0)
-	rd.header_ = append([]string(nil), rec...)
-	for i, h := range rd.header_ {
+	rd.columns = append([]string(nil), rec...)
+	for i, h := range rd.columns {
 		if !utf8.ValidString(h) {
 			return rd.fail(i, "save the file as UTF-8", "the header is not valid UTF-8")
 		}
 		for j := 0; j < i; j++ {
-			if rd.header_[j] == h && h != "" {
+			if rd.columns[j] == h && h != "" {
 				return rd.fail(i, "give every column its own name", "column %q appears twice in the header", h)
 			}
 		}
@@ -134,14 +134,14 @@ func (rd *csvReading) header() error {
 		if col == "" {
 			return -1, nil
 		}
-		for i, h := range rd.header_ {
+		for i, h := range rd.columns {
 			if strings.TrimSpace(h) == col {
 				return i, nil
 			}
 		}
-		hint := didYouMean(col, rd.header_)
+		hint := didYouMean(col, rd.columns)
 		if hint == "" {
-			hint = "the header has: " + joinQuoted(rd.header_)
+			hint = "the header has: " + joinQuoted(rd.columns)
 		}
 		return -1, &DataError{File: rd.name, Line: rd.line, Msg: fmt.Sprintf("no column %q (named by %s in dataset %q)", col, key, rd.d.Name), Hint: hint}
 	}
@@ -189,12 +189,12 @@ func (rd *csvReading) rows() error {
 			return rd.csvError(err)
 		}
 		rd.line, _ = rd.cr.FieldPos(0)
-		if len(rec) != len(rd.header_) {
+		if len(rec) != len(rd.columns) {
 			if len(rec) == 1 && strings.TrimSpace(rec[0]) == "" {
 				continue // a blank line
 			}
 			return rd.fail(-1, "every row needs one field per header column; quote fields that contain the delimiter",
-				"the row has %d fields, the header %d", len(rec), len(rd.header_))
+				"the row has %d fields, the header %d", len(rec), len(rd.columns))
 		}
 		rd.out.Rows++
 		if rd.where >= 0 && rec[rd.where] != rd.d.Where.Equals {
