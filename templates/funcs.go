@@ -15,6 +15,7 @@ import (
 //	pct X       a probability as a percentage without trailing zeros (0.95 → "95")
 //	g X         shortest round-trip form (strconv 'g', -1)
 //	tex S       S with LaTeX's special characters escaped
+//	wrap S      S escaped for a wrapping p{} column: {\raggedright S\par}
 //	num S       a number for siunitx: "\num{S}", or "{--}" when S is empty
 //	md S        S with Markdown table pipes escaped, or "–" when S is empty
 func Funcs() template.FuncMap {
@@ -24,6 +25,12 @@ func Funcs() template.FuncMap {
 		"pct": Percent,
 		"g":   func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) },
 		"tex": TeXEscape,
+		"wrap": func(s string) string {
+			if s == "" {
+				return ""
+			}
+			return `{\raggedright ` + TeXEscape(s) + `\par}`
+		},
 		"num": func(s string) string {
 			if s == "" {
 				return "{--}"
@@ -95,8 +102,15 @@ var texReplacer = strings.NewReplacer(
 	`$`, `\$`, `&`, `\&`, `#`, `\#`, `%`, `\%`, `_`, `\_`,
 	`^`, `\textasciicircum{}`, `~`, `\textasciitilde{}`,
 	`<`, `\textless{}`, `>`, `\textgreater{}`,
+	// Characters fitseal's own notes use, which LaTeX's utf8 input does
+	// not know by itself.
+	"≤", `$\leq$`, "≥", `$\geq$`, "−", `$-$`, "±", `$\pm$`, "×", `$\times$`,
+	"→", `$\to$`, "∞", `$\infty$`, "Δ", `$\Delta$`, "χ", `$\chi$`, "ξ", `$\xi$`,
+	"λ", `$\lambda$`, "μ", `$\mu$`, "σ", `$\sigma$`, "ψ", `$\psi$`, "²", `$^2$`,
+	"–", `--`, "—", `---`, "…", `\ldots{}`, "·", `$\cdot$`,
 )
 
 // TeXEscape escapes LaTeX's special characters so that a name such as
-// "nitrate/MW_1 (50%)" prints as written.
+// "nitrate/MW_1 (50%)" prints as written, and writes the mathematical and
+// Greek characters of fitseal's notes (≤, Δ, ξ, …) in LaTeX's terms.
 func TeXEscape(s string) string { return texReplacer.Replace(s) }

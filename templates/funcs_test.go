@@ -47,6 +47,9 @@ func TestFixedPercentEscape(t *testing.T) {
 	if got := TeXEscape(`a_b 50% & $x$ #1 {y} ~ ^ \`); got != `a\_b 50\% \& \$x\$ \#1 \{y\} \textasciitilde{} \textasciicircum{} \textbackslash{}` {
 		t.Errorf("TeXEscape = %q", got)
 	}
+	if got := TeXEscape("n ≤ k + 1; Δ → ∞; ξ – 1"); got != `n $\leq$ k + 1; $\Delta$ $\to$ $\infty$; $\xi$ -- 1` {
+		t.Errorf("TeXEscape = %q", got)
+	}
 }
 
 func TestLoadTablesPrefersProjectFolder(t *testing.T) {

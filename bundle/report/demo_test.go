@@ -124,6 +124,13 @@ func TestDemoReport(t *testing.T) {
 			os.WriteFile(filepath.Join(dir, f.Name), f.Data, 0o644)
 		}
 	}
+	t.Run("latex", func(t *testing.T) {
+		files := map[string]string{}
+		for _, f := range tables {
+			files[f.Name] = string(f.Data)
+		}
+		compileTeX(t, files)
+	})
 	text := strings.Join(strings.Fields(pdftotext(t, pdf)), " ")
 	for _, want := range append(wantNames, "Ranking by AICc", "Methods and cautions", "licensed professional",
 		"only the best of the candidates that were tried", "same observations", "Kaplan–Meier", "Contents") {

@@ -197,6 +197,92 @@ func (a Analysis) NotRanked() []Candidate {
 	return out
 }
 
+// CommonParameterMethod returns the interval method shared by every
+// estimated (not fixed) parameter, or "" when they differ; tables then name
+// it once in the caption instead of on every row.
+func (a Analysis) CommonParameterMethod() string {
+	m := ""
+	for _, p := range a.Parameters {
+		if p.Fixed {
+			continue
+		}
+		if m == "" {
+			m = p.Method
+		} else if p.Method != m {
+			return ""
+		}
+	}
+	return m
+}
+
+// MethodNote pairs an interval method with the key a LaTeX table prints
+// for it in a narrow column ("a", "b", …), the text going below the table.
+type MethodNote struct {
+	Key, Method string
+}
+
+// DerivedMethods lists the interval methods of the derived quantities, in
+// order of first use, each with its key.
+func (a Analysis) DerivedMethods() []MethodNote {
+	var ms []string
+	for _, d := range a.Derived {
+		ms = append(ms, d.Method)
+	}
+	return methodNotes(ms)
+}
+
+// DerivedMethodKey returns the key of a derived quantity's interval method.
+func (a Analysis) DerivedMethodKey(method string) string {
+	return keyOf(a.DerivedMethods(), method)
+}
+
+// ParameterMethods lists the interval methods of the estimated parameters,
+// in order of first use, each with its key.
+func (a Analysis) ParameterMethods() []MethodNote {
+	var ms []string
+	for _, p := range a.Parameters {
+		if !p.Fixed {
+			ms = append(ms, p.Method)
+		}
+	}
+	return methodNotes(ms)
+}
+
+// ParameterMethodKey returns the key of a parameter's interval method.
+func (a Analysis) ParameterMethodKey(method string) string {
+	return keyOf(a.ParameterMethods(), method)
+}
+
+func methodNotes(methods []string) []MethodNote {
+	var out []MethodNote
+	seen := map[string]bool{}
+	for _, m := range methods {
+		if m == "" || seen[m] {
+			continue
+		}
+		seen[m] = true
+		out = append(out, MethodNote{Key: methodKey(len(out)), Method: m})
+	}
+	return out
+}
+
+// methodKey is a, b, …, z, aa, ab, …
+func methodKey(i int) string {
+	if i < 26 {
+		return string(rune('a' + i))
+	}
+	return methodKey(i/26-1) + string(rune('a'+i%26))
+}
+
+func keyOf(notes []MethodNote, method string) string {
+	for _, n := range notes {
+		if n.Method == method {
+			return n.Key
+		}
+	}
+	return ""
+}
+
 // Best returns the top-ranked family's name, or "".
 func (a Analysis) Best() string {
 	for _, c := range a.Ranking {

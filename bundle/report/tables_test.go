@@ -1,6 +1,7 @@
 package report
 
 import (
+	"math"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -81,18 +82,40 @@ func TestRenderTablesLaTeX(t *testing.T) {
 		`\caption{Candidate distributions for storm\_rainfall (mm), ranked by AIC ($n = 38$).}`,
 		`\label{tab:storm_rainfall:ranking}`,
 		`\toprule`, `\midrule`, `\bottomrule`,
-		`1 & gumbel & 2 & \num{-130.10} & \num{264.20} & \num{0.00} & \num{0.700} & substantial & \num{0.600} \\`,
+		`1 & gumbel & 2 & \num{-130.10} & \num{264.20} & \num{0.00} & \num{0.700} & {\raggedright substantial\par} & \num{0.600} \\`,
 	} {
 		if !strings.Contains(r, l) {
 			t.Errorf("ranking.tex lacks %q:\n%s", l, r)
 		}
 	}
 	s := got["seal-life-ranking.tex"]
-	if !strings.Contains(s, `2 & gamma & 2 & \num{-181.90} & \num{368.16} & \num{1.33} & \num{0.315} & substantial & {--} \\`) {
+	if !strings.Contains(s, `2 & gamma & 2 & \num{-181.90} & \num{368.16} & \num{1.33} & \num{0.315} & {\raggedright substantial\par} & {--} \\`) {
 		t.Errorf("a missing p-value must be {--}:\n%s", s)
 	}
+	p := got["seal-life-parameters.tex"]
+	if !strings.Contains(p, `with 95\,\% profile intervals.}`) || strings.Contains(p, "Interval") {
+		t.Errorf("one interval method must be named in the caption, not on every row:\n%s", p)
+	}
+	mixed := sealAnalysis()
+	mixed.Parameters[2].Method = "wald"
+	mixed.Parameters = append(mixed.Parameters, Parameter{Family: "gpd", Name: "threshold", Estimate: 30, StdError: math.NaN(), Lower: math.NaN(), Upper: math.NaN(), Fixed: true})
+	tmpls, _ := templates.LoadTables("")
+	files, err := RenderTables(tmpls, []Analysis{mixed}, []string{"tex"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if f.Name == "seal-life-parameters.tex" {
+			for _, want := range []string{"& Upper & Int. \\\\", `\num{1.900e-04} & b \\`, `gpd & threshold & \num{30.00} & fixed & {--} & {--} & fixed \\`, `Int.: interval method, (a) profile; (b) wald.`} {
+				if !strings.Contains(string(f.Data), want) {
+					t.Errorf("mixed methods: parameters.tex lacks %q:\n%s", want, f.Data)
+				}
+			}
+		}
+	}
 	d := got["seal-life-derived.tex"]
-	for _, l := range []string{`\emph{model average} & quantile $p = 0.1$ & \num{2580}`, `$P(X > 4000)$ & \num{0.8123}`, `Burnham \& Anderson`} {
+	for _, l := range []string{`\emph{model average} & quantile $p = 0.1$ & \num{2580} & \num{1650} & \num{3420} & b \\`, `$P(X > 4000)$ & \num{0.8123}`,
+		`Int.: interval method, (a) profile; (b) model-averaged (Burnham \& Anderson 2002).`} {
 		if !strings.Contains(d, l) {
 			t.Errorf("derived.tex lacks %q:\n%s", l, d)
 		}
