@@ -266,6 +266,8 @@ func (f studentTFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		fit.Convergence.Reason = ""
 		fit.Convergence.Iterations += nfit.Iterations
 		fit.Convergence.Evaluations += nfit.Evaluations
+		fit.Convergence.GradientNorm = nfit.GradientNorm
+		fit.Convergence.Method += "; normal limit by " + nfit.Method
 		fit.Note = "df → ∞: the likelihood increases towards the normal limit; reported df = +Inf with the normal distribution's maximum log-likelihood"
 		return fit, nil
 	}
