@@ -89,6 +89,35 @@ func TestDemoReport(t *testing.T) {
 	if strings.Join(names, " ") != strings.Join(wantNames, " ") {
 		t.Fatalf("analyses %v, want %v", names, wantNames)
 	}
+	// The summaries count what the demo's CSV files hold (see
+	// templates/scaffold/data): 18 of 36 seals suspended, two rainfall years
+	// missing, ten non-detects in well MW-3, 60 defect counts.
+	for _, c := range []struct {
+		i                             int
+		n, right, left, missing, rows int
+	}{{0, 36, 18, 0, 0, 4}, {1, 38, 0, 0, 2, 2}, {4, 32, 0, 10, 0, 3}, {6, 60, 0, 0, 0, 2}} {
+		s := r.Analyses[c.i].Summary
+		if s.N != c.n || s.RightCensored != c.right || s.LeftCensored != c.left || s.Missing != c.missing || len(r.Analyses[c.i].Ranking) != c.rows {
+			t.Errorf("%s: summary %+v with %d ranking rows", r.Analyses[c.i].Name, s, len(r.Analyses[c.i].Ranking))
+		}
+	}
+	if !r.Analyses[6].Discrete || r.Analyses[0].Discrete || r.Analyses[0].Units != "h" || r.Analyses[4].Units != "mg/L" {
+		t.Error("data kind or units not carried over from the project")
+	}
+	for _, a := range r.Analyses {
+		sum := 0.0
+		for i, c := range a.Ranking {
+			if c.Rank != 0 && c.Rank != i+1 {
+				t.Errorf("%s: row %d has rank %d; ranked rows come first, in order", a.Name, i, c.Rank)
+			}
+			if c.Rank > 0 {
+				sum += c.Weight
+			}
+		}
+		if sum < 1-1e-9 || sum > 1+1e-9 {
+			t.Errorf("%s: weights sum to %v", a.Name, sum)
+		}
+	}
 	kinds := map[string][]string{}
 	for _, f := range figs {
 		base := strings.TrimSuffix(f.Name, "-"+f.Kind)
