@@ -84,8 +84,9 @@ func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error
 		for i, x := range d.Exact {
 			dev[i] = x - u
 		}
-		y := make([]float64, 0, len(values))
-		for _, v := range values {
+		few := startSubsample(values, stageSubsample) // starts need no more
+		y := make([]float64, 0, len(few))
+		for _, v := range few {
 			y = append(y, v-u)
 		}
 		a0, b0 := m.start(y)
