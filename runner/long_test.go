@@ -21,6 +21,12 @@ const largeFamilies = `"weibull", "lognormal", "gamma", "exponential", "normal",
 // (n = 1,000 each, one suspension in seven) and reports the time and the
 // peak heap. It runs with FITSEAL_LONG=1; FITSEAL_LONG_GROUPS overrides
 // the number of groups (e.g. for a quick estimate).
+//
+// Measured 2026-12-02 on the shared 2-core build machine (load average
+// 7–20 from other work): 9,000 fits with Wald intervals and derived
+// quantities in 7 min 30 s, peak heap in use 131 MiB, 675 MiB allocated in
+// all, maximum resident set 206 MiB; fitting and ranking alone took
+// 14 min 23 s under a heavier load (peak heap 101 MiB).
 func TestLargeRun(t *testing.T) {
 	if os.Getenv("FITSEAL_LONG") != "1" {
 		t.Skip("long study: set FITSEAL_LONG=1")
@@ -76,6 +82,9 @@ func TestLargeRun(t *testing.T) {
 				failed++
 			}
 		}
+	}
+	if peak > 1<<30 {
+		t.Errorf("peak heap in use %d MiB, want under 1 GiB", peak>>20)
 	}
 	if len(res.Analyses) != groups || ranked+failed != 9*groups {
 		t.Fatalf("%d analyses and %d rows, want %d and %d", len(res.Analyses), ranked+failed, groups, 9*groups)
