@@ -290,6 +290,22 @@ func TestRunCancelledMidway(t *testing.T) {
 	}
 }
 
+// The progress line ends with every task done.
+func TestProgressDrawn(t *testing.T) {
+	p, err := Load(splitProject(t, 2, 20, `"normal", "exponential"`, "bootstrap = 0", true))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if _, err := Run(context.Background(), p, RunOptions{Workers: 2, Progress: &buf}); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	if !strings.HasPrefix(out, "\rfitting ") || !strings.Contains(out, "fitting 4/4 tasks 100%") || !strings.HasSuffix(out, "\n") {
+		t.Errorf("progress output %q", out)
+	}
+}
+
 func TestProgressLine(t *testing.T) {
 	for _, c := range []struct {
 		done, total int
