@@ -60,3 +60,41 @@ func TestBetaCensored(t *testing.T) {
 	}
 	multiCheckNearby(t, betaFamily{}, fit, d)
 }
+
+// trigammaPositive against mpmath.psi(1, x) at 30 digits (Debian
+// python3-mpmath 1.2.1).
+func TestTrigammaPositive(t *testing.T) {
+	for _, c := range []struct{ x, want float64 }{
+		{0.3, 12.245364546107731301}, {2.5, 0.49035775610023486497}, {6, 0.18132295573711532536},
+		{40, 0.025315103841291028158}, {1e4, 0.00010000500016666666633},
+	} {
+		if got := trigammaPositive(c.x); math.Abs(got-c.want) > 1e-14*c.want {
+			t.Errorf("ψ'(%v) = %.17g, mpmath %.17g", c.x, got, c.want)
+		}
+	}
+}
+
+// betaNewton reaches the root of the score from a nearby point: the
+// gradient there is at rounding level.
+func TestBetaNewton(t *testing.T) {
+	ref := loadMultiRef(t, "beta")
+	x := ref.Cases[0].Data
+	var s1, s2 float64
+	for _, v := range x {
+		s1 += math.Log(v)
+		s2 += math.Log1p(-v)
+	}
+	n := float64(len(x))
+	th, ok := betaNewton(n, s1, s2, []float64{math.Log(2), math.Log(5)})
+	if !ok {
+		t.Fatal("Newton refused")
+	}
+	g := make([]float64, 2)
+	betaNLL(n, s1, s2)(th, g)
+	if infNorm(g) > 1e-9 {
+		t.Errorf("score %v at %v", g, th)
+	}
+	if want := ref.Cases[0].Params; math.Abs(math.Exp(th[0])-want[0]) > 1e-6*want[0] || math.Abs(math.Exp(th[1])-want[1]) > 1e-6*want[1] {
+		t.Errorf("Newton root (%v, %v), scipy %v", math.Exp(th[0]), math.Exp(th[1]), want)
+	}
+}
