@@ -197,3 +197,26 @@ func BenchmarkRenderFigures(b *testing.B) {
 		}
 	}
 }
+
+// TestRenderPDFEmbedsPNGOnlyFigure: a figure given only as PNG bytes (not
+// drawn by RenderFigures) is embedded as an image.
+func TestRenderPDFEmbedsPNGOnlyFigure(t *testing.T) {
+	figs, err := RenderFigures("x", rainFigures())
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := rainAnalysis()
+	a.Figures = []Figure{{Name: "x.png", Caption: "a PNG-only figure", PNG: figs[0].PNG}}
+	r := &Report{Name: "png-only", Identity: Identity{Created: testCreated}, Analyses: []Analysis{a}}
+	pdf, err := RenderPDF(r, PDFOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(pdf, []byte("/Subtype /Image")) {
+		t.Error("the PNG was not embedded")
+	}
+	a.Figures[0].PNG = []byte("not a png")
+	if _, err := RenderPDF(&Report{Name: "bad", Analyses: []Analysis{a}}, PDFOptions{}); err == nil {
+		t.Error("a broken PNG must be an error")
+	}
+}
