@@ -16,12 +16,13 @@ import (
 
 	"golang.org/x/term"
 
+	"fitseal/bundle"
 	"fitseal/runner"
 )
 
 func init() {
 	commands["run"] = command{
-		summary: "load a project, fit everything, write the results",
+		summary: "load a project, fit everything, write a signed bundle",
 		run:     cmdRun,
 	}
 }
@@ -29,16 +30,18 @@ func init() {
 // runOptions are the settings of `fitseal run`.
 type runOptions struct {
 	Project string // the project file (default ./fitseal.toml)
-	Output  string // the results folder ("" = bundles/NAME-TIME beside the project)
+	Output  string // the bundle: .tar.gz/.tgz archive, else a bag folder ("" = bundles/NAME-TIME.tar.gz beside the project)
 	Workers int    // fits run at once (0 = all cores)
+	Key     string // signing key (--key; "" = $FITSEAL_KEY or the default key)
 	Quiet   bool   // no progress line
 	Force   bool   // replace an existing output
 }
 
 func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	var o runOptions
-	fs := newFlagSet("run", "[PROJECT]", "Load PROJECT (default ./fitseal.toml), fit every analysis × candidate family,\nrank them and write the result tables into a new folder.", stderr)
-	fs.StringVar(&o.Output, "o", "", "output `PATH` (default bundles/NAME-YYYYMMDDTHHMMSSZ beside the project file)")
+	fs := newFlagSet("run", "[PROJECT]", "Load PROJECT (default ./fitseal.toml), fit every analysis × candidate family,\nrank them and seal inputs, results, tables, figures and the PDF summary into a\nsigned bundle: PATH.tar.gz (or .tgz) is an archive, any other PATH a bag folder.", stderr)
+	fs.StringVar(&o.Output, "o", "", "output `PATH` (default bundles/NAME-YYYYMMDDTHHMMSSZ.tar.gz beside the project file)")
+	fs.StringVar(&o.Key, "key", "", "signing key `FILE` (default $FITSEAL_KEY, else $XDG_CONFIG_HOME/fitseal/id_ed25519, created if missing)")
 	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once (default: all cores); never changes a result")
 	fs.BoolVar(&o.Quiet, "q", false, "no progress line")
 	fs.BoolVar(&o.Force, "force", false, "replace an existing output")
@@ -60,8 +63,8 @@ func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	return runRun(ctx, o, stdout, stderr)
 }
 
-// runRun loads, fits and writes; nothing is written unless everything
-// succeeded.
+// runRun loads, fits, seals and writes; nothing is written unless
+// everything succeeded.
 func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	p, err := runner.Load(o.Project)
 	if errors.Is(err, os.ErrNotExist) {
@@ -70,16 +73,36 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return inputError(err)
 	}
+	created, createdFrom, err := createdTime()
+	if err != nil {
+		return usageError{err}
+	}
 	out := o.Output
 	if out == "" {
-		created, err := createdTime()
-		if err != nil {
-			return usageError{err}
-		}
-		out = filepath.Join(p.Dir, "bundles", p.Name+"-"+created.Format("20060102T150405Z"))
+		out = bundle.DefaultOutput(p.File, p.Name, created)
 	}
 	if _, err := os.Lstat(out); err == nil && !o.Force {
 		return usageError{fmt.Errorf("%s already exists; choose another output with -o or replace it with --force", out)}
+	}
+	inputs, err := bundle.ReadInputs(p)
+	if err != nil {
+		return usageError{err}
+	}
+	git, err := bundle.GitProvenance(p.File, gitInputs(p, inputs))
+	if err != nil {
+		return fmt.Errorf("reading git provenance: %w", err)
+	}
+	if p.Settings.RequireCleanGit {
+		if !git.Repository {
+			return usageError{fmt.Errorf("require_clean_git = true, but %s; commit the project to a git repository, or set require_clean_git = false", git.Note)}
+		}
+		if u := git.Uncommitted(); len(u) > 0 {
+			return usageError{fmt.Errorf("require_clean_git = true, but these inputs are not committed unmodified: %s; commit them (git add, git commit) and run again", strings.Join(u, ", "))}
+		}
+	}
+	signer, _, err := bundle.ResolveKey(o.Key, os.Getenv, stderr)
+	if err != nil {
+		return usageError{fmt.Errorf("signing key: %w", err)}
 	}
 	opt := runner.RunOptions{Workers: o.Workers}
 	if o.Workers == 0 {
@@ -95,19 +118,41 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		}
 		return inputError(err)
 	}
-	files, err := res.Files()
+	contents, err := bundle.Seal(res, bundle.SealOptions{
+		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Inputs: inputs,
+	})
 	if err != nil {
 		return err
 	}
-	if err := writeFolder(out, files, o.Force); err != nil {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("interrupted: nothing was written")
+	}
+	if err := bundle.WriteBundle(out, o.Force, contents, signer); err != nil {
+		if errors.Is(err, bundle.ErrExists) {
+			return usageError{err}
+		}
 		return err
 	}
 	if !o.Quiet {
 		reportMissing(stderr, res)
 	}
 	fmt.Fprintln(stdout, summary(res))
-	fmt.Fprintf(stdout, "results: %s\n", out)
+	fmt.Fprintf(stdout, "bundle: %s\n", out)
 	return nil
+}
+
+// gitInputs are the files whose git state run.json records, relative to the
+// project file's folder: the project file itself, then every other input.
+func gitInputs(p *runner.Project, inputs map[string][]byte) []string {
+	list := []string{filepath.Base(p.File)}
+	var rest []string
+	for k := range inputs {
+		if k != bundle.ProjectInput {
+			rest = append(rest, strings.TrimPrefix(k, "inputs/"))
+		}
+	}
+	sort.Strings(rest)
+	return append(list, rest...)
 }
 
 // summary counts the analyses and fits of a run in one line.
@@ -149,65 +194,16 @@ func quoteAll(list []string) string {
 }
 
 // createdTime is SOURCE_DATE_EPOCH when set (reproducible builds), else now,
-// in UTC.
-func createdTime() (time.Time, error) {
+// in UTC and to the second; the second result says which.
+func createdTime() (time.Time, string, error) {
 	if s := os.Getenv("SOURCE_DATE_EPOCH"); s != "" {
 		sec, err := strconv.ParseInt(s, 10, 64)
 		if err != nil || sec < 0 {
-			return time.Time{}, fmt.Errorf("SOURCE_DATE_EPOCH=%q is not a count of seconds since 1970", s)
+			return time.Time{}, "", fmt.Errorf("SOURCE_DATE_EPOCH=%q is not a count of seconds since 1970", s)
 		}
-		return time.Unix(sec, 0).UTC(), nil
+		return time.Unix(sec, 0).UTC(), "SOURCE_DATE_EPOCH", nil
 	}
-	return time.Now().UTC(), nil
-}
-
-// writeFolder writes files into a new folder out: first into a temporary
-// folder beside it, then renamed, so out is either complete or absent.
-func writeFolder(out string, files map[string][]byte, force bool) (err error) {
-	parent := filepath.Dir(out)
-	if err := os.MkdirAll(parent, 0o755); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
-	}
-	tmp, err := os.MkdirTemp(parent, "."+filepath.Base(out)+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
-	}
-	defer func() {
-		if err != nil {
-			os.RemoveAll(tmp)
-		}
-	}()
-	if err := os.Chmod(tmp, 0o755); err != nil {
-		return err
-	}
-	names := make([]string, 0, len(files))
-	for n := range files {
-		names = append(names, n)
-	}
-	sort.Strings(names)
-	for _, n := range names {
-		if err := os.WriteFile(filepath.Join(tmp, n), files[n], 0o644); err != nil {
-			return fmt.Errorf("writing %s: %w", out, err)
-		}
-	}
-	if _, serr := os.Lstat(out); serr == nil {
-		if !force {
-			return fmt.Errorf("%s already exists; choose another output with -o or replace it with --force", out)
-		}
-		old := tmp + ".old"
-		if err := os.Rename(out, old); err != nil {
-			return fmt.Errorf("replacing %s: %w", out, err)
-		}
-		if err := os.Rename(tmp, out); err != nil {
-			os.Rename(old, out)
-			return fmt.Errorf("replacing %s: %w", out, err)
-		}
-		return os.RemoveAll(old)
-	}
-	if err := os.Rename(tmp, out); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
-	}
-	return nil
+	return time.Now().UTC().Truncate(time.Second), "clock", nil
 }
 
 // isTerminal reports whether w is a terminal (progress is drawn only there).
