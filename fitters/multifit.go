@@ -36,7 +36,13 @@ func likelihoodProblem(dim int, exact exactNLL, dist func(theta []float64) Dist,
 	)
 	eval := func(theta []float64) float64 {
 		f := exact(theta, lastG)
-		if censored && !math.IsInf(f, 1) && !math.IsNaN(f) {
+		if math.IsInf(f, 1) || math.IsNaN(f) {
+			// Outside the support: no gradient (the exact functions
+			// return before writing it).
+			for i := range lastG {
+				lastG[i] = 0
+			}
+		} else if censored {
 			f += censoredNLL(theta)
 		}
 		copy(lastTheta, theta)
