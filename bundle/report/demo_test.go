@@ -3,6 +3,7 @@ package report
 import (
 	"bytes"
 	"context"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -117,6 +118,45 @@ func TestDemoReport(t *testing.T) {
 		if sum < 1-1e-9 || sum > 1+1e-9 {
 			t.Errorf("%s: weights sum to %v", a.Name, sum)
 		}
+	}
+	// Each traced profile must cross its cut-off where the runner's
+	// profile-likelihood interval ends: two independent computations of the
+	// same thing (linear interpolation between the 31 points).
+	dir := t.TempDir()
+	if _, err := templates.WriteScaffold(dir); err != nil {
+		t.Fatal(err)
+	}
+	p, _ := runner.Load(filepath.Join(dir, "fitseal.toml"))
+	res, err := runner.Run(context.Background(), p, runner.RunOptions{Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	profiles := 0
+	for i := range res.Analyses {
+		for _, pr := range FigureInputFor(res, i).Profiles {
+			profiles++
+			for _, end := range []float64{pr.Lower, pr.Upper} {
+				if !finiteNum(end) {
+					continue
+				}
+				cross := math.NaN()
+				for k := 1; k < len(pr.Values); k++ {
+					a, b := pr.LogLik[k-1]-pr.Cutoff, pr.LogLik[k]-pr.Cutoff
+					if a*b <= 0 && a != b && math.Abs(pr.Values[k-1]-end) <= math.Abs(pr.Values[len(pr.Values)-1]-pr.Values[0]) {
+						x := pr.Values[k-1] + (pr.Values[k]-pr.Values[k-1])*a/(a-b)
+						if math.IsNaN(cross) || math.Abs(x-end) < math.Abs(cross-end) {
+							cross = x
+						}
+					}
+				}
+				if tol := 0.01 * (pr.Upper - pr.Lower); math.IsNaN(cross) || math.Abs(cross-end) > tol {
+					t.Errorf("%s %s %s: profile crosses its cut-off at %v, the interval ends at %v", res.Analyses[i].Name, pr.Family, pr.Parameter, cross, end)
+				}
+			}
+		}
+	}
+	if profiles < 14 {
+		t.Errorf("%d profiles traced, want one per parameter of each best family (14)", profiles)
 	}
 	kinds := map[string][]string{}
 	for _, f := range figs {

@@ -208,6 +208,7 @@ func FigureInputFor(res *runner.Results, i int) FigureInput {
 	}
 
 	if best := a.Best(); best != "" {
+		in.Profiles = bestProfiles(p, ar, best)
 		for _, q := range a.Derived {
 			if q.Family == best && q.Quantity == ReturnLevel {
 				in.ReturnLevels = append(in.ReturnLevels, ReturnLevelPoint{Period: q.Argument, Level: q.Estimate, Lower: q.Lower, Upper: q.Upper})
@@ -218,6 +219,33 @@ func FigureInputFor(res *runner.Results, i int) FigureInput {
 		}
 	}
 	return in
+}
+
+// bestProfiles traces the profile log-likelihood of each estimated
+// parameter of the best family when the project asks for profile intervals.
+func bestProfiles(p *runner.Project, ar *runner.AnalysisResult, best string) []Profile {
+	if p.Settings.Intervals != "profile" || ar.Group == nil {
+		return nil
+	}
+	fam, ok := fitters.Lookup(best)
+	if !ok {
+		return nil
+	}
+	var out []Profile
+	for r, row := range ar.Comparison.Rows {
+		if row.Family != best || row.Fit == nil || r >= len(ar.Parameters) {
+			continue
+		}
+		for j, pr := range ar.Parameters[r] {
+			if pr.Fixed {
+				continue
+			}
+			if prof, ok := ProfileCurve(fam, row.Fit, &ar.Group.Data, j, pr.CILower, pr.CIUpper, pr.StdError, p.Settings.Confidence); ok {
+				out = append(out, prof)
+			}
+		}
+	}
+	return out
 }
 
 // simulationEnvelope draws EnvelopeReplicates samples of size n from the
