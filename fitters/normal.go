@@ -82,17 +82,20 @@ func (f normalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		fit.Convergence = closedForm()
 		return fit, nil
 	}
-	// Censored: start from the mean and spread of every recorded value.
-	mu0, v0 := meanVar(d.Values())
-	s0 := math.Max(math.Sqrt(v0), 1e-3*math.Max(1, math.Abs(mu0)))
-	prob := problem{dim: 2, negLogLik: func(t []float64) float64 {
-		return -f.LogLik([]float64{t[0], math.Exp(t[1])}, d)
+	// Censored: BFGS on the standardised scale ((mu − m)/s, log(sigma/s)),
+	// m and s the mean and spread of every recorded value, so that the
+	// convergence test does not depend on the data's units or offset.
+	m, v0 := meanVar(d.Values())
+	s := math.Max(math.Sqrt(v0), 1e-3*math.Max(1, math.Abs(m)))
+	natural := func(t []float64) []float64 { return []float64{m + s*t[0], s * math.Exp(t[1])} }
+	prob := problem{dim: 2, scale: float64(d.N()), negLogLik: func(t []float64) float64 {
+		return -f.LogLik(natural(t), d)
 	}}
-	starts := [][]float64{{mu0, math.Log(s0)}, {mu0, math.Log(s0 * 3)}}
+	starts := [][]float64{{0, 0}, {0, math.Log(3)}}
 	o := minimize(prob, starts, opt)
 	var est []float64
 	if o.theta != nil {
-		est = []float64{o.theta[0], math.Exp(o.theta[1])}
+		est = natural(o.theta)
 	}
 	fit.setOptimum(o, est, "BFGS on (mu, log sigma)")
 	return fit, nil

@@ -18,6 +18,11 @@ type problem struct {
 	// grad fills g with ∂(−ln L)/∂θ. When nil, central finite differences
 	// (gonum/diff/fd) are used.
 	grad func(g, theta []float64)
+	// scale is the typical magnitude of −ln L, such as the number of
+	// observations; with the start's value it sets the gradient threshold,
+	// so that a start whose log-likelihood happens to be near 0 does not
+	// demand an unreachable gradient. Zero means 1.
+	scale float64
 }
 
 // optimum is the best point found by minimize.
@@ -70,10 +75,11 @@ func minimize(p problem, starts [][]float64, opt Options) optimum {
 				}
 			},
 		}
+		fScale := math.Max(math.Abs(f0), p.scale)
 		settings := &optimize.Settings{
-			GradientThreshold: gradTol(tol, f0),
+			GradientThreshold: gradTol(tol, fScale),
 			Converger: &optimize.FunctionConverge{
-				Absolute:   tol * math.Max(1, math.Abs(f0)),
+				Absolute:   tol * math.Max(1, fScale),
 				Relative:   tol,
 				Iterations: 10,
 			},
@@ -92,7 +98,7 @@ func minimize(p problem, starts [][]float64, opt Options) optimum {
 		g := make([]float64, p.dim)
 		grad(g, res.X)
 		gn := infNorm(g)
-		ok, why := judge(res.Status, err, gn, f, tol)
+		ok, why := judge(res.Status, err, gn, math.Max(math.Abs(f), p.scale), tol)
 		if f < best.negLogLik {
 			best = optimum{theta: res.X, negLogLik: f, gradNorm: gn, converged: ok, reason: why}
 		}
@@ -116,7 +122,8 @@ func judge(status optimize.Status, err error, gradNorm, f, tol float64) (bool, s
 		return true, ""
 	case status == optimize.FunctionConvergence && small:
 		return true, ""
-	case errors.Is(err, optimize.ErrLinesearcherFailure) && small:
+	case (errors.Is(err, optimize.ErrLinesearcherFailure) || errors.Is(err, optimize.ErrNoProgress) ||
+		errors.Is(err, optimize.ErrNonDescentDirection)) && small:
 		// The line search can no longer improve f in floating point and
 		// the gradient is negligible: a numerically exact optimum.
 		return true, ""
