@@ -1,0 +1,292 @@
+package bundle
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+)
+
+// Difference is one cell or value that differs between two versions of a
+// result file: Row is the 1-based data row (header excluded) of the first
+// version, Key names the row by its key columns, Column the column (or the
+// JSON path inside results.json).
+type Difference struct {
+	Member string
+	Row    int
+	Key    string
+	Column string
+	A, B   string
+}
+
+// Describe says where the difference is and both values, with labels for
+// the two versions (e.g. "recorded", "recomputed").
+func (d Difference) Describe(la, lb string) string {
+	where := ""
+	if d.Row > 0 {
+		where = fmt.Sprintf("row %d", d.Row)
+		if d.Key != "" {
+			where += " (" + d.Key + ")"
+		}
+		where += ", "
+	}
+	return fmt.Sprintf("%scolumn %s: %s %s, %s %s", where, d.Column, la, show(d.A), lb, show(d.B))
+}
+
+func show(s string) string {
+	if s == "" {
+		return "(empty)"
+	}
+	return s
+}
+
+// Agree decides whether two numbers of one cell agree; fields are the row's
+// other cells by column name (for rules that depend on the interval method
+// or the replicate count). Exact equality is the default.
+type Agree func(column string, fields map[string]string, a, b float64) bool
+
+// resultKeys are the columns that name a row of each result table.
+var resultKeys = map[string][]string{
+	"fits.csv":       {"analysis", "family"},
+	"parameters.csv": {"analysis", "family", "parameter"},
+	"derived.csv":    {"analysis", "family", "quantity", "argument"},
+	"gof.csv":        {"analysis", "family", "statistic"},
+}
+
+// CompareCSV compares two versions of a result table cell by cell, rows
+// matched by their key columns (by position for an unknown table), numbers
+// by agree (nil: exactly, as parsed float64), text exactly. A row in one
+// version only is a difference whose column is "(row)".
+func CompareCSV(member string, a, b []byte, agree Agree) ([]Difference, int, error) {
+	ra, err := csv.NewReader(bytes.NewReader(a)).ReadAll()
+	if err != nil {
+		return nil, 0, fmt.Errorf("%s: %w", member, err)
+	}
+	rb, err := csv.NewReader(bytes.NewReader(b)).ReadAll()
+	if err != nil {
+		return nil, 0, fmt.Errorf("%s: %w", member, err)
+	}
+	if len(ra) == 0 || len(rb) == 0 {
+		return nil, 0, fmt.Errorf("%s: no header row", member)
+	}
+	ha, hb := ra[0], rb[0]
+	var diffs []Difference
+	if strings.Join(ha, ",") != strings.Join(hb, ",") {
+		diffs = append(diffs, Difference{Member: member, Column: "(header)", A: strings.Join(ha, ","), B: strings.Join(hb, ",")})
+		return diffs, 0, nil
+	}
+	base := member[strings.LastIndex(member, "/")+1:]
+	keyCols := resultKeys[base]
+	keyOf := func(row []string, i int) string {
+		if keyCols == nil {
+			return "#" + strconv.Itoa(i)
+		}
+		parts := make([]string, 0, len(keyCols))
+		for _, k := range keyCols {
+			for c, h := range ha {
+				if h == k && c < len(row) {
+					parts = append(parts, k+"="+row[c])
+				}
+			}
+		}
+		return strings.Join(parts, ", ")
+	}
+	indexB := map[string]int{}
+	for i := 1; i < len(rb); i++ {
+		k := keyOf(rb[i], i)
+		if _, dup := indexB[k]; !dup {
+			indexB[k] = i
+		}
+	}
+	seenB := map[int]bool{}
+	compared := 0
+	for i := 1; i < len(ra); i++ {
+		k := keyOf(ra[i], i)
+		j, ok := indexB[k]
+		if !ok || seenB[j] {
+			diffs = append(diffs, Difference{Member: member, Row: i, Key: k, Column: "(row)", A: "present", B: "absent"})
+			continue
+		}
+		seenB[j] = true
+		fields := map[string]string{}
+		for c, h := range ha {
+			if c < len(ra[i]) {
+				fields[h] = ra[i][c]
+			}
+		}
+		for c, h := range ha {
+			va, vb := cell(ra[i], c), cell(rb[j], c)
+			fa, ea := strconv.ParseFloat(va, 64)
+			fb, eb := strconv.ParseFloat(vb, 64)
+			if ea == nil && eb == nil {
+				compared++
+				if fa == fb || (agree != nil && agree(h, fields, fa, fb)) {
+					continue
+				}
+			} else if va == vb {
+				continue
+			}
+			diffs = append(diffs, Difference{Member: member, Row: i, Key: k, Column: h, A: va, B: vb})
+		}
+	}
+	for j := 1; j < len(rb); j++ {
+		if !seenB[j] {
+			diffs = append(diffs, Difference{Member: member, Row: j, Key: keyOf(rb[j], j), Column: "(row)", A: "absent", B: "present"})
+		}
+	}
+	return diffs, compared, nil
+}
+
+func cell(row []string, c int) string {
+	if c < len(row) {
+		return row[c]
+	}
+	return ""
+}
+
+// CompareJSON compares two JSON documents value by value; Column is the
+// value's path (e.g. analyses[0].fits[2].loglik). Numbers are compared by
+// agree with the sibling values of their object as fields.
+func CompareJSON(member string, a, b []byte, agree Agree) ([]Difference, int, error) {
+	va, err := decodeJSON(a)
+	if err != nil {
+		return nil, 0, fmt.Errorf("%s: %w", member, err)
+	}
+	vb, err := decodeJSON(b)
+	if err != nil {
+		return nil, 0, fmt.Errorf("%s: %w", member, err)
+	}
+	c := &jsonCompare{member: member, agree: agree}
+	c.walk("", va, vb, nil)
+	return c.diffs, c.compared, nil
+}
+
+func decodeJSON(b []byte) (any, error) {
+	d := json.NewDecoder(bytes.NewReader(b))
+	d.UseNumber()
+	var v any
+	if err := d.Decode(&v); err != nil {
+		return nil, err
+	}
+	return v, nil
+}
+
+type jsonCompare struct {
+	member   string
+	agree    Agree
+	diffs    []Difference
+	compared int
+}
+
+func (c *jsonCompare) add(path string, a, b any) {
+	c.diffs = append(c.diffs, Difference{Member: c.member, Column: path, A: jsonText(a), B: jsonText(b)})
+}
+
+func jsonText(v any) string {
+	if v == nil {
+		return "null"
+	}
+	if s, ok := v.(string); ok {
+		return strconv.Quote(s)
+	}
+	b, _ := json.Marshal(v)
+	if len(b) > 80 {
+		return string(b[:77]) + "…"
+	}
+	return string(b)
+}
+
+func (c *jsonCompare) walk(path string, a, b any, fields map[string]string) {
+	switch x := a.(type) {
+	case map[string]any:
+		y, ok := b.(map[string]any)
+		if !ok {
+			c.add(path, a, b)
+			return
+		}
+		sib := map[string]string{}
+		for k, v := range x {
+			switch t := v.(type) {
+			case string:
+				sib[k] = t
+			case json.Number:
+				sib[k] = t.String()
+			}
+		}
+		keys := make([]string, 0, len(x)+len(y))
+		for k := range x {
+			keys = append(keys, k)
+		}
+		for k := range y {
+			if _, ok := x[k]; !ok {
+				keys = append(keys, k)
+			}
+		}
+		sort.Strings(keys)
+		for _, k := range keys {
+			p := k
+			if path != "" {
+				p = path + "." + k
+			}
+			va, okA := x[k]
+			vb, okB := y[k]
+			if !okA || !okB {
+				c.add(p, presence(okA, va), presence(okB, vb))
+				continue
+			}
+			c.walk(p, va, vb, sib)
+		}
+	case []any:
+		y, ok := b.([]any)
+		if !ok || len(x) != len(y) {
+			c.add(path, a, b)
+			return
+		}
+		for i := range x {
+			c.walk(fmt.Sprintf("%s[%d]", path, i), x[i], y[i], fields)
+		}
+	case json.Number:
+		y, ok := b.(json.Number)
+		if !ok {
+			c.add(path, a, b)
+			return
+		}
+		c.compared++
+		fa, ea := x.Float64()
+		fb, eb := y.Float64()
+		if ea != nil || eb != nil {
+			if x != y {
+				c.add(path, a, b)
+			}
+			return
+		}
+		if fa == fb {
+			return
+		}
+		col := path[strings.LastIndex(path, ".")+1:]
+		if c.agree != nil && c.agree(col, fields, fa, fb) {
+			return
+		}
+		c.add(path, a, b)
+	default:
+		if a != b {
+			c.add(path, a, b)
+		}
+	}
+}
+
+func presence(ok bool, v any) any {
+	if !ok {
+		return "(absent)"
+	}
+	return v
+}
+
+// relClose reports |a − b| ≤ tol·max(|a|, |b|).
+func relClose(a, b, tol float64) bool {
+	return math.Abs(a-b) <= tol*math.Max(math.Abs(a), math.Abs(b))
+}
