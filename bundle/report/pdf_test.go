@@ -220,3 +220,37 @@ func TestRenderPDFEmbedsPNGOnlyFigure(t *testing.T) {
 		t.Error("a broken PNG must be an error")
 	}
 }
+
+// TestRenderPDFContentStream checks the text without poppler: with
+// compression off, gofpdf writes text in the embedded fonts as UTF-16BE
+// strings in the page content, so each phrase that sits on one line can be
+// found byte for byte.
+func TestRenderPDFContentStream(t *testing.T) {
+	r := testReport(t, 5)
+	pdf, err := RenderPDF(r, PDFOptions{Uncompressed: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	utf16 := func(s string) []byte {
+		var b []byte
+		for _, c := range s {
+			if c > 0xffff {
+				t.Fatalf("%q: outside the basic plane", s)
+			}
+			b = append(b, byte(c>>8), byte(c))
+		}
+		return b
+	}
+	want := []string{"Methods and cautions", "Cautions", "licensed", "professional", "Ranking by AICc", "ΔAICc", "Ranking by AIC", "Contents"}
+	for _, a := range r.Analyses {
+		want = append(want, a.Name)
+	}
+	for _, w := range want {
+		if !bytes.Contains(pdf, utf16(w)) {
+			t.Errorf("page content lacks %q", w)
+		}
+	}
+	if bytes.Contains(pdf, utf16("seal-life/G-006")) {
+		t.Error("the search finds an analysis the report does not have")
+	}
+}
