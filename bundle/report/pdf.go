@@ -7,6 +7,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"time"
 
 	"codeberg.org/go-fonts/liberation/liberationmonoregular"
 	"codeberg.org/go-fonts/liberation/liberationsansbold"
@@ -50,8 +51,14 @@ func RenderPDF(r *Report, opt PDFOptions) ([]byte, error) {
 	f := d.f
 	f.SetCompression(!opt.Uncompressed)
 	f.SetCatalogSort(true)
-	f.SetCreationDate(r.Identity.Created)
-	f.SetModificationDate(r.Identity.Created)
+	// gofpdf takes a zero date as "now"; without a created time the file
+	// still must not vary, so it then carries the Unix epoch.
+	created := r.Identity.Created
+	if created.IsZero() {
+		created = time.Unix(0, 0)
+	}
+	f.SetCreationDate(created.UTC())
+	f.SetModificationDate(created.UTC())
 	f.SetProducer("fitseal "+r.Identity.ToolVersion, true)
 	f.SetCreator("fitseal "+r.Identity.ToolVersion, true)
 	f.SetTitle(r.Name+": fitting summary", true)

@@ -254,3 +254,16 @@ func TestRenderPDFContentStream(t *testing.T) {
 		t.Error("the search finds an analysis the report does not have")
 	}
 }
+
+func TestRenderPDFWithoutCreatedTime(t *testing.T) {
+	r := &Report{Name: "no-time", Analyses: []Analysis{rainAnalysis()}}
+	a, err := RenderPDF(r, PDFOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(1100 * time.Millisecond) // a clock-based date would now differ
+	b, _ := RenderPDF(r, PDFOptions{})
+	if !bytes.Equal(a, b) || !bytes.Contains(a, []byte("/CreationDate (D:19700101000000")) {
+		t.Error("without a created time the PDF must carry the epoch, not the clock")
+	}
+}
