@@ -3,9 +3,10 @@
 // and PNG, with gonum/plot) and the PDF summary (with gofpdf).
 //
 // Its input is the plain data model in this file, independent of the
-// runner's types: the caller fills a [Report] from the run's results and
-// calls [RenderTables], [RenderFigures] and [RenderPDF]. Every output is
-// deterministic: the same Report gives the same bytes.
+// runner's types: the caller fills a [Report] (or lets [FromResults] and
+// [FigureInputFor] fill it from a run's results) and calls [RenderTables],
+// [RenderFigures] and [RenderPDF]. Every output is deterministic: the same
+// Report gives the same bytes. docs/REPORT.md shows the calls in order.
 package report
 
 import (
