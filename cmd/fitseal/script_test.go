@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -31,10 +32,19 @@ func TestMain(m *testing.M) {
 //	notemp DIR           DIR holds no temporary file or folder (".tmp-")
 //	cmpdir A B           folders A and B hold the same files, byte for byte
 func TestScript(t *testing.T) {
+	// One signing key for every script, made by fitseal keygen, so that no
+	// script creates the default key (and bundles of one script compare
+	// byte for byte).
+	key := filepath.Join(t.TempDir(), "id_ed25519")
+	var stderr bytes.Buffer
+	if code := run(context.Background(), []string{"keygen", "-o", key}, io.Discard, &stderr); code != 0 {
+		t.Fatalf("keygen: exit %d: %s", code, stderr.String())
+	}
 	testscript.Run(t, testscript.Params{
 		Dir: "testdata/script",
 		Setup: func(env *testscript.Env) error {
 			env.Setenv("SOURCE_DATE_EPOCH", "1764633600") // 2025-12-02T00:00:00Z
+			env.Setenv("FITSEAL_KEY", key)
 			return nil
 		},
 		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
