@@ -1,0 +1,190 @@
+package bundle
+
+import (
+	"encoding/json"
+	"fmt"
+	"sort"
+	"strings"
+)
+
+// Kinds of DiffItem.
+const (
+	DiffInput   = "input"   // an input file added, removed or changed (by SHA-256)
+	DiffSetting = "setting" // the effective project (settings, datasets, candidates, analyses, report)
+	DiffCode    = "code"    // fitseal's version, Go version, platform or build commit
+	DiffGit     = "git"     // the project's git commit, branch or dirty state
+	DiffNumber  = "number"  // a cell of a result table, or a value of results.json
+	DiffRecord  = "record"  // run.json unreadable in one bundle
+	// Not differences in substance, reported all the same:
+	DiffCreated  = "created"  // the created time
+	DiffSigner   = "signer"   // the signing key
+	DiffRendered = "rendered" // tables, figures, PDF: drawn from all of the above
+)
+
+// DiffItem is one thing that differs between bundles A and B.
+type DiffItem struct {
+	Kind string
+	// Substantive is false for what does not change what the bundle says:
+	// the created time, the signer, and the rendered files that follow from
+	// the inputs, settings, code, numbers, time and signer compared here.
+	Substantive bool
+	Text        string
+}
+
+// Diff compares two bags: inputs by hash, the effective project and
+// settings, code version and platform, git provenance, and every number of
+// the result tables (rows matched by their keys) — and, reported but not
+// counted as differences in substance, the created time, the signer and the
+// rendered tables, figures and PDF (which carry the created time and signer,
+// and are drawn from the numbers). results.json is compared value by value
+// only when the tables agree, so each change is listed once.
+func Diff(a, b *Bag) []DiffItem {
+	var items []DiffItem
+	add := func(kind string, substantive bool, format string, args ...any) {
+		items = append(items, DiffItem{Kind: kind, Substantive: substantive, Text: fmt.Sprintf(format, args...)})
+	}
+	pa, pb := a.Payload(), b.Payload()
+
+	for _, p := range unionPaths(pa, pb, func(p string) bool { return strings.HasPrefix(p, "inputs/") }) {
+		x, okA := pa[p]
+		y, okB := pb[p]
+		switch {
+		case !okB:
+			add(DiffInput, true, "%s/%s: only in A (sha256 %s)", PayloadDir, p, sha256Hex(x))
+		case !okA:
+			add(DiffInput, true, "%s/%s: only in B (sha256 %s)", PayloadDir, p, sha256Hex(y))
+		case sha256Hex(x) != sha256Hex(y):
+			add(DiffInput, true, "%s/%s: sha256 %s in A, %s in B", PayloadDir, p, sha256Hex(x), sha256Hex(y))
+		}
+	}
+
+	ra, errA := ParseRunRecord(a.RunJSON())
+	rb, errB := ParseRunRecord(b.RunJSON())
+	if errA != nil {
+		add(DiffRecord, true, "A: %v", errA)
+	}
+	if errB != nil {
+		add(DiffRecord, true, "B: %v", errB)
+	}
+	if errA == nil && errB == nil {
+		ja, _ := json.Marshal(ra.Project)
+		jb, _ := json.Marshal(rb.Project)
+		ds, _, _ := CompareJSON(RunFile, ja, jb, nil)
+		for _, d := range ds {
+			add(DiffSetting, true, "project.%s: %s in A, %s in B", d.Column, d.A, d.B)
+		}
+		for _, f := range fieldDiffs(ra.Tool, rb.Tool) {
+			add(DiffCode, true, "tool.%s", f)
+		}
+		for _, f := range [][3]string{
+			{"repository", fmt.Sprint(ra.Git.Repository), fmt.Sprint(rb.Git.Repository)},
+			{"commit", ra.Git.Commit, rb.Git.Commit},
+			{"branch", ra.Git.Branch, rb.Git.Branch},
+			{"dirty", fmt.Sprint(ra.Git.Dirty), fmt.Sprint(rb.Git.Dirty)},
+		} {
+			if f[1] != f[2] {
+				add(DiffGit, true, "git.%s: %s in A, %s in B", f[0], show(f[1]), show(f[2]))
+			}
+		}
+		if !ra.Created.Equal(rb.Created) {
+			add(DiffCreated, false, "created: %s in A, %s in B", ra.Created.UTC().Format("2006-01-02T15:04:05Z"), rb.Created.UTC().Format("2006-01-02T15:04:05Z"))
+		}
+		if ra.Signer.Fingerprint != rb.Signer.Fingerprint {
+			add(DiffSigner, false, "signer: %s in A, %s in B", ra.Signer.Fingerprint, rb.Signer.Fingerprint)
+		}
+	}
+
+	tablesDiffer := false
+	var jsonPaths []string
+	for _, p := range unionPaths(pa, pb, func(p string) bool { return strings.HasPrefix(p, "results/") }) {
+		member := PayloadDir + "/" + p
+		x, okA := pa[p]
+		y, okB := pb[p]
+		if !okA || !okB {
+			add(DiffNumber, true, "%s: only in %s", member, map[bool]string{true: "A", false: "B"}[okA])
+			tablesDiffer = true
+			continue
+		}
+		if strings.HasSuffix(p, ".json") {
+			jsonPaths = append(jsonPaths, p)
+			continue
+		}
+		ds, _, err := CompareCSV(member, x, y, nil)
+		if err != nil {
+			add(DiffNumber, true, "%v", err)
+			tablesDiffer = true
+			continue
+		}
+		for _, d := range ds {
+			add(DiffNumber, true, "%s %s", member, d.Describe("A", "B"))
+			tablesDiffer = true
+		}
+	}
+	for _, p := range jsonPaths {
+		member := PayloadDir + "/" + p
+		ds, _, err := CompareJSON(member, pa[p], pb[p], nil)
+		switch {
+		case err != nil:
+			add(DiffNumber, true, "%v", err)
+		case len(ds) > 0 && tablesDiffer:
+			add(DiffNumber, true, "%s: %d values differ (the changes listed above, in the JSON record)", member, len(ds))
+		default:
+			for _, d := range ds {
+				add(DiffNumber, true, "%s %s: %s in A, %s in B", member, d.Column, d.A, d.B)
+			}
+		}
+	}
+
+	var rendered []string
+	for _, p := range unionPaths(pa, pb, isRendered) {
+		if x, y := pa[p], pb[p]; x == nil || y == nil || sha256Hex(x) != sha256Hex(y) {
+			rendered = append(rendered, PayloadDir+"/"+p)
+		}
+	}
+	if len(rendered) > 0 {
+		list := strings.Join(rendered, ", ")
+		if len(rendered) > 5 {
+			list = strings.Join(rendered[:5], ", ") + fmt.Sprintf(", … (%d in all)", len(rendered))
+		}
+		add(DiffRendered, false, "rendered files that differ: %s", list)
+	}
+	return items
+}
+
+func unionPaths(a, b map[string][]byte, keep func(string) bool) []string {
+	seen := map[string]bool{}
+	var out []string
+	for _, m := range []map[string][]byte{a, b} {
+		for p := range m {
+			if keep(p) && !seen[p] {
+				seen[p] = true
+				out = append(out, p)
+			}
+		}
+	}
+	sort.Strings(out)
+	return out
+}
+
+// fieldDiffs lists the JSON fields of two values that differ, as
+// "NAME: X in A, Y in B".
+func fieldDiffs(x, y any) []string {
+	a, b := jsonFields(x), jsonFields(y)
+	keys := make([]string, 0, len(a)+len(b))
+	for k := range a {
+		keys = append(keys, k)
+	}
+	for k := range b {
+		if _, ok := a[k]; !ok {
+			keys = append(keys, k)
+		}
+	}
+	sort.Strings(keys)
+	var out []string
+	for _, k := range keys {
+		if a[k] != b[k] {
+			out = append(out, fmt.Sprintf("%s: %s in A, %s in B", k, show(a[k]), show(b[k])))
+		}
+	}
+	return out
+}
