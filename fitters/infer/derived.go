@@ -333,7 +333,7 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 			}
 			warm = tj
 			theta[j] = scales[j].From(tj)
-			return finite(theta)
+			return finite(theta) && regular(fam, theta)
 		},
 	}, j
 }

@@ -165,7 +165,7 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 				step = se
 			}
 			p := parameterProfiler(fam, fit, d, scales, i)
-			lo, hi := sc.Bounds()
+			lo, hi := profileLimits(fam, i, sc)
 			lb, ub := p.interval(that, fit.LogLik, step, cut, spanOf(sc), sc.From, lo, hi)
 			r.Lower, r.LowerOpen = lb.Value, lb.Open
 			r.Upper, r.UpperOpen = ub.Value, ub.Open

@@ -40,6 +40,13 @@ func (p *profiler) at(v float64, warm []float64) (ll float64, u []float64, edge,
 		return p.fam.LogLik(p.theta, p.data)
 	}
 	u, ll, ok = maximize(f, p.feasible(f, warm))
+	if !ok && valid {
+		// One restart from where the optimiser stopped (fresh BFGS
+		// curvature) settles most maxima on a constraint's edge.
+		if u2, ll2, ok2 := maximize(f, u); ll2 >= ll {
+			u, ll, ok = u2, ll2, ok2
+		}
+	}
 	if !valid {
 		return math.Inf(-1), warm, true, true
 	}
@@ -116,10 +123,33 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 			}
 			ll, u, edge, ok := p.at(v, uprev)
 			if edge {
-				return ProfileBound{Value: limit, Open: true,
-					Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space near %.6g", from(prev))}
+				// Close in on the edge by bisection: the profile may still
+				// cross the cut-off between the last inside point and it.
+				for it := 0; it < 60 && edge; it++ {
+					if math.Abs(v-prev) <= 1e-12*math.Max(1, math.Abs(prev)) {
+						return ProfileBound{Value: limit, Open: true,
+							Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(prev))}
+					}
+					mid := 0.5 * (prev + v)
+					ll, u, edge, ok = p.at(mid, uprev)
+					if edge {
+						v = mid
+					} else if ok && ll >= target {
+						prev, uprev, dprev = mid, u, ll-target
+						edge = true // keep closing in
+					} else {
+						v = mid
+					}
+				}
+				if edge {
+					return ProfileBound{Value: limit, Open: true,
+						Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(prev))}
+				}
 			}
-			if !ok {
+			if !ok && !(ll >= target) {
+				// A maximisation that stopped short still gives a lower
+				// bound of ℓp: above the cut-off the point is inside for
+				// sure, below it nothing is known.
 				return ProfileBound{Value: math.NaN(),
 					Note: fmt.Sprintf("the maximisation over the other parameters failed near %.6g", from(v))}
 			}
@@ -134,7 +164,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					if edge {
 						return math.Inf(-1)
 					}
-					if !ok {
+					if !ok && !(l >= target) {
 						return math.NaN()
 					}
 					return l - target
@@ -176,9 +206,36 @@ func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, sc
 		build: func(v float64, u, theta []float64) bool {
 			theta[i] = scales[i].From(v)
 			fromScales(theta, u, u0, est, others, scales)
-			return finite(theta)
+			return finite(theta) && regular(fam, theta)
 		},
 	}
+}
+
+// regular reports whether theta lies where the likelihood is bounded: for
+// gev and gpd, shape ξ > −1 (Smith, 1985: below −1 the likelihood grows
+// without bound as the endpoint nears an observation). Profiles are taken
+// over this region only, so that no runaway value poses as a maximum.
+func regular(fam fitters.Family, theta []float64) bool {
+	if !realShape[fam.Name()] {
+		return true
+	}
+	for i, name := range fam.Parameters() {
+		if name == "shape" && !(theta[i] > -1) {
+			return false
+		}
+	}
+	return true
+}
+
+// profileLimits are the ends of parameter i's range on its scale, where
+// an open side of its profile interval ends: ξ > −1 for gev and gpd
+// (see regular), the scale's bounds otherwise.
+func profileLimits(fam fitters.Family, i int, sc Scale) (float64, float64) {
+	lo, hi := sc.Bounds()
+	if realShape[fam.Name()] && fam.Parameters()[i] == "shape" {
+		lo = -1
+	}
+	return lo, hi
 }
 
 // fromScales sets theta[others[a]] from the transformed u[a]; where u[a]
