@@ -17,7 +17,7 @@
 // # Random streams
 //
 // Every bootstrap replicate draws from its own stream, seeded by
-// SHA-256("seed|analysis|family|purpose|replicate") (see [StreamSeed]), so a
+// SHA-256("seed|analysis|family|purpose|replicate") (see [Stream.StreamSeed]), so a
 // replicate's numbers do not depend on which worker ran it, and results are
 // identical for any number of workers.
 package infer

@@ -85,8 +85,8 @@ func (p *profiler) feasible(f func([]float64) float64, warm []float64) []float64
 	return warm
 }
 
-// ProfileBound is one end of a profile-likelihood interval.
-type ProfileBound struct {
+// profileBound is one end of a profile-likelihood interval.
+type profileBound struct {
 	// Value is the end on the natural scale of the quantity; for an open
 	// side, the limit of the quantity's range (0, ±Inf, 1).
 	Value float64
@@ -112,9 +112,9 @@ const maxDoublings = 40
 // transformed scale (the log of a positive quantity cannot usefully move
 // more than a few hundred units). from maps v back to the natural scale and
 // lo, hi are the natural scale's limits for an open side.
-func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(float64) float64, lo, hi float64) (lower, upper ProfileBound) {
+func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(float64) float64, lo, hi float64) (lower, upper profileBound) {
 	target := llhat - cut
-	side := func(dir float64, limit float64) ProfileBound {
+	side := func(dir float64, limit float64) profileBound {
 		prev, uprev, dprev := vhat, p.u0, cut
 		for k := 0; k < maxDoublings; k++ {
 			v := vhat + dir*step*math.Ldexp(1, k)
@@ -127,7 +127,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 				// cross the cut-off between the last inside point and it.
 				for it := 0; it < 60 && edge; it++ {
 					if math.Abs(v-prev) <= 1e-12*math.Max(1, math.Abs(prev)) {
-						return ProfileBound{Value: limit, Open: true,
+						return profileBound{Value: limit, Open: true,
 							Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(prev))}
 					}
 					mid := 0.5 * (prev + v)
@@ -142,7 +142,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					}
 				}
 				if edge {
-					return ProfileBound{Value: limit, Open: true,
+					return profileBound{Value: limit, Open: true,
 						Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(prev))}
 				}
 			}
@@ -150,11 +150,11 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 				// A maximisation that stopped short still gives a lower
 				// bound of ℓp: above the cut-off the point is inside for
 				// sure, below it nothing is known.
-				return ProfileBound{Value: math.NaN(),
+				return profileBound{Value: math.NaN(),
 					Note: fmt.Sprintf("the maximisation over the other parameters failed near %.6g", from(v))}
 			}
 			if ll > llhat+1e-6*math.Max(1, math.Abs(llhat)) {
-				return ProfileBound{Value: math.NaN(),
+				return profileBound{Value: math.NaN(),
 					Note: fmt.Sprintf("the profile log-likelihood %.10g at %.6g exceeds the fit's %.10g: the fit is not the maximum", ll, from(v), llhat)}
 			}
 			if ll < target {
@@ -171,14 +171,14 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 				}
 				root, found := findRoot(g, prev, v, dprev, ll-target, 1e-10, 1e-9, 200)
 				if !found {
-					return ProfileBound{Value: math.NaN(),
+					return profileBound{Value: math.NaN(),
 						Note: fmt.Sprintf("root finding on the profile failed between %.6g and %.6g", from(prev), from(v))}
 				}
-				return ProfileBound{Value: from(root)}
+				return profileBound{Value: from(root)}
 			}
 			prev, uprev, dprev = v, u, ll-target
 		}
-		return ProfileBound{Value: limit, Open: true,
+		return profileBound{Value: limit, Open: true,
 			Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off out to %.6g", from(prev))}
 	}
 	lower = side(-1, lo)
