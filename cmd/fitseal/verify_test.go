@@ -1,0 +1,254 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"fitseal/bundle"
+	"fitseal/templates"
+)
+
+// cli runs fitseal in-process and returns its exit status and output.
+func cli(t *testing.T, args ...string) (int, string, string) {
+	t.Helper()
+	var stdout, stderr bytes.Buffer
+	code := run(context.Background(), args, &stdout, &stderr)
+	return code, stdout.String(), stderr.String()
+}
+
+// mustCLI runs fitseal and fails the test unless it exits with want.
+func mustCLI(t *testing.T, want int, args ...string) string {
+	t.Helper()
+	code, out, errOut := cli(t, args...)
+	if code != want {
+		t.Fatalf("fitseal %s: exit %d, want %d\nstdout:\n%s\nstderr:\n%s", strings.Join(args, " "), code, want, out, errOut)
+	}
+	return out
+}
+
+// bearingsProject writes a small project (the ball-bearing endurance data,
+// Lieblein & Zelen, 1956, recalled from memory) into a new folder and
+// returns its project file and a signing key made by keygen.
+func bearingsProject(t *testing.T) (project, key string) {
+	t.Helper()
+	t.Setenv("SOURCE_DATE_EPOCH", "1764633600")
+	dir := t.TempDir()
+	src, err := os.ReadFile(filepath.Join("..", "..", "bundle", "testdata", "seal", "fitseal.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	data, err := os.ReadFile(filepath.Join("..", "..", "bundle", "testdata", "seal", "data", "bearings.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	os.MkdirAll(filepath.Join(dir, "data"), 0o755)
+	os.WriteFile(filepath.Join(dir, "fitseal.toml"), src, 0o644)
+	os.WriteFile(filepath.Join(dir, "data", "bearings.csv"), data, 0o644)
+	key = filepath.Join(dir, "key")
+	mustCLI(t, 0, "keygen", "-o", key)
+	return filepath.Join(dir, "fitseal.toml"), key
+}
+
+// TestRunVerifyInitDemo: the `fitseal init` demo project runs into a bundle
+// that verifies, and show prints its analyses.
+func TestRunVerifyInitDemo(t *testing.T) {
+	t.Setenv("SOURCE_DATE_EPOCH", "1764633600")
+	dir := t.TempDir()
+	if _, err := templates.WriteScaffold(filepath.Join(dir, "p")); err != nil {
+		t.Fatal(err)
+	}
+	key := filepath.Join(dir, "key")
+	mustCLI(t, 0, "keygen", "-o", key)
+	out := filepath.Join(dir, "demo.tar.gz")
+	mustCLI(t, 0, "run", "-q", "--key", key, "-o", out, filepath.Join(dir, "p", "fitseal.toml"))
+	got := mustCLI(t, 0, "verify", "--key", key+".pub", out)
+	if !strings.Contains(got, "OK "+out+": archive, hashes and signature; every number reproduced") || !strings.Contains(got, "(pinned with --key)") {
+		t.Errorf("verify output:\n%s", got)
+	}
+	show := mustCLI(t, 0, "show", out)
+	for _, a := range []string{"== seal-life ==", "== storm-rainfall ==", "== nitrate/MW-1 ==", "== defects =="} {
+		if !strings.Contains(show, a) {
+			t.Errorf("show lacks %q", a)
+		}
+	}
+}
+
+// TestVerifyFlippedByte: one flipped byte in a result file of a bag folder
+// or of an archive is caught and named (exit 1).
+func TestVerifyFlippedByte(t *testing.T) {
+	project, key := bearingsProject(t)
+	dir := filepath.Dir(project)
+	folder := filepath.Join(dir, "bag")
+	mustCLI(t, 0, "run", "-q", "--key", key, "-o", folder, project)
+	file := filepath.Join(folder, "data", "results", "fits.csv")
+	b, _ := os.ReadFile(file)
+	b[len(b)/2] ^= 0x01
+	os.WriteFile(file, b, 0o644)
+	out := mustCLI(t, 1, "verify", folder)
+	if !strings.Contains(out, "FAIL data/results/fits.csv: SHA-256 differs from manifest-sha256.txt") || strings.Contains(out, "\nOK ") {
+		t.Errorf("verify output:\n%s", out)
+	}
+	if !strings.Contains(out, "re-run: not attempted, because the bundle is not intact") {
+		t.Errorf("verify re-ran a damaged bundle:\n%s", out)
+	}
+
+	// A flipped byte in the compressed archive: refused as damaged, exit 1.
+	archive := filepath.Join(dir, "b.tar.gz")
+	mustCLI(t, 0, "run", "-q", "--key", key, "-o", archive, project)
+	a, _ := os.ReadFile(archive)
+	a[len(a)/2] ^= 0x01
+	os.WriteFile(archive, a, 0o644)
+	code, _, errOut := cli(t, "verify", archive)
+	if code != 1 || !strings.Contains(errOut, archive) {
+		t.Errorf("damaged archive: exit %d, stderr %q", code, errOut)
+	}
+}
+
+// TestVerifyResignedNumber: a number edited, then re-hashed and re-signed
+// with the same key passes integrity and signature (--no-rerun) but fails
+// the re-run, which names the file, row, column and both values.
+func TestVerifyResignedNumber(t *testing.T) {
+	project, key := bearingsProject(t)
+	dir := filepath.Dir(project)
+	orig := filepath.Join(dir, "b.tar.gz")
+	mustCLI(t, 0, "run", "-q", "--key", key, "-o", orig, project)
+	bag, err := bundle.Open(orig)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rec, err := bundle.ParseRunRecord(bag.RunJSON())
+	if err != nil {
+		t.Fatal(err)
+	}
+	payload := bag.Payload()
+	lines := strings.Split(string(payload["results/parameters.csv"]), "\n")
+	f := strings.Split(lines[2], ",") // data row 2
+	old := f[3]
+	f[3] = "4.25"
+	lines[2] = strings.Join(f, ",")
+	payload["results/parameters.csv"] = []byte(strings.Join(lines, "\n"))
+	signer, err := bundle.LoadSigner(key)
+	if err != nil {
+		t.Fatal(err)
+	}
+	forged := filepath.Join(dir, "forged.tar.gz")
+	err = bundle.WriteBundle(forged, false, bundle.Contents{Name: bag.Name, Created: rec.Created, Description: rec.Project.Description,
+		Payload: payload, RunJSON: bag.RunJSON()}, signer)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mustCLI(t, 0, "verify", "--no-rerun", "--key", key+".pub", forged)
+	out := mustCLI(t, 1, "verify", "--key", key+".pub", forged)
+	want := "FAIL data/results/parameters.csv: did not reproduce: row 2 (analysis=bearings, family=" + f[1] + ", parameter=" + f[2] +
+		"), column estimate: recorded 4.25, recomputed " + old
+	if !strings.Contains(out, want) {
+		t.Errorf("verify output lacks %q:\n%s", want, out)
+	}
+}
+
+// TestRunWorkersByteIdentical: -j 1, 2 and 8 give byte-identical bundles
+// with a fixed SOURCE_DATE_EPOCH and key.
+func TestRunWorkersByteIdentical(t *testing.T) {
+	project, key := bearingsProject(t)
+	var first []byte
+	for _, j := range []string{"1", "2", "8"} {
+		out := filepath.Join(filepath.Dir(project), "j"+j+".tar.gz")
+		mustCLI(t, 0, "run", "-q", "-j", j, "--key", key, "-o", out, project)
+		b, err := os.ReadFile(out)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if first == nil {
+			first = b
+		} else if !bytes.Equal(first, b) {
+			t.Errorf("-j %s gives another bundle than -j 1", j)
+		}
+	}
+}
+
+// TestSSHKeygenVerifiesRun: OpenSSH's ssh-keygen -Y verify accepts the
+// signature of a bundle made by run, as SPEC.md tells a reviewer to check it.
+func TestSSHKeygenVerifiesRun(t *testing.T) {
+	sshKeygen, err := exec.LookPath("ssh-keygen")
+	if err != nil {
+		if os.Getenv("CI") != "" {
+			t.Fatal("ssh-keygen not found; CI must install openssh-client")
+		}
+		t.Skip("ssh-keygen not found (install openssh-client)")
+	}
+	project, key := bearingsProject(t)
+	dir := filepath.Dir(project)
+	folder := filepath.Join(dir, "bag")
+	mustCLI(t, 0, "run", "-q", "--key", key, "-o", folder, project)
+	pub, err := os.ReadFile(key + ".pub")
+	if err != nil {
+		t.Fatal(err)
+	}
+	allowed := filepath.Join(dir, "allowed_signers")
+	os.WriteFile(allowed, []byte("reviewer@example.org "+string(pub)), 0o644)
+	tm, err := os.Open(filepath.Join(folder, "tagmanifest-sha256.txt"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer tm.Close()
+	cmd := exec.Command(sshKeygen, "-Y", "verify", "-f", allowed, "-I", "reviewer@example.org", "-n", "fitseal",
+		"-s", filepath.Join(folder, "tagmanifest-sha256.txt.sig"))
+	cmd.Stdin = tm
+	out, err := cmd.CombinedOutput()
+	if err != nil || !strings.Contains(string(out), "Good \"fitseal\" signature for reviewer@example.org") {
+		t.Errorf("ssh-keygen -Y verify: %v\n%s", err, out)
+	}
+}
+
+// TestRunRequireCleanGit: require_clean_git refuses (exit 2) naming the
+// uncommitted input, and writes nothing; once committed, run records the
+// commit.
+func TestRunRequireCleanGit(t *testing.T) {
+	gitBin, err := exec.LookPath("git")
+	if err != nil {
+		t.Skip("git not installed")
+	}
+	project, key := bearingsProject(t)
+	dir := filepath.Dir(project)
+	src, _ := os.ReadFile(project)
+	// require_clean_git goes in [settings]: insert it after the table header.
+	os.WriteFile(project, bytes.Replace(src, []byte("[settings]\n"), []byte("[settings]\nrequire_clean_git = true\n"), 1), 0o644)
+	os.WriteFile(filepath.Join(dir, ".gitignore"), []byte("key\nkey.pub\n*.tar.gz\n"), 0o644)
+	git := func(args ...string) {
+		t.Helper()
+		cmd := exec.Command(gitBin, append([]string{"-C", dir, "-c", "user.name=fitseal test", "-c", "user.email=test@example.org", "-c", "commit.gpgsign=false"}, args...)...)
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("git %v: %v\n%s", args, err, out)
+		}
+	}
+	git("init", "-q", "-b", "main")
+	git("add", "fitseal.toml", ".gitignore")
+	git("commit", "-q", "-m", "project")
+	out := filepath.Join(dir, "b.tar.gz")
+	code, _, errOut := cli(t, "run", "-q", "--key", key, "-o", out, project)
+	if code != 2 || !strings.Contains(errOut, "data/bearings.csv (untracked)") {
+		t.Errorf("uncommitted data: exit %d, stderr %q", code, errOut)
+	}
+	if _, err := os.Stat(out); err == nil {
+		t.Error("a refused run wrote its bundle")
+	}
+	git("add", "data/bearings.csv")
+	git("commit", "-q", "-m", "data")
+	mustCLI(t, 0, "run", "-q", "--key", key, "-o", out, project)
+	bag, err := bundle.Open(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rec, err := bundle.ParseRunRecord(bag.RunJSON())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !rec.Git.Repository || len(rec.Git.Commit) != 40 || rec.Git.Branch != "main" || rec.Git.Dirty {
+		t.Errorf("git provenance %+v", rec.Git)
+	}
+}
