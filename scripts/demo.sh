@@ -3,14 +3,19 @@
 # seal the bundle, verify it, and say where everything is.
 set -euo pipefail
 BIN=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
-if ! "$BIN" help 2>/dev/null | grep -q '^  init'; then
-  echo "fitseal demo: not yet — the project runner and bundle are still being built;"
-  echo "for now, try: $BIN families"
-  "$BIN" families
-  exit 0
-fi
 DIR=${DEMO_DIR:-$(mktemp -d -t fitseal-demo.XXXXXX)}
 "$BIN" init "$DIR/project"
+echo
+# A key for the demo only, so that the demo leaves your default key alone.
+"$BIN" keygen -o "$DIR/demo-key" >/dev/null
 "$BIN" run -q --key "$DIR/demo-key" -o "$DIR/demo.tar.gz" "$DIR/project/fitseal.toml"
-"$BIN" verify "$DIR/demo.tar.gz"
-echo "bundle: $DIR/demo.tar.gz"
+echo
+"$BIN" verify --key "$DIR/demo-key.pub" "$DIR/demo.tar.gz"
+"$BIN" extract "$DIR/demo.tar.gz" "$DIR/unpacked" >/dev/null
+NAME=$(sed -n 's/^name = "\(.*\)".*/\1/p' "$DIR/project/fitseal.toml" | head -1)
+echo
+echo "bundle:  $DIR/demo.tar.gz"
+echo "report:  $DIR/unpacked/$NAME/data/report.pdf"
+echo "tables:  $DIR/unpacked/$NAME/data/tables/"
+echo "figures: $DIR/unpacked/$NAME/data/figures/"
+echo "next:    $BIN show $DIR/demo.tar.gz"

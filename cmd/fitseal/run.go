@@ -102,7 +102,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	}
 	signer, _, err := bundle.ResolveKey(o.Key, os.Getenv, stderr)
 	if err != nil {
-		return usageError{fmt.Errorf("signing key: %w", err)}
+		return usageError{err}
 	}
 	opt := runner.RunOptions{Workers: o.Workers}
 	if o.Workers == 0 {
