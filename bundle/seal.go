@@ -126,7 +126,11 @@ func ReadInputs(p *runner.Project) (map[string][]byte, error) {
 		out[path.Join("inputs", rel)] = b
 	}
 	if t := p.Report.Templates; t != "" {
-		dir := filepath.Join(p.Dir, filepath.FromSlash(t))
+		rel := path.Clean(filepath.ToSlash(t))
+		if path.IsAbs(rel) || rel == ".." || strings.HasPrefix(rel, "../") {
+			return nil, fmt.Errorf("[report] templates = %q is outside the project folder; keep the templates beside the project file so they can be bundled", t)
+		}
+		dir := filepath.Join(p.Dir, filepath.FromSlash(rel))
 		entries, err := os.ReadDir(dir)
 		if err != nil {
 			return nil, fmt.Errorf("reading [report] templates: %w", err)
@@ -139,7 +143,7 @@ func ReadInputs(p *runner.Project) (map[string][]byte, error) {
 			if err != nil {
 				return nil, err
 			}
-			out[path.Join("inputs", path.Clean(filepath.ToSlash(t)), e.Name())] = b
+			out[path.Join("inputs", rel, e.Name())] = b
 		}
 	}
 	return out, nil
