@@ -184,7 +184,9 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 		}
 		rep.Compared += count
 		for _, d := range diffs {
-			rep.Findings = append(rep.Findings, Finding{Member: member, Kind: KindNumber, Expected: d.A, Found: d.B,
+			// The message carries both values; Expected and Found stay
+			// empty so that String does not repeat them.
+			rep.Findings = append(rep.Findings, Finding{Member: member, Kind: KindNumber,
 				Message: "did not reproduce: " + d.Describe("recorded", "recomputed")})
 		}
 	}
