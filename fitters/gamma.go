@@ -39,13 +39,20 @@ func (d Gamma) LogCDF(x float64) float64 { return logGammaIncLower(d.Shape, d.Ra
 // space where Q underflows), never ln(1 − P).
 func (d Gamma) LogSurvival(x float64) float64 { return logGammaIncUpper(d.Shape, d.Rate*x) }
 
-// Quantile inverts P in the lower half and Q in the upper half, so that
-// upper-tail quantiles keep their digits.
+// Quantile starts from gonum's inverse of P (lower half) or of Q (upper
+// half) and polishes it on ln F or ln S (positiveQuantile), which also
+// rescues the far tails where the inverse underflows.
 func (d Gamma) Quantile(p float64) float64 {
+	var x0 float64
 	if p > 0.5 {
-		return mathext.GammaIncRegCompInv(d.Shape, 1-p) / d.Rate
+		x0 = mathext.GammaIncRegCompInv(d.Shape, 1-p) / d.Rate
+	} else {
+		x0 = mathext.GammaIncRegInv(d.Shape, p) / d.Rate
 	}
-	return mathext.GammaIncRegInv(d.Shape, p) / d.Rate
+	if !(x0 > 0) || math.IsInf(x0, 0) {
+		x0 = d.Shape / d.Rate
+	}
+	return positiveQuantile(d, p, x0)
 }
 
 func (d Gamma) Rand(r *rand.Rand) float64 {
@@ -80,6 +87,9 @@ func (f gammaFamily) LogLik(p []float64, d *Data) float64 {
 		return math.Inf(-1)
 	}
 	g := dist.(Gamma)
+	if g.Shape >= 30 {
+		return gammaLogLikLargeShape(g, d)
+	}
 	// Σ ln f(x) = n(k ln β − ln Γ(k)) + (k−1) Σ ln x − β Σ x
 	var slx, sx float64
 	for _, x := range d.Exact {
@@ -93,6 +103,39 @@ func (f gammaFamily) LogLik(p []float64, d *Data) float64 {
 	n := float64(len(d.Exact))
 	ll := n*(g.Shape*math.Log(g.Rate)-lg) + (g.Shape-1)*slx - g.Rate*sx
 	return ll + censoredLogLik(g, d, false)
+}
+
+// gammaLogLikLargeShape sums ln f(x) = c(k) + k·(ln(1+u) − u) − ln x, with
+// u = βx/k − 1 = (x − m)/m, m = k/β, and c(k) = k ln k − k − ln Γ(k) = ½ ln k − ln√(2π) − r(k),
+// r(k) = 1/(12k) − 1/(360k³) + 1/(1260k⁵) − 1/(1680k⁷) the remainder of
+// Stirling's series (Abramowitz & Stegun 6.1.41). For a large shape the
+// plain sum cancels terms of size k ln x; this form keeps the digits.
+func gammaLogLikLargeShape(g Gamma, d *Data) float64 {
+	k := g.Shape
+	c := gammaStirlingC(k)
+	m := k / g.Rate // the mean: u = (x − m)/m has only the quotient's rounding
+	var s1, slx float64
+	for _, x := range d.Exact {
+		if !(x > 0) {
+			return math.Inf(-1)
+		}
+		u := (x - m) / m
+		s1 += log1pmx(u)
+		slx += math.Log(x)
+	}
+	ll := float64(len(d.Exact))*c + k*s1 - slx
+	return ll + censoredLogLik(g, d, false)
+}
+
+// gammaStirlingC returns c(k) = k ln k − k − ln Γ(k), from Stirling's series
+// for k ≥ 30 (where the direct form cancels) and directly below.
+func gammaStirlingC(k float64) float64 {
+	if k >= 30 {
+		r2 := 1 / (k * k)
+		return 0.5*math.Log(k) - lnSqrt2Pi - (1/k)*(1.0/12-r2*(1.0/360-r2*(1.0/1260-r2/1680)))
+	}
+	lg, _ := math.Lgamma(k)
+	return k*math.Log(k) - k - lg
 }
 
 func (f gammaFamily) Applicable(d *Data, fixed Fixed) error {
@@ -170,10 +213,9 @@ func gammaMLE(x []float64, opt Options) (shape, rate, ll float64, conv Convergen
 	conv.GradientNorm = math.Abs(r)
 	conv.Converged = true
 	shape, rate = k, k/xbar
-	// ll = n(k ln β − ln Γ(k)) + (k−1)Σ ln x − βΣx with βx̄ = k and
-	// Σ ln x = n ln x̄ + Σy: n(k ln k − k − ln Γ(k)) − n ln x̄ + (k−1)Σy.
-	lg, _ := math.Lgamma(k)
-	ll = n*(k*math.Log(k)-k-lg) - n*lnRef + (k-1)*sy
+	// ln f(x) = c(k) + k·log1pmx(βx/k − 1) − ln x with βx/k − 1 = d, so
+	// ll = n·c(k) + k·Σ log1pmx(d) − n ln x̄ − Σ ln(x/x̄).
+	ll = n*gammaStirlingC(k) + k*sumL - n*lnRef - sy
 	return shape, rate, ll, conv
 }
 

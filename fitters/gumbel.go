@@ -19,10 +19,16 @@ func (d Gumbel) LogPDF(x float64) float64 {
 
 func (d Gumbel) LogCDF(x float64) float64 { return -math.Exp(-(x - d.Location) / d.Scale) }
 
-// LogSurvival is ln(1 − exp(−e^(−z))) through log1mExp: for large z it is
-// ≈ −z, never ln 0.
+// LogSurvival is ln(1 − exp(−e^(−z))) through log1mExp, and −z − e^(−z)/2
+// far in the upper tail: never ln 0.
 func (d Gumbel) LogSurvival(x float64) float64 {
-	return log1mExp(-math.Exp(-(x - d.Location) / d.Scale))
+	z := (x - d.Location) / d.Scale
+	t := math.Exp(-z)
+	if t < 1e-10 {
+		// ln(1 − e^(−t)) = ln t − t/2 + O(t²), and e^(−z) may underflow.
+		return -z - t/2
+	}
+	return log1mExp(-t)
 }
 
 // Quantile is μ − β ln(−ln p).
@@ -89,6 +95,10 @@ func (f gumbelFamily) Applicable(d *Data, fixed Fixed) error {
 // difference of means is summed directly. Safeguarded Newton from the
 // moment estimate β₀ = sd·√6/π.
 func gumbelMLE(x []float64, opt Options) (location, scale, ll float64, conv Convergence) {
+	if xs, f := powerOfTwoScale(x); f != 1 {
+		location, scale, ll, conv = gumbelMLE(xs, opt)
+		return location / f, scale / f, ll + float64(len(x))*math.Log(f), conv
+	}
 	n := float64(len(x))
 	lo, _ := minMax(x)
 	_, v := meanVar(x)

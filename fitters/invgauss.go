@@ -70,42 +70,9 @@ func (d InvGauss) LogSurvival(x float64) float64 {
 	return logDiffExp(logNormalCDF(-a), second)
 }
 
-// Quantile solves F(x) = p by safeguarded Newton on ln F (p ≤ 1/2) or on
-// ln S (p > 1/2), so both tails keep their digits.
-func (d InvGauss) Quantile(p float64) float64 {
-	switch {
-	case math.IsNaN(p) || p < 0 || p > 1:
-		return math.NaN()
-	case p == 0:
-		return 0
-	case p == 1:
-		return math.Inf(1)
-	}
-	var fdf func(x float64) (float64, float64)
-	if p <= 0.5 {
-		target := math.Log(p)
-		fdf = func(x float64) (float64, float64) {
-			lc := d.LogCDF(x)
-			return lc - target, math.Exp(d.LogPDF(x) - lc)
-		}
-	} else {
-		target := math.Log1p(-p)
-		fdf = func(x float64) (float64, float64) {
-			ls := d.LogSurvival(x)
-			return target - ls, math.Exp(d.LogPDF(x) - ls)
-		}
-	}
-	fv := func(x float64) float64 { v, _ := fdf(x); return v }
-	lo, hi, ok := expandBracket(fv, 0.5*d.Mean, 2*d.Mean)
-	if !ok {
-		return math.NaN()
-	}
-	x, _, err := solveBracketed(fdf, lo, hi, 1e-15, 500)
-	if err != nil {
-		return math.NaN()
-	}
-	return x
-}
+// Quantile solves F(x) = p on ln F (p ≤ 1/2) or on ln S (p > 1/2)
+// (positiveQuantile), so both tails keep their digits.
+func (d InvGauss) Quantile(p float64) float64 { return positiveQuantile(d, p, d.Mean) }
 
 // Rand draws by the transformation with multiple roots of Michael, Schucany
 // & Haas (1976): with y = χ²₁, the two roots of λ(x−μ)²/(μ²x) = y are

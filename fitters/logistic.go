@@ -112,6 +112,10 @@ func logisticMLE(x []float64, opt Options) (location, scale, ll float64, conv Co
 // complete data, standardizing x first and mapping the result back; b0 is
 // the starting 1/scale on the standardized data.
 func locScaleMLE(x []float64, g logConcaveTerm, b0 float64, opt Options) (location, scale, ll float64, conv Convergence) {
+	if xs, f := powerOfTwoScale(x); f != 1 {
+		location, scale, ll, conv = locScaleMLE(xs, g, b0, opt)
+		return location / f, scale / f, ll + float64(len(x))*math.Log(f), conv
+	}
 	m, v := meanVar(x)
 	sd := math.Sqrt(v)
 	conv = Convergence{Method: "Newton with step halving"}

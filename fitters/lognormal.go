@@ -73,18 +73,26 @@ func (f lognormalFamily) LogLik(p []float64, d *Data) float64 {
 		return math.Inf(-1)
 	}
 	ln := dist.(LogNormal)
-	// Σ ln f(x) = −Σ ln x − n ln σ − n ln√(2π) − Σ(ln x − μ)²/(2σ²)
-	var slx, ss float64
+	// Σ ln f(x) = −Σ ln x − n ln σ − n ln√(2π) − Σ(ln x − μ)²/(2σ²), with
+	// ln x − μ taken as log1p((x − e^μ)/e^μ) near e^μ, so that data
+	// clustered far from zero keep the digits of their spread.
+	var sz, ss float64
+	m := math.Exp(ln.Mu)
 	for _, x := range d.Exact {
 		if !(x > 0) {
 			return math.Inf(-1)
 		}
-		lx := math.Log(x)
-		slx += lx
-		z := lx - ln.Mu
+		var z float64
+		if x > 0.5*m && x < 2*m {
+			z = math.Log1p((x - m) / m)
+		} else {
+			z = math.Log(x) - ln.Mu
+		}
+		sz += z
 		ss += z * z
 	}
 	n := float64(len(d.Exact))
+	slx := n*ln.Mu + sz
 	ll := -slx - n*(math.Log(ln.Sigma)+lnSqrt2Pi) - 0.5*ss/(ln.Sigma*ln.Sigma)
 	return ll + censoredLogLik(ln, d, false)
 }

@@ -27,7 +27,8 @@ type locScaleResult struct {
 // from any start climbs to the unique maximum. It stops when the Newton
 // decrement λ² = −∇ℓᵀ H⁻¹ ∇ℓ, twice the predicted remaining gain, falls
 // below tol²·max(1, |ℓ|) — a point where the estimates are exact to
-// rounding — and reports failure otherwise.
+// rounding — or after five full Newton steps taken once the decrement is
+// below ℓ's rounding level (1e-12·|ℓ|), and reports failure otherwise.
 func locScaleNewton(x []float64, g logConcaveTerm, a, b, tol float64, maxIter int) locScaleResult {
 	n := float64(len(x))
 	eval := func(a, b float64) (ll, ga, gb, haa, hab, hbb float64) {
@@ -58,6 +59,7 @@ func locScaleNewton(x []float64, g logConcaveTerm, a, b, tol float64, maxIter in
 		return res
 	}
 	eps := tol * tol
+	quiet := 0
 	for it := 1; it <= maxIter; it++ {
 		res.iterations = it
 		det := haa*hbb - hab*hab
@@ -74,9 +76,24 @@ func locScaleNewton(x []float64, g logConcaveTerm, a, b, tol float64, maxIter in
 			db = gb / math.Max(math.Abs(hbb), n/(b*b))
 		}
 		decrement := ga*da + gb*db
-		if newton && decrement <= eps*math.Max(1, math.Abs(ll)) {
+		scale := math.Max(1, math.Abs(ll))
+		if newton && decrement <= eps*scale {
 			res.converged = true
 			break
+		}
+		if newton && decrement <= 1e-12*scale {
+			// The predicted gain is below what ℓ's rounding can show, and
+			// Newton's method converges quadratically here: take the full
+			// step without the increase test, a few times at most.
+			quiet++
+			if quiet > 5 {
+				res.converged = true // at rounding level
+				break
+			}
+			a, b = a+da, b+db
+			ll, ga, gb, haa, hab, hbb = eval(a, b)
+			res.evaluations++
+			continue
 		}
 		step := 1.0
 		accepted := false
@@ -85,7 +102,7 @@ func locScaleNewton(x []float64, g logConcaveTerm, a, b, tol float64, maxIter in
 			if nb > 0 {
 				nll, nga, ngb, nhaa, nhab, nhbb := eval(na, nb)
 				res.evaluations++
-				if nll >= ll && !math.IsNaN(nll) {
+				if nll > ll || (nll == ll && step == 1) {
 					a, b = na, nb
 					ll, ga, gb, haa, hab, hbb = nll, nga, ngb, nhaa, nhab, nhbb
 					accepted = true
@@ -95,13 +112,7 @@ func locScaleNewton(x []float64, g logConcaveTerm, a, b, tol float64, maxIter in
 			step /= 2
 		}
 		if !accepted {
-			// No step increases ℓ in floating point: an optimum to rounding
-			// when the predicted gain is at rounding level.
-			if newton && decrement <= 1e-12*math.Max(1, math.Abs(ll)) {
-				res.converged = true
-			} else {
-				res.reason = fmt.Sprintf("step halving found no increase (Newton decrement %.3g)", decrement)
-			}
+			res.reason = fmt.Sprintf("step halving found no increase (Newton decrement %.3g)", decrement)
 			break
 		}
 	}

@@ -113,7 +113,8 @@ func logGammaContinuedFraction(a, x float64) float64 {
 // logMinusDigamma returns ln k − ψ(k) > 0 without the cancellation of the
 // difference for large k: there it uses the asymptotic series
 // ln k − ψ(k) = 1/(2k) + Σ_j B_2j/(2j k^2j) (Abramowitz & Stegun 6.3.18).
-// Its derivative is returned as well: 1/k − ψ′(k).
+// Below 12 the recurrence of ψ lifts k there first (gonum's Digamma is only
+// good to about 1e-11). Its derivative is returned as well: 1/k − ψ′(k).
 func logMinusDigamma(k float64) (v, dv float64) {
 	if k >= 12 {
 		r := 1 / k
@@ -124,7 +125,16 @@ func logMinusDigamma(k float64) (v, dv float64) {
 		dv = -r2 * (0.5 + r*trigammaTail(r2))
 		return v, dv
 	}
-	return math.Log(k) - mathext.Digamma(k), 1/k - trigammaFn(k)
+	// Lift k above 12 with ψ(k) = ψ(k+m) − Σ_{j<m} 1/(k+j):
+	// ln k − ψ(k) = −ln(1 + m/k) + [ln(k+m) − ψ(k+m)] + Σ_{j<m} 1/(k+j).
+	var inv float64
+	m := 0.0
+	for k+m < 12 {
+		inv += 1 / (k + m)
+		m++
+	}
+	vm, _ := logMinusDigamma(k + m)
+	return -math.Log1p(m/k) + vm + inv, 1/k - trigammaFn(k)
 }
 
 // trigammaFn returns ψ′(x) for x > 0: the recurrence ψ′(x) = ψ′(x+1) + 1/x²

@@ -49,12 +49,38 @@ func log1pmx(d float64) float64 {
 	return -d*d/(2+d) + 2*series
 }
 
-// lnRatio returns ln(x/s) for positive x and s, as ln x − ln s when the
-// quotient would overflow or underflow.
+// lnRatio returns ln(x/s) for positive x and s: by log1p near 1, as
+// ln x − ln s when the quotient would overflow or underflow.
 func lnRatio(x, s float64) float64 {
 	r := x / s
+	if r > 0.5 && r < 2 {
+		// x − s is exact here (Sterbenz): ln(x/s) keeps every digit.
+		return math.Log1p((x - s) / s)
+	}
 	if r > 1e-300 && r < 1e300 {
 		return math.Log(r)
 	}
 	return math.Log(x) - math.Log(s)
+}
+
+// powerOfTwoScale returns x·f with f a power of two (so the scaling is
+// exact) chosen to bring the largest |x| near 1 when it is beyond 1e±100,
+// where squares of deviations would overflow or underflow; otherwise x
+// itself and f = 1. A location-scale fit of x·f maps back by dividing the
+// location and scale by f and adding n ln f to the log-likelihood.
+func powerOfTwoScale(x []float64) ([]float64, float64) {
+	var m float64
+	for _, v := range x {
+		m = math.Max(m, math.Abs(v))
+	}
+	if m == 0 || (m < 1e100 && m > 1e-100) || math.IsInf(m, 0) || math.IsNaN(m) {
+		return x, 1
+	}
+	_, e := math.Frexp(m)
+	f := math.Ldexp(1, -e)
+	out := make([]float64, len(x))
+	for i, v := range x {
+		out[i] = v * f
+	}
+	return out, f
 }
