@@ -23,6 +23,9 @@ type RunOptions struct {
 	// RankOnly fits and ranks but skips intervals, derived quantities and
 	// goodness of fit (for `fitseal fit`, which prints the ranking only).
 	RankOnly bool
+	// Shard, when not nil, runs only the shard's analyses (see [ShardOf]);
+	// Results.Plan still names the whole plan.
+	Shard *Shard
 }
 
 // taskResult is the outcome of one task.
@@ -44,11 +47,16 @@ func Run(ctx context.Context, p *Project, opt RunOptions) (*Results, error) {
 		return nil, err
 	}
 	plan := MakePlan(p, data)
+	full := plan.Names()
+	if opt.Shard != nil {
+		plan = plan.Only(*opt.Shard)
+	}
 	out, err := Execute(ctx, p, plan, opt)
 	if err != nil {
 		return nil, err
 	}
 	out.Data = data
+	out.Plan = full
 	return out, nil
 }
 

@@ -15,6 +15,9 @@ type Results struct {
 	Analyses []*AnalysisResult
 	// Seeds lists every derived seed, in plan order.
 	Seeds []Seed
+	// Plan names every analysis of the whole plan, in order, when known
+	// (Run sets it); Analyses may hold only a shard of it.
+	Plan []string
 }
 
 // AnalysisResult is one analysis: the comparison of its candidates and the
