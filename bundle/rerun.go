@@ -56,6 +56,12 @@ type RerunOptions struct {
 	Workers int
 	// Tool is the code doing the re-run; zero means CurrentTool().
 	Tool Tool
+	// Slice, when not nil, re-runs only the analyses of one shard of a full
+	// bundle's plan (verify --shard I/N) and compares them with the recorded
+	// ones; slice 0 also re-renders the tables, figures and PDF from the
+	// recorded numbers. The slices 0 … N−1 together check what one Rerun
+	// checks. A partial bundle (run --shard) is always re-run as its shard.
+	Slice *runner.Shard
 }
 
 // RerunReport is what a re-run found.
@@ -143,7 +149,19 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 	if workers <= 0 {
 		workers = 1
 	}
-	res, err := runner.Run(ctx, proj, runner.RunOptions{Workers: workers})
+	shard := opt.Slice
+	if rec.Shard != nil {
+		if opt.Slice != nil {
+			add(RunFile, KindRerun, "this is a partial bundle (shard %d/%d): verify it whole, without --shard", rec.Shard.Index, rec.Shard.Count)
+			return rep, nil
+		}
+		shard = &runner.Shard{Index: rec.Shard.Index, Count: rec.Shard.Count}
+		if err := shard.Check(); err != nil {
+			add(RunFile, KindRecord, "%v", err)
+			return rep, nil
+		}
+	}
+	res, err := runner.Run(ctx, proj, runner.RunOptions{Workers: workers, Shard: shard})
 	if err != nil {
 		if ctx.Err() != nil {
 			return nil, ctx.Err()
@@ -154,6 +172,16 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 	files, err := res.Files()
 	if err != nil {
 		return nil, err
+	}
+	recordedAll := payload
+	var recordedRes *runner.Results
+	if opt.Slice != nil {
+		// The recorded numbers of the slice's analyses, in the same layout.
+		recordedRes, payload, err = recordedSlice(proj, payload, rec, *opt.Slice)
+		if err != nil {
+			add(PayloadDir+"/results/"+runner.ResultsFile, KindRecord, "%v", err)
+			return rep, nil
+		}
 	}
 	agree := Agree(nil)
 	if !rep.Exact {
@@ -195,8 +223,19 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 			add(PayloadDir+"/"+p, KindExtra, "a result file that the re-run does not make")
 		}
 	}
-	if err := rerender(rep, res, rec, payload, opt.Tool); err != nil {
-		return nil, err
+	switch {
+	case rec.Shard != nil:
+		rep.RenderNote = "a partial bundle holds no tables, figures or report.pdf (merge makes them)"
+	case opt.Slice != nil && opt.Slice.Index != 0:
+		rep.RenderNote = fmt.Sprintf("slice %s compares numbers only; slice 0 compares the tables, figures and report.pdf", opt.Slice)
+	case opt.Slice != nil:
+		if err := rerender(rep, recordedRes, rec, recordedAll, opt.Tool); err != nil {
+			return nil, err
+		}
+	default:
+		if err := rerender(rep, res, rec, payload, opt.Tool); err != nil {
+			return nil, err
+		}
 	}
 	sort.SliceStable(rep.Findings, func(i, j int) bool { return rep.Findings[i].Member < rep.Findings[j].Member })
 	return rep, nil

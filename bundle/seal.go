@@ -97,7 +97,24 @@ type RunRecord struct {
 	// ResultsIdentity is the hash printed in report.pdf (ResultsIdentityLabel).
 	ResultsIdentity string `json:"results_identity"`
 	MasterSeed      uint64 `json:"master_seed"`
+	// Shard is present in a partial bundle only (run --shard): which part
+	// of the plan it holds.
+	Shard *ShardRecord `json:"shard,omitempty"`
 	*runner.Record
+}
+
+// ShardRecord is what a partial bundle's run.json says of its place in the
+// whole plan: shard Index of Count, how analyses are assigned, the whole
+// plan's size and identity (runner.PlanIdentity of its analysis names) and
+// the analyses this part holds, in plan order. The plan's other identity
+// (inputs' hashes, effective settings, tool) is run.json's own record.
+type ShardRecord struct {
+	Index        int      `json:"index"`
+	Count        int      `json:"count"`
+	Assignment   string   `json:"assignment"`
+	PlanAnalyses int      `json:"plan_analyses"`
+	PlanIdentity string   `json:"plan_identity"`
+	Analyses     []string `json:"analyses"`
 }
 
 // SealOptions is what a bundle records beyond the results themselves.
@@ -111,6 +128,10 @@ type SealOptions struct {
 	// Inputs, when not nil, are the input files' bytes by payload path
 	// (inputs/…); nil reads them from disk (ReadInputs).
 	Inputs map[string][]byte
+	// Shard, when not nil, seals a partial bundle of res (a run with
+	// runner.RunOptions.Shard): inputs, the shard's results and run.json
+	// with a ShardRecord; no tables, figures or PDF (merge makes them).
+	Shard *runner.Shard
 }
 
 // ReadInputs reads, byte for byte, every file a run reads: the project file
@@ -198,7 +219,19 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 		payload["results/"+name] = b
 	}
 	ident := ResultsIdentity(payload)
-	rendered, err := Render(res, report.Identity{
+	var shard *ShardRecord
+	if opt.Shard != nil {
+		shard = &ShardRecord{Index: opt.Shard.Index, Count: opt.Shard.Count, Assignment: runner.ShardAssignment,
+			PlanAnalyses: len(res.Plan), PlanIdentity: runner.PlanIdentity(res.Plan), Analyses: []string{}}
+		for _, a := range res.Analyses {
+			shard.Analyses = append(shard.Analyses, a.Name)
+		}
+	}
+	render := Render
+	if shard != nil {
+		render = func(*runner.Results, report.Identity) (map[string][]byte, error) { return nil, nil }
+	}
+	rendered, err := render(res, report.Identity{
 		TagManifestSHA256:   ident,
 		BundleIdentityLabel: ResultsIdentityLabel,
 		SignerFingerprint:   Fingerprint(opt.Signer),
@@ -221,7 +254,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 		Git:    opt.Git,
 		Signer: SignerInfo{PublicKey: AuthorizedKey(opt.Signer), Fingerprint: Fingerprint(opt.Signer)},
 		Inputs: inputList(inputs), ResultsIdentity: ident, MasterSeed: p.Settings.Seed,
-		Record: res.Record(),
+		Shard: shard, Record: res.Record(),
 	}
 	if rec.Git.Files == nil {
 		rec.Git.Files = []GitFile{}

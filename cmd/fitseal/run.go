@@ -35,6 +35,7 @@ type runOptions struct {
 	Key     string // signing key (--key; "" = $FITSEAL_KEY or the default key)
 	Quiet   bool   // no progress line
 	Force   bool   // replace an existing output
+	Shard   string // --shard I/N or auto ("" = the whole plan)
 }
 
 func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error {
@@ -45,6 +46,7 @@ func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once (default: all cores); never changes a result")
 	fs.BoolVar(&o.Quiet, "q", false, "no progress line")
 	fs.BoolVar(&o.Force, "force", false, "replace an existing output")
+	fs.StringVar(&o.Shard, "shard", "", "run only shard `I/N` (0-based) of the plan and write a signed partial bundle for 'fitseal merge';\n'auto' takes I and N from Slurm, a Kubernetes Indexed Job or GNU parallel (docs/SHARDS.md)")
 	pos, err := parseInterleaved(fs, args)
 	if err != nil {
 		return err
@@ -66,6 +68,10 @@ func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 // runRun loads, fits, seals and writes; nothing is written unless
 // everything succeeded.
 func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
+	shard, err := parseShardFlag(o.Shard, os.Getenv)
+	if err != nil {
+		return usageError{err}
+	}
 	p, err := runner.Load(o.Project)
 	if errors.Is(err, os.ErrNotExist) {
 		return usageError{fmt.Errorf("%w\nfitseal: hint: give the project file as an argument, or create one with 'fitseal init'", err)}
@@ -80,6 +86,9 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	out := o.Output
 	if out == "" {
 		out = bundle.DefaultOutput(p.File, p.Name, created)
+		if shard != nil {
+			out = shardOutput(out, *shard)
+		}
 	}
 	if _, err := os.Lstat(out); err == nil && !o.Force {
 		return usageError{fmt.Errorf("%s already exists; choose another output with -o or replace it with --force", out)}
@@ -104,7 +113,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return usageError{err}
 	}
-	opt := runner.RunOptions{Workers: o.Workers}
+	opt := runner.RunOptions{Workers: o.Workers, Shard: shard}
 	if o.Workers == 0 {
 		opt.Workers = runtime.NumCPU()
 	}
@@ -119,7 +128,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		return inputError(err)
 	}
 	contents, err := bundle.Seal(res, bundle.SealOptions{
-		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Inputs: inputs,
+		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Inputs: inputs, Shard: shard,
 	})
 	if err != nil {
 		return err
@@ -140,6 +149,9 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		reportMissing(stderr, res)
 	}
 	fmt.Fprintln(stdout, summary(res))
+	if shard != nil {
+		fmt.Fprintf(stdout, "shard %s: %d of the plan's %d analyses (merge every shard with 'fitseal merge')\n", shard, len(res.Analyses), len(res.Plan))
+	}
 	fmt.Fprintf(stdout, "bundle: %s\n", out)
 	return nil
 }
