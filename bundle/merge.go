@@ -188,12 +188,12 @@ func nonNil(s []runner.Seed) []runner.Seed {
 // must agree, or "".
 func differs(a, b *RunRecord, _ Tool) string {
 	switch {
-	case !reflect.DeepEqual(a.Inputs, b.Inputs):
-		return "has other inputs (paths or SHA-256 in run.json)"
 	case jsonString(a.Project.Settings) != jsonString(b.Project.Settings):
 		return "has other settings"
 	case jsonString(a.Project) != jsonString(b.Project):
 		return "has another effective project"
+	case !reflect.DeepEqual(a.Inputs, b.Inputs):
+		return "has other inputs (paths or SHA-256 in run.json)"
 	case a.Tool != b.Tool:
 		return fmt.Sprintf("was made by another build of fitseal (%s %s revision %q, not %s %s revision %q)",
 			b.Tool.Version, b.Tool.Platform(), b.Tool.Revision, a.Tool.Version, a.Tool.Platform(), a.Tool.Revision)
