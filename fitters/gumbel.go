@@ -117,38 +117,30 @@ func gumbelMLE(x []float64, opt Options) (location, scale, ll float64, conv Conv
 	for i, v := range e {
 		c[i] = v - me
 	}
+	var sw float64 // Σ e^(−e/β) at the last evaluation
+	// newtonMonotone wants an increasing function: −g.
 	fdf := func(b float64) (float64, float64) {
 		conv.Evaluations++
-		var sw, swc, swcc float64
+		var swc, swcc float64
+		sw = 0
+		ib := -1 / b
 		for i, v := range e {
-			w := math.Exp(-v / b)
+			w := math.Exp(v * ib)
 			sw += w
 			wc := w * c[i]
 			swc += wc
 			swcc += wc * c[i]
 		}
 		mc := swc / sw
-		return -mc - b, -(swcc/sw-mc*mc)/(b*b) - 1
+		return mc + b, (swcc/sw-mc*mc)/(b*b) + 1
 	}
-	fv := func(b float64) float64 { v, _ := fdf(b); return v }
 	b0 := math.Sqrt(6) / math.Pi
-	blo, bhi, ok := expandBracket(fv, b0*0.7, b0*1.4)
-	if !ok {
-		conv.Reason = "no bracket for the scale's profile equation"
-		return math.NaN(), math.NaN(), math.NaN(), conv
-	}
-	b, it, err := solveBracketed(fdf, blo, bhi, 1e-14, opt.maxIterations())
+	b, r, it, err := newtonMonotone(fdf, b0, 1e-14, opt.maxIterations())
 	conv.Iterations = it
 	if err != nil {
 		conv.Reason = "profile equation: " + err.Error()
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
-	var sw float64
-	for _, v := range e {
-		sw += math.Exp(-v / b)
-	}
-	conv.Evaluations++
-	r, _ := fdf(b)
 	conv.GradientNorm = math.Abs(r)
 	conv.Converged = true
 	mu := -b * math.Log(sw/n) // location on the e scale

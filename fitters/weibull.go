@@ -118,8 +118,8 @@ func (f weibullFamily) Applicable(d *Data, fixed Fixed) error {
 // e = ln(x/max x) ≤ 0 (so x^k never overflows: w = e^(k·e) ≤ 1) and with
 // c = e − mean e, so g(k) = Σ w c / Σ w − 1/k keeps its digits for data
 // clustered far from zero; ln x is taken once, before the iteration. The
-// safeguarded Newton iteration starts from k₀ = π/(√6·sd(ln x)) (the
-// Gumbel moment estimate of ln x).
+// safeguarded Newton iteration (newtonMonotone) starts from
+// k₀ = π/(√6·sd(ln x)) (the Gumbel moment estimate of ln x).
 func weibullMLE(x []float64, opt Options) (shape, scale, ll float64, conv Convergence) {
 	_, hi := minMax(x)
 	lnRef, e := logsAbout(x, hi)
@@ -134,9 +134,11 @@ func weibullMLE(x []float64, opt Options) (shape, scale, ll float64, conv Conver
 		conv.Reason = "ln x has no spread in floating point: the shape has no finite estimate"
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
+	var sw float64 // Σ e^(k·e) at the last evaluation
 	fdf := func(k float64) (float64, float64) {
 		conv.Evaluations++
-		var sw, swc, swcc float64
+		var swc, swcc float64
+		sw = 0
 		for i, v := range e {
 			w := math.Exp(k * v)
 			sw += w
@@ -147,25 +149,13 @@ func weibullMLE(x []float64, opt Options) (shape, scale, ll float64, conv Conver
 		mc := swc / sw
 		return mc - 1/k, swcc/sw - mc*mc + 1/(k*k)
 	}
-	fv := func(k float64) float64 { v, _ := fdf(k); return v }
 	k0 := math.Pi / (math.Sqrt(6) * math.Sqrt(ve))
-	lo, hiK, ok := expandBracket(fv, k0*0.7, k0*1.4)
-	if !ok {
-		conv.Reason = "no bracket for the shape's profile equation"
-		return math.NaN(), math.NaN(), math.NaN(), conv
-	}
-	k, it, err := solveBracketed(fdf, lo, hiK, 1e-14, opt.maxIterations())
+	k, r, it, err := newtonMonotone(fdf, k0, 1e-14, opt.maxIterations())
 	conv.Iterations = it
 	if err != nil {
 		conv.Reason = "profile equation: " + err.Error()
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
-	var sw float64
-	for _, v := range e {
-		sw += math.Exp(k * v)
-	}
-	conv.Evaluations++
-	r, _ := fdf(k)
 	conv.GradientNorm = math.Abs(r)
 	conv.Converged = true
 	L := math.Log(sw/n) / k // ln(λ/max x)
