@@ -99,10 +99,28 @@ func (f paretoFamily) Applicable(d *Data, fixed Fixed) error {
 	if err := needDistinct(f.Name(), d, 2); err != nil {
 		return err
 	}
-	if len(d.Exact)+len(d.Right) == 0 {
-		return inapplicable(f.Name(), "needs at least one exact or right-censored value to place the scale")
+	if math.IsInf(paretoBound(d), 1) {
+		return inapplicable(f.Name(), "needs an exact value, a non-detect limit or a finite interval end to place the scale")
 	}
 	return nil
+}
+
+// paretoBound is the largest scale with a finite likelihood: every exact
+// value must be ≥ the scale and every non-detect limit and interval upper
+// end above it. Suspensions below the scale carry no information (S = 1)
+// and do not bound it.
+func paretoBound(d *Data) float64 {
+	b := math.Inf(1)
+	for _, v := range d.Exact {
+		b = math.Min(b, v)
+	}
+	for _, v := range d.Left {
+		b = math.Min(b, v)
+	}
+	for _, v := range d.Upper {
+		b = math.Min(b, v)
+	}
+	return b
 }
 
 // paretoBoundaryNote says why the scale is reported at its boundary.
@@ -111,17 +129,23 @@ const paretoBoundaryNote = "scale at the smallest observation, where the likelih
 // paretoMLE is the closed form for exact values x and right-censored
 // values r (Johnson, Kotz & Balakrishnan, 1994, §20.3; Epstein & Sobel,
 // 1953, for the censoring): the likelihood increases in x_m up to the
-// smallest value, so x̂_m = min, and with it α̂ = (number exact) / Σ ln(t/x̂_m)
-// over every value t. ln(t/x̂_m) is taken with logsAbout, exact near x̂_m.
+// smallest exact value, so x̂_m = min, and with it
+// α̂ = (number exact) / Σ ln(t/x̂_m) over the exact values and the
+// suspensions above x̂_m. ln(t/x̂_m) is taken with logsAbout, exact near x̂_m.
 func paretoMLE(exact, right []float64) (scale, shape, ll float64, ok bool) {
-	all := append(append(make([]float64, 0, len(exact)+len(right)), exact...), right...)
-	lo, _ := minMax(all)
-	lnRef, y := logsAbout(all, lo)
-	var sExact float64
-	for _, v := range y[:len(exact)] {
-		sExact += v
+	lo, _ := minMax(exact)
+	if len(exact) == 0 {
+		return math.NaN(), math.NaN(), math.NaN(), false
 	}
-	total := sumOf(y)
+	lnRef, y := logsAbout(exact, lo)
+	sExact := sumOf(y)
+	total := sExact
+	if len(right) > 0 {
+		_, yr := logsAbout(right, lo)
+		for _, v := range yr {
+			total += math.Max(v, 0) // a suspension below the scale adds nothing
+		}
+	}
 	r := float64(len(exact))
 	if !(total > 0) || r == 0 {
 		return lo, math.NaN(), math.NaN(), false
@@ -150,17 +174,32 @@ func (f paretoFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		fit.Convergence.Note = paretoBoundaryNote
 		return fit, nil
 	}
-	// Non-detects or intervals: the scale must stay below every exact and
-	// right-censored value; scale = U·exp(−e^θ₀), U their minimum.
-	upper, _ := minMax(append(append([]float64(nil), d.Exact...), d.Right...))
+	// Non-detects or intervals: the scale stays below the bound U
+	// (paretoBound) as scale = U·exp(−e^θ₀): an interior maximum by BFGS.
+	upper := paretoBound(d)
 	a0 := 1.0
 	if _, a, _, ok := paretoMLE(d.Exact, d.Right); ok {
 		a0 = a
+	} else if x := startSample(d, 2, true); len(x) >= 2 {
+		if _, a, _, ok := paretoMLE(x, nil); ok {
+			a0 = a
+		}
 	}
 	starts := [][]float64{{-3, 0}, {0, 0}}
 	toNatural := func(t []float64) []float64 {
 		return []float64{upper * math.Exp(-math.Exp(t[0])), a0 * math.Exp(t[1])}
 	}
-	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (ln(−ln(scale/min)), log shape)")
+	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (ln(−ln(scale/bound)), log shape)")
+	// When the bound is an exact value the maximum may lie on it: maximise
+	// the shape there too and keep the better point.
+	if lo, _ := minMax(d.Exact); len(d.Exact) > 0 && lo == upper {
+		edge := newFit(f, d)
+		toEdge := func(t []float64) []float64 { return []float64{upper, a0 * math.Exp(t[0])} }
+		fitByMinimize(edge, f, d, opt, toEdge, [][]float64{{0}}, "BFGS on log shape, scale at the smallest exact value")
+		if edge.Converged && (!fit.Converged || edge.LogLik >= fit.LogLik) {
+			edge.Convergence.Note = paretoBoundaryNote
+			return edge, nil
+		}
+	}
 	return fit, nil
 }
