@@ -152,8 +152,9 @@ func (f gammaFamily) Applicable(d *Data, fixed Fixed) error {
 //
 //	ln k − ψ(k) = s,  s = ln x̄ − mean ln x = −mean ln(x/x̄) ≥ 0,
 //
-// then β̂ = k̂/x̄ (Choi & Wette, 1969). s is summed as −log1p((x − x̄)/x̄)
-// (logsAbout), exact even for data clustered far from zero; ln k − ψ(k)
+// then β̂ = k̂/x̄ (Choi & Wette, 1969). s is summed from the non-negative
+// terms −log1pmx((x − x̄)/x̄), exact even for data clustered far from zero
+// (where ln x̄ − mean ln x cancels to nothing); ln k − ψ(k)
 // uses its asymptotic series for large k (logMinusDigamma). The Newton
 // iteration starts from Minka's (2002) approximation
 // k₀ = (3 − s + √((s−3)² + 24s))/(12s) inside a bracket of the root.

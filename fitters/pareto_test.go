@@ -1,6 +1,9 @@
 package fitters
 
-import "testing"
+import (
+	"math"
+	"testing"
+)
 
 func TestParetoFamily(t *testing.T) { coreFamilyChecks(t, "pareto") }
 
@@ -57,4 +60,26 @@ func checkClusteredPareto(t *testing.T) {
 func TestParetoInapplicable(t *testing.T) {
 	checkInapplicable(t, "pareto", Complete([]float64{1, 0, 3}))
 	checkInapplicable(t, "pareto", Complete([]float64{2, 2, 2}))
+}
+
+// TestParetoSuspensionBelowScale: a suspension below the smallest exact
+// value has S = 1 at every admissible scale, so it changes neither estimate
+// (Epstein & Sobel's total-time form counts only the time above the scale).
+func TestParetoSuspensionBelowScale(t *testing.T) {
+	f := mustFamily(t, "pareto")
+	exact := []float64{2, 3, 5, 8}
+	plain, err1 := f.Fit(Complete(exact), Options{})
+	susp, err2 := f.Fit(&Data{Exact: exact, Right: []float64{1.5, 4}}, Options{})
+	if err1 != nil || err2 != nil || !plain.Converged || !susp.Converged {
+		t.Fatal(err1, err2, plain, susp)
+	}
+	if susp.Estimates[0] != 2 {
+		t.Errorf("scale %v, want the smallest exact value 2", susp.Estimates[0])
+	}
+	// α̂ = 4 / (ln(3/2) + ln(5/2) + ln(8/2) + ln(4/2)): the suspension at 4 adds ln 2.
+	want := 4 / (math.Log(1.5) + math.Log(2.5) + math.Log(4) + math.Log(2))
+	if relDiff(susp.Estimates[1], want, 1) > 1e-14 {
+		t.Errorf("shape %v, want %v", susp.Estimates[1], want)
+	}
+	checkOptimum(t, f, susp, &Data{Exact: exact, Right: []float64{1.5, 4}})
 }
