@@ -82,7 +82,7 @@ func Merge(parts []*Bag, opt MergeOptions) (Contents, *runner.Results, error) {
 	held := map[string]string{}
 	for i, rec := range recs {
 		name := parts[i].Source
-		if why := differs(r0, rec, opt.Tool); why != "" && i > 0 {
+		if why := differs(r0, rec); why != "" && i > 0 {
 			return Contents{}, nil, &MergeError{Part: name, Reason: why + " than " + first}
 		}
 		if rec.Tool != opt.Tool {
@@ -148,29 +148,41 @@ func Merge(parts []*Bag, opt MergeOptions) (Contents, *runner.Results, error) {
 	docs := make([][]byte, len(parts))
 	var seeds []runner.Seed
 	for i, b := range parts {
-		name := b.Source
 		sh := runner.Shard{Index: recs[i].Shard.Index, Count: recs[i].Shard.Count}
-		sub := plan.Only(sh)
-		if !reflect.DeepEqual(sub.Names(), recs[i].Shard.Analyses) {
-			return Contents{}, nil, &MergeError{Part: name, Reason: fmt.Sprintf("holds analyses other than those of shard %s of the plan", sh)}
+		if !reflect.DeepEqual(plan.Only(sh).Names(), recs[i].Shard.Analyses) {
+			return Contents{}, nil, &MergeError{Part: b.Source, Reason: fmt.Sprintf("holds analyses other than those of shard %s of the plan", sh)}
 		}
-		payload := b.Payload()
-		docs[i] = payload["results/"+runner.ResultsFile]
-		res, err := runner.Rebuild(proj, data, sub, docs[i:i+1], recs[i].Seeds)
-		if err != nil {
-			return Contents{}, nil, &MergeError{Part: name, Reason: "its results cannot be read back: " + err.Error()}
-		}
-		if err := sameResultFiles(res, payload, ""); err != nil {
-			return Contents{}, nil, &MergeError{Part: name, Reason: err.Error()}
-		}
-		if !reflect.DeepEqual(res.Seeds, nonNil(recs[i].Seeds)) {
-			return Contents{}, nil, &MergeError{Part: name, Reason: "run.json's seeds are not those of its analyses"}
-		}
+		docs[i] = b.Files[PayloadDir+"/results/"+runner.ResultsFile]
 		seeds = append(seeds, recs[i].Seeds...)
 	}
 	res, err := runner.Rebuild(proj, data, plan, docs, seeds)
 	if err != nil {
-		return Contents{}, nil, &MergeError{Reason: err.Error()}
+		return Contents{}, nil, &MergeError{Reason: "the parts' results cannot be read back: " + err.Error()}
+	}
+	// Each part's share of the rebuilt results must give back its own
+	// result files and seeds, byte for byte: nothing was lost in reading.
+	byName := map[string]*runner.AnalysisResult{}
+	for _, a := range res.Analyses {
+		byName[a.Name] = a
+	}
+	for i, b := range parts {
+		sub := &runner.Results{Project: proj, Data: data, Plan: res.Plan}
+		in := map[string]bool{}
+		for _, name := range recs[i].Shard.Analyses {
+			sub.Analyses = append(sub.Analyses, byName[name])
+			in[name] = true
+		}
+		for _, sd := range res.Seeds {
+			if in[sd.Analysis] {
+				sub.Seeds = append(sub.Seeds, sd)
+			}
+		}
+		if err := sameResultFiles(sub, b.Payload(), ""); err != nil {
+			return Contents{}, nil, &MergeError{Part: b.Source, Reason: err.Error()}
+		}
+		if !reflect.DeepEqual(sub.Seeds, nonNil(recs[i].Seeds)) {
+			return Contents{}, nil, &MergeError{Part: b.Source, Reason: "run.json's seeds are not those of its analyses"}
+		}
 	}
 	c, err := Seal(res, SealOptions{Created: opt.Created, CreatedFrom: opt.CreatedFrom, Git: r0.Git, Signer: opt.Signer,
 		Tool: opt.Tool, Inputs: inputs})
@@ -186,7 +198,7 @@ func nonNil(s []runner.Seed) []runner.Seed {
 
 // differs says how a part's record differs from the first part's in what
 // must agree, or "".
-func differs(a, b *RunRecord, _ Tool) string {
+func differs(a, b *RunRecord) string {
 	switch {
 	case jsonString(a.Project.Settings) != jsonString(b.Project.Settings):
 		return "has other settings"

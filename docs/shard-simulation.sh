@@ -6,12 +6,16 @@
 #
 #   docs/shard-simulation.sh [COUNT] [SHARDS] [JOBS]     (default 20000 16 2)
 #
+# ROWS (12), INTERVALS (wald) and BOOTSTRAP (0) in the environment change the
+# datasets' size and the work per fit.
 # Needs Go (builds fitseal into the work folder) and python3 (data only).
 set -euo pipefail
 COUNT=${1:-20000}
 SHARDS=${2:-16}
 JOBS=${3:-2}
 ROWS=${ROWS:-12}
+INTERVALS=${INTERVALS:-wald}
+BOOTSTRAP=${BOOTSTRAP:-0}
 here=$(cd "$(dirname "$0")/.." && pwd)
 work=$(mktemp -d "${TMPDIR:-/tmp}/fitseal-shards-XXXXXX")
 echo "work folder: $work"
@@ -31,12 +35,12 @@ for w in range(count):
     for _ in range(rows):
         print(f"w{w:05d},{math.exp(r.gauss(mu, sigma)):.4g}")
 PY
-cat > "$work/p/fitseal.toml" <<'TOML'
+cat > "$work/p/fitseal.toml" <<TOML
 name = "many-wells"
 [settings]
 seed = 7
-intervals = "wald"
-bootstrap = 0
+intervals = "$INTERVALS"
+bootstrap = $BOOTSTRAP
 [[dataset]]
 name = "nitrate"
 file = "wells.csv"
@@ -58,11 +62,11 @@ TOML
 
 now() { date +%s.%N; }
 t0=$(now)
-"$fs" run -q -j "$JOBS" -o "$work/single.tar.gz" "$work/p/fitseal.toml" | head -1
+"$fs" run -q -j "$JOBS" -o "$work/single.tar.gz" "$work/p/fitseal.toml" | sed -n 1p
 t1=$(now)
 seq 0 $((SHARDS - 1)) | xargs -P "$JOBS" -I{} "$fs" run -q -j 1 --shard "{}/$SHARDS" -o "$work/part-{}.tar.gz" "$work/p/fitseal.toml" >/dev/null
 t2=$(now)
-"$fs" merge -o "$work/merged.tar.gz" "$work"/part-*.tar.gz | head -2
+"$fs" merge -o "$work/merged.tar.gz" "$work"/part-*.tar.gz | sed -n 1,2p
 t3=$(now)
 if cmp -s "$work/single.tar.gz" "$work/merged.tar.gz"; then same=yes; else same=NO; fi
 python3 - "$t0" "$t1" "$t2" "$t3" "$same" "$COUNT" "$SHARDS" "$JOBS" <<'PY'
