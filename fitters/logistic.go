@@ -17,12 +17,12 @@ func logisticLogDensity(z float64) (g, dg, d2g float64) {
 	a := math.Abs(z)
 	e := math.Exp(-a)
 	g = -a - 2*math.Log1p(e)
-	t := (1 - e) / (1 + e) // tanh(|z|/2)
+	iq := 1 / (1 + e)
+	t := (1 - e) * iq // tanh(|z|/2)
 	if z < 0 {
 		t = -t
 	}
-	q := 1 + e
-	return g, -t, -2 * e / (q * q)
+	return g, -t, -2 * e * iq * iq
 }
 
 // logLogisticCDF is ln F₀(z) = −ln(1 + e^(−z)), stable for every z.
