@@ -66,15 +66,15 @@ func (f exponentialFamily) LogLik(p []float64, d *Data) float64 {
 		return math.Inf(-1)
 	}
 	e := dist.(Exponential)
-	// Σ ln f(x) = n ln λ − λ Σx
+	// Σ ln f(x) = n ln λ − Σ λx (λx per term: Σx alone may overflow)
 	var s float64
 	for _, x := range d.Exact {
 		if x < 0 {
 			return math.Inf(-1)
 		}
-		s += x
+		s += e.Rate * x
 	}
-	ll := float64(len(d.Exact))*math.Log(e.Rate) - e.Rate*s
+	ll := float64(len(d.Exact))*math.Log(e.Rate) - s
 	return ll + censoredLogLik(e, d, false)
 }
 
@@ -111,6 +111,18 @@ func (f exponentialFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			return fit, nil
 		}
 		rate := r / total
+		if math.IsInf(total, 1) {
+			// Σx overflowed: sum x·2⁻⁶⁰⁰ (an exact scaling) and undo it.
+			const f = 0x1p-600
+			var s float64
+			for _, v := range d.Exact {
+				s += v * f
+			}
+			for _, v := range d.Right {
+				s += v * f
+			}
+			rate = r / s * f
+		}
 		fit.Estimates = []float64{rate}
 		fit.LogLik = r*math.Log(rate) - r // λ̂·total = r
 		fit.Convergence = closedForm()

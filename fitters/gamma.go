@@ -90,18 +90,18 @@ func (f gammaFamily) LogLik(p []float64, d *Data) float64 {
 	if g.Shape >= 30 {
 		return gammaLogLikLargeShape(g, d)
 	}
-	// Σ ln f(x) = n(k ln β − ln Γ(k)) + (k−1) Σ ln x − β Σ x
-	var slx, sx float64
+	// Σ ln f(x) = n(k ln β − ln Γ(k)) + (k−1) Σ ln x − Σ βx
+	var slx, sbx float64
 	for _, x := range d.Exact {
 		if !(x > 0) {
 			return math.Inf(-1)
 		}
 		slx += math.Log(x)
-		sx += x
+		sbx += g.Rate * x
 	}
 	lg, _ := math.Lgamma(g.Shape)
 	n := float64(len(d.Exact))
-	ll := n*(g.Shape*math.Log(g.Rate)-lg) + (g.Shape-1)*slx - g.Rate*sx
+	ll := n*(g.Shape*math.Log(g.Rate)-lg) + (g.Shape-1)*slx - sbx
 	return ll + censoredLogLik(g, d, false)
 }
 

@@ -149,7 +149,7 @@ func (f invgaussFamily) Applicable(d *Data, fixed Fixed) error {
 func invgaussMLE(x []float64) (mean, shape, ll float64) {
 	n := float64(len(x))
 	m, _ := meanVar(x)
-	if math.IsInf(m, 0) {
+	if math.IsInf(m, 0) || math.IsNaN(m) {
 		m = 0
 		for _, v := range x {
 			m += v / n
