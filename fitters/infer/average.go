@@ -24,7 +24,9 @@ type Candidate struct {
 //
 //	θ̄ = Σ wᵢ θ̂ᵢ,   se(θ̄) = Σ wᵢ √(var̂(θ̂ᵢ) + (θ̂ᵢ − θ̄)²),
 //
-// with the interval θ̄ ± z·se(θ̄) at the level. Candidates with no weight
+// with the interval θ̄ ± z·se(θ̄) at the level; for an exceedance
+// probability the interval is worked on the logit scale instead
+// (logitAverageInterval), so that it stays inside (0, 1). Candidates with no weight
 // (NaN or 0) are left out; candidates with a weight but no finite estimate or
 // standard error are left out too, the remaining weights renormalised to sum
 // to 1, and the note names them. The returned value carries the quantity and
@@ -69,5 +71,44 @@ func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (De
 	z := distuv.UnitNormal.Quantile(0.5 + level/2)
 	out.Estimate, out.StdError = mean, se
 	out.Lower, out.Upper = mean-z*se, mean+z*se
+	if q == Exceedance {
+		if lo, hi, ok := logitAverageInterval(used, total, z); ok {
+			out.Lower, out.Upper = lo, hi
+			out.Method = "model average: Akaike weights, unconditional se (Burnham & Anderson 2002 eq. 4.9), interval on the logit scale"
+		} else if out.Lower < 0 || out.Upper > 1 {
+			out.Lower, out.Upper = math.Max(out.Lower, 0), math.Min(out.Upper, 1)
+			out.Note = joinNote(out.Note, "normal interval clipped to [0, 1]")
+		}
+	}
 	return out, nil
 }
+
+// logitAverageInterval is the model-averaged interval of a probability
+// worked on the logit scale, where a normal interval cannot leave (0, 1):
+// each candidate's estimate pᵢ becomes λᵢ = logit pᵢ with the delta-method
+// standard error seᵢ/(pᵢ(1 − pᵢ)); λ̄ = Σ wᵢλᵢ with the unconditional
+// standard error of eq. 4.9 on that scale; the interval is
+// expit(λ̄ ± z·se(λ̄)). It needs every pᵢ strictly inside (0, 1).
+func logitAverageInterval(used []Candidate, total, z float64) (lo, hi float64, ok bool) {
+	var lbar float64
+	for _, c := range used {
+		if !(c.Estimate > 0 && c.Estimate < 1) {
+			return 0, 0, false
+		}
+		lbar += c.Weight / total * logit(c.Estimate)
+	}
+	var se float64
+	for _, c := range used {
+		p := c.Estimate
+		sl := c.StdError / (p * (1 - p))
+		dl := logit(p) - lbar
+		se += c.Weight / total * math.Sqrt(sl*sl+dl*dl)
+	}
+	if math.IsNaN(se) || math.IsInf(se, 0) {
+		return 0, 0, false
+	}
+	return expit(lbar - z*se), expit(lbar + z*se), true
+}
+
+func logit(p float64) float64 { return math.Log(p) - math.Log1p(-p) }
+func expit(x float64) float64 { return 1 / (1 + math.Exp(-x)) }

@@ -2,6 +2,7 @@ package infer
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"fitseal/fitters"
@@ -71,5 +72,38 @@ func TestModelAverageByHand(t *testing.T) {
 	got, _ = ModelAverage(Quantile, 0.9, cands, 0.95)
 	if got.Estimate != 10 || got.StdError != 1 || got.Note == "" {
 		t.Errorf("renormalised average %v se %v note %q, want 10, 1 and a note", got.Estimate, got.StdError, got.Note)
+	}
+}
+
+// TestModelAverageExceedanceLogit works the logit-scale interval of a
+// model-averaged exceedance probability by hand (weights 0.7, 0.3;
+// p = 0.01 ± 0.008 and 0.03 ± 0.02): the normal interval on the natural
+// scale would start at −0.01207, below any probability; on the logit scale
+// λ̄ = Σ wᵢ logit pᵢ, se(λ̄) by eq. 4.9 with seᵢ/(pᵢ(1−pᵢ)), and the
+// interval expit(λ̄ ± 1.96·se) = (0.0022996861519430827, 0.0797207893107144).
+func TestModelAverageExceedanceLogit(t *testing.T) {
+	cands := []Candidate{
+		{Family: "lognormal", Weight: 0.7, Estimate: 0.01, StdError: 0.008},
+		{Family: "gamma", Weight: 0.3, Estimate: 0.03, StdError: 0.02},
+	}
+	got, err := ModelAverage(Exceedance, 11.3, cands, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"estimate", got.Estimate, 0.016},
+		{"std error", got.StdError, 0.01432393336944022},
+		{"lower", got.Lower, 0.0022996861519430827},
+		{"upper", got.Upper, 0.0797207893107144},
+	} {
+		if math.Abs(c.got-c.want) > 1e-12*math.Abs(c.want) {
+			t.Errorf("%s = %v, want %v", c.name, c.got, c.want)
+		}
+	}
+	if !strings.Contains(got.Method, "logit") {
+		t.Errorf("method %q does not say the interval is on the logit scale", got.Method)
 	}
 }
