@@ -95,25 +95,45 @@ func sumLog(x []float64) (sumLn, sum float64) {
 
 // meanVar returns the mean and the maximum-likelihood (divide by n) variance
 // of x, using a two-pass algorithm with the compensating correction term
-// (Chan, Golub & LeVeque, 1983), accurate for data far from zero.
+// (Chan, Golub & LeVeque, 1983), accurate for data far from zero. The
+// variance overflows to +Inf only when it exceeds the float64 range (data
+// near 1e300); meanSD never does.
 func meanVar(x []float64) (mean, variance float64) {
+	mean, sd := meanSD(x)
+	return mean, sd * sd
+}
+
+// meanSD returns the mean and the maximum-likelihood standard deviation of
+// x. Values whose magnitude would overflow a sum or a square are first
+// scaled by a power of two (an exact operation), so that data near the ends
+// of the float64 range keep every digit.
+func meanSD(x []float64) (mean, sd float64) {
+	var big float64
+	for _, v := range x {
+		big = math.Max(big, math.Abs(v))
+	}
+	scale := 1.0
+	if big > 0x1p500 || (big > 0 && big < 0x1p-500) {
+		_, e := math.Frexp(big)
+		scale = math.Ldexp(1, e)
+	}
 	n := float64(len(x))
 	var s float64
 	for _, v := range x {
-		s += v
+		s += v / scale
 	}
-	mean = s / n
+	m := s / n
 	var ss, c float64
 	for _, v := range x {
-		d := v - mean
+		d := v/scale - m
 		ss += d * d
 		c += d
 	}
-	variance = (ss - c*c/n) / n
+	variance := (ss - c*c/n) / n
 	// One correction of the mean removes the rounding left by the first pass.
-	mean += c / n
+	m += c / n
 	if variance < 0 {
 		variance = 0
 	}
-	return mean, variance
+	return m * scale, math.Sqrt(variance) * scale
 }

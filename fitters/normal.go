@@ -52,14 +52,16 @@ func (f normalFamily) LogLik(p []float64, d *Data) float64 {
 		return math.Inf(-1)
 	}
 	nd := dist.(Normal)
-	// Σ ln f(x) = −n ln σ − n ln√(2π) − Σ(x−μ)²/(2σ²)
+	// Σ ln f(x) = −n ln σ − n ln√(2π) − Σ zᵢ²/2, zᵢ = (xᵢ−μ)/σ (standardised
+	// before squaring, so data near 1e300 do not overflow)
 	var ss float64
+	inv := 1 / nd.Sigma
 	for _, x := range d.Exact {
-		z := x - nd.Mu
+		z := (x - nd.Mu) * inv
 		ss += z * z
 	}
 	n := float64(len(d.Exact))
-	ll := -n*(math.Log(nd.Sigma)+lnSqrt2Pi) - 0.5*ss/(nd.Sigma*nd.Sigma)
+	ll := -n*(math.Log(nd.Sigma)+lnSqrt2Pi) - 0.5*ss
 	return ll + censoredLogLik(nd, d, false)
 }
 
@@ -76,8 +78,8 @@ func (f normalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {
-		mu, v := meanVar(d.Exact)
-		fit.Estimates = []float64{mu, math.Sqrt(v)}
+		mu, sd := meanSD(d.Exact)
+		fit.Estimates = []float64{mu, sd}
 		fit.LogLik = f.LogLik(fit.Estimates, d)
 		fit.Convergence = closedForm()
 		return fit, nil
@@ -85,8 +87,8 @@ func (f normalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	// Censored: BFGS on the standardised scale ((mu − m)/s, log(sigma/s)),
 	// m and s the mean and spread of every recorded value, so that the
 	// convergence test does not depend on the data's units or offset.
-	m, v0 := meanVar(d.Values())
-	s := math.Max(math.Sqrt(v0), 1e-3*math.Max(1, math.Abs(m)))
+	m, sd := meanSD(d.Values())
+	s := math.Max(sd, 1e-3*math.Max(1, math.Abs(m)))
 	natural := func(t []float64) []float64 { return []float64{m + s*t[0], s * math.Exp(t[1])} }
 	prob := problem{dim: 2, scale: float64(d.N()), negLogLik: func(t []float64) float64 {
 		return -f.LogLik(natural(t), d)
