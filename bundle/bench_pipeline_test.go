@@ -1,0 +1,58 @@
+package bundle
+
+import (
+	"context"
+	"io"
+	"os"
+	"path/filepath"
+	"testing"
+	"time"
+
+	"fitseal/runner"
+)
+
+// BenchmarkPipeline times what `fitseal run` does in-process — load the
+// project, read the CSV, fit and infer (runner.Run), seal and write the
+// signed .tar.gz — on the project file named by $FITSEAL_BENCH_PROJECT
+// (e.g. the work/fitseal.toml kept by `../shared/bench/run.sh --keep`), with
+// $FITSEAL_BENCH_KEY as the signing key. It is skipped when either is unset.
+// Profile it with
+//
+//	go test ./bundle -run '^$' -bench Pipeline -cpuprofile cpu.out
+func BenchmarkPipeline(b *testing.B) {
+	proj, key := os.Getenv("FITSEAL_BENCH_PROJECT"), os.Getenv("FITSEAL_BENCH_KEY")
+	if proj == "" || key == "" {
+		b.Skip("set FITSEAL_BENCH_PROJECT and FITSEAL_BENCH_KEY (see ../shared/bench/run.sh --keep)")
+	}
+	signer, _, err := ResolveKey(key, os.Getenv, io.Discard)
+	if err != nil {
+		b.Fatal(err)
+	}
+	out := filepath.Join(b.TempDir(), "bench.tar.gz")
+	workers := 1
+	if s := os.Getenv("FITSEAL_BENCH_WORKERS"); s == "2" {
+		workers = 2
+	}
+	created := time.Unix(1700000000, 0).UTC()
+	for i := 0; i < b.N; i++ {
+		p, err := runner.Load(proj)
+		if err != nil {
+			b.Fatal(err)
+		}
+		inputs, err := ReadInputs(p)
+		if err != nil {
+			b.Fatal(err)
+		}
+		res, err := runner.Run(context.Background(), p, runner.RunOptions{Workers: workers})
+		if err != nil {
+			b.Fatal(err)
+		}
+		c, err := Seal(res, SealOptions{Created: created, CreatedFrom: "SOURCE_DATE_EPOCH", Signer: signer.PublicKey(), Inputs: inputs})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if err := WriteBundle(out, true, c, signer); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
