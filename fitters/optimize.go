@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/diff/fd"
+	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
 )
 
@@ -103,8 +104,85 @@ func minimize(p problem, starts [][]float64, opt Options) optimum {
 			best = optimum{theta: res.X, negLogLik: f, gradNorm: gn, converged: ok, reason: why}
 		}
 	}
+	if best.converged && best.theta != nil {
+		x, f, gn, evals, iters := polish(p, grad, best.theta, best.negLogLik)
+		best.theta, best.negLogLik, best.gradNorm = x, f, gn
+		totalEval += evals
+		totalIter += iters
+	}
 	best.iterations, best.evaluations, best.starts = totalIter, totalEval, len(starts)
 	return best
+}
+
+// polish refines a converged optimum by Newton steps θ ← θ − H⁻¹g, with the
+// Hessian H from central differences of the gradient (step 1e-4·max(1,|θᵢ|)).
+// BFGS stops once the gradient is below its threshold, which leaves the
+// estimates uncertain in about the eighth digit; from there Newton's method
+// converges quadratically, so two or three steps bring the estimates to
+// the limit set by rounding, and the reported values then no longer depend
+// on where BFGS happened to stop (the same fit on another processor agrees
+// to about 1e-12 instead of 1e-8). A step is kept only when it lowers the
+// gradient's norm without raising −ln L beyond rounding; polishing stops at
+// the first step that fails, or when H is not positive definite.
+func polish(p problem, grad func(g, x []float64), x []float64, f float64) (xOut []float64, fOut, gradNorm float64, evals, iters int) {
+	n := p.dim
+	g := make([]float64, n)
+	gp := make([]float64, n)
+	gm := make([]float64, n)
+	xs := make([]float64, n)
+	hess := mat.NewSymDense(n, nil)
+	x = append([]float64(nil), x...)
+	grad(g, x)
+	gn := infNorm(g)
+	for iters = 0; iters < 4 && gn > 0; iters++ {
+		for i := 0; i < n; i++ {
+			h := 1e-4 * math.Max(1, math.Abs(x[i]))
+			copy(xs, x)
+			xs[i] = x[i] + h
+			grad(gp, xs)
+			xs[i] = x[i] - h
+			grad(gm, xs)
+			for j := 0; j < n; j++ {
+				hij := (gp[j] - gm[j]) / (2 * h)
+				if j == i {
+					hess.SetSym(i, i, hij)
+				} else if j > i {
+					hess.SetSym(i, j, 0.5*hij)
+				} else {
+					hess.SetSym(j, i, hess.At(j, i)+0.5*hij)
+				}
+			}
+		}
+		var chol mat.Cholesky
+		if !chol.Factorize(hess) {
+			break
+		}
+		step := mat.NewVecDense(n, nil)
+		if err := chol.SolveVecTo(step, mat.NewVecDense(n, append([]float64(nil), g...))); err != nil {
+			break
+		}
+		xn := make([]float64, n)
+		small := true
+		for i := range xn {
+			xn[i] = x[i] - step.AtVec(i)
+			small = small && math.Abs(step.AtVec(i)) <= 1e-13*(1+math.Abs(x[i]))
+		}
+		fn := p.negLogLik(xn)
+		evals++
+		gn2 := make([]float64, n)
+		grad(gn2, xn)
+		gnn := infNorm(gn2)
+		if !(fn <= f+1e-13*math.Max(1, math.Abs(f))) || !(gnn < gn) {
+			break
+		}
+		x, f, gn = xn, fn, gnn
+		copy(g, gn2)
+		if small {
+			iters++
+			break
+		}
+	}
+	return x, f, gn, evals, iters
 }
 
 // gradTol is the gradient threshold for a problem whose objective is near f:

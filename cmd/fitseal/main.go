@@ -1,7 +1,7 @@
 // Command fitseal fits probability distributions to measured data by maximum
 // likelihood, ranks them, and seals inputs and results into a signed bundle.
 //
-// Exit status: 0 success; 1 a check failed (verify, diff); 2 bad usage or input.
+// Exit status: 0 success; 1 a check failed (verify, diff, merge); 2 bad usage or input.
 package main
 
 import (
@@ -108,7 +108,7 @@ func printHelp(w io.Writer) {
 	}
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "'fitseal <command> -h' describes a command's flags.")
-	fmt.Fprintln(w, "exit status: 0 success; 1 a check failed (verify, diff); 2 bad usage or bad input")
+	fmt.Fprintln(w, "exit status: 0 success; 1 a check failed (verify, diff, merge); 2 bad usage or bad input")
 }
 
 // newFlagSet makes a flag set whose usage text names the command.
