@@ -3,8 +3,10 @@ package report
 import (
 	"bytes"
 	"fmt"
+	"runtime"
 	"slices"
 	"strings"
+	"sync"
 
 	"fitseal/templates"
 )
@@ -29,18 +31,52 @@ type File struct {
 // templates with [templates.LoadTables] (the project's folder first).
 func RenderTables(tmpls []*templates.TableTemplate, analyses []Analysis, formats []string) ([]File, error) {
 	slugs := Slugs(analyses)
-	var out []File
-	for i, a := range analyses {
-		for _, t := range tmpls {
-			if !slices.Contains(formats, t.Format) {
-				continue
-			}
-			var buf bytes.Buffer
-			if err := t.Execute(&buf, TableContext{A: a, Slug: slugs[i]}); err != nil {
-				return nil, fmt.Errorf("table template %s (%s) for analysis %s: %w", t.Name(), t.Source, a.Name, err)
-			}
-			out = append(out, File{Name: slugs[i] + "-" + t.Kind + "." + t.Format, Data: buf.Bytes()})
+	var use []*templates.TableTemplate
+	for _, t := range tmpls {
+		if slices.Contains(formats, t.Format) {
+			use = append(use, t)
 		}
+	}
+	// Analyses are rendered on every core (templates may run in parallel,
+	// text/template's doc); each lands in its own slot, so the order and
+	// the bytes do not depend on the number of cores.
+	files := make([][]File, len(analyses))
+	errs := make([]error, len(analyses))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for w := 0; w < min(runtime.GOMAXPROCS(0), len(analyses)); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				files[i], errs[i] = renderAnalysis(use, analyses[i], slugs[i])
+			}
+		}()
+	}
+	for i := range analyses {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	var out []File
+	for i := range analyses {
+		if errs[i] != nil {
+			return nil, errs[i]
+		}
+		out = append(out, files[i]...)
+	}
+	return out, nil
+}
+
+// renderAnalysis renders the templates for one analysis, in kind order.
+func renderAnalysis(tmpls []*templates.TableTemplate, a Analysis, slug string) ([]File, error) {
+	out := make([]File, 0, len(tmpls))
+	for _, t := range tmpls {
+		var buf bytes.Buffer
+		if err := t.Execute(&buf, TableContext{A: a, Slug: slug}); err != nil {
+			return nil, fmt.Errorf("table template %s (%s) for analysis %s: %w", t.Name(), t.Source, a.Name, err)
+		}
+		out = append(out, File{Name: slug + "-" + t.Kind + "." + t.Format, Data: buf.Bytes()})
 	}
 	return out, nil
 }
