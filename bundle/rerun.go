@@ -42,14 +42,27 @@ const (
 	// BoundReplicates is how many order statistics a bootstrap interval
 	// bound may move: BoundReplicates/B of the interval's width.
 	BoundReplicates = 5
+	// CurvatureTolerance is the relative tolerance of standard errors and
+	// of the Wald, delta-method and model-average interval bounds built on
+	// them: they rest on second derivatives, which finite differences fix
+	// only to about 1e-8 relative, so their last digits follow the
+	// platform's rounding more than the estimates do.
+	CurvatureTolerance = 1e-6
+	// ProbabilityTolerance is an absolute tolerance for exceedance
+	// probabilities and their bounds: a probability of 1e-8 far in a tail
+	// moves by more than 1e-9 of itself when the estimates move in their
+	// last digits, yet agrees to far better than 1e-12 as a probability.
+	ProbabilityTolerance = 1e-12
 )
 
 // ToleranceStatement says, for a report, how numbers were compared across
 // platforms.
 var ToleranceStatement = fmt.Sprintf("relative %g for estimates, log-likelihoods, criteria and derived quantities; "+
+	"relative %g for standard errors and the Wald, delta-method and model-average bounds built on them; "+
+	"exceedance probabilities also agree within %g absolute; "+
 	"bootstrap p-values within %d/(B+1); bootstrap interval bounds within %d/B of the interval's width; "+
 	"optimiser diagnostics (iterations, evaluations, gradient_norm) not compared",
-	RelativeTolerance, PValueReplicates, BoundReplicates)
+	RelativeTolerance, CurvatureTolerance, ProbabilityTolerance, PValueReplicates, BoundReplicates)
 
 // RerunOptions tune Rerun; none changes a result.
 type RerunOptions struct {
@@ -358,8 +371,21 @@ func crossPlatform(bootstrap int) Agree {
 				B = r
 			}
 			return B > 0 && math.Abs(a-b) <= float64(PValueReplicates)/float64(B+1)+1e-12
+		case "std_error":
+			return relClose(a, b, CurvatureTolerance)
+		}
+		if fields["quantity"] == "exceedance" && math.Abs(a-b) <= ProbabilityTolerance {
+			return true
+		}
+		switch column {
 		case "ci_lower", "ci_upper":
-			if strings.Contains(strings.ToLower(fields["ci_method"]), "bootstrap") && bootstrap > 0 {
+			method := strings.ToLower(fields["ci_method"])
+			for _, m := range []string{"wald", "delta", "model average"} {
+				if strings.Contains(method, m) && relClose(a, b, CurvatureTolerance) {
+					return true
+				}
+			}
+			if strings.Contains(method, "bootstrap") && bootstrap > 0 {
 				lo, e1 := strconv.ParseFloat(fields["ci_lower"], 64)
 				hi, e2 := strconv.ParseFloat(fields["ci_upper"], 64)
 				if e1 == nil && e2 == nil && math.Abs(a-b) <= float64(BoundReplicates)/float64(bootstrap)*math.Abs(hi-lo) {

@@ -250,6 +250,13 @@ func TestCrossPlatformTolerances(t *testing.T) {
 		{"bootstrap bound beyond", "ci_lower", boot, 1, 1 + 5.0/99*2*1.01, false},
 		{"profile bound is not a bootstrap quantity", "ci_lower", map[string]string{"ci_method": "profile likelihood"}, 1, 1.001, false},
 		{"iterations not compared", "iterations", nil, 12, 14, true},
+		{"std error within 1e-6", "std_error", nil, 0.5554485579406773, 0.5554485616589243, true},
+		{"std error beyond 1e-6", "std_error", nil, 0.5, 0.5 * (1 + 1.1e-6), false},
+		{"delta-method bound within 1e-6", "ci_upper", map[string]string{"ci_method": "delta method (log scale)"}, 43.626107, 43.626107 * (1 + 5e-7), true},
+		{"model-average bound within 1e-6", "ci_lower", map[string]string{"ci_method": "model average: Akaike weights, unconditional se (Burnham & Anderson 2002 eq. 4.9), normal interval"}, 3131.18, 3131.18 * (1 + 5e-7), true},
+		{"tiny exceedance within 1e-12 absolute", "estimate", map[string]string{"quantity": "exceedance"}, 1.7671796567962953e-08, 1.7671796589182108e-08, true},
+		{"exceedance beyond 1e-12 absolute and 1e-9 relative", "estimate", map[string]string{"quantity": "exceedance"}, 0.2, 0.2 + 1e-9, false},
+		{"quantile is not a probability", "estimate", map[string]string{"quantity": "quantile"}, 1e-8, 1e-8 + 1e-13, false},
 	}
 	for _, tc := range tests {
 		if got := agree(tc.column, tc.fields, tc.a, tc.b); got != tc.want {

@@ -31,13 +31,19 @@ func TestVerifyOnArm64(t *testing.T) {
 	if out, err := build.CombinedOutput(); err != nil {
 		t.Fatalf("cross-build: %v\n%s", err, out)
 	}
-	b := filepath.Join(dir, "b.tar.gz")
-	mustCLI(t, 0, "run", "-q", "--key", key, "-o", b, project)
-	out, err := exec.Command(qemu, bin, "verify", b).CombinedOutput()
-	if err != nil {
-		t.Fatalf("verify on arm64: %v\n%s", err, out)
-	}
-	if !strings.Contains(string(out), "compared within tolerances, because the platforms differ") || !strings.Contains(string(out), "OK "+b) {
-		t.Errorf("verify on arm64:\n%s", out)
+	// The ball-bearing project, and the init demo with its censored fits,
+	// bootstrap p-values and model averages.
+	demo := filepath.Join(dir, "demo")
+	mustCLI(t, 0, "init", demo)
+	for _, proj := range []string{project, filepath.Join(demo, "fitseal.toml")} {
+		b := filepath.Join(filepath.Dir(proj), "b.tar.gz")
+		mustCLI(t, 0, "run", "-q", "--key", key, "-o", b, proj)
+		out, err := exec.Command(qemu, bin, "verify", b).CombinedOutput()
+		if err != nil {
+			t.Fatalf("verify %s on arm64: %v\n%s", proj, err, out)
+		}
+		if !strings.Contains(string(out), "compared within tolerances, because the platforms differ") || !strings.Contains(string(out), "OK "+b) {
+			t.Errorf("verify %s on arm64:\n%s", proj, out)
+		}
 	}
 }
