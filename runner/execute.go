@@ -101,7 +101,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 	}
 	workers = min(workers, max(1, len(plan.Tasks)))
 	results := make([]taskResult, len(plan.Tasks))
-	var next, done atomic.Int64
+	var next, done, drawn atomic.Int64
 	var failOnce sync.Once
 	var failure error
 	parent := ctx
@@ -109,7 +109,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 	defer cancel()
 	var prog *progress
 	if opt.Progress != nil {
-		prog = startProgress(opt.Progress, len(plan.Tasks), &done)
+		prog = startProgress(opt.Progress, len(plan.Tasks), &done, &drawn)
 	}
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {
@@ -121,7 +121,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 				if i >= len(plan.Tasks) {
 					return
 				}
-				if err := runTask(p, plan, i, bootWorkers, opt.RankOnly, &results[i]); err != nil {
+				if err := runTask(p, plan, i, bootWorkers, opt.RankOnly, &drawn, &results[i]); err != nil {
 					failOnce.Do(func() { failure = err })
 					cancel()
 					return
@@ -158,7 +158,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 // runTask fits one family; a panic inside a family is turned into an error
 // that names the task, so one broken family does not take the process down
 // silently.
-func runTask(p *Project, plan *Plan, i, bootWorkers int, rankOnly bool, out *taskResult) (err error) {
+func runTask(p *Project, plan *Plan, i, bootWorkers int, rankOnly bool, drawn *atomic.Int64, out *taskResult) (err error) {
 	t := plan.Tasks[i]
 	a := plan.Analyses[t.Analysis]
 	defer func() {
@@ -182,7 +182,7 @@ func runTask(p *Project, plan *Plan, i, bootWorkers int, rankOnly bool, out *tas
 	}
 	out.fit, out.err = fam.Fit(d, opt)
 	if !rankOnly && out.err == nil && out.fit != nil && out.fit.Converged {
-		out.inf, out.infErr = inferFit(p, a, fam, out.fit, opt, bootWorkers)
+		out.inf, out.infErr = inferFit(p, a, fam, out.fit, opt, bootWorkers, drawn)
 	}
 	return nil
 }

@@ -12,6 +12,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync/atomic"
 	"testing"
 	"time"
 
@@ -320,5 +321,24 @@ func TestProgressLine(t *testing.T) {
 		if got := strings.TrimSpace(progressLine(c.done, c.total, d)); got != c.want {
 			t.Errorf("progressLine(%d, %d, %s) = %q, want %q", c.done, c.total, c.elapsed, got, c.want)
 		}
+	}
+}
+
+// TestProgressShowsReplicates: once bootstrap replicates are drawn, the
+// progress line counts them after the tasks.
+func TestProgressShowsReplicates(t *testing.T) {
+	var buf strings.Builder
+	var done, drawn atomic.Int64
+	p := &progress{w: &buf, total: 10, done: &done, drawn: &drawn, start: time.Now()}
+	done.Store(3)
+	p.draw()
+	if strings.Contains(buf.String(), "replicates") {
+		t.Errorf("no replicates drawn yet, line %q", buf.String())
+	}
+	drawn.Store(1998)
+	buf.Reset()
+	p.draw()
+	if !strings.Contains(buf.String(), "fitting 3/10 tasks") || !strings.Contains(buf.String(), "bootstrap replicates 1998") {
+		t.Errorf("progress line %q", buf.String())
 	}
 }

@@ -3,6 +3,7 @@ package runner
 import (
 	"errors"
 	"fmt"
+	"sync/atomic"
 
 	"fitseal/fitters"
 	"fitseal/fitters/infer"
@@ -35,9 +36,9 @@ func stream(p *Project, analysis, family string) infer.Stream {
 // converged fit: one parametric bootstrap of B = settings.bootstrap
 // replicates (when the data are complete) serves both the bootstrap
 // intervals and the p-values; the observed information is computed once.
-// bootWorkers is the parallelism of the bootstrap (it never changes a
-// number).
-func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.Fit, opt fitters.Options, bootWorkers int) (*inference, error) {
+// bootWorkers is the parallelism of the bootstrap and drawn counts its
+// replicates for the progress line (neither changes a number).
+func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.Fit, opt fitters.Options, bootWorkers int, drawn *atomic.Int64) (*inference, error) {
 	d := &pa.Group.Data
 	s := p.Settings
 	out := &inference{}
@@ -46,7 +47,7 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 		return nil, err
 	}
 	settings := infer.Settings{Level: s.Confidence, Bootstrap: infer.BootstrapOptions{
-		Replicates: s.Bootstrap, Workers: bootWorkers, Stream: stream(p, pa.Name, fam.Name()), Fit: opt}}
+		Replicates: s.Bootstrap, Workers: bootWorkers, Stream: stream(p, pa.Name, fam.Name()), Fit: opt, Drawn: drawn}}
 	if info, err := infer.ObservedInformation(fam, fit, d); err == nil {
 		settings.Information = info
 	}

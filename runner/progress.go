@@ -8,19 +8,21 @@ import (
 	"time"
 )
 
-// progress redraws one status line (tasks done / total, elapsed, ETA) on a
-// terminal every quarter second until stopped.
+// progress redraws one status line (tasks done / total, bootstrap
+// replicates drawn, elapsed, ETA) on a terminal every quarter second until
+// stopped.
 type progress struct {
 	w     io.Writer
 	total int
 	done  *atomic.Int64
+	drawn *atomic.Int64
 	start time.Time
 	quit  chan struct{}
 	wg    sync.WaitGroup
 }
 
-func startProgress(w io.Writer, total int, done *atomic.Int64) *progress {
-	p := &progress{w: w, total: total, done: done, start: time.Now(), quit: make(chan struct{})}
+func startProgress(w io.Writer, total int, done, drawn *atomic.Int64) *progress {
+	p := &progress{w: w, total: total, done: done, drawn: drawn, start: time.Now(), quit: make(chan struct{})}
 	p.wg.Add(1)
 	go func() {
 		defer p.wg.Done()
@@ -41,7 +43,11 @@ func startProgress(w io.Writer, total int, done *atomic.Int64) *progress {
 }
 
 func (p *progress) draw() {
-	fmt.Fprintf(p.w, "\r%s", progressLine(int(p.done.Load()), p.total, time.Since(p.start)))
+	line := progressLine(int(p.done.Load()), p.total, time.Since(p.start))
+	if n := p.drawn.Load(); n > 0 {
+		line += fmt.Sprintf("bootstrap replicates %d   ", n)
+	}
+	fmt.Fprintf(p.w, "\r%s", line)
 }
 
 func (p *progress) stop() {

@@ -27,6 +27,9 @@ type BootstrapOptions struct {
 	// NoStatistics skips the goodness-of-fit statistics of each replicate,
 	// for replicates that serve intervals only.
 	NoStatistics bool
+	// Drawn, when not nil, is incremented as each replicate starts, for a
+	// progress display; it never changes a result.
+	Drawn *atomic.Int64
 }
 
 // ErrBootstrapNotApplicable is matched by the error Bootstrap returns for
@@ -152,6 +155,9 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				r := int(next.Add(1) - 1)
 				if r >= B {
 					return
+				}
+				if opt.Drawn != nil {
+					opt.Drawn.Add(1)
 				}
 				stream.reseed(pcg, r)
 				if groups == nil {
