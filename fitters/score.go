@@ -283,3 +283,22 @@ func (f invgaussFamily) Score(p []float64, d *Data) []float64 {
 	censoredScore(f.New, p, d, []float64{0, 0}, g)
 	return g
 }
+
+// scorer is a family with an analytic score.
+type scorer interface {
+	Score(params []float64, d *Data) []float64
+}
+
+// AnalyticScore returns the analytic score of f (∂ LogLik/∂θ in Parameters
+// order), seeing through the checks every registered family is wrapped in,
+// and false when the family has none. Families from Lookup are wrapped, so a
+// type assertion on them never finds a Score method.
+func AnalyticScore(f Family) (func(params []float64, d *Data) []float64, bool) {
+	if c, ok := f.(checkedFamily); ok {
+		f = c.Family
+	}
+	if s, ok := f.(scorer); ok {
+		return s.Score, true
+	}
+	return nil, false
+}

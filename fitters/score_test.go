@@ -11,8 +11,8 @@ import (
 	"gonum.org/v1/gonum/diff/fd"
 )
 
-// scorer is a family with an analytic score (score.go).
-type scorer interface {
+// scoredFam is a family with an analytic score (score.go).
+type scoredFam interface {
 	Family
 	Score(params []float64, d *Data) []float64
 }
@@ -72,7 +72,7 @@ func loadScoreRefs(t *testing.T) []scoreRef {
 
 // scoredFamily unwraps the registered family (checkedFamily) and asserts it
 // has a Score.
-func scoredFamily(t *testing.T, name string) scorer {
+func scoredFamily(t *testing.T, name string) scoredFam {
 	t.Helper()
 	f, ok := registry[name]
 	if !ok {
@@ -81,7 +81,7 @@ func scoredFamily(t *testing.T, name string) scorer {
 	if c, ok := f.(checkedFamily); ok {
 		f = c.Family
 	}
-	s, ok := f.(scorer)
+	s, ok := f.(scoredFam)
 	if !ok {
 		t.Fatalf("%s has no Score method", name)
 	}
@@ -229,6 +229,37 @@ func TestScoreInvalidParameters(t *testing.T) {
 		for i, v := range f.Score(p, d) {
 			if !math.IsNaN(v) {
 				t.Errorf("%s: Score(%v)[%d] = %v, want NaN", name, p, i, v)
+			}
+		}
+	}
+}
+
+// TestAnalyticScore checks that AnalyticScore finds the score of exactly
+// the scored families through Lookup's wrapper, and that it is their Score.
+func TestAnalyticScore(t *testing.T) {
+	want := map[string]bool{}
+	for _, n := range scoredFamilies {
+		want[n] = true
+	}
+	d := Complete([]float64{0.5, 1.5, 2.5, 4})
+	for _, f := range Families() {
+		score, ok := AnalyticScore(f)
+		if ok != want[f.Name()] {
+			t.Errorf("AnalyticScore(%s) found = %v, want %v", f.Name(), ok, want[f.Name()])
+			continue
+		}
+		if !ok {
+			continue
+		}
+		p := make([]float64, len(f.Parameters()))
+		for i := range p {
+			p[i] = 1.5
+		}
+		got, direct := score(p, d), scoredFamily(t, f.Name()).Score(p, d)
+		for i := range got {
+			if got[i] != direct[i] {
+				t.Errorf("%s: AnalyticScore gives %v, Score gives %v", f.Name(), got, direct)
+				break
 			}
 		}
 	}
