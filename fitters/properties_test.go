@@ -183,12 +183,6 @@ func TestPropertyDensityIntegrates(t *testing.T) {
 	}
 }
 
-// scoreFamily is implemented by a family that exposes the analytic score
-// ∂ ln L/∂θ of its LogLik, in Parameters order.
-type scoreFamily interface {
-	Score(params []float64, d *fitters.Data) []float64
-}
-
 // stepScale is the natural unit of a parameter for perturbations and finite
 // differences: its magnitude, or the floor of paramTolerance where it may sit
 // near zero.
@@ -197,7 +191,7 @@ func stepScale(family, name string, v float64, p map[string]float64) float64 {
 }
 
 // TestPropertyScore compares an analytic score, where a family exposes one
-// (scoreFamily), with central finite differences of LogLik (gonum/diff/fd)
+// (fitters.AnalyticScore), with central finite differences of LogLik (gonum/diff/fd)
 // at random parameter vectors near the reference optimum of each mle.json
 // dataset. Families without an analytic score are skipped.
 func TestPropertyScore(t *testing.T) {
@@ -209,7 +203,7 @@ func TestPropertyScore(t *testing.T) {
 		}
 		t.Run(ref.Family+"/"+ref.Name, func(t *testing.T) {
 			f := lookup(t, ref.Family)
-			sf, ok := f.(scoreFamily)
+			score, ok := fitters.AnalyticScore(f)
 			if !ok {
 				t.Skipf("%s exposes no analytic score (Score(params, data) []float64)", ref.Family)
 			}
@@ -225,7 +219,7 @@ func TestPropertyScore(t *testing.T) {
 					}
 				}
 				ll := f.LogLik(theta, d)
-				g := sf.Score(theta, d)
+				g := score(theta, d)
 				if len(g) != len(theta) {
 					t.Fatalf("Score returned %d components for %d parameters", len(g), len(theta))
 				}
