@@ -35,11 +35,12 @@ func edfStatistics(d fitters.Dist, x, logF, logS []float64, out *[3]float64) {
 	var ks, cvm float64
 	upper := false
 	for i, v := range x {
-		var lf, ls float64
+		var lf, ls, f float64
 		if !upper {
 			lf = d.LogCDF(v)
 			if lf < -math.Ln2 {
-				ls = math.Log1p(-math.Exp(lf))
+				f = math.Exp(lf) // F itself, also needed for D and W²
+				ls = math.Log1p(-f)
 			} else {
 				upper = true
 			}
@@ -47,9 +48,9 @@ func edfStatistics(d fitters.Dist, x, logF, logS []float64, out *[3]float64) {
 		if upper {
 			ls = d.LogSurvival(v)
 			lf = log1mExp(ls)
+			f = math.Exp(lf)
 		}
 		logS[i] = ls
-		f := math.Exp(lf)
 		fi := float64(i)
 		ks = math.Max(ks, math.Max((fi+1)/nf-f, f-fi/nf))
 		e := f - (2*fi+1)/(2*nf)
