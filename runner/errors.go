@@ -111,10 +111,11 @@ func Hints(err error) []string {
 	return out
 }
 
-// closest returns the candidate nearest to s by edit distance, if it is
+// Closest returns the candidate nearest to s by edit distance, if it is
 // near enough to be a likely typo (distance at most 2, or at most a third of
-// the word for long words), and "" otherwise.
-func closest(s string, candidates []string) string {
+// the word for long words), and "" otherwise; the CLI uses it for command
+// names too.
+func Closest(s string, candidates []string) string {
 	best, bestD := "", -1
 	limit := max(2, len(s)/3)
 	for _, c := range candidates {
@@ -128,7 +129,7 @@ func closest(s string, candidates []string) string {
 
 // didYouMean is a hint naming the closest candidate, or "".
 func didYouMean(s string, candidates []string) string {
-	if c := closest(s, candidates); c != "" {
+	if c := Closest(s, candidates); c != "" {
 		return fmt.Sprintf("did you mean %q?", c)
 	}
 	return ""

@@ -14,6 +14,8 @@ import (
 	"os/signal"
 	"sort"
 	"strings"
+
+	"fitseal/runner"
 )
 
 // command is one subcommand: its one-line summary and its entry point.
@@ -73,7 +75,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	c, ok := commands[args[0]]
 	if !ok {
 		fmt.Fprintf(stderr, "fitseal: error: unknown command %q\n", args[0])
-		if s := closest(args[0], commandNames()); s != "" {
+		if s := runner.Closest(args[0], commandNames()); s != "" {
 			fmt.Fprintf(stderr, "fitseal: hint: did you mean %q?\n", s)
 		}
 		fmt.Fprintln(stderr, "fitseal: hint: run 'fitseal help' for the list of commands")
@@ -136,35 +138,4 @@ func parseFlags(fs *flag.FlagSet, args []string) error {
 		return usageError{fmt.Errorf("%s: %w", fs.Name(), err)}
 	}
 	return nil
-}
-
-// closest returns the candidate within edit distance 2 of s, if any.
-func closest(s string, candidates []string) string {
-	best, bestD := "", 3
-	for _, c := range candidates {
-		if d := editDistance(s, c); d < bestD {
-			best, bestD = c, d
-		}
-	}
-	return best
-}
-
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
 }
