@@ -105,8 +105,10 @@ func init() { register(gevFamily{}) }
 func (gevFamily) Name() string         { return "gev" }
 func (gevFamily) Parameters() []string { return []string{"location", "scale", "shape"} }
 func (gevFamily) Kind() Kind           { return Continuous }
+// Support is where 1 + ξ(x − μ)/σ > 0: bounded below for ξ > 0, above for
+// ξ < 0, the real line for ξ = 0.
 func (gevFamily) Support() string {
-	return "1 + shape(x − location)/scale > 0 (x > endpoint for shape > 0, x < endpoint for shape < 0, real for 0)"
+	return "1 + shape·(x − location)/scale > 0"
 }
 func (gevFamily) Route() string {
 	return "BFGS on (location, log scale, shape) with analytic score from probability-weighted-moment, Gumbel and spread starts; shape < −1 (unbounded likelihood) is searched for an interior local maximum; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values"

@@ -78,8 +78,9 @@ func init() { register(gpdFamily{}) }
 func (gpdFamily) Name() string         { return "gpd" }
 func (gpdFamily) Parameters() []string { return []string{"scale", "shape", "threshold"} }
 func (gpdFamily) Kind() Kind           { return Continuous }
+// Support is x ≥ threshold, and x ≤ threshold − σ/ξ as well for ξ < 0.
 func (gpdFamily) Support() string {
-	return "x ≥ threshold (and x < threshold − scale/shape for shape < 0); threshold fixed"
+	return "x ≥ threshold (fixed)"
 }
 func (gpdFamily) Route() string {
 	return "BFGS on (log scale, shape) of the excesses over the fixed threshold, analytic score, from moment, probability-weighted-moment, exponential and spread starts; shape ≤ −1 (unbounded likelihood) is searched for an interior local maximum; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values"
