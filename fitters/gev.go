@@ -105,6 +105,7 @@ func init() { register(gevFamily{}) }
 func (gevFamily) Name() string         { return "gev" }
 func (gevFamily) Parameters() []string { return []string{"location", "scale", "shape"} }
 func (gevFamily) Kind() Kind           { return Continuous }
+
 // Support is where 1 + ξ(x − μ)/σ > 0: bounded below for ξ > 0, above for
 // ξ < 0, the real line for ξ = 0.
 func (gevFamily) Support() string {

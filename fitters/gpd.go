@@ -78,6 +78,7 @@ func init() { register(gpdFamily{}) }
 func (gpdFamily) Name() string         { return "gpd" }
 func (gpdFamily) Parameters() []string { return []string{"scale", "shape", "threshold"} }
 func (gpdFamily) Kind() Kind           { return Continuous }
+
 // Support is x ≥ threshold, and x ≤ threshold − σ/ξ as well for ξ < 0.
 func (gpdFamily) Support() string {
 	return "x ≥ threshold (fixed)"
