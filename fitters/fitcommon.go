@@ -51,6 +51,18 @@ func (fit *Fit) setOptimum(o optimum, estimates []float64, method string) {
 	fit.LogLik = -o.negLogLik
 }
 
+// setSolved records the complete-data solution of a two-parameter family's
+// estimating equations: the convergence record always, the estimates and
+// the log-likelihood only when the solve converged (a failed solve leaves
+// them NaN, so no unconverged number is ever reported).
+func (fit *Fit) setSolved(a, b, logLik float64, conv Convergence) {
+	fit.Convergence = conv
+	if conv.Converged {
+		fit.Estimates = []float64{a, b}
+		fit.LogLik = logLik
+	}
+}
+
 // noFixed refuses fixed parameters for a family that has none to fix.
 func noFixed(family string, fixed Fixed) error {
 	for name := range fixed {

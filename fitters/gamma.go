@@ -226,12 +226,7 @@ func (f gammaFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {
-		k, b, ll, conv := gammaMLE(d.Exact, opt)
-		fit.Convergence = conv
-		if conv.Converged {
-			fit.Estimates = []float64{k, b}
-			fit.LogLik = ll
-		}
+		fit.setSolved(gammaMLE(d.Exact, opt))
 		return fit, nil
 	}
 	k0, b0 := 1.0, 1.0

@@ -156,12 +156,7 @@ func (f gumbelFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {
-		m, s, ll, conv := gumbelMLE(d.Exact, opt)
-		fit.Convergence = conv
-		if conv.Converged {
-			fit.Estimates = []float64{m, s}
-			fit.LogLik = ll
-		}
+		fit.setSolved(gumbelMLE(d.Exact, opt))
 		return fit, nil
 	}
 	m0, s0 := locScaleStart(startSample(d, 2, false), math.Sqrt(6)/math.Pi)

@@ -121,12 +121,7 @@ func (f loglogisticFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {
-		a, b, ll, conv := loglogisticMLE(d.Exact, opt)
-		fit.Convergence = conv
-		if conv.Converged {
-			fit.Estimates = []float64{a, b}
-			fit.LogLik = ll
-		}
+		fit.setSolved(loglogisticMLE(d.Exact, opt))
 		return fit, nil
 	}
 	a0, b0 := 1.0, 1.0

@@ -172,12 +172,7 @@ func (f weibullFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {
-		k, s, ll, conv := weibullMLE(d.Exact, opt)
-		fit.Convergence = conv
-		if conv.Converged {
-			fit.Estimates = []float64{k, s}
-			fit.LogLik = ll
-		}
+		fit.setSolved(weibullMLE(d.Exact, opt))
 		return fit, nil
 	}
 	k0, s0 := 1.0, 1.0
