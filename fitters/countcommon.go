@@ -247,3 +247,21 @@ func countStirlingTail(z float64) float64 {
 	r2 := r * r
 	return r * (1.0/12 - r2*(1.0/360-r2*(1.0/1260-r2*(1.0/1680-r2/1188))))
 }
+
+// countLogLik is Σ ln p(xᵢ) over the exact counts for a family whose member
+// needs no per-observation trials; NaN for censored data (count families do
+// not take censoring) and −Inf for invalid parameters.
+func countLogLik(f Family, params []float64, d *Data) float64 {
+	if !d.IsComplete() {
+		return math.NaN()
+	}
+	dist, err := f.New(params)
+	if err != nil {
+		return math.Inf(-1)
+	}
+	var ll float64
+	for _, x := range d.Exact {
+		ll += dist.LogPDF(x)
+	}
+	return ll
+}

@@ -83,21 +83,7 @@ func (geometricFamily) New(p []float64) (Dist, error) {
 }
 
 // LogLik is n·ln p + Σx·ln(1 − p); NaN for censored data.
-func (f geometricFamily) LogLik(p []float64, d *Data) float64 {
-	if !d.IsComplete() {
-		return math.NaN()
-	}
-	dist, err := f.New(p)
-	if err != nil {
-		return math.Inf(-1)
-	}
-	g := dist.(Geometric)
-	var ll float64
-	for _, x := range d.Exact {
-		ll += g.LogPDF(x)
-	}
-	return ll
-}
+func (f geometricFamily) LogLik(p []float64, d *Data) float64 { return countLogLik(f, p, d) }
 
 func (f geometricFamily) Applicable(d *Data, fixed Fixed) error {
 	if err := noFixed(f.Name(), fixed); err != nil {

@@ -156,21 +156,7 @@ func (negBinomialFamily) New(p []float64) (Dist, error) {
 }
 
 // LogLik is Σ ln P(X = x_i) with the constants −ln x_i!; NaN for censored data.
-func (f negBinomialFamily) LogLik(p []float64, d *Data) float64 {
-	if !d.IsComplete() {
-		return math.NaN()
-	}
-	dist, err := f.New(p)
-	if err != nil {
-		return math.Inf(-1)
-	}
-	nb := dist.(NegBinomial)
-	var ll float64
-	for _, x := range d.Exact {
-		ll += nb.LogPDF(x)
-	}
-	return ll
-}
+func (f negBinomialFamily) LogLik(p []float64, d *Data) float64 { return countLogLik(f, p, d) }
 
 func (f negBinomialFamily) Applicable(d *Data, fixed Fixed) error {
 	if err := noFixed(f.Name(), fixed); err != nil {

@@ -89,21 +89,7 @@ func (poissonFamily) New(p []float64) (Dist, error) {
 }
 
 // LogLik is Σx·ln λ − nλ − Σ ln x!; NaN for censored data (see countcommon.go).
-func (f poissonFamily) LogLik(p []float64, d *Data) float64 {
-	if !d.IsComplete() {
-		return math.NaN()
-	}
-	dist, err := f.New(p)
-	if err != nil {
-		return math.Inf(-1)
-	}
-	pd := dist.(Poisson)
-	var ll float64
-	for _, x := range d.Exact {
-		ll += pd.LogPDF(x)
-	}
-	return ll
-}
+func (f poissonFamily) LogLik(p []float64, d *Data) float64 { return countLogLik(f, p, d) }
 
 func (f poissonFamily) Applicable(d *Data, fixed Fixed) error {
 	if err := noFixed(f.Name(), fixed); err != nil {
