@@ -214,13 +214,8 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		return nil, err
 	}
 	fit := newFit(f, d)
-	natStarts := gevStarts(d.Values())
 	// Optimise on θ = ((μ − C)/S, ln(σ/S), ξ), the data's own units.
-	ls := locScale{natStarts[0][0], math.Exp(natStarts[0][1])}
-	starts := make([][]float64, len(natStarts))
-	for i, s := range natStarts {
-		starts[i] = ls.toTheta(s)
-	}
+	ls, starts := standardisedStarts(gevStarts(d.Values()))
 	natural := func(t []float64) []float64 {
 		u := ls.fromTheta(t)
 		return []float64{u[0], math.Exp(u[1]), u[2]}

@@ -170,6 +170,19 @@ func logRegIncBeta(a, b, x, y float64) float64 {
 // (x·10⁵ or x·10⁻⁶) would stop at a different point.
 type locScale struct{ C, S float64 }
 
+// standardisedStarts takes starts on (μ, ln σ, …) and returns the scale
+// θ = ((μ − C)/S, ln(σ/S), …) centred on the first start (C = μ₀, S = σ₀),
+// so the optimiser works in the data's own units, with the starts mapped
+// onto it.
+func standardisedStarts(nat [][]float64) (locScale, [][]float64) {
+	ls := locScale{nat[0][0], math.Exp(nat[0][1])}
+	starts := make([][]float64, len(nat))
+	for i, s := range nat {
+		starts[i] = ls.toTheta(s)
+	}
+	return ls, starts
+}
+
 func (l locScale) toTheta(nat []float64) []float64 {
 	th := append([]float64(nil), nat...)
 	th[0] = (nat[0] - l.C) / l.S

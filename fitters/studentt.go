@@ -235,13 +235,8 @@ func (f studentTFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		return nil, err
 	}
 	fit := newFit(f, d)
-	natStarts := studentTStarts(d.Values())
 	// Optimise on θ = ((μ − C)/S, ln(σ/S), ln ν), the data's own units.
-	ls := locScale{natStarts[0][0], math.Exp(natStarts[0][1])}
-	starts := make([][]float64, len(natStarts))
-	for i, s := range natStarts {
-		starts[i] = ls.toTheta(s)
-	}
+	ls, starts := standardisedStarts(studentTStarts(d.Values()))
 	natural := func(t []float64) []float64 {
 		u := ls.fromTheta(t)
 		return []float64{u[0], math.Exp(u[1]), math.Exp(u[2])}
