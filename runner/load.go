@@ -142,7 +142,7 @@ func (l *loader) settings(s *Settings, t *table) {
 			l.errorf(t.key("seed"), "use a non-negative integer such as 20261202", "%d is negative", v)
 		}
 		s.Seed = uint64(v)
-	} else if _, present := t.m["seed"]; !present {
+	} else if t.absent("seed") {
 		t.defaulted("seed")
 	}
 	s.Criterion = l.choice(t, "criterion", DefaultCriterion, Criteria)
@@ -152,7 +152,7 @@ func (l *loader) settings(s *Settings, t *table) {
 			l.errorf(t.key("confidence"), "write it as a probability, e.g. 0.95 for 95 %", "%v is not in (0, 1)", v)
 		}
 		s.Confidence = v
-	} else if _, present := t.m["confidence"]; !present {
+	} else if t.absent("confidence") {
 		t.defaulted("confidence")
 	}
 	s.Intervals = l.choice(t, "intervals", DefaultIntervals, IntervalMethods)
@@ -163,7 +163,7 @@ func (l *loader) settings(s *Settings, t *table) {
 		} else {
 			s.Bootstrap = int(v)
 		}
-	} else if _, present := t.m["bootstrap"]; !present {
+	} else if t.absent("bootstrap") {
 		t.defaulted("bootstrap")
 	}
 	if s.Intervals == "bootstrap" && s.Bootstrap == 0 {
@@ -176,7 +176,7 @@ func (l *loader) settings(s *Settings, t *table) {
 			l.errorf(t.key("tolerance"), "a relative tolerance such as 1e-10", "%v is not in (0, 1)", v)
 		}
 		s.Tolerance = v
-	} else if _, present := t.m["tolerance"]; !present {
+	} else if t.absent("tolerance") {
 		t.defaulted("tolerance")
 	}
 	s.MaxIterations = DefaultMaxIterations
@@ -186,12 +186,12 @@ func (l *loader) settings(s *Settings, t *table) {
 		} else {
 			s.MaxIterations = int(v)
 		}
-	} else if _, present := t.m["max_iterations"]; !present {
+	} else if t.absent("max_iterations") {
 		t.defaulted("max_iterations")
 	}
 	if v, ok := t.boolean("require_clean_git"); ok {
 		s.RequireCleanGit = v
-	} else if _, present := t.m["require_clean_git"]; !present {
+	} else if t.absent("require_clean_git") {
 		t.defaulted("require_clean_git")
 	}
 	t.done()
@@ -201,7 +201,7 @@ func (l *loader) settings(s *Settings, t *table) {
 func (l *loader) choice(t *table, k, def string, choices []string) string {
 	v, ok := t.str(k)
 	if !ok {
-		if _, present := t.m[k]; !present {
+		if t.absent(k) {
 			t.defaulted(k)
 		}
 		return def
@@ -223,12 +223,12 @@ func (l *loader) report(p *Project, r *Report, t *table) {
 	r.PDF, r.Figures = true, true
 	if v, ok := t.boolean("pdf"); ok {
 		r.PDF = v
-	} else if _, present := t.m["pdf"]; !present {
+	} else if t.absent("pdf") {
 		t.defaulted("pdf")
 	}
 	if v, ok := t.boolean("figures"); ok {
 		r.Figures = v
-	} else if _, present := t.m["figures"]; !present {
+	} else if t.absent("figures") {
 		t.defaulted("figures")
 	}
 	r.Tables = append([]string(nil), TableFormats...)
@@ -244,7 +244,7 @@ func (l *loader) report(p *Project, r *Report, t *table) {
 			}
 			seen[f] = true
 		}
-	} else if _, present := t.m["tables"]; !present {
+	} else if t.absent("tables") {
 		t.defaulted("tables")
 	}
 	if v, ok := t.str("templates"); ok {

@@ -15,13 +15,13 @@ func (l *loader) dataset(p *Project, t *table) *Dataset {
 	if v, ok := t.str("name"); ok {
 		d.Name = v
 		l.checkName(t.key("name"), v, "a dataset")
-	} else if _, present := t.m["name"]; !present {
+	} else if t.absent("name") {
 		l.errorf(t.key("name"), `add name = "…" to this [[dataset]]`, "is required")
 	}
 	if v, ok := t.str("file"); ok {
 		d.File = v
 		l.localPath(p, t.key("file"), v, false)
-	} else if _, present := t.m["file"]; !present {
+	} else if t.absent("file") {
 		l.errorf(t.key("file"), `add file = "data/….csv", relative to the project file`, "is required")
 	}
 	d.Column, _ = t.str("column")
@@ -37,7 +37,7 @@ func (l *loader) dataset(p *Project, t *table) *Dataset {
 		default:
 			d.Delimiter = v
 		}
-	} else if _, present := t.m["delimiter"]; !present {
+	} else if t.absent("delimiter") {
 		t.defaulted("delimiter")
 	}
 	d.StatusColumn, _ = t.str("status_column")
@@ -67,7 +67,7 @@ func (l *loader) dataset(p *Project, t *table) *Dataset {
 	d.Missing = append([]string(nil), DefaultMissing...)
 	if v, ok := t.strings("missing"); ok {
 		d.Missing = v
-	} else if _, present := t.m["missing"]; !present {
+	} else if t.absent("missing") {
 		t.defaulted("missing")
 	}
 	t.done()
@@ -90,7 +90,7 @@ func (l *loader) checkDatasetColumns(d *Dataset, t *table) {
 		l.errorf(t.key("column"), "remove column: interval data take their values from lower_column and upper_column",
 			"cannot be given together with lower_column and upper_column")
 	case !interval && d.Column == "":
-		if _, present := t.m["column"]; !present {
+		if t.absent("column") {
 			l.errorf(t.key("column"), `add column = "…", the header of the observations`, "is required (or lower_column and upper_column for interval data)")
 		}
 	}
@@ -104,7 +104,7 @@ func (l *loader) checkDatasetColumns(d *Dataset, t *table) {
 	}
 	if d.StatusColumn == "" {
 		for _, k := range []string{"left", "right"} {
-			if _, present := t.m[k]; present {
+			if !t.absent(k) {
 				l.errorf(t.key(k), `add status_column = "…", the column holding these codes`, "needs status_column")
 			}
 		}
@@ -153,7 +153,7 @@ func (l *loader) candidates(t *table) *CandidateSet {
 	if v, ok := t.str("name"); ok {
 		c.Name = v
 		l.checkName(t.key("name"), v, "a candidate set")
-	} else if _, present := t.m["name"]; !present {
+	} else if t.absent("name") {
 		l.errorf(t.key("name"), `add name = "…" to this [[candidates]]`, "is required")
 	}
 	known := familyNames()
@@ -187,7 +187,7 @@ func (l *loader) candidates(t *table) *CandidateSet {
 				"mixes discrete families (%s) with continuous ones (%s): their likelihoods are not on the same footing",
 				joinQuoted(kinds[fitters.Discrete]), joinQuoted(kinds[fitters.Continuous]))
 		}
-	} else if _, present := t.m["families"]; !present {
+	} else if t.absent("families") {
 		l.errorf(t.key("families"), `add families = ["weibull", "lognormal", …]`, "is required")
 	}
 	if ft, ok := t.sub("fixed"); ok {
@@ -242,13 +242,13 @@ func (l *loader) analysis(p *Project, t *table) *Analysis {
 		if p.Dataset(v) == nil {
 			l.errorf(t.key("dataset"), hintAmong(v, datasetNames(p), "dataset"), "no [[dataset]] is named %q", v)
 		}
-	} else if _, present := t.m["dataset"]; !present {
+	} else if t.absent("dataset") {
 		l.errorf(t.key("dataset"), `add dataset = "…", the name of a [[dataset]]`, "is required")
 	}
 	if v, ok := t.str("name"); ok {
 		a.Name = v
 		l.checkName(t.key("name"), v, "an analysis")
-	} else if _, present := t.m["name"]; !present {
+	} else if t.absent("name") {
 		a.Name = a.Dataset
 		t.defaulted("name")
 	}
@@ -257,10 +257,10 @@ func (l *loader) analysis(p *Project, t *table) *Analysis {
 		if p.CandidateSet(v) == nil {
 			l.errorf(t.key("candidates"), hintAmong(v, candidateNames(p), "candidates"), "no [[candidates]] set is named %q", v)
 		}
-	} else if _, present := t.m["candidates"]; !present {
+	} else if t.absent("candidates") {
 		l.errorf(t.key("candidates"), `add candidates = "…", the name of a [[candidates]] set`, "is required")
 	}
-	if _, present := t.m["criterion"]; present {
+	if !t.absent("criterion") {
 		a.Criterion = l.choice(t, "criterion", p.Settings.Criterion, Criteria)
 	} else {
 		t.read["criterion"] = true

@@ -52,6 +52,13 @@ func (t *table) get(k string) (any, bool) {
 }
 
 // defaulted records that key k took its default.
+// absent reports whether the table has no key k at all (a key of the wrong
+// type is present, and its getter has already reported it).
+func (t *table) absent(k string) bool {
+	_, ok := t.m[k]
+	return !ok
+}
+
 func (t *table) defaulted(k string) { t.l.defaulted = append(t.l.defaulted, t.key(k)) }
 
 func tomlType(v any) string {
