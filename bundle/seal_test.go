@@ -233,7 +233,7 @@ func TestRerun(t *testing.T) {
 // comparison at and beyond its bound.
 func TestCrossPlatformTolerances(t *testing.T) {
 	agree := crossPlatform(99)
-	boot := map[string]string{"ci_method": "percentile bootstrap", "ci_lower": "1", "ci_upper": "3"}
+	boot := map[string]string{"ci_method": "bootstrap-t (log scale, B = 99)", "ci_lower": "1", "ci_upper": "3"}
 	tests := []struct {
 		name   string
 		column string

@@ -114,7 +114,7 @@ func TestBootstrapInsideFitIsDeterministic(t *testing.T) {
 			t.Errorf("-j 8: %s differs from -j 1", name)
 		}
 	}
-	if !bytes.Contains(ref[ParametersFile], []byte("bootstrap percentile (B = 40)")) {
+	if !bytes.Contains(ref[ParametersFile], []byte("bootstrap-t (log scale, B = 40)")) {
 		t.Errorf("parameters.csv lacks bootstrap intervals:\n%s", ref[ParametersFile])
 	}
 }

@@ -46,8 +46,11 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 	if err != nil {
 		return nil, err
 	}
+	// The replicates' observed information serves the bootstrap-t intervals
+	// only: a bootstrap for goodness of fit alone does not compute it.
 	settings := infer.Settings{Level: s.Confidence, Bootstrap: infer.BootstrapOptions{
-		Replicates: s.Bootstrap, Workers: bootWorkers, Stream: stream(p, pa.Name, fam.Name()), Fit: opt, Drawn: drawn}}
+		Replicates: s.Bootstrap, Workers: bootWorkers, Stream: stream(p, pa.Name, fam.Name()), Fit: opt, Drawn: drawn,
+		Information: method == infer.MethodBootstrap}}
 	if info, err := infer.ObservedInformation(fam, fit, d); err == nil {
 		settings.Information = info
 	}

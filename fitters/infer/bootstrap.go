@@ -10,6 +10,8 @@ import (
 	"sync/atomic"
 
 	"fitseal/fitters"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // BootstrapOptions configures a parametric bootstrap.
@@ -27,6 +29,11 @@ type BootstrapOptions struct {
 	// NoStatistics skips the goodness-of-fit statistics of each replicate,
 	// for replicates that serve intervals only.
 	NoStatistics bool
+	// Information also computes the observed information of each refit on
+	// its simulated data (ObservedInformation: analytic where the family has
+	// it, finite differences otherwise) and keeps the free-parameter
+	// covariance, which the bootstrap-t intervals studentize by.
+	Information bool
 	// Drawn, when not nil, is incremented as each replicate starts, for a
 	// progress display; it never changes a result.
 	Drawn *atomic.Int64
@@ -48,6 +55,17 @@ type Replicates struct {
 	// (nil when it failed, or when they were not asked for).
 	StatNames  []string
 	Statistics [][]float64
+	// Covariances[r] is the inverse observed information of replicate r's
+	// refit over the free parameters of the original fit (in
+	// Information.Free order), when BootstrapOptions.Information asked for
+	// it; nil when the refit failed or its information was singular,
+	// indefinite or not finite.
+	Covariances []*mat.SymDense
+	// NoCovariance counts replicates that gave estimates but no covariance
+	// (asked for); FirstNoCovariance is the reason of the lowest-numbered one.
+	NoCovariance      int
+	FirstNoCovariance string
+	firstNoCovariance int
 	// Failed counts replicates whose refit failed or did not converge;
 	// FirstFailure is the reason of the lowest-numbered one.
 	Failed       int
@@ -89,7 +107,9 @@ func bootstrapApplicable(d *fitters.Data, dist fitters.Dist) error {
 // §6.5): replicate r draws n values from the fitted model with the stream
 // opt.Stream (replicate r), refits the family with the original fixed
 // parameters, and records the refit's estimates and its goodness-of-fit
-// statistics on the simulated values. Replicates run on opt.Workers
+// statistics on the simulated values (and, with opt.Information, the
+// inverse observed information of the refit on those values, which the
+// bootstrap-t intervals need). Replicates run on opt.Workers
 // goroutines; each writes only its own slot, so the result is the same for
 // any number of workers. Each worker reuses its sample, sort and cell
 // buffers and its generator; the refit itself allocates.
@@ -134,6 +154,11 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 	rep := &Replicates{Requested: B, StatNames: names,
 		Estimates: make([][]float64, B), Statistics: make([][]float64, B)}
 	reasons := make([]string, B)
+	var noCov []string
+	if opt.Information {
+		rep.Covariances = make([]*mat.SymDense, B)
+		noCov = make([]string, B)
+	}
 	n := len(d.Exact)
 
 	var next atomic.Int64
@@ -188,6 +213,19 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				row := est[r*k : (r+1)*k]
 				copy(row, refit.Estimates)
 				rep.Estimates[r] = row
+				if opt.Information {
+					// sim.Exact is still replicate r's sample: the refit's
+					// information is taken on the data it was fitted to.
+					info, err := ObservedInformation(fam, refit, sim)
+					if err != nil || (info.Covariance == nil && len(info.Free) > 0) {
+						noCov[r] = "no covariance"
+						if err != nil {
+							noCov[r] = err.Error()
+						}
+					} else {
+						rep.Covariances[r] = info.Covariance
+					}
+				}
 				if opt.NoStatistics {
 					continue
 				}
@@ -215,6 +253,15 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				rep.FirstFailure = fmt.Sprintf("replicate %d: %s", r, why)
 			}
 			rep.Failed++
+		}
+	}
+	for r, why := range noCov {
+		if why != "" {
+			if rep.NoCovariance == 0 {
+				rep.FirstNoCovariance = fmt.Sprintf("replicate %d: %s", r, why)
+				rep.firstNoCovariance = r
+			}
+			rep.NoCovariance++
 		}
 	}
 	return rep, nil

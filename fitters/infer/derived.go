@@ -103,10 +103,17 @@ func quantityScale(fam fitters.Family, fit *fitters.Fit, q Quantity, est float64
 //     bracketed root finding, and the others are maximised over by BFGS
 //     (no penalty, no Lagrange multiplier); the interval is
 //     {ψ : ℓp(ψ) ≥ ℓ̂ − χ²₁(level)/2} (Coles, 2001, §4.3.3 for return levels).
-//   - Bootstrap: percentiles of ψ over the replicates' refits.
+//   - Bootstrap-t on the same scale as the delta method: the pivots
+//     t*ᵣ = (t(ψ*ᵣ) − t̂)/se*ᵣ over the replicates, se*ᵣ the delta-method
+//     standard error at replicate r's refit from its own observed
+//     information, give t⁻¹(t̂ − t*₍₍₁₊L₎/₂₎·se(t̂), t̂ − t*₍₍₁₋L₎/₂₎·se(t̂))
+//     (Efron & Tibshirani, 1993, §12.5; Davison & Hinkley, 1997, §5.2.1);
+//     percentiles of ψ over the replicates when the estimate has no
+//     standard error (see Intervals).
 //
 // A quantile of a discrete family is a step function of the parameters,
-// so it gets bootstrap intervals only.
+// so it has no delta-method standard error and gets bootstrap percentile
+// intervals only.
 func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, arg float64, method Method, s Settings) (DerivedValue, error) {
 	level, err := s.level()
 	if err != nil {
@@ -124,7 +131,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 	case MethodProfile:
 		out.Method = "profile likelihood"
 	case MethodBootstrap:
-		out.Method = "bootstrap percentile"
+		out.Method = "bootstrap-t"
 	default:
 		return out, fmt.Errorf("unknown interval method %q", method)
 	}
@@ -215,26 +222,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 			out.Note = err.Error()
 			break
 		}
-		vals := make([]float64, 0, rep.Requested)
-		undefined := 0
-		for _, e := range rep.Estimates {
-			if e == nil {
-				continue
-			}
-			if v := g(e); !math.IsNaN(v) {
-				vals = append(vals, v)
-			} else {
-				undefined++
-			}
-		}
-		out.Method = fmt.Sprintf("bootstrap percentile (B = %d)", len(vals))
-		out.Lower, out.Upper = percentileInterval(vals, level)
-		if rep.Failed > 0 {
-			out.Note = fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure)
-		}
-		if undefined > 0 {
-			out.Note = joinNote(out.Note, fmt.Sprintf("the quantity is undefined for %d replicates, left out", undefined))
-		}
+		bootstrapDerived(&out, rep, g, sc, free, seT, infoErr, discreteQuantile, level)
 	}
 	return out, nil
 }

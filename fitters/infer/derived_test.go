@@ -102,3 +102,31 @@ func TestNormalQuantileProfile(t *testing.T) {
 		t.Errorf("delta: %v [%v, %v], want se %v [%v, %v]", w.StdError, w.Lower, w.Upper, se, q-z975*se, q+z975*se)
 	}
 }
+
+// TestBootstrapTDerivedExact: the exponential 0.99 quantile is a monotone
+// function of the rate (log scale: the rate's pivot), and the normal 0.99
+// quantile q = μ + zσ has the pivot (q̂ − q)/se(q̂) with the delta-method
+// se(q̂) = σ̂√((1 + z²/2)/n), whose law is that of a noncentral t; so their
+// bootstrap-t intervals are the exact ones up to Monte-Carlo error (scipy,
+// testdata/infer/bootstrap_t.json; Efron & Tibshirani, 1993, §12.5).
+func TestBootstrapTDerivedExact(t *testing.T) {
+	exact := loadExactIntervals(t)
+	d := fitters.Complete(ballBearings)
+	for _, tc := range []struct{ family, scale string }{
+		{"exponential", "log"},
+		{"normal", "natural"},
+	} {
+		fam := family(t, tc.family)
+		fit := fitOf(t, fam, d)
+		e := exact[tc.family+" quantile 0.99"]
+		got, err := Derived(fam, fit, d, Quantile, 0.99, MethodBootstrap, ballSettings(t, fam, fit, d))
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("%s q99: bootstrap-t (%v, %v), exact (%v, %v)", tc.family, got.Lower, got.Upper, e.Lower, e.Upper)
+		want := "bootstrap-t (" + tc.scale + " scale, B = 4000)"
+		if !withinWidth(got.Lower, got.Upper, e, 0.05) || got.Method != want || got.Note != "" {
+			t.Errorf("%s q99: (%v, %v) %q %q, want about (%v, %v) %q", tc.family, got.Lower, got.Upper, got.Method, got.Note, e.Lower, e.Upper, want)
+		}
+	}
+}

@@ -8,7 +8,6 @@ import (
 	"fitseal/fitters"
 
 	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // normalWithInformation is the normal family with its observed information
@@ -141,28 +140,5 @@ func TestProfileOpenSide(t *testing.T) {
 	}
 	if !r.UpperOpen || !math.IsInf(r.Upper, 1) || r.Note == "" {
 		t.Errorf("upper %v open %v note %q: want an open side reported", r.Upper, r.UpperOpen, r.Note)
-	}
-}
-
-// TestBootstrapIntervalExponential: for the exponential, a parametric
-// bootstrap replicate's rate is λ̂* = n/Σx*, Σx* ~ Gamma(n, λ̂), so the
-// percentile interval tends to λ̂·n/G⁻¹(1 − α/2), λ̂·n/G⁻¹(α/2) with G the
-// Gamma(n, 1) distribution. With B = 4000 the sample percentiles are within
-// a few per cent.
-func TestBootstrapIntervalExponential(t *testing.T) {
-	fam := family(t, "exponential")
-	d := fitters.Complete(ballBearings)
-	fit := fitOf(t, fam, d)
-	n := float64(len(ballBearings))
-	lam := fit.Estimates[0]
-	g := distuv.Gamma{Alpha: n, Beta: 1}
-	lo, hi := lam*n/g.Quantile(0.975), lam*n/g.Quantile(0.025)
-	rows, err := Intervals(fam, fit, d, MethodBootstrap, Settings{Level: 0.95,
-		Bootstrap: BootstrapOptions{Replicates: 4000, Stream: Stream{Master: 3, Analysis: "ball", Family: "exponential"}}})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if r := rows[0]; !close(r.Lower, lo, 0.02) || !close(r.Upper, hi, 0.03) || r.Method != "bootstrap percentile (B = 4000)" {
-		t.Errorf("bootstrap (%v, %v) %q, want about (%v, %v)", r.Lower, r.Upper, r.Method, lo, hi)
 	}
 }

@@ -39,7 +39,8 @@ type Settings struct {
 	// Replicates, when not nil, are the bootstrap replicates of this fit
 	// (drawn once by Bootstrap and shared by intervals, derived quantities
 	// and the goodness-of-fit p-values); otherwise the bootstrap method draws
-	// them with Bootstrap options.
+	// them with Bootstrap options and the replicates' observed information.
+	// Replicates drawn without Information get percentile intervals.
 	Replicates *Replicates
 	Bootstrap  BootstrapOptions
 }
@@ -67,7 +68,9 @@ func (s *Settings) replicates(fam fitters.Family, fit *fitters.Fit, d *fitters.D
 	if s.Replicates != nil {
 		return s.Replicates, nil
 	}
-	rep, err := Bootstrap(fam, fit, d, s.Bootstrap)
+	opt := s.Bootstrap
+	opt.Information = true
+	rep, err := Bootstrap(fam, fit, d, opt)
 	s.Replicates = rep
 	return rep, err
 }
@@ -102,9 +105,21 @@ type ParameterInterval struct {
 //     log-likelihood maximised over the other free parameters (Venzon &
 //     Moolgavkar, 1988, by walking out and root finding); a side where ℓp
 //     never falls that far is reported open.
-//   - Bootstrap: percentiles (1 ∓ level)/2 of the replicates' estimates
-//     (Efron & Tibshirani, 1993, §13.3), by linear interpolation between
-//     order statistics (Hyndman & Fan, 1996, type 7).
+//   - Bootstrap-t (studentized bootstrap; Efron & Tibshirani, 1993, §12.5;
+//     Davison & Hinkley, 1997, §5.2.1) on the Wald scale t: each replicate
+//     r gives the pivot t*ᵣ = (t(θ*ᵣ) − t̂)/se*ᵣ, se*ᵣ from the refit's own
+//     observed information, and the interval is
+//     t⁻¹(t̂ − t*₍₍₁₊L₎/₂₎·se(t̂), t̂ − t*₍₍₁₋L₎/₂₎·se(t̂)), the pivot
+//     quantiles by linear interpolation between order statistics (Hyndman
+//     & Fan, 1996, type 7). For a location or scale parameter of a
+//     location–scale family (and the Weibull shape) the pivot's law does
+//     not depend on the parameters, so the interval is exact up to
+//     Monte-Carlo error. Replicates whose information is singular or
+//     indefinite are left out and counted in the note. When the estimate
+//     itself has no standard error, or the replicates carry no
+//     information, the percentiles (1 ∓ level)/2 of the replicates'
+//     estimates are given instead (Efron & Tibshirani, 1993, §13.3), and
+//     the note says so.
 //
 // A fit that did not converge gets rows without intervals.
 func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Method, s Settings) ([]ParameterInterval, error) {
@@ -175,25 +190,55 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 		rep, err := s.replicates(fam, fit, d)
 		if err != nil {
 			for _, i := range freeIndices(fit) {
-				rows[i].Method = "bootstrap percentile"
+				rows[i].Method = methodLabel(method)
 				rows[i].Note = err.Error()
 			}
 			return rows, nil
 		}
-		vals := make([]float64, 0, rep.Requested)
-		for _, i := range freeIndices(fit) {
-			vals = vals[:0]
+		for a, i := range freeIndices(fit) {
+			r := &rows[i]
+			sc := scales[i]
+			se := r.StdError / math.Abs(sc.Deriv(fit.Estimates[i]))
+			why := ""
+			switch {
+			case infoErr != nil:
+				why = "the estimate has no standard error (" + infoErr.Error() + ")"
+			case !(se > 0) || math.IsInf(se, 0):
+				why = fmt.Sprintf("the estimate's standard error on the %s scale is %v", sc, se)
+			case rep.Covariances == nil:
+				why = "the replicates were drawn without their observed information"
+			}
+			if why == "" {
+				tHat := sc.To(fit.Estimates[i])
+				var st studentized
+				for k, e := range rep.Estimates {
+					if e == nil {
+						continue
+					}
+					var seStar float64
+					noCov := noCovarianceWhy(rep, k)
+					if noCov == "" {
+						seStar = math.Sqrt(rep.Covariances[k].At(a, a)) / math.Abs(sc.Deriv(e[i]))
+					}
+					st.add(k, tHat, sc.To(e[i]), seStar, noCov)
+				}
+				if len(st.t) > 0 {
+					r.Method = bootstrapTLabel(sc, len(st.t))
+					r.Lower, r.Upper = st.interval(tHat, se, sc, level)
+					r.Note = joinNote(failedNote(rep), st.note(rep.Requested))
+					continue
+				}
+				why = "no replicate gave a studentized value (" + st.firstLeft + ")"
+			}
+			vals := make([]float64, 0, rep.Requested)
 			for _, e := range rep.Estimates {
 				if e != nil {
 					vals = append(vals, e[i])
 				}
 			}
-			r := &rows[i]
-			r.Method = fmt.Sprintf("bootstrap percentile (B = %d)", len(vals))
+			r.Method = percentileLabel(len(vals))
 			r.Lower, r.Upper = percentileInterval(vals, level)
-			if rep.Failed > 0 {
-				r.Note = fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure)
-			}
+			r.Note = joinNote(failedNote(rep), why+": percentile interval instead of bootstrap-t")
 		}
 	default:
 		return nil, fmt.Errorf("unknown interval method %q", method)
@@ -209,7 +254,7 @@ func methodLabel(m Method) string {
 	case MethodProfile:
 		return "profile likelihood"
 	}
-	return "bootstrap percentile"
+	return "bootstrap-t"
 }
 
 // atLimit says, when a free estimate is infinite (an optimum at a limiting

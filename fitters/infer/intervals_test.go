@@ -2,9 +2,12 @@ package infer
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"fitseal/fitters"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // z975 and chi95 are the standard normal 0.975 quantile and the χ²₁ 0.95
@@ -97,5 +100,103 @@ func TestExponentialIntervalsClosedForm(t *testing.T) {
 		if !close(r.StdError, lam/math.Sqrt(n), 1e-9) {
 			t.Errorf("se = %v, want %v", r.StdError, lam/math.Sqrt(n))
 		}
+	}
+}
+
+// TestBootstrapTExact: for the exponential rate (log scale), the normal
+// mean (natural scale) and the normal σ (log scale) the studentized pivot
+// has a law free of the parameters, so the bootstrap-t interval is the
+// exact interval up to Monte-Carlo error: λ·Σx ~ Gamma(n, 1); Student's
+// t interval for μ; n σ̂²/σ² ~ χ²ₙ₋₁ for σ (Efron & Tibshirani, 1993,
+// §12.5). The exact ends are scipy's (testdata/infer/bootstrap_t.json).
+// The percentile interval misses them by more: for the rate it is the
+// exact interval reflected, λ̂²/(exact ends).
+func TestBootstrapTExact(t *testing.T) {
+	exact := loadExactIntervals(t)
+	d := fitters.Complete(ballBearings)
+	for _, tc := range []struct {
+		family, param string
+		index         int
+		scale         string
+	}{
+		{"exponential", "rate", 0, "log"},
+		{"normal", "mu", 0, "natural"},
+		{"normal", "sigma", 1, "log"},
+	} {
+		fam := family(t, tc.family)
+		fit := fitOf(t, fam, d)
+		e := exact[tc.family+" "+tc.param]
+		rows, err := Intervals(fam, fit, d, MethodBootstrap, ballSettings(t, fam, fit, d))
+		if err != nil {
+			t.Fatal(err)
+		}
+		r := rows[tc.index]
+		t.Logf("%s %s: bootstrap-t (%v, %v), exact (%v, %v)", tc.family, tc.param, r.Lower, r.Upper, e.Lower, e.Upper)
+		want := "bootstrap-t (" + tc.scale + " scale, B = 4000)"
+		if !withinWidth(r.Lower, r.Upper, e, 0.05) || r.Method != want || r.Note != "" {
+			t.Errorf("%s %s: (%v, %v) %q %q, want about (%v, %v) %q", tc.family, tc.param, r.Lower, r.Upper, r.Method, r.Note, e.Lower, e.Upper, want)
+		}
+	}
+}
+
+// TestBootstrapPercentileFallback: replicates drawn without their
+// information, and an estimate with no standard error, give the
+// percentile interval, and the note says why.
+func TestBootstrapPercentileFallback(t *testing.T) {
+	fam := family(t, "exponential")
+	d := fitters.Complete(ballBearings)
+	fit := fitOf(t, fam, d)
+	rep, err := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 199, NoStatistics: true,
+		Stream: Stream{Master: 3, Analysis: "ball", Family: "exponential"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	vals := make([]float64, 0, len(rep.Estimates))
+	for _, e := range rep.Estimates {
+		vals = append(vals, e[0])
+	}
+	lo, hi := percentileInterval(vals, 0.95)
+	noSE := &Information{StdErrors: []float64{math.NaN()}}
+	for name, s := range map[string]Settings{
+		"without information": {Level: 0.95, Replicates: rep},
+		"no standard error":   {Level: 0.95, Replicates: rep, Information: noSE},
+	} {
+		rows, err := Intervals(fam, fit, d, MethodBootstrap, s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r := rows[0]
+		if r.Lower != lo || r.Upper != hi || r.Method != "bootstrap percentile (B = 199)" || !strings.Contains(r.Note, "percentile interval instead of bootstrap-t") {
+			t.Errorf("%s: (%v, %v) %q %q, want (%v, %v) and a note", name, r.Lower, r.Upper, r.Method, r.Note, lo, hi)
+		}
+	}
+}
+
+// TestBootstrapInformationWorkers: the replicates' covariances, and so
+// the bootstrap-t interval, do not depend on the number of workers.
+func TestBootstrapInformationWorkers(t *testing.T) {
+	fam := family(t, "gev")
+	d := fitters.Complete(ballBearings)
+	fit := fitOf(t, fam, d)
+	var ref *Replicates
+	for _, w := range []int{1, 3} {
+		rep, err := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 30, Workers: w, Information: true,
+			Stream: Stream{Master: 5, Analysis: "ball", Family: "gev"}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if ref == nil {
+			ref = rep
+			continue
+		}
+		for r := range rep.Covariances {
+			a, b := rep.Covariances[r], ref.Covariances[r]
+			if (a == nil) != (b == nil) || (a != nil && !mat.Equal(a, b)) {
+				t.Fatalf("replicate %d: covariance differs between 1 and %d workers", r, w)
+			}
+		}
+	}
+	if ref.Succeeded()-ref.NoCovariance < 25 {
+		t.Errorf("only %d of 30 gev replicates gave a covariance (%s)", ref.Succeeded()-ref.NoCovariance, ref.FirstNoCovariance)
 	}
 }

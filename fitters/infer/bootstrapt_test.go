@@ -1,0 +1,65 @@
+package infer
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"testing"
+
+	"fitseal/fitters"
+)
+
+// exactInterval is one row of testdata/infer/bootstrap_t.json: an exact
+// 95% interval of the ball-bearing data from a pivot whose law does not
+// depend on the parameters (made with scipy by bootstrap_t_reference.py).
+type exactInterval struct {
+	Family, Quantity string
+	Lower, Upper     float64
+}
+
+func loadExactIntervals(t *testing.T) map[string]exactInterval {
+	t.Helper()
+	b, err := os.ReadFile("../../testdata/infer/bootstrap_t.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Intervals []exactInterval `json:"intervals"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	out := map[string]exactInterval{}
+	for _, e := range doc.Intervals {
+		out[e.Family+" "+e.Quantity] = e
+	}
+	return out
+}
+
+// bootstrapTB is the number of replicates of the exact-interval checks:
+// the Monte-Carlo standard deviation of a 2.5% pivot quantile is then
+// about 0.05 (√(0.025·0.975/B)/φ(1.96)), some 1.3% of the interval's
+// width, so an end within 5% of the width is four standard deviations.
+const bootstrapTB = 4000
+
+// ballSettings draws the replicates of a ball-bearing fit once, with
+// their information, for intervals and derived quantities alike.
+func ballSettings(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitters.Data) Settings {
+	t.Helper()
+	rep, err := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: bootstrapTB, NoStatistics: true, Information: true,
+		Stream: Stream{Master: 3, Analysis: "ball", Family: fam.Name()}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.Failed > 0 || rep.NoCovariance > 0 {
+		t.Fatalf("%s: %d failed, %d without covariance (%s %s)", fam.Name(), rep.Failed, rep.NoCovariance, rep.FirstFailure, rep.FirstNoCovariance)
+	}
+	return Settings{Level: 0.95, Replicates: rep}
+}
+
+// withinWidth says whether lo and hi are each within frac of the exact
+// interval's width of its ends.
+func withinWidth(lo, hi float64, e exactInterval, frac float64) bool {
+	w := e.Upper - e.Lower
+	return math.Abs(lo-e.Lower) <= frac*w && math.Abs(hi-e.Upper) <= frac*w
+}
