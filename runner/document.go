@@ -23,11 +23,11 @@ func (x Number) MarshalJSON() ([]byte, error) {
 const ResultsFormat = "fitseal-results/1"
 
 type docRoot struct {
-	Format   string       `json:"format"`
-	Project  string       `json:"project"`
-	Settings Settings     `json:"settings"`
-	Datasets []docDataset `json:"datasets"`
-	Analyses docAnalyses  `json:"analyses"`
+	Format   string        `json:"format"`
+	Project  string        `json:"project"`
+	Settings Settings      `json:"settings"`
+	Datasets []docDataset  `json:"datasets"`
+	Analyses []docAnalysis `json:"analyses"`
 }
 
 type docDataset struct {
@@ -139,7 +139,7 @@ func optimizer(f *fitters.Fit) *Optimizer {
 // document is results.json: every table's content in one record.
 func (r *Results) document() docRoot {
 	p := r.Project
-	doc := docRoot{Format: ResultsFormat, Project: p.Name, Settings: p.Settings, Datasets: []docDataset{}, Analyses: docAnalyses{}}
+	doc := docRoot{Format: ResultsFormat, Project: p.Name, Settings: p.Settings, Datasets: []docDataset{}, Analyses: []docAnalysis{}}
 	for _, d := range p.Datasets {
 		dd := r.Data[d.Name]
 		if dd == nil {

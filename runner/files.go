@@ -3,7 +3,6 @@ package runner
 import (
 	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"math"
 	"strconv"
 )
@@ -51,12 +50,21 @@ func (r *Results) Files() (map[string][]byte, error) {
 		}
 		out[name] = b.Bytes()
 	}
-	js, err := json.MarshalIndent(r.document(), "", "  ")
-	if err != nil {
-		return nil, err
-	}
-	out[ResultsFile] = append(js, '\n')
+	out[ResultsFile] = r.resultsJSON()
 	return out, nil
+}
+
+// resultsJSON is results.json (layout: document_json.go).
+func (r *Results) resultsJSON() []byte {
+	doc := r.document()
+	size := 4096 // a little over the size, so that the buffer grows once at most
+	for _, d := range doc.Datasets {
+		size += 100 * len(d.Groups)
+	}
+	for _, a := range doc.Analyses {
+		size += 500 + 1400*len(a.Fits) + 350*(len(a.Derived)+len(a.GOF))
+	}
+	return appendDocument(make([]byte, 0, size), &doc)
 }
 
 func itoa(n int) string { return strconv.Itoa(n) }
