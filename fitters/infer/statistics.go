@@ -17,58 +17,69 @@ const (
 // edfStatistics computes, for a sorted complete sample x and a fully
 // specified continuous distribution, the three empirical-distribution-
 // function statistics (Stephens, 1974; D'Agostino & Stephens, 1986, §4.2),
-// with Fᵢ = F(x₍ᵢ₎):
+// with Fᵢ = F(x₍ᵢ₎), Sᵢ = 1 − Fᵢ, i = 1…n:
 //
 //	KS   D  = max over i of max(i/n − Fᵢ, Fᵢ − (i−1)/n)
 //	CvM  W² = 1/(12n) + Σ (Fᵢ − (2i−1)/(2n))²
-//	AD   A² = −n − (1/n) Σ (2i−1) [ln Fᵢ + ln(1 − F₍ₙ₊₁₋ᵢ₎)]
+//	AD   A² = −n − (1/n) Σ (2i−1) [ln Fᵢ + ln S₍ₙ₊₁₋ᵢ₎]
+//	        = −n − (1/n) Σ [(2i−1) ln Fᵢ + (2(n−i)+1) ln Sᵢ]
 //
-// The logarithms of A² come from LogCDF and LogSurvival, never from
-// ln(1 − F), so a point far in a tail gives a large finite term rather
-// than ln 0. Each point costs one tail function: LogCDF while F < ½, where
-// ln S = ln(1 − F) is accurate by log1p, and LogSurvival beyond (the sample
-// is sorted, so the switch happens once), where ln F = ln(1 − S) is.
-// logF and logS are scratch of len(x); out receives (D, W², A²).
+// The second form of A² (substitute j = n+1−i in the ln S sum: 2i−1 =
+// 2(n−j)+1) needs each point once, so the three sums run in one streaming
+// pass with no buffer. The logarithms come from fitters.CDFTails (the
+// family's own CDFTails, computing F, ln F and ln S together, or LogCDF
+// below the median and LogSurvival above it), never from ln(1 − F) after
+// cancellation, so a point far in a tail gives a large finite term rather
+// than ln 0. logF and logS are not used (callers may pass nil); out
+// receives (D, W², A²), a NaN statistic as +Inf.
 func edfStatistics(d fitters.Dist, x, logF, logS []float64, out *[3]float64) {
-	n := len(x)
-	nf := float64(n)
-	var ks, cvm float64
-	upper := false
-	for i, v := range x {
-		var lf, ls, f float64
-		if !upper {
-			lf = d.LogCDF(v)
-			if lf < -math.Ln2 {
-				f = math.Exp(lf) // F itself, also needed for D and W²
-				ls = math.Log1p(-f)
-			} else {
+	var s edfSums
+	s.n = float64(len(x))
+	if t, ok := d.(fitters.CDFTailer); ok {
+		for i, v := range x {
+			f, lf, ls := t.CDFTails(v)
+			s.add(i, f, lf, ls)
+		}
+	} else {
+		// LogCDF until the median, LogSurvival after it: the sample is
+		// sorted, so each point costs one tail function.
+		upper := false
+		for i, v := range x {
+			if !upper {
+				lf := d.LogCDF(v)
+				if lf < -math.Ln2 {
+					f := math.Exp(lf) // F itself, also needed for D and W²
+					s.add(i, f, lf, math.Log1p(-f))
+					continue
+				}
 				upper = true
 			}
+			ls := d.LogSurvival(v)
+			lf := log1mExp(ls)
+			s.add(i, math.Exp(lf), lf, ls)
 		}
-		if upper {
-			ls = d.LogSurvival(v)
-			lf = log1mExp(ls)
-			f = math.Exp(lf)
-		}
-		logS[i] = ls
-		fi := float64(i)
-		ks = math.Max(ks, math.Max((fi+1)/nf-f, f-fi/nf))
-		e := f - (2*fi+1)/(2*nf)
-		cvm += e * e
-		logF[i] = lf
 	}
-	var ad float64
-	for i := 0; i < n; i++ {
-		ad += (2*float64(i) + 1) * (logF[i] + logS[n-1-i])
-	}
-	out[0] = ks
-	out[1] = cvm + 1/(12*nf)
-	out[2] = -nf - ad/nf
+	out[0] = s.ks
+	out[1] = s.cvm + 1/(12*s.n)
+	out[2] = -s.n - s.ad/s.n
 	for i, v := range out {
 		if math.IsNaN(v) {
 			out[i] = math.Inf(1)
 		}
 	}
+}
+
+// edfSums accumulates the sums of edfStatistics over n points.
+type edfSums struct{ n, ks, cvm, ad float64 }
+
+// add takes the point of 0-based rank i (rank i+1 of the formulas) with
+// F, ln F and ln S.
+func (s *edfSums) add(i int, f, lf, ls float64) {
+	fi := float64(i)
+	s.ks = math.Max(s.ks, math.Max((fi+1)/s.n-f, f-fi/s.n))
+	e := f - (2*fi+1)/(2*s.n)
+	s.cvm += e * e
+	s.ad += (2*fi+1)*lf + (2*(s.n-fi)-1)*ls
 }
 
 // log1mExp returns ln(1 − eᵃ) for a ≤ 0 accurately (Mächler, 2012).

@@ -1,0 +1,286 @@
+package fitters
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mathext"
+)
+
+// CDFTailer is implemented by distributions that compute, in one go and
+// with fewer transcendental calls than LogCDF and LogSurvival apart, the
+// three values the empirical-distribution-function statistics need at each
+// observation: F(x), ln F(x) and ln S(x). Both logarithms keep the
+// accuracy of LogCDF and LogSurvival in their own tail: the smaller of
+// F and S is computed directly and its logarithm taken, the larger one's
+// logarithm is log1p of minus the smaller, never ln(1 − F) after 1 − F
+// has cancelled. F itself is accurate to a few ulps absolutely.
+type CDFTailer interface {
+	CDFTails(x float64) (cdf, logCDF, logSurvival float64)
+}
+
+// CDFTails returns F(x), ln F(x) and ln S(x) of d: through d's own
+// CDFTails when it has one, otherwise from LogCDF below the median (where
+// ln S = log1p(−F) is accurate) and LogSurvival above it (where
+// ln F = ln(1 − S) is).
+func CDFTails(d Dist, x float64) (cdf, logCDF, logSurvival float64) {
+	if t, ok := d.(CDFTailer); ok {
+		return t.CDFTails(x)
+	}
+	lf := d.LogCDF(x)
+	if lf < -math.Ln2 {
+		f := math.Exp(lf)
+		return f, lf, math.Log1p(-f)
+	}
+	ls := d.LogSurvival(x)
+	lf = log1mExp(ls)
+	return math.Exp(lf), lf, ls
+}
+
+// Values below the support: F = 0, ln F = −∞, ln S = 0; and above it.
+func belowSupport() (float64, float64, float64) { return 0, math.Inf(-1), 0 }
+func aboveSupport() (float64, float64, float64) { return 1, 0, math.Inf(-1) }
+
+// hazardTails returns F, ln F and ln S from the cumulative hazard
+// t = −ln S ≥ 0: S = e^(−t), F = −expm1(−t) below the median (t < ln 2)
+// and 1 − S above it; two transcendental calls.
+func hazardTails(t float64) (cdf, logCDF, logSurvival float64) {
+	if t < math.Ln2 {
+		f := -math.Expm1(-t)
+		return f, math.Log(f), -t
+	}
+	s := math.Exp(-t)
+	return 1 - s, math.Log1p(-s), -t
+}
+
+// logHazardTails is hazardTails for t = e^lt given by its logarithm, so
+// that ln F = ln t − t/2 + O(t²) stays finite where t underflows.
+func logHazardTails(lt float64) (cdf, logCDF, logSurvival float64) {
+	if lt < -700 {
+		t := math.Exp(lt)
+		return t, lt, -t
+	}
+	return hazardTails(math.Exp(lt))
+}
+
+// extremeTails returns F, ln F and ln S for ln F = −u, u = e^(−y) ≥ 0 (the
+// Gumbel and GEV form): F = e^(−u) below the median (u > ln 2),
+// S = −expm1(−u) above it, and ln S = −y − u/2 + O(u²) where u < 1e−10
+// (as Gumbel's LogSurvival) so that an underflowing u gives no ln 0.
+func extremeTails(u, y float64) (cdf, logCDF, logSurvival float64) {
+	switch {
+	case u > math.Ln2:
+		f := math.Exp(-u)
+		return f, -u, math.Log1p(-f)
+	case u > 1e-10:
+		s := -math.Expm1(-u)
+		return 1 - s, -u, math.Log(s)
+	}
+	return 1 - u, -u, -y - u/2
+}
+
+// logisticTails returns F, ln F and ln S of the standard logistic at z:
+// with e = e^(−|z|) and l = ln(1 + e), ln F = −l and ln S = −z − l for
+// z ≥ 0 (mirrored below), F = 1/(1 + e) or e/(1 + e); two transcendental
+// calls, the same logarithms as logLogisticCDF.
+func logisticTails(z float64) (cdf, logCDF, logSurvival float64) {
+	if z >= 0 {
+		e := math.Exp(-z)
+		l := math.Log1p(e)
+		return 1 / (1 + e), -l, -z - l
+	}
+	e := math.Exp(z)
+	l := math.Log1p(e)
+	return e / (1 + e), z - l, -l
+}
+
+// normalTails returns Φ(z), ln Φ(z) and ln(1 − Φ(z)): the smaller tail
+// probability from erfc (accurate relatively down to 1e−300), its
+// logarithm, and log1p of minus it for the other; beyond |z| = 37, where
+// erfc nears underflow, the smaller tail's logarithm comes from
+// logNormalCDF's continued fraction. Three transcendental calls.
+func normalTails(z float64) (cdf, logCDF, logSurvival float64) {
+	switch {
+	case math.IsNaN(z):
+		return z, z, z
+	case z <= 0:
+		f, lf := normalSmallTail(-z)
+		return f, lf, math.Log1p(-f)
+	}
+	s, ls := normalSmallTail(z)
+	return 1 - s, math.Log1p(-s), ls
+}
+
+// normalSmallTail returns Q(t) = 1 − Φ(t) and ln Q(t) for t ≥ 0.
+func normalSmallTail(t float64) (q, lq float64) {
+	if t < 37 {
+		q = 0.5 * math.Erfc(t/sqrt2)
+		return q, math.Log(q)
+	}
+	lq = logNormalCDF(-t)
+	return math.Exp(lq), lq
+}
+
+// CDFTails of the normal distribution: see normalTails.
+func (d Normal) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	return normalTails((x - d.Mu) / d.Sigma)
+}
+
+// CDFTails of the lognormal distribution: normalTails of (ln x − μ)/σ.
+func (d LogNormal) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	if !(x > 0) {
+		return belowSupport()
+	}
+	return normalTails((math.Log(x) - d.Mu) / d.Sigma)
+}
+
+// CDFTails of the three-parameter lognormal: normalTails of (ln(x−γ) − μ)/σ.
+func (d Lognormal3) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	r, _, ok := d.r(x)
+	if !ok {
+		return belowSupport()
+	}
+	return normalTails(r)
+}
+
+// CDFTails of the exponential distribution: cumulative hazard λx.
+func (d Exponential) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	if !(x > 0) {
+		return belowSupport()
+	}
+	return hazardTails(d.Rate * x)
+}
+
+// CDFTails of the Weibull distribution: cumulative hazard (x/λ)^k, given
+// by its logarithm k ln(x/λ).
+func (d Weibull) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	if !(x > 0) {
+		return belowSupport()
+	}
+	return logHazardTails(d.Shape * lnRatio(x, d.Scale))
+}
+
+// CDFTails of the three-parameter Weibull: cumulative hazard ((x−γ)/λ)^k.
+func (d Weibull3) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	s, ok := d.lz(x)
+	if !ok {
+		return belowSupport()
+	}
+	return logHazardTails(d.Shape * s)
+}
+
+// CDFTails of the Pareto distribution: cumulative hazard α ln(x/x_m).
+func (d Pareto) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	if !(x > d.Scale) {
+		return belowSupport()
+	}
+	return hazardTails(d.Shape * d.lnExcess(x))
+}
+
+// CDFTails of the generalized Pareto distribution: cumulative hazard
+// ln(1 + ξz)/ξ.
+func (d GPD) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	w, where := d.w(x)
+	switch where {
+	case -1:
+		return belowSupport()
+	case 1:
+		return aboveSupport()
+	}
+	return hazardTails(w)
+}
+
+// CDFTails of the Gumbel distribution: ln F = −e^(−z), z = (x − μ)/β.
+func (d Gumbel) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	z := (x - d.Location) / d.Scale
+	return extremeTails(math.Exp(-z), z)
+}
+
+// CDFTails of the GEV distribution: ln F = −e^(−y), y = ln(1 + ξz)/ξ.
+func (d GEV) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	y, ok := d.y(x)
+	if !ok {
+		if d.Shape > 0 {
+			return belowSupport()
+		}
+		return aboveSupport()
+	}
+	return extremeTails(math.Exp(-y), y)
+}
+
+// CDFTails of the logistic distribution: see logisticTails.
+func (d Logistic) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	return logisticTails((x - d.Location) / d.Scale)
+}
+
+// CDFTails of the log-logistic distribution: logisticTails of β ln(x/α).
+func (d LogLogistic) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	if !(x > 0) {
+		return belowSupport()
+	}
+	return logisticTails(d.z(x))
+}
+
+// CDFTails of the gamma distribution: one regularized incomplete gamma
+// function, P(k, βx) below the mode region or Q(k, βx) above it, whichever
+// is under ½ (gonum computes the smaller one directly), its logarithm, and
+// log1p of minus it for the other tail; where the first one tried is
+// above ½ the other is computed directly as well (as logGammaIncLower and
+// logGammaIncUpper do). Below 1e−280 the logarithm comes from the series
+// or the continued fraction in log space.
+func (d Gamma) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	a, y := d.Shape, d.Rate*x
+	switch {
+	case math.IsNaN(y) || math.IsNaN(a):
+		return math.NaN(), math.NaN(), math.NaN()
+	case y <= 0:
+		return belowSupport()
+	case math.IsInf(y, 1):
+		return aboveSupport()
+	}
+	if y > a {
+		if q := mathext.GammaIncRegComp(a, y); q < 0.5 {
+			return gammaUpperTails(a, y, q)
+		}
+	}
+	p := mathext.GammaIncReg(a, y)
+	if p < 0.5 {
+		lp := math.Log(p)
+		if !(p > 1e-280) {
+			lp = logGammaSeries(a, y)
+		}
+		return p, lp, math.Log1p(-p)
+	}
+	return gammaUpperTails(a, y, mathext.GammaIncRegComp(a, y))
+}
+
+// gammaUpperTails returns F, ln F and ln S from Q = Q(a, y) ≤ ½.
+func gammaUpperTails(a, y, q float64) (cdf, logCDF, logSurvival float64) {
+	lq := math.Log(q)
+	if !(q > 1e-280) {
+		lq = logGammaContinuedFraction(a, y)
+	}
+	return 1 - q, math.Log1p(-q), lq
+}
+
+// CDFTails of the inverse Gaussian distribution: ln F as LogCDF, F = e^(ln F);
+// ln S = log1p(−F) below the median and LogSurvival's upper-tail forms
+// above it, sharing a, b and the second term of F with ln F.
+func (d InvGauss) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
+	if !(x > 0) {
+		return belowSupport()
+	}
+	if math.IsInf(x, 1) {
+		return aboveSupport()
+	}
+	a, b := d.ab(x)
+	second := logSecond(a, b)
+	lf := logAddExpPair(logNormalCDF(a), second)
+	f := math.Exp(lf)
+	switch {
+	case lf < -math.Ln2:
+		return f, lf, math.Log1p(-f)
+	case a > -1 && b-a <= math.Max(1, a):
+		return f, lf, -0.5*a*a - lnSqrt2Pi + logMillsDifference(a, b)
+	}
+	return f, lf, logDiffExp(logNormalCDF(-a), second)
+}
