@@ -3,6 +3,9 @@ package fitters
 import (
 	"fmt"
 	"math"
+	"slices"
+	"sync"
+	"sync/atomic"
 )
 
 // Data is one dataset as a likelihood sees it. Observations are grouped by how
@@ -24,6 +27,57 @@ type Data struct {
 	Lower  []float64
 	Upper  []float64
 	Trials []int
+
+	// sorted holds the *sortedView of SortedExact.
+	sorted atomic.Value
+}
+
+// sortedView is Exact in ascending order, with the slice it was made from.
+type sortedView struct {
+	of *float64 // &Exact[0]
+	n  int
+	x  []float64
+}
+
+// sortedMu serialises the first sort of each dataset, so that two tasks of
+// one dataset never sort it twice at once.
+var sortedMu sync.Mutex
+
+// SortedExact returns the exact values in ascending order. The sort is done
+// on the first call and its result shared by every later call, from any
+// goroutine: the goodness-of-fit statistics of every family fitted to one
+// dataset sort it once. When Exact is already in order it is returned
+// itself, with no copy. The result must not be modified; the view is made
+// again only when Exact is replaced by another slice, so values must not be
+// changed in place once SortedExact has been called.
+func (d *Data) SortedExact() []float64 {
+	if len(d.Exact) == 0 {
+		return d.Exact
+	}
+	if x, ok := d.sortedView(); ok {
+		return x
+	}
+	sortedMu.Lock()
+	defer sortedMu.Unlock()
+	if x, ok := d.sortedView(); ok {
+		return x
+	}
+	v := &sortedView{of: &d.Exact[0], n: len(d.Exact), x: d.Exact}
+	if !slices.IsSorted(d.Exact) {
+		v.x = slices.Clone(d.Exact)
+		slices.Sort(v.x)
+	}
+	d.sorted.Store(v)
+	return v.x
+}
+
+// sortedView returns the stored view when it was made from the current Exact.
+func (d *Data) sortedView() ([]float64, bool) {
+	v, _ := d.sorted.Load().(*sortedView)
+	if v == nil || v.of != &d.Exact[0] || v.n != len(d.Exact) {
+		return nil, false
+	}
+	return v.x, true
 }
 
 // Complete returns data made only of exact observations.

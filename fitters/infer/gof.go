@@ -3,7 +3,6 @@ package infer
 import (
 	"fmt"
 	"math"
-	"slices"
 
 	"fitseal/fitters"
 )
@@ -106,8 +105,7 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", fam.Name(), err)
 	}
-	x := slices.Clone(d.Exact)
-	slices.Sort(x)
+	x := d.SortedExact() // sorted once for every family fitted to d
 	g := &GoodnessOfFit{Applicable: true}
 	if fam.Kind() == fitters.Discrete {
 		comps := []component{{dist, float64(len(x))}}
@@ -128,7 +126,7 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 		return g, nil
 	}
 	var edf [3]float64
-	edfStatistics(dist, x, make([]float64, len(x)), make([]float64, len(x)), &edf)
+	edfStatistics(dist, x, nil, nil, &edf)
 	for i, name := range statNames(fitters.Continuous) {
 		st := Statistic{Name: name, Value: edf[i], PValue: math.NaN()}
 		if math.IsInf(edf[i], 1) {

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"math"
+	"math/rand/v2"
 	"os"
 	"slices"
 	"strconv"
@@ -60,11 +61,15 @@ func TestEDFStatisticsAgainstScipy(t *testing.T) {
 			}
 			x := slices.Clone(c.X)
 			slices.Sort(x)
-			var got [3]float64
-			edfStatistics(d, x, make([]float64, len(x)), make([]float64, len(x)), &got)
-			for i, want := range []float64{c.KS, c.CvM, c.AD} {
-				if !close(got[i], want, 1e-9) {
-					t.Errorf("%s = %.15g, scipy %.15g", statNames(fitters.Continuous)[i], got[i], want)
+			// Through the family's own CDFTails and, hidden behind
+			// plainDist, through LogCDF and LogSurvival.
+			for _, dd := range []fitters.Dist{d, plainDist{d}} {
+				var got [3]float64
+				edfStatistics(dd, x, nil, nil, &got)
+				for i, want := range []float64{c.KS, c.CvM, c.AD} {
+					if !close(got[i], want, 1e-9) {
+						t.Errorf("%T: %s = %.15g, scipy %.15g", dd, statNames(fitters.Continuous)[i], got[i], want)
+					}
 				}
 			}
 		})
@@ -88,6 +93,49 @@ func TestEDFStatisticsAgainstScipy(t *testing.T) {
 		for i := range cl.obs {
 			if cl.obs[i] != c.Observed[i] || !close(cl.exp[i], c.Expected[i], 1e-12) {
 				t.Errorf("cell %d: %v/%v, want %v/%v", i, cl.obs[i], cl.exp[i], c.Observed[i], c.Expected[i])
+			}
+		}
+	}
+}
+
+// plainDist hides a distribution's optional methods (CDFTails), leaving
+// the Dist interface only.
+type plainDist struct{ fitters.Dist }
+
+// TestEDFStatisticsBothRoutes compares the statistics computed through each
+// family's CDFTails with those through LogCDF and LogSurvival (the route
+// TestEDFStatisticsAgainstScipy checks against scipy for six families), on
+// seeded samples of 2000 drawn from the distribution itself and on the same
+// samples shifted a tail's width out, for every family that has CDFTails.
+func TestEDFStatisticsBothRoutes(t *testing.T) {
+	for _, c := range edfBenchCases {
+		d, err := family(t, c.family).New(c.params)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, ok := d.(fitters.CDFTailer); !ok {
+			t.Errorf("%s has no CDFTails", c.family)
+			continue
+		}
+		r := rand.New(rand.NewPCG(5, 6))
+		x := make([]float64, 2000)
+		for i := range x {
+			x[i] = d.Rand(r)
+		}
+		slices.Sort(x)
+		spread := d.Quantile(0.999) - d.Quantile(0.5)
+		shifted := make([]float64, len(x))
+		for i, v := range x {
+			shifted[i] = v + spread
+		}
+		for _, s := range [][]float64{x, shifted} {
+			var own, plain [3]float64
+			edfStatistics(d, s, nil, nil, &own)
+			edfStatistics(plainDist{d}, s, nil, nil, &plain)
+			for i := range own {
+				if !close(own[i], plain[i], 1e-9) {
+					t.Errorf("%s %s: %.15g through CDFTails, %.15g through LogCDF/LogSurvival", c.family, statNames(fitters.Continuous)[i], own[i], plain[i])
+				}
 			}
 		}
 	}
