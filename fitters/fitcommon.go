@@ -147,3 +147,52 @@ func needPositive(family string, d *Data, allowZero bool) error {
 	}
 	return nil
 }
+
+// spreadOf returns the smallest and largest value, the mean and the
+// maximum-likelihood standard deviation of x (len(x) ≥ 1) in two passes:
+// the extremes and the sum in the first, the squared deviations with the
+// compensating correction of Chan, Golub & LeVeque (1983) in the second.
+// The mean and standard deviation are those of meanSD, bit for bit; only
+// data beyond 2^±500, which meanSD first rescales, go through meanSD itself.
+func spreadOf(x []float64) (lo, hi, mean, sd float64) {
+	lo, hi = x[0], x[0]
+	var s float64
+	for _, v := range x {
+		if v < lo {
+			lo = v
+		}
+		if v > hi {
+			hi = v
+		}
+		s += v
+	}
+	big := math.Abs(lo)
+	if a := math.Abs(hi); a > big {
+		big = a
+	}
+	if !(big <= 0x1p500) || (big > 0 && big < 0x1p-500) {
+		mean, sd = meanSD(x)
+		return lo, hi, mean, sd
+	}
+	n := float64(len(x))
+	m := s / n
+	var ss, c float64
+	for _, v := range x {
+		d := v - m
+		ss += d * d
+		c += d
+	}
+	variance := (ss - c*c/n) / n
+	m += c / n
+	if variance < 0 {
+		variance = 0
+	}
+	return lo, hi, m, math.Sqrt(variance)
+}
+
+// outsideUnitRange reports whether the largest magnitude among lo and hi
+// is beyond 1e±100 (and not 0), where powerOfTwoScale rescales the data.
+func outsideUnitRange(lo, hi float64) bool {
+	m := math.Max(math.Abs(lo), math.Abs(hi))
+	return m != 0 && !(m < 1e100 && m > 1e-100)
+}

@@ -108,29 +108,85 @@ func (f logisticFamily) Applicable(d *Data, fixed Fixed) error {
 // locScaleNewton on the standardized values (x − x̄)/sd, starting from the
 // moment estimates μ₀ = x̄, s₀ = sd·√3/π.
 func logisticMLE(x []float64, opt Options) (location, scale, ll float64, conv Convergence) {
-	return locScaleMLE(x, logisticLogDensity, math.Pi/math.Sqrt(3), opt)
+	return locScaleMLE(x, logisticSums, math.Pi/math.Sqrt(3), logisticG3Bound, opt)
+}
+
+// logisticG3Bound bounds |g‴(z)| = 2|f₀′(z)| = 2F(1−F)|2F−1| for the
+// standard logistic (F = F₀(z)), whose maximum 1/(3√3) ≈ 0.19245 is at
+// F = ½ ± 1/(2√3).
+const logisticG3Bound = 0.1925
+
+// logisticSums is locScaleNewton's ℓ(a, b) = n ln b + Σ g(z), z = b·v − a,
+// g(z) = −|z| − 2 ln(1 + e^(−|z|)), with its gradient and Hessian, from one
+// exponential per value: with e = e^(−|z|) and q = 1/(1 + e),
+// g′(z) = −sign(z)(1 − e)q = −tanh(z/2) and g″(z) = −2eq².
+// Σ ln(1 + e) is summed as the log of products of up to 512 factors
+// (sumLogSmall), not as a log per value.
+func logisticSums(v []float64, a, b float64) (ll, ga, gb, haa, hab, hbb float64) {
+	var saz, st, stx, sh, shx, shxx, slog float64
+	for start := 0; start < len(v); start += logProductChunk {
+		chunk := v[start:min(start+logProductChunk, len(v))]
+		p := 1.0
+		for _, x := range chunk {
+			z := b*x - a
+			az := math.Abs(z)
+			e := math.Exp(-az)
+			y := 1 + e
+			q := 1 / y
+			t := math.Copysign((1-e)*q, z) // branch-free: z's sign is a coin toss
+			h := e * q * q
+			saz += az
+			st += t
+			stx += t * x
+			sh += h
+			hx := h * x
+			shx += hx
+			shxx += hx * x
+			p *= y
+		}
+		slog += math.Log(p)
+	}
+	n := float64(len(v))
+	ll = n*math.Log(b) - saz - 2*slog
+	ga = st
+	gb = n/b - stx
+	haa = -2 * sh
+	hab = 2 * shx
+	hbb = -n/(b*b) - 2*shxx
+	return
 }
 
 // locScaleMLE runs locScaleNewton for a log-concave location-scale family on
-// complete data, standardizing x first and mapping the result back; b0 is
-// the starting 1/scale on the standardized data.
-func locScaleMLE(x []float64, g logConcaveTerm, b0 float64, opt Options) (location, scale, ll float64, conv Convergence) {
-	if xs, f := powerOfTwoScale(x); f != 1 {
-		location, scale, ll, conv = locScaleMLE(xs, g, b0, opt)
-		return location / f, scale / f, ll + float64(len(x))*math.Log(f), conv
-	}
-	m, v := meanVar(x)
-	sd := math.Sqrt(v)
+// complete data, standardizing x first (into a borrowed buffer) and mapping
+// the result back; sums evaluates the family's ℓ on the standardized values,
+// b0 is the starting 1/scale on them and c3 bounds |g‴| (0: unknown).
+func locScaleMLE(x []float64, sums func(v []float64, a, b float64) (ll, ga, gb, haa, hab, hbb float64), b0, c3 float64, opt Options) (location, scale, ll float64, conv Convergence) {
 	conv = Convergence{Method: "Newton with step halving"}
+	if len(x) == 0 {
+		conv.Reason = "no values"
+		return math.NaN(), math.NaN(), math.NaN(), conv
+	}
+	lo, hi, m, sd := spreadOf(x)
+	if outsideUnitRange(lo, hi) {
+		if xs, f := powerOfTwoScale(x); f != 1 {
+			location, scale, ll, conv = locScaleMLE(xs, sums, b0, c3, opt)
+			return location / f, scale / f, ll + float64(len(x))*math.Log(f), conv
+		}
+	}
 	if !(sd > 0) || math.IsInf(sd, 0) {
 		conv.Reason = fmt.Sprintf("the data's spread is %v: the scale has no finite estimate", sd)
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
-	z := make([]float64, len(x))
+	buf := borrowScratch(len(x))
+	defer returnScratch(buf)
+	z := *buf
 	for i, xi := range x {
 		z[i] = (xi - m) / sd
 	}
-	r := locScaleNewton(z, g, 0, b0, opt.tolerance(), opt.maxIterations())
+	eval := func(a, b float64) (ll, ga, gb, haa, hab, hbb float64) { return sums(z, a, b) }
+	// Every |z_i| ≤ vmax (a hair above, for the rounding of z).
+	vmax := math.Max(hi-m, m-lo) / sd * (1 + 1e-12)
+	r := locScaleNewton(eval, 0, b0, opt.tolerance(), opt.maxIterations(), float64(len(x)), c3, vmax)
 	conv.Iterations, conv.Evaluations = r.iterations, r.evaluations
 	conv.GradientNorm, conv.Converged, conv.Reason = r.gradNorm, r.converged, r.reason
 	location, scale = m+sd*r.location, sd*r.scale

@@ -106,13 +106,16 @@ func (f loglogisticFamily) Applicable(d *Data, fixed Fixed) error {
 // locScaleNewton, and maps back: α = e^μ, β = 1/s, and
 // ln L(x) = ln L_logistic(ln x) − Σ ln x.
 func loglogisticMLE(x []float64, opt Options) (scale, shape, ll float64, conv Convergence) {
-	lnRef, y := logsAbout(x, 0)
+	buf := borrowScratch(len(x))
+	defer returnScratch(buf)
+	y := *buf
+	lnRef, sy := logsAboutInto(y, x, 0)
 	m, s, lly, conv := logisticMLE(y, opt)
 	if !conv.Converged {
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
 	n := float64(len(x))
-	return math.Exp(lnRef + m), 1 / s, lly - (n*lnRef + sumOf(y)), conv
+	return math.Exp(lnRef + m), 1 / s, lly - (n*lnRef + sy), conv
 }
 
 func (f loglogisticFamily) Fit(d *Data, opt Options) (*Fit, error) {

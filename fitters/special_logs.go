@@ -9,22 +9,33 @@ import "math"
 // ln x − mean(ln x) would lose.
 func logsAbout(x []float64, ref float64) (lnRef float64, y []float64) {
 	y = make([]float64, len(x))
+	lnRef, _ = logsAboutInto(y, x, ref)
+	return lnRef, y
+}
+
+// logsAboutInto is logsAbout writing y into dst (len(dst) = len(x)); it
+// also returns Σ y.
+func logsAboutInto(dst, x []float64, ref float64) (lnRef, sum float64) {
 	if len(x) == 0 {
-		return math.NaN(), y
+		return math.NaN(), 0
 	}
 	if !(ref > 0) {
 		ref = x[0]
 	}
 	lnRef = math.Log(ref)
 	lo, hi := 0.5*ref, 1.5*ref
+	dst = dst[:len(x)]
 	for i, v := range x {
+		var yi float64
 		if v > lo && v < hi {
-			y[i] = math.Log1p((v - ref) / ref)
+			yi = math.Log1p((v - ref) / ref)
 		} else {
-			y[i] = math.Log(v) - lnRef
+			yi = math.Log(v) - lnRef
 		}
+		dst[i] = yi
+		sum += yi
 	}
-	return lnRef, y
+	return lnRef, sum
 }
 
 // sumOf returns Σ v.
@@ -83,4 +94,27 @@ func powerOfTwoScale(x []float64) ([]float64, float64) {
 		out[i] = v * f
 	}
 	return out, f
+}
+
+// logProductChunk is how many factors in [1, 2] are multiplied before one
+// logarithm is taken: their product stays below 2^512, far from overflow.
+const logProductChunk = 512
+
+// sumLogSmall returns Σ ln yᵢ for yᵢ ∈ [1, 2] as Σ_chunks ln(Π yᵢ), one
+// logarithm per logProductChunk values instead of one per value. Each
+// product of m factors carries a relative rounding error below m·2⁻⁵³, so
+// its logarithm is off by less than m·2⁻⁵³ in absolute terms — no more than
+// the rounding of m partial sums of the individual logarithms, whose
+// magnitudes reach m·ln 2 (TestSumLogSmallAccuracy checks both against a
+// 256-bit reference).
+func sumLogSmall(y []float64) float64 {
+	var s float64
+	for start := 0; start < len(y); start += logProductChunk {
+		p := 1.0
+		for _, v := range y[start:min(start+logProductChunk, len(y))] {
+			p *= v
+		}
+		s += math.Log(p)
+	}
+	return s
 }
