@@ -32,9 +32,11 @@ type File struct {
 func RenderTables(tmpls []*templates.TableTemplate, analyses []Analysis, formats []string) ([]File, error) {
 	slugs := Slugs(analyses)
 	var use []*templates.TableTemplate
+	var builtin []func([]byte, *Analysis, string) []byte
 	for _, t := range tmpls {
 		if slices.Contains(formats, t.Format) {
 			use = append(use, t)
+			builtin = append(builtin, builtinFor(t))
 		}
 	}
 	// Analyses are rendered on every core (templates may run in parallel,
@@ -49,7 +51,7 @@ func RenderTables(tmpls []*templates.TableTemplate, analyses []Analysis, formats
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				files[i], errs[i] = renderAnalysis(use, analyses[i], slugs[i])
+				files[i], errs[i] = renderAnalysis(use, builtin, analyses[i], slugs[i])
 			}
 		}()
 	}
@@ -68,10 +70,16 @@ func RenderTables(tmpls []*templates.TableTemplate, analyses []Analysis, formats
 	return out, nil
 }
 
-// renderAnalysis renders the templates for one analysis, in kind order.
-func renderAnalysis(tmpls []*templates.TableTemplate, a Analysis, slug string) ([]File, error) {
+// renderAnalysis renders the templates for one analysis, in kind order:
+// through builtin[i] when not nil (tables_builtin.go), else through the
+// template.
+func renderAnalysis(tmpls []*templates.TableTemplate, builtin []func([]byte, *Analysis, string) []byte, a Analysis, slug string) ([]File, error) {
 	out := make([]File, 0, len(tmpls))
-	for _, t := range tmpls {
+	for i, t := range tmpls {
+		if render := builtin[i]; render != nil {
+			out = append(out, File{Name: slug + "-" + t.Kind + "." + t.Format, Data: render(make([]byte, 0, 2048), &a, slug)})
+			continue
+		}
 		var buf bytes.Buffer
 		if err := t.Execute(&buf, TableContext{A: a, Slug: slug}); err != nil {
 			return nil, fmt.Errorf("table template %s (%s) for analysis %s: %w", t.Name(), t.Source, a.Name, err)
