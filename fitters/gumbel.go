@@ -93,49 +93,90 @@ func (f gumbelFamily) Applicable(d *Data, fixed Fixed) error {
 // e = (x − min x)/sd (so the weights e^(−e/β) ≤ 1 never overflow and data far
 // from zero keep their spread) and as c = e − mean e, so that the
 // difference of means is summed directly. Safeguarded Newton from the
-// moment estimate β₀ = sd·√6/π.
+// moment estimate β₀ = sd·√6/π, one exponential per value per pass; the
+// last Newton step is taken without a confirming pass when Taylor bounds
+// make its outcome certain (see certain below and tiltedS0).
 func gumbelMLE(x []float64, opt Options) (location, scale, ll float64, conv Convergence) {
-	if xs, f := powerOfTwoScale(x); f != 1 {
-		location, scale, ll, conv = gumbelMLE(xs, opt)
-		return location / f, scale / f, ll + float64(len(x))*math.Log(f), conv
+	conv = Convergence{Method: "profile equation (safeguarded Newton)"}
+	if len(x) == 0 {
+		conv.Reason = "no values"
+		return math.NaN(), math.NaN(), math.NaN(), conv
+	}
+	lo, hi, _, sd := spreadOf(x)
+	if outsideUnitRange(lo, hi) {
+		if xs, f := powerOfTwoScale(x); f != 1 {
+			location, scale, ll, conv = gumbelMLE(xs, opt)
+			return location / f, scale / f, ll + float64(len(x))*math.Log(f), conv
+		}
 	}
 	n := float64(len(x))
-	lo, _ := minMax(x)
-	_, v := meanVar(x)
-	sd := math.Sqrt(v)
-	conv = Convergence{Method: "profile equation (safeguarded Newton)"}
 	if !(sd > 0) || math.IsInf(sd, 0) {
 		conv.Reason = fmt.Sprintf("the data's spread is %v: the scale has no finite estimate", sd)
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
-	e := make([]float64, len(x))
+	buf := borrowScratch(len(x))
+	defer returnScratch(buf)
+	e := *buf
+	var se float64
 	for i, xi := range x {
-		e[i] = (xi - lo) / sd
+		v := (xi - lo) / sd
+		e[i] = v
+		se += v
 	}
-	me, _ := meanVar(e)
-	c := make([]float64, len(e))
-	for i, v := range e {
-		c[i] = v - me
+	// mean e, with one correcting pass (as meanSD).
+	me := se / n
+	var corr float64
+	for _, v := range e {
+		corr += v - me
 	}
-	var sw float64 // Σ e^(−e/β) at the last evaluation
+	me += corr / n
+	// Every |e − mean e| ≤ cmax (a hair above, for rounding).
+	cmax := math.Max(me, (hi-lo)/sd-me) * (1 + 1e-12)
+	var sw, swc, swcc, dgLast float64 // sums at the last evaluation
 	// newtonMonotone wants an increasing function: −g.
 	fdf := func(b float64) (float64, float64) {
 		conv.Evaluations++
-		var swc, swcc float64
-		sw = 0
+		sw, swc, swcc = 0, 0, 0
 		ib := -1 / b
-		for i, v := range e {
+		for _, v := range e {
 			w := math.Exp(v * ib)
 			sw += w
-			wc := w * c[i]
+			c := v - me
+			wc := w * c
 			swc += wc
-			swcc += wc * c[i]
+			swcc += wc * c
 		}
 		mc := swc / sw
-		return mc + b, (swcc/sw-mc*mc)/(b*b) + 1
+		dgLast = (swcc/sw-mc*mc)/(b*b) + 1
+		return mc + b, dgLast
+	}
+	const xtol = 1e-14
+	// certain takes the last Newton step b → next without a pass when
+	// tiltedS0 carries Σ e^(−e/β) there to rounding and the root is certain:
+	// with t = −1/β, mc(t) = Σwc/Σw has mc′ = variance ≤ cmax² and
+	// |mc″| = |third central moment| ≤ (2cmax)³, so the profile function
+	// h(β) = mc + β has |h″| ≤ M = 8cmax³/β⁴ + 2cmax²/β³ between b and next,
+	// |h(next)| ≤ M(next − b)²/2, and h′ ≥ dh(b) − M|next − b| ≥ dh(b)/2.
+	certain := func(b, next float64) (float64, bool) {
+		s := next - b
+		bmin := math.Min(b, next)
+		m := 8*cmax*cmax*cmax/(bmin*bmin*bmin*bmin) + 2*cmax*cmax/(bmin*bmin*bmin)
+		if !(math.Abs(s)*m <= dgLast/2) {
+			return 0, false
+		}
+		hb := m * s * s / 2
+		if !(hb/(dgLast/2) <= xtol*next) {
+			return 0, false
+		}
+		s0, ok := tiltedS0(sw, swc, swcc, me, cmax, s/(b*next))
+		if !ok {
+			return 0, false
+		}
+		sw = s0
+		return hb, true
 	}
 	b0 := math.Sqrt(6) / math.Pi
-	b, r, it, err := newtonMonotone(fdf, b0, 1e-14, opt.maxIterations())
+	b, r, it, err := newtonMonotone(fdf, b0, xtol, opt.maxIterations(), certainOrNil(certain))
 	conv.Iterations = it
 	if err != nil {
 		conv.Reason = "profile equation: " + err.Error()

@@ -117,40 +117,87 @@ func (f weibullFamily) Applicable(d *Data, fixed Fixed) error {
 // which is increasing in k, then λ̂ = (mean x^k)^(1/k). It works with
 // e = ln(x/max x) ≤ 0 (so x^k never overflows: w = e^(k·e) ≤ 1) and with
 // c = e − mean e, so g(k) = Σ w c / Σ w − 1/k keeps its digits for data
-// clustered far from zero; ln x is taken once, before the iteration. The
-// safeguarded Newton iteration (newtonMonotone) starts from
-// k₀ = π/(√6·sd(ln x)) (the Gumbel moment estimate of ln x).
+// clustered far from zero; ln x is taken once, before the iteration, into a
+// borrowed buffer (no allocation once the pool is warm, as in bootstrap
+// refits). The safeguarded Newton iteration (newtonMonotone) starts from
+// k₀ = π/(√6·sd(ln x)) (the Gumbel moment estimate of ln x), one
+// exponential per value per pass; the last Newton step is taken without a
+// confirming pass when Taylor bounds make its outcome certain (certain
+// below, tiltedS0).
 func weibullMLE(x []float64, opt Options) (shape, scale, ll float64, conv Convergence) {
-	_, hi := minMax(x)
-	lnRef, e := logsAbout(x, hi)
-	n := float64(len(x))
-	me, ve := meanVar(e)
-	c := make([]float64, len(e))
-	for i, v := range e {
-		c[i] = v - me
-	}
 	conv = Convergence{Method: "profile equation (safeguarded Newton)"}
+	if len(x) == 0 {
+		conv.Reason = "no values"
+		return math.NaN(), math.NaN(), math.NaN(), conv
+	}
+	_, hi := minMax(x)
+	buf := borrowScratch(len(x))
+	defer returnScratch(buf)
+	e := *buf
+	lnRef, se := logsAboutInto(e, x, hi)
+	n := float64(len(x))
+	// Mean and variance of e as meanVar's two passes (with its correction).
+	me := se / n
+	var ss, corr float64
+	emin := 0.0
+	for _, v := range e {
+		d := v - me
+		ss += d * d
+		corr += d
+		if v < emin {
+			emin = v
+		}
+	}
+	ve := (ss - corr*corr/n) / n
+	me += corr / n
 	if !(ve > 0) {
 		conv.Reason = "ln x has no spread in floating point: the shape has no finite estimate"
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
-	var sw float64 // Σ e^(k·e) at the last evaluation
+	// Every |e − mean e| ≤ cmax (e ≤ 0; a hair above, for rounding).
+	cmax := math.Max(me-emin, -me) * (1 + 1e-12)
+	var sw, swc, swcc, dgLast float64 // sums at the last evaluation
 	fdf := func(k float64) (float64, float64) {
 		conv.Evaluations++
-		var swc, swcc float64
-		sw = 0
-		for i, v := range e {
+		sw, swc, swcc = 0, 0, 0
+		for _, v := range e {
 			w := math.Exp(k * v)
 			sw += w
-			wc := w * c[i]
+			c := v - me
+			wc := w * c
 			swc += wc
-			swcc += wc * c[i]
+			swcc += wc * c
 		}
 		mc := swc / sw
-		return mc - 1/k, swcc/sw - mc*mc + 1/(k*k)
+		dgLast = swcc/sw - mc*mc + 1/(k*k)
+		return mc - 1/k, dgLast
+	}
+	const xtol = 1e-14
+	// certain takes the last Newton step k → next without a pass when
+	// tiltedS0 carries Σ e^(k·e) there to rounding and the root is certain:
+	// g(k) = mc(k) − 1/k has g′ = variance + 1/k² and
+	// |g″| ≤ M = (2cmax)³ + 2/k³ between k and next, so
+	// |g(next)| ≤ M(next − k)²/2 and g′ ≥ g′(k) − M|next − k| ≥ g′(k)/2.
+	certain := func(k, next float64) (float64, bool) {
+		s := next - k
+		kmin := math.Min(k, next)
+		m := 8*cmax*cmax*cmax + 2/(kmin*kmin*kmin)
+		if !(math.Abs(s)*m <= dgLast/2) {
+			return 0, false
+		}
+		gb := m * s * s / 2
+		if !(gb/(dgLast/2) <= xtol*next) {
+			return 0, false
+		}
+		s0, ok := tiltedS0(sw, swc, swcc, me, cmax, s)
+		if !ok {
+			return 0, false
+		}
+		sw = s0
+		return gb, true
 	}
 	k0 := math.Pi / (math.Sqrt(6) * math.Sqrt(ve))
-	k, r, it, err := newtonMonotone(fdf, k0, 1e-14, opt.maxIterations())
+	k, r, it, err := newtonMonotone(fdf, k0, xtol, opt.maxIterations(), certainOrNil(certain))
 	conv.Iterations = it
 	if err != nil {
 		conv.Reason = "profile equation: " + err.Error()
@@ -162,7 +209,7 @@ func weibullMLE(x []float64, opt Options) (shape, scale, ll float64, conv Conver
 	shape, scale = k, math.Exp(lnRef+L)
 	// ln f(x) = ln k − ln λ + (k−1)(ln x − ln λ) − (x/λ)^k, Σ(x/λ)^k = n,
 	// ln x − ln λ = e − L.
-	ll = n*math.Log(k) - n*(lnRef+L) + (k-1)*(sumOf(e)-n*L) - n
+	ll = n*math.Log(k) - n*(lnRef+L) + (k-1)*(se-n*L) - n
 	return shape, scale, ll, conv
 }
 
