@@ -19,23 +19,30 @@ type member struct {
 
 // gzipLevel is the compression level of bundles.
 //
-// Measured on 2026-12-02 with BenchmarkGzipLevels (tarball_test.go: 15 MiB
-// of numeric CSV text shaped like fitseal's inputs and result tables, one
-// core of this 2-core machine, Go 1.26 compress/gzip):
+// Measured on 2026-12-02 with BenchmarkGzipBundleLevels
+// (gzip_bundle_bench_test.go) on the tar stream of the 1000-dataset bench
+// bundle (`../shared/bench/run.sh -S 1000 --keep`: 41 MB, of which 13.9 MB
+// input CSV, 11.8 MB results.json, 5.6 MB result CSVs, 6.7 MB tables), as
+// 1 MiB members on one core of this shared 2-core machine (Go 1.26
+// compress/flate; times of a loaded machine, ratios exact):
 //
-//	level  MB/s  ratio
-//	1      74    2.47
-//	3      46    2.68
-//	6      30    2.78
-//	9      14    2.79
+//	level  seconds  MB     ratio
+//	1      0.37     11.19  4.05
+//	2      0.50     10.37  4.38
+//	3      0.57     10.21  4.44
+//	4      0.57      9.89  4.59
+//	5      1.10      9.29  4.88
+//	6      1.58      9.10  4.98
+//	9      6.87      8.94  5.08
 //
-// Level 6 keeps all but a fraction of a percent of level 9's saving at twice
-// its speed; level 1 is 2.5 times faster but its output is 13% larger. A
-// bundle is written once and kept for years, and at 30 MB/s a 15 MB bundle
-// costs half a second, small beside the fitting: level 6. The level is
-// named, not left to the library's default, so that it cannot change under
-// us and alter the bytes.
-const gzipLevel = 6
+// Level 6 spent two thirds of its time on the input CSV (numeric text,
+// where its longer match search finds little); level 4 is 2.8 times
+// faster than 6 for a bundle 8.7% larger, and level 1 a further 1.5 times
+// faster for one 13% larger than level 4's. Level 4: the largest step in
+// speed for the smallest loss in size. The level is named, not left to
+// the library's default, so that it cannot change under us and alter the
+// bytes.
+const gzipLevel = 4
 
 // Folder and file modes inside every bundle (SPEC.md, "The bundle").
 const (

@@ -1,0 +1,92 @@
+package bundle
+
+import (
+	"archive/tar"
+	"bytes"
+	"compress/gzip"
+	"io"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+)
+
+// BenchmarkGzipBundleLevels compresses the tar stream of a real bundle,
+// named by $FITSEAL_BENCH_BUNDLE (e.g. a bundle kept by
+// `../shared/bench/run.sh -S 1000 --keep`), as gzipped members of
+// gzipChunk on one core at levels 1 to 6 and 9, reporting the ratio; and,
+// per kind of member (inputs, results.json, the result CSVs, tables,
+// run.json and manifests, tar headers), the bytes each level leaves. It
+// justifies gzipLevel (tarball.go). Skipped when the variable is unset.
+func BenchmarkGzipBundleLevels(b *testing.B) {
+	path := os.Getenv("FITSEAL_BENCH_BUNDLE")
+	if path == "" {
+		b.Skip("set FITSEAL_BENCH_BUNDLE to a bundle .tar.gz")
+	}
+	f, err := os.ReadFile(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	zr, err := gzip.NewReader(bytes.NewReader(f))
+	if err != nil {
+		b.Fatal(err)
+	}
+	stream, err := io.ReadAll(zr)
+	if err != nil {
+		b.Fatal(err)
+	}
+	// The members by kind, each kind concatenated.
+	kinds := map[string][]byte{}
+	tr := tar.NewReader(bytes.NewReader(stream))
+	for {
+		h, err := tr.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			b.Fatal(err)
+		}
+		data, _ := io.ReadAll(tr)
+		kinds[memberKind(h.Name)] = append(kinds[memberKind(h.Name)], data...)
+	}
+	for _, level := range []int{1, 2, 3, 4, 5, 6, 9} {
+		b.Run("level"+strconv.Itoa(level), func(b *testing.B) {
+			b.SetBytes(int64(len(stream)))
+			var size int
+			for b.Loop() {
+				var out bytes.Buffer
+				m := newMemberWriter(&out, level)
+				m.workers = 1
+				m.Write(stream)
+				m.Close()
+				size = out.Len()
+			}
+			b.ReportMetric(float64(len(stream))/float64(size), "ratio")
+			b.ReportMetric(float64(size)/1e6, "MB")
+			for k, data := range kinds {
+				var out bytes.Buffer
+				start := time.Now()
+				m := newMemberWriter(&out, level)
+				m.workers = 1
+				m.Write(data)
+				m.Close()
+				b.Logf("level %d %-14s %9d -> %9d bytes (ratio %.2f) in %v", level, k, len(data), out.Len(), float64(len(data))/float64(out.Len()), time.Since(start).Round(time.Millisecond))
+			}
+		})
+	}
+}
+
+func memberKind(name string) string {
+	switch {
+	case strings.Contains(name, "/data/inputs/"):
+		return "inputs"
+	case strings.HasSuffix(name, "/results.json"):
+		return "results.json"
+	case strings.Contains(name, "/data/results/"):
+		return "result CSVs"
+	case strings.Contains(name, "/data/tables/"):
+		return "tables"
+	}
+	return "run.json, tags"
+}
