@@ -42,25 +42,53 @@ func (st *studentized) add(r int, tHat, tStar, seStar float64, why string) {
 	st.t = append(st.t, (tStar-tHat)/seStar)
 }
 
-// interval returns s⁻¹(t̂ − t*₍₍₁₊L₎/₂₎·se), s⁻¹(t̂ − t*₍₍₁₋L₎/₂₎·se), the
-// pivot quantiles by linear interpolation between order statistics
-// (Hyndman & Fan, 1996, type 7); st.t is sorted in place.
-func (st *studentized) interval(tHat, se float64, sc Scale, level float64) (float64, float64) {
+// interval returns s⁻¹(t̂ − t*₍₍₁₊L₎/₂₎·se), s⁻¹(t̂ − t*₍₍₁₋L₎/₂₎·se) with
+// the pivot quantiles at the (m + 1)p-th order statistic of the m pivots
+// (Davison & Hinkley, 1997, §5.2.1, which makes the coverage exact for an
+// exact pivot whatever B, e.g. t*₍₅₎ and t*₍₁₉₅₎ of 199), interpolated
+// linearly between order statistics (Hyndman & Fan, 1996, type 6); st.t is
+// sorted in place. short reports that m is too small for the level, so
+// that an extreme pivot stands in for a quantile beyond it.
+func (st *studentized) interval(tHat, se float64, sc Scale, level float64) (lo, hi float64, short bool) {
 	if len(st.t) == 0 {
-		return math.NaN(), math.NaN()
+		return math.NaN(), math.NaN(), true
 	}
 	slices.Sort(st.t)
-	hi := quantile7(st.t, (1+level)/2)
-	lo := quantile7(st.t, (1-level)/2)
-	return sc.From(tHat - hi*se), sc.From(tHat - lo*se)
+	tHi, shortHi := quantile6(st.t, (1+level)/2)
+	tLo, shortLo := quantile6(st.t, (1-level)/2)
+	return sc.From(tHat - tHi*se), sc.From(tHat - tLo*se), shortHi || shortLo
+}
+
+// quantile6 is the type-6 sample quantile of sorted v (Hyndman & Fan,
+// 1996): linear interpolation at the 1-based position (m + 1)p, clamped to
+// the extreme order statistics; clamped says a clamp was needed.
+func quantile6(v []float64, p float64) (q float64, clamped bool) {
+	m := len(v)
+	h := float64(m+1) * p
+	switch {
+	case h < 1:
+		return v[0], true
+	case h >= float64(m):
+		return v[m-1], h > float64(m)
+	}
+	lo := math.Floor(h)
+	i := int(lo) - 1
+	if h == lo || v[i] == v[i+1] {
+		return v[i], false
+	}
+	return v[i] + (h-lo)*(v[i+1]-v[i]), false
 }
 
 // note says which replicates were left out of the pivot quantiles.
-func (st *studentized) note(requested int) string {
-	if st.left == 0 {
-		return ""
+func (st *studentized) note(requested int, short bool, level float64) string {
+	var n string
+	if short {
+		n = fmt.Sprintf("%d pivots are too few for level %v: the extreme pivot stands in for a quantile beyond it, so the interval may be too short", len(st.t), level)
 	}
-	return fmt.Sprintf("%d of %d replicates gave no studentized value and are left out of the bootstrap-t quantiles (%s)", st.left, requested, st.firstLeft)
+	if st.left == 0 {
+		return n
+	}
+	return joinNote(n, fmt.Sprintf("%d of %d replicates gave no studentized value and are left out of the bootstrap-t quantiles (%s)", st.left, requested, st.firstLeft))
 }
 
 // bootstrapTLabel is the ci_method text of a bootstrap-t interval.
@@ -144,8 +172,9 @@ func bootstrapDerived(out *DerivedValue, rep *Replicates, g func([]float64) floa
 		}
 		if len(st.t) > 0 {
 			out.Method = bootstrapTLabel(sc, len(st.t))
-			out.Lower, out.Upper = st.interval(tHat, seT, sc, level)
-			out.Note = joinNote(failedNote(rep), st.note(rep.Requested))
+			var short bool
+			out.Lower, out.Upper, short = st.interval(tHat, seT, sc, level)
+			out.Note = joinNote(failedNote(rep), st.note(rep.Requested, short, level))
 			return
 		}
 		why = "no replicate gave a studentized value (" + st.firstLeft + ")"

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"slices"
 	"testing"
 
 	"fitseal/fitters"
@@ -62,4 +63,37 @@ func ballSettings(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitters
 func withinWidth(lo, hi float64, e exactInterval, frac float64) bool {
 	w := e.Upper - e.Lower
 	return math.Abs(lo-e.Lower) <= frac*w && math.Abs(hi-e.Upper) <= frac*w
+}
+
+// TestQuantile6: the pivot quantiles follow Hyndman & Fan's type 6,
+// checked against numpy.quantile(method="weibull") including the clamped
+// positions (testdata/infer/bootstrap_t.json).
+func TestQuantile6(t *testing.T) {
+	b, err := os.ReadFile("../../testdata/infer/bootstrap_t.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Type6 []struct {
+			Values, Probs, Quantiles []float64
+		}
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Type6) == 0 {
+		t.Fatal("no type-6 cases")
+	}
+	for _, c := range doc.Type6 {
+		v := append([]float64(nil), c.Values...)
+		slices.Sort(v)
+		m := float64(len(v))
+		for k, p := range c.Probs {
+			got, clamped := quantile6(v, p)
+			wantClamped := (m+1)*p < 1 || (m+1)*p > m
+			if !close(got, c.Quantiles[k], 1e-12) || clamped != wantClamped {
+				t.Errorf("m = %v, p = %v: %v (clamped %v), numpy %v (clamped %v)", m, p, got, clamped, c.Quantiles[k], wantClamped)
+			}
+		}
+	}
 }

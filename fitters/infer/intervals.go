@@ -110,8 +110,8 @@ type ParameterInterval struct {
 //     r gives the pivot t*ᵣ = (t(θ*ᵣ) − t̂)/se*ᵣ, se*ᵣ from the refit's own
 //     observed information, and the interval is
 //     t⁻¹(t̂ − t*₍₍₁₊L₎/₂₎·se(t̂), t̂ − t*₍₍₁₋L₎/₂₎·se(t̂)), the pivot
-//     quantiles by linear interpolation between order statistics (Hyndman
-//     & Fan, 1996, type 7). For a location or scale parameter of a
+//     quantile at p the (B + 1)p-th order statistic (Davison & Hinkley,
+//     1997, §5.2.1), interpolated (Hyndman & Fan, 1996, type 6). For a location or scale parameter of a
 //     location–scale family (and the Weibull shape) the pivot's law does
 //     not depend on the parameters, so the interval is exact up to
 //     Monte-Carlo error. Replicates whose information is singular or
@@ -224,8 +224,9 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 				}
 				if len(st.t) > 0 {
 					r.Method = bootstrapTLabel(sc, len(st.t))
-					r.Lower, r.Upper = st.interval(tHat, se, sc, level)
-					r.Note = joinNote(failedNote(rep), st.note(rep.Requested))
+					var short bool
+					r.Lower, r.Upper, short = st.interval(tHat, se, sc, level)
+					r.Note = joinNote(failedNote(rep), st.note(rep.Requested, short, level))
 					continue
 				}
 				why = "no replicate gave a studentized value (" + st.firstLeft + ")"

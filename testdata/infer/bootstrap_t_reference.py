@@ -5,6 +5,10 @@ Monte-Carlo error, made with scipy from Debian.
 Run from the repository root:  /usr/bin/python3 testdata/infer/bootstrap_t_reference.py
 Writes testdata/infer/bootstrap_t.json.
 
+It also records sample quantiles by numpy.quantile(method="weibull"), which is
+Hyndman & Fan's (1996) type 6, position (m + 1)p: the rule fitseal uses for the
+bootstrap-t pivot quantiles (Davison & Hinkley, 1997, section 5.2.1).
+
 For these quantities the studentized pivot's distribution does not depend on
 the parameters, so the bootstrap-t interval (Efron & Tibshirani, 1993,
 section 12.5) tends, as B grows, to the exact interval from that pivot:
@@ -26,6 +30,7 @@ import json
 import math
 import os
 
+import numpy as np
 import scipy
 from scipy import stats
 
@@ -67,6 +72,15 @@ out = {
          "lower": xbar - s * nct_hi / math.sqrt(n), "upper": xbar - s * nct_lo / math.sqrt(n)},
     ],
 }
+# type-6 quantiles of the ball-bearing times and of their first 7
+# (where positions below 1 and above m are clamped to the extremes).
+probs = [0.001, 0.025, 0.1, 0.5, 0.9, 0.975, 0.999]
+out["type6"] = [
+    {"values": v, "probs": probs, "quantiles": [float(q) for q in np.quantile(v, probs, method="weibull")]}
+    for v in (BALL, BALL[:7])
+]
+out["source"] += ", numpy " + np.__version__
+
 with open(os.path.join(HERE, "bootstrap_t.json"), "w") as f:
     json.dump(out, f, indent=1)
     f.write("\n")
