@@ -97,6 +97,19 @@ func (f exponentialFamily) Applicable(d *Data, fixed Fixed) error {
 }
 
 func (f exponentialFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) > 0 {
+		// Complete data: Applicable's checks (no fixed parameter, values
+		// ≥ 0, not all 0) come out of the pass that sums the values.
+		lo, _, total := scan4(d.Exact)
+		if r := float64(len(d.Exact)); lo >= 0 && total > 0 && !math.IsInf(total, 1) {
+			fit := newFit(f, d)
+			rate := r / total
+			fit.Estimates[0] = rate
+			fit.LogLik = r*math.Log(rate) - r // λ̂·Σx = n
+			fit.Convergence = closedForm()
+			return fit, nil
+		}
+	}
 	if err := f.Applicable(d, opt.Fixed); err != nil {
 		return nil, err
 	}

@@ -167,7 +167,45 @@ func invgaussMLE(x []float64) (mean, shape, ll float64) {
 	return m, shape, ll
 }
 
+// invgaussFast is the closed form on complete data whose values are
+// positive and not all equal (Applicable's conditions, read off scan4): the
+// mean with meanSD's correcting pass, 1/λ̂ as in invgaussMLE, and Σ ln x
+// through sumLogs. ok is false when the data need the general route.
+func invgaussFast(x []float64) (mean, shape, ll float64, ok bool) {
+	lo, hi, sum := scan4(x)
+	if !(lo > 0 && lo < hi) || math.IsInf(sum, 0) {
+		return 0, 0, 0, false
+	}
+	n := float64(len(x))
+	m := sum / n
+	var c float64
+	for _, v := range x {
+		c += v - m
+	}
+	m += c / n
+	var sq float64
+	for _, v := range x {
+		r := (v - m) / m
+		sq += r * (r / v)
+	}
+	shape = n / sq
+	if !(shape > 0) || math.IsInf(shape, 0) {
+		return 0, 0, 0, false
+	}
+	ll = n*(0.5*math.Log(shape)-lnSqrt2Pi) - 1.5*sumLogs(x) - 0.5*n
+	return m, shape, ll, true
+}
+
 func (f invgaussFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) >= 2 {
+		if m, s, ll, ok := invgaussFast(d.Exact); ok {
+			fit := newFit(f, d)
+			fit.Estimates[0], fit.Estimates[1] = m, s
+			fit.LogLik = ll
+			fit.Convergence = closedForm()
+			return fit, nil
+		}
+	}
 	if err := f.Applicable(d, opt.Fixed); err != nil {
 		return nil, err
 	}

@@ -118,3 +118,74 @@ func sumLogSmall(y []float64) float64 {
 	}
 	return s
 }
+
+// logAccumulator sums logarithms of positive numbers as the logarithm of
+// their running product: mul multiplies a factor in (factors outside
+// [2⁻²⁵⁰, 2²⁵⁰] are logged on their own), and after every fourth factor the
+// product's binary exponent is moved into an integer, keeping it in [1, 2);
+// four factors in range cannot take it out of the normal range. Each
+// multiplication rounds by at most 2⁻⁵³ relative, so after m factors the
+// sum is off by at most m·2⁻⁵³ absolute plus the final rounding — less than
+// summing m math.Log values, whose partial sums round at their own
+// magnitude (TestSumLogsAccuracy).
+type logAccumulator struct {
+	p     float64 // running product in [2⁻¹⁰⁰⁰, 2¹⁰⁰²]
+	k     int     // factors since the last renormalisation
+	exp   int     // binary exponents moved out of p
+	loose float64 // logs of the out-of-range factors
+}
+
+func newLogAccumulator() logAccumulator { return logAccumulator{p: 1} }
+
+func (a *logAccumulator) mul(v float64) {
+	if !(v >= 0x1p-250 && v <= 0x1p250) {
+		a.loose += math.Log(v)
+		return
+	}
+	a.p *= v
+	a.k++
+	if a.k == 4 {
+		a.renormalise()
+	}
+}
+
+func (a *logAccumulator) renormalise() {
+	b := math.Float64bits(a.p)
+	a.exp += int(b>>52&0x7ff) - 1023
+	a.p = math.Float64frombits(b&^(0x7ff<<52) | 1023<<52)
+	a.k = 0
+}
+
+// sum returns Σ ln of the factors multiplied in.
+func (a *logAccumulator) sum() float64 {
+	a.renormalise()
+	return float64(a.exp)*math.Ln2 + math.Log(a.p) + a.loose
+}
+
+// sumLogs returns Σ ln xᵢ for positive x as a logAccumulator would, four
+// values at a time: when all four are in range their product
+// (x₀x₁)(x₂x₃) ∈ [2⁻¹⁰⁰⁰, 2¹⁰⁰⁰] joins the running product in one step
+// (four roundings for four factors, as one by one).
+func sumLogs(x []float64) float64 {
+	acc := newLogAccumulator()
+	i := 0
+	for ; i+4 <= len(x); i += 4 {
+		a, b, c, d := x[i], x[i+1], x[i+2], x[i+3]
+		if min(a, b, c, d) >= 0x1p-250 && max(a, b, c, d) <= 0x1p250 {
+			if acc.k != 0 {
+				acc.renormalise() // p back in [1, 2)
+			}
+			acc.p *= (a * b) * (c * d)
+			acc.renormalise()
+			continue
+		}
+		acc.mul(a)
+		acc.mul(b)
+		acc.mul(c)
+		acc.mul(d)
+	}
+	for ; i < len(x); i++ {
+		acc.mul(x[i])
+	}
+	return acc.sum()
+}
