@@ -257,3 +257,32 @@ func scan4(x []float64) (lo, hi, sum float64) {
 	}
 	return lo, hi, (s0 + s1) + (s2 + s3)
 }
+
+// quickApplicable reports whether d is complete data, with no fixed
+// parameter, at least minN values, not all equal and (with positive) all
+// > 0: then noFixed, needDistinct and needPositive hold, and a family's Fit
+// may skip Applicable's separate passes. false only means "ask Applicable".
+func quickApplicable(d *Data, opt Options, minN int, positive bool) bool {
+	if !d.IsComplete() || len(opt.Fixed) != 0 || len(d.Exact) < max(minN, 1) {
+		return false
+	}
+	lo, hi := minMax4(d.Exact)
+	return lo < hi && (!positive || lo > 0)
+}
+
+// minMax4 returns the smallest and largest of x (len(x) ≥ 1; NaN when any
+// value is NaN), four values a step.
+func minMax4(x []float64) (lo, hi float64) {
+	lo, hi = x[0], x[0]
+	i := 0
+	for ; i+4 <= len(x); i += 4 {
+		a, b, c, d := x[i], x[i+1], x[i+2], x[i+3]
+		lo = min(lo, a, b, c, d)
+		hi = max(hi, a, b, c, d)
+	}
+	for ; i < len(x); i++ {
+		lo = min(lo, x[i])
+		hi = max(hi, x[i])
+	}
+	return lo, hi
+}

@@ -171,21 +171,28 @@ func gammaMLE(x []float64, opt Options) (shape, rate, ll float64, conv Convergen
 	// With d = (x − x̄)/x̄: ln(x/x̄) = d + log1pmx(d), and
 	// s = −mean log1p(d) + log1p(mean d) = −mean log1pmx(d) + log1pmx(mean d),
 	// a sum of non-negative terms (x̄ as computed need not be the exact mean).
+	// Where |d| ≥ 0.1, ln(x/x̄) = ln(1+d) is summed through a
+	// logAccumulator (the log of the running product of x/x̄), not one log
+	// per value; below, log1pmx's series.
 	lnRef := math.Log(xbar)
-	var sumD, sumL, sy float64
+	ixbar := 1 / xbar
+	var sumD, sumL, sy, sumDLog float64
+	acc := newLogAccumulator()
 	for _, v := range x {
 		d := (v - xbar) / xbar
 		sumD += d
-		if v > 0.5*xbar && v < 1.5*xbar {
+		if math.Abs(d) < 0.1 {
 			l := log1pmx(d)
 			sumL += l
 			sy += d + l
 		} else {
-			ly := math.Log(v) - lnRef
-			sumL += ly - d
-			sy += ly
+			acc.mul(v * ixbar)
+			sumDLog += d
 		}
 	}
+	sLog := acc.sum() // Σ ln(x/x̄) where |d| ≥ 0.1
+	sumL += sLog - sumDLog
+	sy += sLog
 	s := -sumL/n + log1pmx(sumD/n)
 	conv = Convergence{Method: "profile equation (safeguarded Newton)", Evaluations: 1}
 	if !(s > 0) {
@@ -221,8 +228,10 @@ func gammaMLE(x []float64, opt Options) (shape, rate, ll float64, conv Convergen
 }
 
 func (f gammaFamily) Fit(d *Data, opt Options) (*Fit, error) {
-	if err := f.Applicable(d, opt.Fixed); err != nil {
-		return nil, err
+	if !quickApplicable(d, opt, 2, true) {
+		if err := f.Applicable(d, opt.Fixed); err != nil {
+			return nil, err
+		}
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {

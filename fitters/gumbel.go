@@ -192,8 +192,10 @@ func gumbelMLE(x []float64, opt Options) (location, scale, ll float64, conv Conv
 }
 
 func (f gumbelFamily) Fit(d *Data, opt Options) (*Fit, error) {
-	if err := f.Applicable(d, opt.Fixed); err != nil {
-		return nil, err
+	if !quickApplicable(d, opt, 2, false) {
+		if err := f.Applicable(d, opt.Fixed); err != nil {
+			return nil, err
+		}
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {

@@ -195,8 +195,10 @@ func locScaleMLE(x []float64, sums func(v []float64, a, b float64) (ll, ga, gb, 
 }
 
 func (f logisticFamily) Fit(d *Data, opt Options) (*Fit, error) {
-	if err := f.Applicable(d, opt.Fixed); err != nil {
-		return nil, err
+	if !quickApplicable(d, opt, 2, false) {
+		if err := f.Applicable(d, opt.Fixed); err != nil {
+			return nil, err
+		}
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {

@@ -119,8 +119,10 @@ func loglogisticMLE(x []float64, opt Options) (scale, shape, ll float64, conv Co
 }
 
 func (f loglogisticFamily) Fit(d *Data, opt Options) (*Fit, error) {
-	if err := f.Applicable(d, opt.Fixed); err != nil {
-		return nil, err
+	if !quickApplicable(d, opt, 2, true) {
+		if err := f.Applicable(d, opt.Fixed); err != nil {
+			return nil, err
+		}
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {

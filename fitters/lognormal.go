@@ -108,21 +108,34 @@ func (f lognormalFamily) Applicable(d *Data, fixed Fixed) error {
 }
 
 // lognormalMLE is the closed-form estimate from complete data x > 0 and the
-// maximum log-likelihood: μ̂ = mean ln x, σ̂² = mean (ln x − μ̂)². The logs are
-// taken about x[0] (logsAbout) so that tightly clustered data keep their spread.
+// maximum log-likelihood: μ̂ = mean ln x, σ̂² = mean (ln x − μ̂)² (two passes
+// with the correction of Chan, Golub & LeVeque, 1983). The logs are taken
+// about x[0] (logsAbout), into a borrowed buffer, so that tightly clustered
+// data keep their spread.
 func lognormalMLE(x []float64) (mu, sigma, ll float64) {
-	lnRef, y := logsAbout(x, 0)
-	m, v := meanVar(y)
+	buf := borrowScratch(len(x))
+	defer returnScratch(buf)
+	y := *buf
+	lnRef, sy := logsAboutInto(y, x, 0)
 	n := float64(len(x))
+	m := sum4(y) / n
+	ss, c := sumSqDev4(y, m)
+	v := (ss - c*c/n) / n
+	m += c / n
+	if !(v >= 0) {
+		v = 0
+	}
 	mu, sigma = lnRef+m, math.Sqrt(v)
 	// At the optimum Σ(ln x − μ̂)² = nσ̂², so the quadratic term is −n/2.
-	ll = -(n*lnRef + sumOf(y)) - n*(math.Log(sigma)+lnSqrt2Pi) - 0.5*n
+	ll = -(n*lnRef + sy) - n*(math.Log(sigma)+lnSqrt2Pi) - 0.5*n
 	return mu, sigma, ll
 }
 
 func (f lognormalFamily) Fit(d *Data, opt Options) (*Fit, error) {
-	if err := f.Applicable(d, opt.Fixed); err != nil {
-		return nil, err
+	if !quickApplicable(d, opt, 2, true) {
+		if err := f.Applicable(d, opt.Fixed); err != nil {
+			return nil, err
+		}
 	}
 	fit := newFit(f, d)
 	if d.IsComplete() {
