@@ -3,6 +3,7 @@ package runner
 import (
 	"errors"
 	"math"
+	"math/rand/v2"
 	"reflect"
 	"strconv"
 	"strings"
@@ -183,4 +184,46 @@ func BenchmarkReadCSV(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// parseFloat must give exactly strconv.ParseFloat's value and error kind
+// for every cell, through parseDecimal's exact path or through strconv.
+func sameAsStrconv(t *testing.T, s string) {
+	t.Helper()
+	want, werr := strconv.ParseFloat(s, 64)
+	got, gerr := parseFloat([]byte(s))
+	if (werr == nil) != (gerr == nil) || math.Float64bits(got) != math.Float64bits(want) && !(math.IsNaN(got) && math.IsNaN(want)) {
+		t.Fatalf("parseFloat(%q) = %v (%b), %v; strconv %v (%b), %v", s, got, math.Float64bits(got), gerr, want, math.Float64bits(want), werr)
+	}
+	if werr != nil && werr.Error() != gerr.Error() {
+		t.Fatalf("parseFloat(%q): error %v, strconv %v", s, gerr, werr)
+	}
+	if f, ok := parseDecimal([]byte(s)); ok && (werr != nil || math.Float64bits(f) != math.Float64bits(want)) {
+		t.Fatalf("parseDecimal(%q) = %v, strconv %v, %v", s, f, want, werr)
+	}
+}
+
+func TestParseFloatMatchesStrconv(t *testing.T) {
+	cells := []string{"0", "-0", "+0", "0.0", "-0.0e5", "0e99999", "1", "-1", "+1", ".5", "5.", ".", "-.", "+", "", "e5", "1e", "1e+", "1e-5",
+		"1E5", "1.5e22", "1e23", "1e-22", "1e-23", "123456789012345678", "1234567890123456789", "12345678901234567890",
+		"9007199254740992", "9007199254740993", "9007199254740992e1", "0.000000000000000000000000001", "00000000000000000000000001.5",
+		"1_000", "0x1p-2", "inf", "NaN", "1e308", "1e309", "-1e400", "4.9e-324", "2.2250738585072014e-308", "1..2", "1.2.3", "1e5.5",
+		"1e1000000", "0.1", "0.2", "0.30000000000000004", "3.141592653589793", "17976931348623157e292", "1,5", " 1", "1 "}
+	r := rand.New(rand.NewPCG(5, 6))
+	for range 20000 {
+		x := math.Float64frombits(r.Uint64())
+		cells = append(cells, strconv.FormatFloat(x, 'g', -1, 64), strconv.FormatFloat(x, 'e', r.IntN(20), 64))
+		y := r.ExpFloat64() * math.Pow(10, float64(r.IntN(20)-10))
+		cells = append(cells, strconv.FormatFloat(y, 'g', -1, 64), strconv.FormatFloat(y, 'f', r.IntN(12), 64), strconv.FormatFloat(-y, 'g', 8, 64))
+	}
+	for _, s := range cells {
+		sameAsStrconv(t, s)
+	}
+}
+
+func FuzzParseFloat(f *testing.F) {
+	for _, s := range []string{"1.5", "-0", ".5e-3", "9007199254740993", "1e22", "1e23", "0x1p3", "NaN"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) { sameAsStrconv(t, s) })
 }
