@@ -69,7 +69,7 @@ func (logisticFamily) Parameters() []string { return []string{"location", "scale
 func (logisticFamily) Kind() Kind           { return Continuous }
 func (logisticFamily) Support() string      { return "real line" }
 func (logisticFamily) Route() string {
-	return "Newton with step halving on the concave (location/scale, 1/scale) likelihood; censored data: BFGS on (location, log scale)"
+	return "Newton with step halving (Chebyshev steps near the maximum) on the concave (location/scale, 1/scale) likelihood; censored data: BFGS on (location, log scale)"
 }
 
 func (logisticFamily) New(p []float64) (Dist, error) {
@@ -108,22 +108,26 @@ func (f logisticFamily) Applicable(d *Data, fixed Fixed) error {
 // locScaleNewton on the standardized values (x − x̄)/sd, starting from the
 // moment estimates μ₀ = x̄, s₀ = sd·√3/π.
 func logisticMLE(x []float64, opt Options) (location, scale, ll float64, conv Convergence) {
-	return locScaleMLE(x, logisticSums, math.Pi/math.Sqrt(3), logisticG3Bound, opt)
+	return locScaleMLE(x, logisticSums, math.Pi/math.Sqrt(3), locScaleBounds{c3: logisticG3Bound, c4: logisticG4Bound}, opt)
 }
 
-// logisticG3Bound bounds |g‴(z)| = 2|f₀′(z)| = 2F(1−F)|2F−1| for the
-// standard logistic (F = F₀(z)), whose maximum 1/(3√3) ≈ 0.19245 is at
-// F = ½ ± 1/(2√3).
-const logisticG3Bound = 0.1925
+// logisticBounds are the standard logistic's derivative bounds: with
+// F = F₀(z), f₀ = F(1−F), g‴ = −2f₀′ = 2F(1−F)(2F−1) has maximum modulus
+// 1/(3√3) ≈ 0.19245 at F = ½ ± 1/(2√3), and g⁗ = −2f₀″ =
+// −2F(1−F)(1 − 6F + 6F²) has maximum modulus ¼ at F = ½.
+const (
+	logisticG3Bound = 0.1925
+	logisticG4Bound = 0.25
+)
 
 // logisticSums is locScaleNewton's ℓ(a, b) = n ln b + Σ g(z), z = b·v − a,
-// g(z) = −|z| − 2 ln(1 + e^(−|z|)), with its gradient and Hessian, from one
-// exponential per value: with e = e^(−|z|) and q = 1/(1 + e),
-// g′(z) = −sign(z)(1 − e)q = −tanh(z/2) and g″(z) = −2eq².
-// Σ ln(1 + e) is summed as the log of products of up to 512 factors
-// (sumLogSmall), not as a log per value.
-func logisticSums(v []float64, a, b float64) (ll, ga, gb, haa, hab, hbb float64) {
-	var saz, st, stx, sh, shx, shxx, slog float64
+// g(z) = −|z| − 2 ln(1 + e^(−|z|)), with its gradient, Hessian and third
+// derivatives, from one exponential per value: with e = e^(−|z|),
+// q = 1/(1 + e), t = sign(z)(1 − e)q = tanh(z/2) and h = eq² = f₀(z),
+// g′ = −t, g″ = −2h and g‴ = 2ht. Σ ln(1 + e) is summed as the log of
+// products of up to 512 factors (as sumLogSmall), not as a log per value.
+func logisticSums(v []float64, a, b float64) locScalePoint {
+	var saz, st, stx, sh, shx, shxx, su, sux, suxx, suxxx, slog float64
 	for start := 0; start < len(v); start += logProductChunk {
 		chunk := v[start:min(start+logProductChunk, len(v))]
 		p := 1.0
@@ -133,7 +137,7 @@ func logisticSums(v []float64, a, b float64) (ll, ga, gb, haa, hab, hbb float64)
 			e := math.Exp(-az)
 			y := 1 + e
 			q := 1 / y
-			t := math.Copysign((1-e)*q, z) // branch-free: z's sign is a coin toss
+			t := math.Copysign((1-e)*q, z)
 			h := e * q * q
 			saz += az
 			st += t
@@ -141,27 +145,39 @@ func logisticSums(v []float64, a, b float64) (ll, ga, gb, haa, hab, hbb float64)
 			sh += h
 			hx := h * x
 			shx += hx
-			shxx += hx * x
+			hxx := hx * x
+			shxx += hxx
+			su += h * t
+			sux += hx * t
+			suxx += hxx * t
+			suxxx += hxx * x * t
 			p *= y
 		}
 		slog += math.Log(p)
 	}
 	n := float64(len(v))
-	ll = n*math.Log(b) - saz - 2*slog
-	ga = st
-	gb = n/b - stx
-	haa = -2 * sh
-	hab = 2 * shx
-	hbb = -n/(b*b) - 2*shxx
-	return
+	return locScalePoint{
+		ll:    n*math.Log(b) - saz - 2*slog,
+		ga:    st,
+		gb:    n/b - stx,
+		haa:   -2 * sh,
+		hab:   2 * shx,
+		hbb:   -n/(b*b) - 2*shxx,
+		taaa:  -2 * su,
+		taab:  2 * sux,
+		tabb:  -2 * suxx,
+		tbbb:  2*suxxx + 2*n/(b*b*b),
+		cubic: true,
+	}
 }
 
 // locScaleMLE runs locScaleNewton for a log-concave location-scale family on
 // complete data, standardizing x first (into a borrowed buffer) and mapping
 // the result back; sums evaluates the family's ℓ on the standardized values,
-// b0 is the starting 1/scale on them and c3 bounds |g‴| (0: unknown).
-func locScaleMLE(x []float64, sums func(v []float64, a, b float64) (ll, ga, gb, haa, hab, hbb float64), b0, c3 float64, opt Options) (location, scale, ll float64, conv Convergence) {
-	conv = Convergence{Method: "Newton with step halving"}
+// b0 is the starting 1/scale on them and bounds has the family's bounds on
+// |g‴| and |g⁗| (vmax is set here).
+func locScaleMLE(x []float64, sums func(v []float64, a, b float64) locScalePoint, b0 float64, bounds locScaleBounds, opt Options) (location, scale, ll float64, conv Convergence) {
+	conv = Convergence{Method: "Newton with step halving, Chebyshev steps near the maximum"}
 	if len(x) == 0 {
 		conv.Reason = "no values"
 		return math.NaN(), math.NaN(), math.NaN(), conv
@@ -169,7 +185,7 @@ func locScaleMLE(x []float64, sums func(v []float64, a, b float64) (ll, ga, gb, 
 	lo, hi, m, sd := spreadOf(x)
 	if outsideUnitRange(lo, hi) {
 		if xs, f := powerOfTwoScale(x); f != 1 {
-			location, scale, ll, conv = locScaleMLE(xs, sums, b0, c3, opt)
+			location, scale, ll, conv = locScaleMLE(xs, sums, b0, bounds, opt)
 			return location / f, scale / f, ll + float64(len(x))*math.Log(f), conv
 		}
 	}
@@ -183,10 +199,10 @@ func locScaleMLE(x []float64, sums func(v []float64, a, b float64) (ll, ga, gb, 
 	for i, xi := range x {
 		z[i] = (xi - m) / sd
 	}
-	eval := func(a, b float64) (ll, ga, gb, haa, hab, hbb float64) { return sums(z, a, b) }
+	eval := func(a, b float64) locScalePoint { return sums(z, a, b) }
 	// Every |z_i| ≤ vmax (a hair above, for the rounding of z).
-	vmax := math.Max(hi-m, m-lo) / sd * (1 + 1e-12)
-	r := locScaleNewton(eval, 0, b0, opt.tolerance(), opt.maxIterations(), float64(len(x)), c3, vmax)
+	bounds.vmax = math.Max(hi-m, m-lo) / sd * (1 + 1e-12)
+	r := locScaleNewton(eval, 0, b0, opt.tolerance(), opt.maxIterations(), float64(len(x)), bounds)
 	conv.Iterations, conv.Evaluations = r.iterations, r.evaluations
 	conv.GradientNorm, conv.Converged, conv.Reason = r.gradNorm, r.converged, r.reason
 	location, scale = m+sd*r.location, sd*r.scale

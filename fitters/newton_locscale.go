@@ -20,9 +20,22 @@ type locScaleResult struct {
 	reason          string
 }
 
-// locScaleEval returns ℓ(a, b) of locScaleNewton, its gradient (ga, gb)
-// and Hessian (haa, hab, hbb), from one pass over the standardized data.
-type locScaleEval func(a, b float64) (ll, ga, gb, haa, hab, hbb float64)
+// locScalePoint is ℓ(a, b) of locScaleNewton with its gradient (ga, gb),
+// Hessian (haa, hab, hbb) and, when cubic is set, its third derivatives
+// (taaa, taab, tabb, tbbb).
+type locScalePoint struct {
+	ll, ga, gb, haa, hab, hbb float64
+	taaa, taab, tabb, tbbb    float64
+	cubic                     bool
+}
+
+// locScaleEval evaluates locScalePoint from one pass over the standardized data.
+type locScaleEval func(a, b float64) locScalePoint
+
+// locScaleBounds are the family's bounds that let locScaleNewton take its
+// last step without a confirming pass: c3 ≥ sup|g‴|, c4 ≥ sup|g⁗| (0 when
+// unknown) and every standardized |x_i| ≤ vmax.
+type locScaleBounds struct{ c3, c4, vmax float64 }
 
 // locScaleNewton maximises ℓ(a, b) = n ln b + Σ g(b·x_i − a) for data x
 // already centred and scaled (mean 0, spread 1), where f(x) = f₀((x−μ)/σ)/σ
@@ -35,22 +48,25 @@ type locScaleEval func(a, b float64) (ll, ga, gb, haa, hab, hbb float64)
 // below ℓ's rounding level (1e-12·|ℓ|), and reports failure otherwise.
 // eval computes ℓ and its derivatives from the n standardized values.
 //
-// A final Newton step is not confirmed by another pass when the data's
-// bound makes its outcome certain: with c3 ≥ sup|g‴| and every |x_i| ≤ vmax,
-// a step (Δa, Δb) moves each z_i by at most δ = |Δb|·vmax + |Δa|, so by
-// Taylor's theorem ℓ at the new point is ℓ + λ²/2 to within
-// R = (n/6)(c3·δ³ + 2|Δb|³/b_min³), each score component is at most
-// G = (n/2)(c3·δ²·max(1, vmax) + 2Δb²/b_min³), and the Hessian has moved by
-// at most (n)(c3·δ·(1+vmax)² + 2|Δb|/b_min³) per entry. When R is below
-// one rounding unit of ℓ and the decrement bounded through G and half the
-// smallest curvature is below tol²·max(1, |ℓ|), the step is taken and the
-// point reported as converged with ℓ + λ²/2 and the score bound G as its
-// gradient norm. c3 = 0 turns this off.
-func locScaleNewton(eval locScaleEval, a, b, tol float64, maxIter int, n float64, c3, vmax float64) locScaleResult {
+// Near the maximum (λ² ≤ 10⁻³·max(1, |ℓ|)), when eval gives third
+// derivatives T, the step is Chebyshev's: Δ = Δ₁ − ½H⁻¹T[Δ₁, Δ₁], Δ₁ the
+// Newton step, which converges cubically (Traub, 1964), under the same
+// step-halving safeguard.
+//
+// The last step is not confirmed by another pass when the bounds make its
+// outcome certain (certainStep): a step (Δa, Δb) moves each z_i by at most
+// δ = |Δb|·vmax + |Δa|, so by Taylor's theorem ℓ, the score and the Hessian
+// at the new point are known from the current pass to within explicit
+// remainders. When the remainder of ℓ is below one rounding unit of ℓ and
+// the decrement bounded through the score bound and half the smallest
+// curvature is below tol²·max(1, |ℓ|), the step is taken and the point
+// reported as converged, with the Taylor value of ℓ and the score bound as
+// its gradient norm.
+func locScaleNewton(eval locScaleEval, a, b, tol float64, maxIter int, n float64, bounds locScaleBounds) locScaleResult {
 	res := locScaleResult{}
-	ll, ga, gb, haa, hab, hbb := eval(a, b)
+	p := eval(a, b)
 	res.evaluations = 1
-	if math.IsNaN(ll) || math.IsInf(ll, 0) {
+	if math.IsNaN(p.ll) || math.IsInf(p.ll, 0) {
 		res.reason = "the starting point has no finite log-likelihood"
 		return res
 	}
@@ -58,29 +74,34 @@ func locScaleNewton(eval locScaleEval, a, b, tol float64, maxIter int, n float64
 	quiet := 0
 	for it := 1; it <= maxIter; it++ {
 		res.iterations = it
-		det := haa*hbb - hab*hab
+		det := p.haa*p.hbb - p.hab*p.hab
 		var da, db float64
-		newton := haa < 0 && det > 0
+		newton := p.haa < 0 && det > 0
 		if newton {
 			// Δ = −H⁻¹∇ for the 2×2 Hessian.
-			da = -(hbb*ga - hab*gb) / det
-			db = -(-hab*ga + haa*gb) / det
+			da = -(p.hbb*p.ga - p.hab*p.gb) / det
+			db = -(-p.hab*p.ga + p.haa*p.gb) / det
 		} else {
 			// Not negative definite in floating point: a gradient step
 			// scaled by the diagonal curvature.
-			da = ga / math.Max(math.Abs(haa), 1)
-			db = gb / math.Max(math.Abs(hbb), n/(b*b))
+			da = p.ga / math.Max(math.Abs(p.haa), 1)
+			db = p.gb / math.Max(math.Abs(p.hbb), n/(b*b))
 		}
-		decrement := ga*da + gb*db
-		scale := math.Max(1, math.Abs(ll))
+		decrement := p.ga*da + p.gb*db
+		scale := math.Max(1, math.Abs(p.ll))
 		if newton && decrement <= eps*scale {
 			res.converged = true
 			break
 		}
-		if newton && c3 > 0 && decrement <= 1e-6*scale {
-			if g, ok := certainStep(n, b, da, db, haa, hab, hbb, ll, decrement, eps, c3, vmax); ok {
+		if newton && p.cubic && decrement <= 1e-3*scale {
+			// Chebyshev's correction −½H⁻¹T[Δ₁, Δ₁].
+			ua, ub := p.third(da, db)
+			da += -0.5 * (p.hbb*ua - p.hab*ub) / det
+			db += -0.5 * (-p.hab*ua + p.haa*ub) / det
+		}
+		if newton && bounds.c3 > 0 && decrement <= 1e-3*scale {
+			if ll, g, ok := certainStep(p, n, b, da, db, eps, bounds); ok {
 				a, b = a+da, b+db
-				ll += decrement / 2
 				res.converged = true
 				res.location, res.scale, res.logLik = a/b, 1/b, ll
 				res.gradNorm = g
@@ -97,7 +118,7 @@ func locScaleNewton(eval locScaleEval, a, b, tol float64, maxIter int, n float64
 				break
 			}
 			a, b = a+da, b+db
-			ll, ga, gb, haa, hab, hbb = eval(a, b)
+			p = eval(a, b)
 			res.evaluations++
 			continue
 		}
@@ -106,11 +127,11 @@ func locScaleNewton(eval locScaleEval, a, b, tol float64, maxIter int, n float64
 		for h := 0; h < 60; h++ {
 			na, nb := a+step*da, b+step*db
 			if nb > 0 {
-				nll, nga, ngb, nhaa, nhab, nhbb := eval(na, nb)
+				np := eval(na, nb)
 				res.evaluations++
-				if nll > ll || (nll == ll && step == 1) {
+				if np.ll > p.ll || (np.ll == p.ll && step == 1) {
 					a, b = na, nb
-					ll, ga, gb, haa, hab, hbb = nll, nga, ngb, nhaa, nhab, nhbb
+					p = np
 					accepted = true
 					break
 				}
@@ -125,43 +146,73 @@ func locScaleNewton(eval locScaleEval, a, b, tol float64, maxIter int, n float64
 	if !res.converged && res.reason == "" {
 		res.reason = fmt.Sprintf("iteration limit %d reached", maxIter)
 	}
-	res.location, res.scale, res.logLik = a/b, 1/b, ll
+	res.location, res.scale, res.logLik = a/b, 1/b, p.ll
 	// Gradient on the (a, b) scale of the standardized problem.
-	res.gradNorm = math.Max(math.Abs(ga), math.Abs(gb))
+	res.gradNorm = math.Max(math.Abs(p.ga), math.Abs(p.gb))
 	return res
 }
 
-// certainStep applies locScaleNewton's bounds to the Newton step (da, db)
-// from a point with 1/scale b, Hessian (haa, hab, hbb), log-likelihood ll
-// and Newton decrement dec: it reports whether the step's end is certainly
-// converged, and the bound on its score components.
-func certainStep(n, b, da, db, haa, hab, hbb, ll, dec, eps, c3, vmax float64) (float64, bool) {
+// third returns T[Δ, Δ] = (Σ T_aij ΔiΔj, Σ T_bij ΔiΔj) for Δ = (da, db).
+func (p locScalePoint) third(da, db float64) (ua, ub float64) {
+	ua = p.taaa*da*da + 2*p.taab*da*db + p.tabb*db*db
+	ub = p.taab*da*da + 2*p.tabb*da*db + p.tbbb*db*db
+	return ua, ub
+}
+
+// certainStep applies locScaleNewton's Taylor bounds to the step (da, db)
+// from point p with 1/scale b: it reports whether the step's end is
+// certainly converged, with ℓ there and the bound on its score components.
+//
+// Without third derivatives (order 2): ℓ(new) = ℓ + ∇ᵀΔ + ½ΔᵀHΔ to within
+// (n/6)(c3·δ³ + 2|Δb|³/b_min³), the score is ∇ + HΔ to within
+// (n/2)(c3·δ²·max(1, vmax) + 2Δb²/b_min³). With them (order 3): ℓ(new)
+// adds ⅙T[Δ, Δ, Δ], within (n/24)(c4·δ⁴ + 6Δb⁴/b_min⁴), and the score adds
+// ½T[Δ, Δ], within (n/6)(c4·δ³·max(1, vmax) + 6|Δb|³/b_min⁴). The terms in
+// b_min are those of n ln b. The Hessian moves by at most
+// n(c3·δ·(1+vmax)² + 2|Δb|/b_min³) per entry, which must stay below half
+// the smallest curvature μ_min of −H; the decrement at the new point is
+// then at most 2|score|²/(μ_min/2).
+func certainStep(p locScalePoint, n, b, da, db, eps float64, bd locScaleBounds) (ll, gNorm float64, ok bool) {
 	bmin := b - math.Abs(db)
-	if !(bmin > 0) || !(vmax >= 0) || math.IsInf(vmax, 0) {
-		return 0, false
+	if !(bmin > 0) || !(bd.vmax >= 0) || math.IsInf(bd.vmax, 0) {
+		return 0, 0, false
 	}
-	delta := math.Abs(db)*vmax + math.Abs(da)
-	ib3 := 1 / (bmin * bmin * bmin)
+	delta := math.Abs(db)*bd.vmax + math.Abs(da)
 	adb := math.Abs(db)
-	scale := math.Max(1, math.Abs(ll+dec/2))
-	remainder := n / 6 * (c3*delta*delta*delta + 2*adb*adb*adb*ib3)
-	if !(remainder <= 0x1p-52*scale) {
-		return 0, false
+	ib := 1 / bmin
+	// Score and ℓ at the new point by Taylor, with the remainders' bounds.
+	ga := p.ga + p.haa*da + p.hab*db
+	gb := p.gb + p.hab*da + p.hbb*db
+	ll = p.ll + p.ga*da + p.gb*db + 0.5*(p.haa*da*da+2*p.hab*da*db+p.hbb*db*db)
+	var rll, rg float64
+	if p.cubic && bd.c4 > 0 {
+		ua, ub := p.third(da, db)
+		ga += 0.5 * ua
+		gb += 0.5 * ub
+		ll += (ua*da + ub*db) / 6
+		d3 := delta * delta * delta
+		rll = n / 24 * (bd.c4*d3*delta + 6*adb*adb*adb*adb*ib*ib*ib*ib)
+		rg = n / 6 * (bd.c4*d3*math.Max(1, bd.vmax) + 6*adb*adb*adb*ib*ib*ib*ib)
+	} else {
+		rll = n / 6 * (bd.c3*delta*delta*delta + 2*adb*adb*adb*ib*ib*ib)
+		rg = n / 2 * (bd.c3*delta*delta*math.Max(1, bd.vmax) + 2*adb*adb*ib*ib*ib)
+	}
+	scale := math.Max(1, math.Abs(ll))
+	if !(rll <= 0x1p-52*scale) {
+		return 0, 0, false
 	}
 	// Smallest eigenvalue of −H: det/μmax, μmax the largest.
-	tr := -haa - hbb
-	det := haa*hbb - hab*hab
+	tr := -p.haa - p.hbb
+	det := p.haa*p.hbb - p.hab*p.hab
 	muMax := tr/2 + math.Sqrt(math.Max(0, tr*tr/4-det))
 	muMin := det / muMax
-	drift := n * (c3*delta*(1+vmax)*(1+vmax) + 2*adb*ib3)
+	drift := n * (bd.c3*delta*(1+bd.vmax)*(1+bd.vmax) + 2*adb*ib*ib*ib)
 	if !(muMin > 0) || !(2*drift <= muMin) {
-		return 0, false
+		return 0, 0, false
 	}
-	g := n / 2 * (c3*delta*delta*math.Max(1, vmax) + 2*adb*adb*ib3)
-	// Decrement at the new point ≤ |score|²/(smallest curvature there),
-	// which is at least muMin − drift ≥ muMin/2.
+	g := math.Max(math.Abs(ga), math.Abs(gb)) + rg
 	if !(2*g*g/(muMin/2) <= eps*scale) {
-		return 0, false
+		return 0, 0, false
 	}
-	return g, true
+	return ll, g, true
 }

@@ -6,11 +6,13 @@ import (
 	"testing"
 )
 
-// TestLocScaleCertainStep checks the unconfirmed final step of
-// locScaleNewton: where it reports convergence through certainStep, a pass
-// at the reported point gives the reported log-likelihood to the rounding of a pass and
-// a score no larger than the reported bound, for logistic samples of
-// several sizes, locations and spreads (clustered and heavy-tailed ones too).
+// TestLocScaleCertainStep checks the Chebyshev steps and the unconfirmed
+// final step of locScaleNewton: where it reports convergence through
+// certainStep, a pass at the reported point gives the reported
+// log-likelihood to the rounding of a pass and a score no larger than the
+// reported bound, and the estimates are those of plain Newton confirmed by
+// a pass, for logistic samples of several sizes, locations and spreads
+// (heavy-tailed ones too).
 func TestLocScaleCertainStep(t *testing.T) {
 	r := rand.New(rand.NewPCG(8, 3))
 	used := 0
@@ -30,15 +32,22 @@ func TestLocScaleCertainStep(t *testing.T) {
 			v[i] = (xi - m) / sd
 		}
 		lo, hi := minMax(v)
-		eval := func(a, b float64) (ll, ga, gb, haa, hab, hbb float64) { return logisticSums(v, a, b) }
-		res := locScaleNewton(eval, 0, math.Pi/math.Sqrt(3), 1e-10, 2000, float64(n), logisticG3Bound, math.Max(hi, -lo)*(1+1e-12))
+		eval := func(a, b float64) locScalePoint { return logisticSums(v, a, b) }
+		bounds := locScaleBounds{logisticG3Bound, logisticG4Bound, math.Max(hi, -lo) * (1 + 1e-12)}
+		res := locScaleNewton(eval, 0, math.Pi/math.Sqrt(3), 1e-10, 2000, float64(n), bounds)
 		if !res.converged {
 			t.Fatalf("trial %d: not converged: %s", trial, res.reason)
 		}
-		plain := locScaleNewton(eval, 0, math.Pi/math.Sqrt(3), 1e-10, 2000, float64(n), 0, 0)
+		// Confirmed by a pass, and plain Newton (no third derivatives).
+		plain := locScaleNewton(func(a, b float64) locScalePoint {
+			p := eval(a, b)
+			p.cubic = false
+			return p
+		}, 0, math.Pi/math.Sqrt(3), 1e-10, 2000, float64(n), locScaleBounds{})
 		b := 1 / res.scale
 		a := res.location * b
-		ll, ga, gb, _, _, _ := logisticSums(v, a, b)
+		pt := logisticSums(v, a, b)
+		ll, ga, gb := pt.ll, pt.ga, pt.gb
 		// A pass's own rounding: ℓ sums n terms, so it is only good to
 		// about 1e-16·|ℓ|·√n in practice, a few times that where its
 		// terms (n ln b, Σ|z|, Σ ln(1+e)) cancel.

@@ -68,8 +68,9 @@ func TestSumLogSmallAccuracy(t *testing.T) {
 }
 
 // TestLogisticSumsMatchesPerValueLogs checks logisticSums's ℓ against the
-// per-value log-density summed one math.Log at a time, and its score and
-// Hessian against logisticLogDensity's derivatives, on standardized data.
+// per-value log-density summed one math.Log at a time, its score and
+// Hessian against logisticLogDensity's derivatives, and its third
+// derivatives against central differences of the Hessian.
 func TestLogisticSumsMatchesPerValueLogs(t *testing.T) {
 	r := rand.New(rand.NewPCG(8, 2))
 	for _, n := range []int{1, 7, 512, 513, 2000} {
@@ -79,7 +80,8 @@ func TestLogisticSumsMatchesPerValueLogs(t *testing.T) {
 		}
 		for _, ab := range [][2]float64{{0, 1.8}, {-0.4, 0.5}, {2, 6}} {
 			a, b := ab[0], ab[1]
-			ll, ga, gb, haa, hab, hbb := logisticSums(v, a, b)
+			pt := logisticSums(v, a, b)
+			ll, ga, gb, haa, hab, hbb := pt.ll, pt.ga, pt.gb, pt.haa, pt.hab, pt.hbb
 			var wll, wga, wgb, whaa, whab, whbb float64
 			for _, x := range v {
 				g0, g1, g2 := logisticLogDensity(b*x - a)
@@ -100,6 +102,25 @@ func TestLogisticSumsMatchesPerValueLogs(t *testing.T) {
 			}{{"ll", ll, wll}, {"ga", ga, wga}, {"gb", gb, wgb}, {"haa", haa, whaa}, {"hab", hab, whab}, {"hbb", hbb, whbb}} {
 				if d := math.Abs(c.got - c.want); d > 1e-12*math.Max(fn, math.Abs(c.want)) {
 					t.Errorf("n=%d a=%v b=%v %s = %.17g, per-value sum %.17g", n, a, b, c.name, c.got, c.want)
+				}
+			}
+			// Third derivatives against central differences of the Hessian.
+			const hs = 1e-5
+			pa, ma := logisticSums(v, a+hs, b), logisticSums(v, a-hs, b)
+			pb, mb := logisticSums(v, a, b+hs), logisticSums(v, a, b-hs)
+			for _, c := range []struct {
+				name      string
+				got, want float64
+			}{
+				{"taaa", pt.taaa, (pa.haa - ma.haa) / (2 * hs)},
+				{"taab", pt.taab, (pb.haa - mb.haa) / (2 * hs)},
+				{"taab'", pt.taab, (pa.hab - ma.hab) / (2 * hs)},
+				{"tabb", pt.tabb, (pb.hab - mb.hab) / (2 * hs)},
+				{"tabb'", pt.tabb, (pa.hbb - ma.hbb) / (2 * hs)},
+				{"tbbb", pt.tbbb, (pb.hbb - mb.hbb) / (2 * hs)},
+			} {
+				if d := math.Abs(c.got - c.want); d > 1e-5*math.Max(fn, math.Abs(c.want)) {
+					t.Errorf("n=%d a=%v b=%v %s = %.10g, central difference %.10g", n, a, b, c.name, c.got, c.want)
 				}
 			}
 		}
