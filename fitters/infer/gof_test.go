@@ -49,11 +49,15 @@ func loadCases(t *testing.T, file string) (cases, chisq []edfCase) {
 
 // TestEDFStatisticsAgainstScipy compares KS, CvM and AD for given
 // parameters with scipy.stats.kstest, scipy.stats.cramervonmises and A²
-// from scipy's logcdf/logsf (testdata/infer/make_reference.py), including a
-// point 40 standard deviations out, where A² must not hit ln 0.
+// from scipy's logcdf/logsf (testdata/infer/make_reference.py, and
+// make_edf_families.py for the other families with a CDFTails of their
+// own), including a point 40 standard deviations out, where A² must not hit
+// ln 0. Each is computed through the family's CDFTails and, hidden behind
+// plainDist, through LogCDF and LogSurvival.
 func TestEDFStatisticsAgainstScipy(t *testing.T) {
 	cases, chisq := loadCases(t, "edf_statistics.json")
-	for _, c := range cases {
+	more, _ := loadCases(t, "edf_families.json")
+	for _, c := range append(cases, more...) {
 		t.Run(c.Data+"/"+c.Family, func(t *testing.T) {
 			d, err := family(t, c.Family).New(c.Params)
 			if err != nil {
@@ -61,8 +65,6 @@ func TestEDFStatisticsAgainstScipy(t *testing.T) {
 			}
 			x := slices.Clone(c.X)
 			slices.Sort(x)
-			// Through the family's own CDFTails and, hidden behind
-			// plainDist, through LogCDF and LogSurvival.
 			for _, dd := range []fitters.Dist{d, plainDist{d}} {
 				var got [3]float64
 				edfStatistics(dd, x, nil, nil, &got)
