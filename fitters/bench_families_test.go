@@ -45,7 +45,7 @@ func coreBenchSample(b testing.TB, family string, params []float64, n int) []flo
 
 // BenchmarkFit times each family's complete-data fit; compare with
 // BenchmarkLogFloor at the same n (one math.Log per value). Beside ns/op it
-// reports best-us, the fastest of the benchmark's batches of up to 16 fits
+// reports best-us, the fastest of the benchmark's batches of up to 4 fits
 // (per fit, in µs), and log-passes, best-us over the fastest of 20 passes of
 // math.Log over the lognormal sample of the same size: on a machine shared
 // with other jobs the fastest batch measures the work rather than the wait.
@@ -58,7 +58,7 @@ func BenchmarkFit(b *testing.B) {
 				b.ResetTimer()
 				best := math.Inf(1)
 				for i := 0; i < b.N; {
-					m := min(16, b.N-i)
+					m := min(4, b.N-i)
 					t0 := time.Now()
 					for j := 0; j < m; j++ {
 						fit, err := f.Fit(d, Options{})

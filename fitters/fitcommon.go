@@ -233,8 +233,8 @@ func outsideUnitRange(lo, hi float64) bool {
 	return m != 0 && !(m < 1e100 && m > 1e-100)
 }
 
-// scan4 returns the smallest and largest value of x (len(x) ≥ 1; NaN if
-// any value is NaN) and Σ x, in one pass of four interleaved partial sums
+// scan4 returns the smallest and largest value of x (len(x) ≥ 1; NaN
+// values are passed over, as in minMax) and Σ x, in one pass of four interleaved partial sums
 // (as sum4). The complete-data fast paths read Applicable's conditions off
 // it: values > 0 is lo > 0, not all equal is lo < hi.
 func scan4(x []float64) (lo, hi, sum float64) {
@@ -247,13 +247,11 @@ func scan4(x []float64) (lo, hi, sum float64) {
 		s1 += b
 		s2 += c
 		s3 += d
-		lo = min(lo, a, b, c, d)
-		hi = max(hi, a, b, c, d)
+		lo, hi = widen(lo, hi, a, b, c, d)
 	}
 	for ; i < len(x); i++ {
 		s0 += x[i]
-		lo = min(lo, x[i])
-		hi = max(hi, x[i])
+		lo, hi = widen(lo, hi, x[i], x[i], x[i], x[i])
 	}
 	return lo, hi, (s0 + s1) + (s2 + s3)
 }
@@ -270,19 +268,48 @@ func quickApplicable(d *Data, opt Options, minN int, positive bool) bool {
 	return lo < hi && (!positive || lo > 0)
 }
 
-// minMax4 returns the smallest and largest of x (len(x) ≥ 1; NaN when any
-// value is NaN), four values a step.
+// minMax4 returns the smallest and largest of x (len(x) ≥ 1), four values
+// a step.
 func minMax4(x []float64) (lo, hi float64) {
 	lo, hi = x[0], x[0]
 	i := 0
 	for ; i+4 <= len(x); i += 4 {
 		a, b, c, d := x[i], x[i+1], x[i+2], x[i+3]
-		lo = min(lo, a, b, c, d)
-		hi = max(hi, a, b, c, d)
+		lo, hi = widen(lo, hi, a, b, c, d)
 	}
 	for ; i < len(x); i++ {
-		lo = min(lo, x[i])
-		hi = max(hi, x[i])
+		lo, hi = widen(lo, hi, x[i], x[i], x[i], x[i])
+	}
+	return lo, hi
+}
+
+// widen extends [lo, hi] to a, b, c and d by plain comparisons (NaN never
+// compares, so it is passed over, as in minMax); the builtin min and max,
+// which propagate NaN, cost several times more per value.
+func widen(lo, hi, a, b, c, d float64) (float64, float64) {
+	if a < lo {
+		lo = a
+	}
+	if b < lo {
+		lo = b
+	}
+	if c < lo {
+		lo = c
+	}
+	if d < lo {
+		lo = d
+	}
+	if a > hi {
+		hi = a
+	}
+	if b > hi {
+		hi = b
+	}
+	if c > hi {
+		hi = c
+	}
+	if d > hi {
+		hi = d
 	}
 	return lo, hi
 }

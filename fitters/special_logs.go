@@ -171,7 +171,7 @@ func sumLogs(x []float64) float64 {
 	i := 0
 	for ; i+4 <= len(x); i += 4 {
 		a, b, c, d := x[i], x[i+1], x[i+2], x[i+3]
-		if min(a, b, c, d) >= 0x1p-250 && max(a, b, c, d) <= 0x1p250 {
+		if lo, hi := widen(a, a, b, c, d, d); lo >= 0x1p-250 && hi <= 0x1p250 {
 			if acc.k != 0 {
 				acc.renormalise() // p back in [1, 2)
 			}
