@@ -58,7 +58,11 @@ func (fit *Fit) setOptimum(o optimum, estimates []float64, method string) {
 func (fit *Fit) setSolved(a, b, logLik float64, conv Convergence) {
 	fit.Convergence = conv
 	if conv.Converged {
-		fit.Estimates = []float64{a, b}
+		if len(fit.Estimates) == 2 {
+			fit.Estimates[0], fit.Estimates[1] = a, b
+		} else {
+			fit.Estimates = []float64{a, b}
+		}
 		fit.LogLik = logLik
 	}
 }
