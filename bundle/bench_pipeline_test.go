@@ -47,7 +47,7 @@ func BenchmarkPipeline(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		c, err := Seal(res, SealOptions{Created: created, CreatedFrom: "SOURCE_DATE_EPOCH", Signer: signer.PublicKey(), Inputs: inputs})
+		c, err := Seal(res, SealOptions{Created: created, CreatedFrom: "SOURCE_DATE_EPOCH", Signer: signer.PublicKey(), Inputs: inputs, Workers: workers})
 		if err != nil {
 			b.Fatal(err)
 		}

@@ -266,19 +266,26 @@ func TestOpenMissingIsNotArchiveError(t *testing.T) {
 
 func TestTrailingGarbageAndDamagedStream(t *testing.T) {
 	good := testArchive(t)
+	zr, _ := gzip.NewReader(bytes.NewReader(good))
+	raw, _ := io.ReadAll(zr)
 	// A byte flipped inside the compressed stream: refused as damaged, or
-	// (if deflate decodes it) caught by the hashes; never a panic.
+	// (if deflate decodes it) caught by the hashes; never a panic. A flip
+	// in a part of a Huffman table that no code uses decodes to the same
+	// tar: nothing is damaged then, and nothing need be noticed.
 	for i := 20; i < len(good); i += len(good) / 17 {
 		d := bytes.Clone(good)
 		d[i] ^= 0x40
+		if zd, err := gzip.NewReader(bytes.NewReader(d)); err == nil {
+			if same, err := io.ReadAll(zd); err == nil && bytes.Equal(same, raw) {
+				continue
+			}
+		}
 		bag, err := ReadArchive(bytes.NewReader(d), DefaultLimits)
 		if err == nil && len(bag.Verify(VerifyOptions{})) == 0 {
 			t.Errorf("flip at byte %d went unnoticed", i)
 		}
 	}
 	// Trailing data past the tar end inside the gzip stream.
-	zr, _ := gzip.NewReader(bytes.NewReader(good))
-	raw, _ := io.ReadAll(zr)
 	raw = append(raw, bytes.Repeat([]byte{1}, 2<<20)...)
 	if _, err := ReadArchive(bytes.NewReader(gzipOf(raw)), DefaultLimits); err == nil || !strings.Contains(err.Error(), "after the tar end") {
 		t.Errorf("2 MiB after the tar end: %v", err)

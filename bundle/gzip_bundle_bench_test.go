@@ -56,8 +56,7 @@ func BenchmarkGzipBundleLevels(b *testing.B) {
 			var size int
 			for b.Loop() {
 				var out bytes.Buffer
-				m := newMemberWriter(&out, level)
-				m.workers = 1
+				m := newMemberWriter(&out, level, 1)
 				m.Write(stream)
 				m.Close()
 				size = out.Len()
@@ -67,8 +66,7 @@ func BenchmarkGzipBundleLevels(b *testing.B) {
 			for k, data := range kinds {
 				var out bytes.Buffer
 				start := time.Now()
-				m := newMemberWriter(&out, level)
-				m.workers = 1
+				m := newMemberWriter(&out, level, 1)
 				m.Write(data)
 				m.Close()
 				b.Logf("level %d %-14s %9d -> %9d bytes (ratio %.2f) in %v", level, k, len(data), out.Len(), float64(len(data))/float64(out.Len()), time.Since(start).Round(time.Millisecond))

@@ -38,8 +38,13 @@ type compressed struct {
 	err  error
 }
 
-func newMemberWriter(w io.Writer, level int) *memberWriter {
-	return &memberWriter{w: w, level: level, workers: max(1, runtime.GOMAXPROCS(0))}
+// newMemberWriter compresses on at most workers goroutines; 0 means
+// runtime.GOMAXPROCS(0).
+func newMemberWriter(w io.Writer, level, workers int) *memberWriter {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	return &memberWriter{w: w, level: level, workers: workers}
 }
 
 func (m *memberWriter) Write(p []byte) (int, error) {

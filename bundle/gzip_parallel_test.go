@@ -19,8 +19,7 @@ func TestMemberWriter(t *testing.T) {
 		for _, workers := range []int{1, 2, 7} {
 			for _, piece := range []int{1 << 30, 511} {
 				var out bytes.Buffer
-				m := newMemberWriter(&out, gzipLevel)
-				m.workers = workers
+				m := newMemberWriter(&out, gzipLevel, workers)
 				for rest := data; len(rest) > 0; {
 					k := min(piece, len(rest))
 					if _, err := m.Write(rest[:k]); err != nil {
@@ -75,7 +74,7 @@ func BenchmarkGzipParallel(b *testing.B) {
 	var size int
 	for b.Loop() {
 		var buf bytes.Buffer
-		m := newMemberWriter(&buf, gzipLevel)
+		m := newMemberWriter(&buf, gzipLevel, 0)
 		m.Write(data)
 		m.Close()
 		size = buf.Len()

@@ -132,6 +132,11 @@ type SealOptions struct {
 	// runner.RunOptions.Shard): inputs, the shard's results and run.json
 	// with a ShardRecord; no tables, figures or PDF (merge makes them).
 	Shard *runner.Shard
+	// Workers bounds the goroutines of sealing and of writing the
+	// returned Contents (table rendering, compression); 0 means every core.
+	// `run -j N` passes N so that -j 1 runs on one core throughout. It
+	// never changes the bytes.
+	Workers int
 }
 
 // ReadInputs reads, byte for byte, every file a run reads: the project file
@@ -227,7 +232,9 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 			shard.Analyses = append(shard.Analyses, a.Name)
 		}
 	}
-	render := Render
+	render := func(res *runner.Results, id report.Identity) (map[string][]byte, error) {
+		return renderOn(opt.Workers, res, id)
+	}
 	if shard != nil {
 		render = func(*runner.Results, report.Identity) (map[string][]byte, error) { return nil, nil }
 	}
@@ -265,7 +272,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	}
 	return Contents{
 		Name: p.Name, Created: opt.Created.UTC(), Description: p.Description,
-		Payload: payload, RunJSON: append(js, '\n'), ToolVersion: opt.Tool.Version,
+		Payload: payload, RunJSON: append(js, '\n'), ToolVersion: opt.Tool.Version, Workers: opt.Workers,
 	}, nil
 }
 
@@ -284,6 +291,15 @@ func inputList(inputs map[string][]byte) []InputFile {
 // and .png, and report.pdf. Figures are drawn for the PDF even when
 // figures = false, but only kept as files when figures = true.
 func Render(res *runner.Results, id report.Identity) (map[string][]byte, error) {
+	return renderOn(0, res, id)
+}
+
+// renderOn is Render with table rendering on at most workers goroutines
+// (0: every core).
+func renderOn(workers int, res *runner.Results, id report.Identity) (map[string][]byte, error) {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
 	p := res.Project
 	out := map[string][]byte{}
 	r := report.FromResults(res, id)
@@ -312,7 +328,7 @@ func Render(res *runner.Results, id report.Identity) (map[string][]byte, error) 
 		if err != nil {
 			return nil, err
 		}
-		tables, err := report.RenderTables(tmpls, r.Analyses, p.Report.Tables)
+		tables, err := report.RenderTablesOn(workers, tmpls, r.Analyses, p.Report.Tables)
 		if err != nil {
 			return nil, err
 		}

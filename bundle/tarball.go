@@ -57,7 +57,10 @@ const (
 // seconds, UTC), owner and group are 0 with empty names, and the gzip header
 // has no name and no modification time. Paths that fit USTAR are written as
 // plain USTAR headers; longer or non-ASCII ones get a PAX record.
-func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time) error {
+//
+// The gzip members are compressed on at most workers goroutines (0: every
+// core); the bytes do not depend on workers.
+func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, workers int) error {
 	if err := checkBagName(bagName); err != nil {
 		return err
 	}
@@ -114,7 +117,7 @@ func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time) er
 
 	// Gzip members of 1 MiB of tar each, compressed on every core
 	// (gzip_parallel.go); the bytes do not depend on the number of cores.
-	zw := newMemberWriter(w, gzipLevel)
+	zw := newMemberWriter(w, gzipLevel, workers)
 	tw := tar.NewWriter(zw)
 	for _, e := range entries {
 		h := &tar.Header{
@@ -149,7 +152,7 @@ func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time) er
 // tarGzBytes is writeTarGz into memory.
 func tarGzBytes(bagName string, files []member, mtime time.Time) ([]byte, error) {
 	var buf bytes.Buffer
-	if err := writeTarGz(&buf, bagName, files, mtime); err != nil {
+	if err := writeTarGz(&buf, bagName, files, mtime, 0); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil

@@ -27,6 +27,9 @@ type Contents struct {
 	RunJSON []byte
 	// ToolVersion goes to bag-info.txt; empty means [ToolVersion].
 	ToolVersion string
+	// Workers bounds the goroutines that compress the archive (0: every
+	// core); it never changes the bytes.
+	Workers int
 }
 
 // Members builds every member of the signed bag: payload under data/,
@@ -70,7 +73,7 @@ func WriteArchive(w io.Writer, c Contents, signer Signer) error {
 	if err != nil {
 		return err
 	}
-	return writeTarGz(w, c.Name, sortedMembers(files), c.Created)
+	return writeTarGz(w, c.Name, sortedMembers(files), c.Created, c.Workers)
 }
 
 // IsArchivePath reports whether out names an archive (.tar.gz or .tgz)
@@ -94,7 +97,7 @@ func WriteBundle(out string, force bool, c Contents, signer Signer) error {
 	}
 	if IsArchivePath(out) {
 		err = writeFileAtomic(out, force, fileMode, func(w io.Writer) error {
-			return writeTarGz(w, c.Name, sortedMembers(files), c.Created)
+			return writeTarGz(w, c.Name, sortedMembers(files), c.Created, c.Workers)
 		})
 	} else {
 		err = writeFolderAtomic(out, force, sortedMembers(files))

@@ -30,6 +30,12 @@ type File struct {
 // "nitrate_MW-1-ranking.tex"), in analysis order, then kind order. Load the
 // templates with [templates.LoadTables] (the project's folder first).
 func RenderTables(tmpls []*templates.TableTemplate, analyses []Analysis, formats []string) ([]File, error) {
+	return RenderTablesOn(runtime.GOMAXPROCS(0), tmpls, analyses, formats)
+}
+
+// RenderTablesOn is [RenderTables] on at most workers goroutines (at least
+// one); the files do not depend on workers.
+func RenderTablesOn(workers int, tmpls []*templates.TableTemplate, analyses []Analysis, formats []string) ([]File, error) {
 	slugs := Slugs(analyses)
 	var use []*templates.TableTemplate
 	var builtin []func([]byte, *Analysis, string) []byte
@@ -39,14 +45,14 @@ func RenderTables(tmpls []*templates.TableTemplate, analyses []Analysis, formats
 			builtin = append(builtin, builtinFor(t))
 		}
 	}
-	// Analyses are rendered on every core (templates may run in parallel,
+	// Analyses are rendered on workers goroutines (templates may run in parallel,
 	// text/template's doc); each lands in its own slot, so the order and
 	// the bytes do not depend on the number of cores.
 	files := make([][]File, len(analyses))
 	errs := make([]error, len(analyses))
 	next := make(chan int)
 	var wg sync.WaitGroup
-	for w := 0; w < min(runtime.GOMAXPROCS(0), len(analyses)); w++ {
+	for w := 0; w < min(max(1, workers), len(analyses)); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
