@@ -154,31 +154,23 @@ func needPositive(family string, d *Data, allowZero bool) error {
 
 // spreadOf returns the smallest and largest value, the mean and the
 // maximum-likelihood standard deviation of x (len(x) ≥ 1) in two passes:
-// the extremes and the sum in the first, the squared deviations with the
+// the extremes and the sum in the first (scan4), the squared deviations with the
 // compensating correction of Chan, Golub & LeVeque (1983) in the second
 // (meanSD's algorithm). Each sum runs in four interleaved partial sums
 // (sum4), which the processor adds in parallel; data beyond 2^±500, which
 // meanSD first rescales, go through meanSD itself.
 func spreadOf(x []float64) (lo, hi, mean, sd float64) {
-	lo, hi = x[0], x[0]
-	for _, v := range x {
-		if v < lo {
-			lo = v
-		}
-		if v > hi {
-			hi = v
-		}
-	}
+	lo, hi, s := scan4(x)
 	big := math.Abs(lo)
 	if a := math.Abs(hi); a > big {
 		big = a
 	}
-	if !(big <= 0x1p500) || (big > 0 && big < 0x1p-500) {
+	if !(big <= 0x1p500) || (big > 0 && big < 0x1p-500) || math.IsInf(s, 0) {
 		mean, sd = meanSD(x)
 		return lo, hi, mean, sd
 	}
 	n := float64(len(x))
-	m := sum4(x) / n
+	m := s / n
 	ss, c := sumSqDev4(x, m)
 	variance := (ss - c*c/n) / n
 	m += c / n
