@@ -17,6 +17,7 @@ var edfBenchCases = []struct {
 	{"exponential", []float64{0.3}},
 	{"gamma", []float64{2.5, 0.4}},
 	{"invgauss", []float64{3, 8}},
+	{"invgauss", []float64{10, 150}}, // b ≥ 5: the Mills ratio's continued fraction
 	{"gumbel", []float64{5, 2}},
 	{"logistic", []float64{5, 2}},
 	{"weibull", []float64{1.8, 120}},
