@@ -126,20 +126,28 @@ const (
 // q = 1/(1 + e), t = sign(z)(1 − e)q = tanh(z/2) and h = eq² = f₀(z),
 // g′ = −t, g″ = −2h and g‴ = 2ht. Σ ln(1 + e) is summed as the log of
 // products of up to 512 factors (as sumLogSmall), not as a log per value.
-func logisticSums(v []float64, a, b float64) locScalePoint {
+// work (len ≥ len(v)) holds the exponentials.
+func logisticSums(v, work []float64, a, b float64) locScalePoint {
+	// The exponentials first, into work: a loop of independent calls that
+	// the processor overlaps, then the sums, whose divisions overlap too
+	// (one fused loop waits on each division in turn).
+	work = work[:len(v)]
+	for i, x := range v {
+		work[i] = math.Exp(-math.Abs(b*x - a))
+	}
 	var saz, st, stx, sh, shx, shxx, su, sux, suxx, suxxx, slog float64
 	for start := 0; start < len(v); start += logProductChunk {
-		chunk := v[start:min(start+logProductChunk, len(v))]
+		end := min(start+logProductChunk, len(v))
+		es := work[start:end]
 		p := 1.0
-		for _, x := range chunk {
+		for i, x := range v[start:end] {
+			e := es[i]
 			z := b*x - a
-			az := math.Abs(z)
-			e := math.Exp(-az)
 			y := 1 + e
 			q := 1 / y
 			t := math.Copysign((1-e)*q, z)
 			h := e * q * q
-			saz += az
+			saz += math.Abs(z)
 			st += t
 			stx += t * x
 			sh += h
@@ -176,7 +184,7 @@ func logisticSums(v []float64, a, b float64) locScalePoint {
 // the result back; sums evaluates the family's ℓ on the standardized values,
 // b0 is the starting 1/scale on them and bounds has the family's bounds on
 // |g‴| and |g⁗| (vmax is set here).
-func locScaleMLE(x []float64, sums func(v []float64, a, b float64) locScalePoint, b0 float64, bounds locScaleBounds, opt Options) (location, scale, ll float64, conv Convergence) {
+func locScaleMLE(x []float64, sums func(v, work []float64, a, b float64) locScalePoint, b0 float64, bounds locScaleBounds, opt Options) (location, scale, ll float64, conv Convergence) {
 	conv = Convergence{Method: "Newton with step halving, Chebyshev steps near the maximum"}
 	if len(x) == 0 {
 		conv.Reason = "no values"
@@ -193,13 +201,14 @@ func locScaleMLE(x []float64, sums func(v []float64, a, b float64) locScalePoint
 		conv.Reason = fmt.Sprintf("the data's spread is %v: the scale has no finite estimate", sd)
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
-	buf := borrowScratch(len(x))
+	buf, wbuf := borrowScratch(len(x)), borrowScratch(len(x))
 	defer returnScratch(buf)
-	z := *buf
+	defer returnScratch(wbuf)
+	z, work := *buf, *wbuf
 	for i, xi := range x {
 		z[i] = (xi - m) / sd
 	}
-	eval := func(a, b float64) locScalePoint { return sums(z, a, b) }
+	eval := func(a, b float64) locScalePoint { return sums(z, work, a, b) }
 	// Every |z_i| ≤ vmax (a hair above, for the rounding of z).
 	bounds.vmax = math.Max(hi-m, m-lo) / sd * (1 + 1e-12)
 	r := locScaleNewton(eval, 0, b0, opt.tolerance(), opt.maxIterations(), float64(len(x)), bounds)

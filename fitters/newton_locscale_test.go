@@ -32,7 +32,7 @@ func TestLocScaleCertainStep(t *testing.T) {
 			v[i] = (xi - m) / sd
 		}
 		lo, hi := minMax(v)
-		eval := func(a, b float64) locScalePoint { return logisticSums(v, a, b) }
+		eval := func(a, b float64) locScalePoint { return logisticSums(v, make([]float64, len(v)), a, b) }
 		bounds := locScaleBounds{logisticG3Bound, logisticG4Bound, math.Max(hi, -lo) * (1 + 1e-12)}
 		res := locScaleNewton(eval, 0, math.Pi/math.Sqrt(3), 1e-10, 2000, float64(n), bounds)
 		if !res.converged {
@@ -46,7 +46,7 @@ func TestLocScaleCertainStep(t *testing.T) {
 		}, 0, math.Pi/math.Sqrt(3), 1e-10, 2000, float64(n), locScaleBounds{})
 		b := 1 / res.scale
 		a := res.location * b
-		pt := logisticSums(v, a, b)
+		pt := logisticSums(v, make([]float64, len(v)), a, b)
 		ll, ga, gb := pt.ll, pt.ga, pt.gb
 		// A pass's own rounding: ℓ sums n terms, so it is only good to
 		// about 1e-16·|ℓ|·√n in practice, a few times that where its

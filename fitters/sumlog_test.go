@@ -80,7 +80,7 @@ func TestLogisticSumsMatchesPerValueLogs(t *testing.T) {
 		}
 		for _, ab := range [][2]float64{{0, 1.8}, {-0.4, 0.5}, {2, 6}} {
 			a, b := ab[0], ab[1]
-			pt := logisticSums(v, a, b)
+			pt := logisticSums(v, make([]float64, len(v)), a, b)
 			ll, ga, gb, haa, hab, hbb := pt.ll, pt.ga, pt.gb, pt.haa, pt.hab, pt.hbb
 			var wll, wga, wgb, whaa, whab, whbb float64
 			for _, x := range v {
@@ -106,8 +106,8 @@ func TestLogisticSumsMatchesPerValueLogs(t *testing.T) {
 			}
 			// Third derivatives against central differences of the Hessian.
 			const hs = 1e-5
-			pa, ma := logisticSums(v, a+hs, b), logisticSums(v, a-hs, b)
-			pb, mb := logisticSums(v, a, b+hs), logisticSums(v, a, b-hs)
+			pa, ma := logisticSums(v, make([]float64, len(v)), a+hs, b), logisticSums(v, make([]float64, len(v)), a-hs, b)
+			pb, mb := logisticSums(v, make([]float64, len(v)), a, b+hs), logisticSums(v, make([]float64, len(v)), a, b-hs)
 			for _, c := range []struct {
 				name      string
 				got, want float64
