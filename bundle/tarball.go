@@ -36,13 +36,16 @@ type member struct {
 //	9      6.87      8.94  5.08
 //
 // Level 6 spent two thirds of its time on the input CSV (numeric text,
-// where its longer match search finds little); level 4 is 2.8 times
-// faster than 6 for a bundle 8.7% larger, and level 1 a further 1.5 times
-// faster for one 13% larger than level 4's. Level 4: the largest step in
-// speed for the smallest loss in size. The level is named, not left to
-// the library's default, so that it cannot change under us and alter the
-// bytes.
-const gzipLevel = 4
+// where its longer match search finds little). Level 1 is 4.3 times faster
+// than 6 for a bundle 23% larger; level 4 sits between (2.8 times faster,
+// 8.7% larger). Whole `fitseal run` on that workload (median of 3
+// alternated runs, CPU seconds of a loaded machine): level 4 4.4 s, level
+// 1 3.5 s. The bundle is written on every run and its compression was the
+// largest part of the bundle's own work, while 13% more bytes than level 4
+// (11.2 against 9.9 MB for 1000 datasets) cost little to keep: level 1. The
+// level is named, not left to the library's default, so that it cannot
+// change under us and alter the bytes.
+const gzipLevel = 1
 
 // Folder and file modes inside every bundle (SPEC.md, "The bundle").
 const (
