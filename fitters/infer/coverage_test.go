@@ -37,6 +37,13 @@ type coverageCell struct {
 	family, quantity, method string
 	n, covered, noInterval   int
 	datasets, failedFits     int
+	// below and above count the misses with the truth below the lower end
+	// and above the upper end.
+	below, above int
+	// hardBoot counts the datasets in which more than 2.5% of the
+	// bootstrap replicates could not be refitted, hardCovered those of them
+	// whose interval covered.
+	hardBoot, hardCovered int
 }
 
 var methods = []Method{MethodWald, MethodProfile, MethodBootstrap}
@@ -61,6 +68,7 @@ func runCoverage(t testing.TB, cases []coverageCase, ns []int, datasets, B int) 
 			// covered[i][m] for the parameter (m) and the quantile (3+m); -1 no interval.
 			res := make([][6]int, datasets)
 			failed := make([]bool, datasets)
+			hard := make([]bool, datasets)
 			var next atomic.Int64
 			var wg sync.WaitGroup
 			for w := 0; w < runtime.GOMAXPROCS(0); w++ {
@@ -97,6 +105,7 @@ func runCoverage(t testing.TB, cases []coverageCase, ns []int, datasets, B int) 
 							continue
 						}
 						s.Replicates = rep
+						hard[i] = rep.Failed*40 > B
 						for m, method := range methods {
 							rows, _ := Intervals(fam, fit, d, method, s)
 							res[i][m] = covers(rows[c.param].Lower, rows[c.param].Upper, c.truth[c.param])
@@ -116,13 +125,21 @@ func runCoverage(t testing.TB, cases []coverageCase, ns []int, datasets, B int) 
 				for i := range res {
 					switch {
 					case failed[i]:
-						if k == 0 {
-							cell.failedFits++
-						}
+						cell.failedFits++
 					case res[i][k] == 1:
 						cell.covered++
 					case res[i][k] == -1:
 						cell.noInterval++
+					case res[i][k] == 0:
+						cell.below++
+					case res[i][k] == 2:
+						cell.above++
+					}
+					if !failed[i] && hard[i] {
+						cell.hardBoot++
+						if res[i][k] == 1 {
+							cell.hardCovered++
+						}
 					}
 				}
 				out = append(out, cell)
@@ -132,14 +149,18 @@ func runCoverage(t testing.TB, cases []coverageCase, ns []int, datasets, B int) 
 	return out
 }
 
+// covers is 1 when [lo, hi] contains truth, 0 when truth < lo, 2 when
+// truth > hi and −1 when there is no interval.
 func covers(lo, hi, truth float64) int {
-	if math.IsNaN(lo) || math.IsNaN(hi) {
+	switch {
+	case math.IsNaN(lo) || math.IsNaN(hi):
 		return -1
+	case truth < lo:
+		return 0
+	case truth > hi:
+		return 2
 	}
-	if lo <= truth && truth <= hi {
-		return 1
-	}
-	return 0
+	return 1
 }
 
 // TestCoverageSmoke is the small version of the coverage study that runs
@@ -179,27 +200,60 @@ func TestCoverageLong(t *testing.T) {
 	const datasets, B = 400, 199
 	start := time.Now()
 	cells := runCoverage(t, coverageCases, []int{15, 50, 200}, datasets, B)
+	gev := coverageCases[4]
+	lrRejected, lrUsed, shapes := lrRejections(t, gev, 15, datasets)
+	irregular := 0
+	for _, xi := range shapes {
+		if xi < -0.5 {
+			irregular++
+		}
+	}
 	elapsed := time.Since(start)
-	if err := os.WriteFile("../../docs/COVERAGE.md", []byte(coverageReport(cells, datasets, B, elapsed)), 0o644); err != nil {
+	if err := os.WriteFile("../../docs/COVERAGE.md", []byte(coverageReport(cells, datasets, B, elapsed, lrRejected, lrUsed, irregular)), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	// Profile intervals for n ≥ 50, and percentile-bootstrap ones at
-	// n = 200, must be within three binomial standard errors of 95% (the
-	// percentile bootstrap under-covers at n = 50 for the normal σ and the
-	// gamma shape: 91.5% and 89.2% in the recorded run).
+	// Profile and bootstrap-t intervals must be within three binomial
+	// standard errors of 95%, except the gev at n = 15, whose shortfall
+	// COVERAGE.md explains (the likelihood-ratio statistic's χ²₁
+	// approximation, and replicates that cannot be refitted); there they
+	// must still cover 85%.
 	se := math.Sqrt(0.95 * 0.05 / datasets)
 	for _, c := range cells {
-		if c.n < 50 || c.method == string(MethodWald) || (c.method == string(MethodBootstrap) && c.n < 200) {
+		if c.method == string(MethodWald) {
 			continue
 		}
 		used := c.datasets - c.failedFits
-		if p := float64(c.covered) / float64(used); math.Abs(p-0.95) > 3*se {
+		p := float64(c.covered) / float64(used)
+		if c.family == "gev" && c.n == 15 {
+			if p < 0.85 {
+				t.Errorf("%s n=%d %s %s: coverage %.3f, below even the 0.85 recorded for this small-sample case", c.family, c.n, c.quantity, c.method, p)
+			}
+			continue
+		}
+		if math.Abs(p-0.95) > 3*se {
 			t.Errorf("%s n=%d %s %s: coverage %.3f", c.family, c.n, c.quantity, c.method, p)
 		}
 	}
+	// The profile interval of the gev shape at n = 15 must miss exactly the
+	// datasets the direct likelihood-ratio test rejects (up to one or two
+	// within the root-finding tolerance of the cut-off).
+	prof := findCell(cells, "gev", 15, "shape", MethodProfile)
+	if misses := prof.below + prof.above; lrUsed != prof.datasets-prof.failedFits || misses < lrRejected-2 || misses > lrRejected+2 {
+		t.Errorf("gev n=15 shape: profile misses %d of %d datasets, the likelihood-ratio test rejects %d of %d", misses, prof.datasets-prof.failedFits, lrRejected, lrUsed)
+	}
 }
 
-func coverageReport(cells []coverageCell, datasets, B int, elapsed time.Duration) string {
+// findCell returns the cell of family, n, quantity and method.
+func findCell(cells []coverageCell, family string, n int, quantity string, m Method) coverageCell {
+	for _, c := range cells {
+		if c.family == family && c.n == n && c.quantity == quantity && c.method == string(m) {
+			return c
+		}
+	}
+	return coverageCell{datasets: 1}
+}
+
+func coverageReport(cells []coverageCell, datasets, B int, elapsed time.Duration, lrRejected, lrUsed, irregular int) string {
 	var b strings.Builder
 	se := math.Sqrt(0.95 * 0.05 / float64(datasets))
 	fmt.Fprintf(&b, `# Coverage of fitseal's 95%% intervals
@@ -213,7 +267,10 @@ below (seeded: dataset i of family F at size n uses the stream
 "2026|coverage/n|F|dataset|i"), fitted by maximum likelihood, and given 95%%
 intervals for one parameter and for the 0.99 quantile by three methods:
 Wald (delta method for the quantile; on the log scale for positive
-quantities), profile likelihood, and parametric-bootstrap percentiles.
+quantities), profile likelihood, and the parametric bootstrap-t
+(studentized bootstrap on the Wald interval's scale: every replicate is
+refitted and given its own observed information, and the pivot quantiles
+are the (B + 1)p-th order statistics, the 5th and 195th of 199).
 The table gives the share of datasets whose interval contains the truth.
 With %d datasets the binomial standard error at 95%% is %.1f percentage
 points, so anything within 95 ± %.1f (two standard errors) is as good as
@@ -247,7 +304,7 @@ failed are left out of every method alike.
 ## Summary (computed from the table)
 
 `)
-	lowCut := 95 - 200*se
+	lowCut, highCut := 95-200*se, 95+200*se
 	for _, m := range methods {
 		for _, n := range []int{15, 50, 200} {
 			var sum float64
@@ -260,7 +317,7 @@ failed are left out of every method alike.
 				p := 100 * float64(c.covered) / float64(c.datasets-c.failedFits)
 				sum += p
 				cnt++
-				if p < lowCut {
+				if p < lowCut || p > highCut {
 					low = append(low, fmt.Sprintf("%s %s %.1f", c.family, c.quantity, p))
 				}
 			}
@@ -269,23 +326,73 @@ failed are left out of every method alike.
 			}
 			fmt.Fprintf(&b, "- %s, n = %d: mean coverage %.1f%%", m, n, sum/float64(cnt))
 			if len(low) > 0 {
-				fmt.Fprintf(&b, "; below %.1f%%: %s", lowCut, strings.Join(low, "; "))
+				fmt.Fprintf(&b, "; outside %.2f–%.2f%%: %s", lowCut, highCut, strings.Join(low, "; "))
 			} else {
-				fmt.Fprintf(&b, "; none below %.1f%%", lowCut)
+				fmt.Fprintf(&b, "; none outside %.2f–%.2f%%", lowCut, highCut)
 			}
 			b.WriteString("\n")
 		}
 	}
-	b.WriteString(`
-Wald intervals rest on the estimate being close to normal, which fails at
-small n for skewed quantities (shape parameters, far quantiles); the
-profile likelihood does not assume it. Percentile-bootstrap intervals
-inherit the small-sample bias of the estimator (for the normal σ at n = 15
-their coverage is P(χ²₁₄ ≥ 8.61) ≈ 0.86 in theory), so they run short of
-nominal at small and moderate n; the B used here also puts Monte-Carlo
-noise into their ends. Of the three, the profile likelihood is the one to
-trust at small n, which is why it is fitseal's default.
-`)
+	pc := func(c coverageCell) string {
+		return strconv.FormatFloat(100*float64(c.covered)/float64(c.datasets-c.failedFits), 'f', 1, 64) + "%"
+	}
+	gevShape := findCell(cells, "gev", 15, "shape", MethodProfile)
+	gevQ := findCell(cells, "gev", 15, "quantile 0.99", MethodProfile)
+	bootShape := findCell(cells, "gev", 15, "shape", MethodBootstrap)
+	bootQ50 := findCell(cells, "gev", 50, "quantile 0.99", MethodBootstrap)
+	fmt.Fprintf(&b, `
+## Reading the table
+
+**Wald** intervals rest on the estimate being close to normal, which fails
+at small n for skewed quantities (shape parameters, far quantiles).
+
+**Profile** intervals do not assume it, and are within the band for
+n ≥ 50. At n = 15 the gev shape covers %s and the gev 0.99 quantile %s.
+That is a property of the likelihood at this sample size, not of the
+interval code: the likelihood-ratio statistic at the true shape,
+recomputed directly (location and scale maximised by Nelder–Mead outside
+the profile code; lrRejections in coverage_lr_test.go), exceeds χ²₁(0.95)
+in %d of %d datasets, and the profile interval misses %d (%d with the
+truth below its lower end, %d above its upper end). So the shortfall is
+the χ²₁ approximation of the likelihood-ratio statistic, which is poor for
+the GEV at n = 15: ξ̂ is widely spread there, and %d of the %d samples
+drawn with ξ = 0.1 are fitted with ξ̂ below −0.5, where the likelihood is
+not regular (Smith, 1985). A Bartlett-type correction of
+the cut-off would be the remedy; fitseal does not apply one.
+
+**Bootstrap-t** intervals studentize each replicate by its own standard
+error, t* = (t(θ*) − t̂)/se*, so they carry no bias of the estimator into
+the interval. For the exponential rate and quantile, the normal σ and
+0.99 quantile, and the Weibull shape and 0.99 quantile (whose logarithm is
+a linear function of the location and scale of the log data's Gumbel law)
+the pivot's law is free of the parameters and the coverage is nominal up
+to the Monte-Carlo error of the study. The percentile intervals they
+replace covered 86.8%%, 92.2%% and 93.3%% on average at n = 15, 50 and
+200 in the previous run of this study on the same datasets (this file's
+history), with the normal σ at n = 15 at 85.8%% (P(χ²₁₄ ≥ 8.61) ≈ 0.86 in
+theory).
+
+The exception is the gev shape at n = 15 (%s): of its %d misses, %d have
+the truth above the upper end. In %d of the datasets more than 2.5%% of
+the replicates could not be refitted — samples fitted with a strongly
+negative ξ̂, whose simulated samples often have a likelihood that grows
+without bound as ξ < −1 (Smith, 1985) — and the bootstrap-t covers only
+%d of those %d. Those replicates belong at the low end of the pivot's
+distribution; left out, they pull the upper end of the interval down.
+The percentile interval lost the same replicates (89.0%% in the previous
+run). Each row's note says how many replicates were left out: many
+failures on a small sample are the sign not to trust the interval. Where
+the standard error is itself a noisy estimate the bootstrap-t errs the
+other way, wide rather than short (replicates with a small se* give large
+|t*|): the gev 0.99 quantile at n = 50 covers %s.
+
+Of the three methods, the profile likelihood needs no simulation and is
+close to nominal except for the gev at n = 15, which is why it stays
+fitseal's default; the bootstrap-t is the better choice for the families
+whose pivot is exact, at any n.
+`, pc(gevShape), pc(gevQ), lrRejected, lrUsed, gevShape.below+gevShape.above, gevShape.below, gevShape.above, irregular, lrUsed,
+		pc(bootShape), bootShape.below+bootShape.above, bootShape.above, bootShape.hardBoot, bootShape.hardCovered, bootShape.hardBoot,
+		pc(bootQ50))
 	return b.String()
 }
 
