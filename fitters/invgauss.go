@@ -168,31 +168,31 @@ func invgaussMLE(x []float64) (mean, shape, ll float64) {
 }
 
 // invgaussFast is the closed form on complete data whose values are
-// positive and not all equal (Applicable's conditions, read off scan4): the
-// mean with meanSD's correcting pass, 1/λ̂ as in invgaussMLE, and Σ ln x
-// through sumLogs. ok is false when the data need the general route.
+// positive and not all equal (Applicable's conditions), in two passes: the
+// extremes, Σ x and Σ ln x (scanLogs4); then 1/λ̂ = mean((x − x̄)²/(x̄²x)),
+// as in invgaussMLE, with the mean's correction (as meanSD). ok is false
+// when the data need the general route.
 func invgaussFast(x []float64) (mean, shape, ll float64, ok bool) {
-	lo, hi, sum := scan4(x)
+	lo, hi, sum, slx := scanLogs4(x)
 	if !(lo > 0 && lo < hi) || math.IsInf(sum, 0) {
 		return 0, 0, 0, false
 	}
 	n := float64(len(x))
 	m := sum / n
-	var c float64
+	im := 1 / m
+	var sq, c float64
 	for _, v := range x {
-		c += v - m
+		d := v - m
+		c += d
+		r := d * im
+		sq += r * r / v
 	}
-	m += c / n
-	var sq float64
-	for _, v := range x {
-		r := (v - m) / m
-		sq += r * (r / v)
-	}
+	m += c / n // meanSD's correction; sq moves with m only in its last bits
 	shape = n / sq
 	if !(shape > 0) || math.IsInf(shape, 0) {
 		return 0, 0, 0, false
 	}
-	ll = n*(0.5*math.Log(shape)-lnSqrt2Pi) - 1.5*sumLogs(x) - 0.5*n
+	ll = n*(0.5*math.Log(shape)-lnSqrt2Pi) - 1.5*slx - 0.5*n
 	return m, shape, ll, true
 }
 

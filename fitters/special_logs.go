@@ -189,3 +189,39 @@ func sumLogs(x []float64) float64 {
 	}
 	return acc.sum()
 }
+
+// scanLogs4 is scan4 with Σ ln x added (for positive x, as sumLogs; ln of
+// a value ≤ 0 is NaN or −Inf, which the caller's lo > 0 test rejects).
+func scanLogs4(x []float64) (lo, hi, sum, sumLog float64) {
+	var s0, s1, s2, s3 float64
+	lo, hi = x[0], x[0]
+	acc := newLogAccumulator()
+	i := 0
+	for ; i+4 <= len(x); i += 4 {
+		a, b, c, d := x[i], x[i+1], x[i+2], x[i+3]
+		s0 += a
+		s1 += b
+		s2 += c
+		s3 += d
+		l, h := widen(a, a, b, c, d, d)
+		lo, hi = widen(lo, hi, l, l, h, h)
+		if l >= 0x1p-250 && h <= 0x1p250 {
+			if acc.k != 0 {
+				acc.renormalise()
+			}
+			acc.p *= (a * b) * (c * d)
+			acc.renormalise()
+			continue
+		}
+		acc.mul(a)
+		acc.mul(b)
+		acc.mul(c)
+		acc.mul(d)
+	}
+	for ; i < len(x); i++ {
+		s0 += x[i]
+		lo, hi = widen(lo, hi, x[i], x[i], x[i], x[i])
+		acc.mul(x[i])
+	}
+	return lo, hi, (s0 + s1) + (s2 + s3), acc.sum()
+}

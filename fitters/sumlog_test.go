@@ -127,12 +127,23 @@ func TestLogisticSumsMatchesPerValueLogs(t *testing.T) {
 	}
 }
 
+func minOf(x []float64) float64 { lo, _ := minMax(x); return lo }
+func maxOf(x []float64) float64 { _, hi := minMax(x); return hi }
+func plainSum(x []float64) float64 {
+	var s float64
+	for _, v := range x {
+		s += v
+	}
+	return s
+}
+
 // TestSumLogsAccuracy checks Σ ln xᵢ through logAccumulator (products with
 // their binary exponents moved out; used for the Σ ln x of the inverse
 // Gaussian and gamma fits) against the 4096-bit reference, beside one
 // math.Log per value added in order: over 300 samples of sizes up to 3000
 // and scales from 1e-60 to 1e60 (some clustered, some spread over many
-// decades), its largest error is within (n + 2)·2⁻⁵³ + 2 ulp of the sum
+// decades), scanLogs4 gives sumLogs's sum (with minMax's extremes and Σ x),
+// and the largest error is within (n + 2)·2⁻⁵³ + 2 ulp of the sum
 // and, relative to max(1, |Σ|), no larger than the plain sum's largest.
 // Values beyond 2^±250 are logged one by one, so for data made only of
 // them the result is the plain sum itself.
@@ -153,6 +164,9 @@ func TestSumLogsAccuracy(t *testing.T) {
 			plain += math.Log(v)
 		}
 		got := sumLogs(x)
+		if lo, hi, sum, sl := scanLogs4(x); sl != got || lo != minOf(x) || hi != maxOf(x) || math.Abs(sum-plainSum(x)) > 1e-12*plainSum(x) {
+			t.Fatalf("trial %d: scanLogs4 = (%v, %v, %v, %v), want (%v, %v, %v, %v)", trial, lo, hi, sum, sl, minOf(x), maxOf(x), plainSum(x), got)
+		}
 		errAcc, errPlain := math.Abs(got-ref), math.Abs(plain-ref)
 		worstAcc = math.Max(worstAcc, errAcc/math.Max(1, math.Abs(ref)))
 		worstPlain = math.Max(worstPlain, errPlain/math.Max(1, math.Abs(ref)))
