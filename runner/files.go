@@ -1,8 +1,6 @@
 package runner
 
 import (
-	"bytes"
-	"encoding/csv"
 	"math"
 	"strconv"
 )
@@ -39,19 +37,13 @@ func FormatFloat(x float64) string {
 // Files returns the result files by name (FitsFile, …), each as the exact
 // bytes to store; the same results give the same bytes.
 func (r *Results) Files() (map[string][]byte, error) {
-	out := map[string][]byte{}
-	for name, rows := range map[string][][]string{
-		FitsFile: r.fitsRows(), ParametersFile: r.parameterRows(), DerivedFile: r.derivedRows(), GOFFile: r.gofRows(),
-	} {
-		var b bytes.Buffer
-		w := csv.NewWriter(&b)
-		if err := w.WriteAll(rows); err != nil {
-			return nil, err
-		}
-		out[name] = b.Bytes()
-	}
-	out[ResultsFile] = r.resultsJSON()
-	return out, nil
+	return map[string][]byte{
+		FitsFile:       r.fitsCSV(),
+		ParametersFile: r.parametersCSV(),
+		DerivedFile:    r.derivedCSV(),
+		GOFFile:        r.gofCSV(),
+		ResultsFile:    r.resultsJSON(),
+	}, nil
 }
 
 // resultsJSON is results.json (layout: document_json.go).
@@ -67,68 +59,131 @@ func (r *Results) resultsJSON() []byte {
 	return appendDocument(make([]byte, 0, size), &doc)
 }
 
-func itoa(n int) string { return strconv.Itoa(n) }
-
-func (r *Results) fitsRows() [][]string {
-	rows := [][]string{FitsHeader}
+func (r *Results) fitsCSV() []byte {
+	rows := 0
+	for _, a := range r.Analyses {
+		rows += len(a.Comparison.Rows)
+	}
+	t := newCSVTable(FitsHeader, 256*rows+512)
 	for _, a := range r.Analyses {
 		d := &a.Group.Data
 		for _, row := range a.Comparison.Rows {
-			n, nc, k, loglik, converged := itoa(d.N()), itoa(d.NCensored()), "", "", "false"
-			var method, iterations, evaluations, gradNorm string
-			if f := row.Fit; f != nil {
-				n, nc = itoa(f.N), itoa(f.NCensored)
-				method, iterations, evaluations, gradNorm = f.Method, itoa(f.Iterations), itoa(f.Evaluations), FormatFloat(f.GradientNorm)
-				if f.Converged {
-					k, loglik, converged = itoa(f.K), FormatFloat(f.LogLik), "true"
-				}
+			f := row.Fit
+			t.text(a.Name)
+			t.text(a.Dataset)
+			t.text(row.Family)
+			if f != nil {
+				t.int(f.N)
+				t.int(f.NCensored)
+			} else {
+				t.int(d.N())
+				t.int(d.NCensored())
 			}
-			rank := ""
+			if f != nil && f.Converged {
+				t.int(f.K)
+				t.num(f.LogLik)
+			} else {
+				t.text("")
+				t.text("")
+			}
+			t.num(row.AIC)
+			t.num(row.AICc)
+			t.num(row.BIC)
+			t.text(string(a.Comparison.Criterion))
+			t.num(row.Delta)
+			t.num(row.Weight)
 			if row.Rank > 0 {
-				rank = itoa(row.Rank)
+				t.int(row.Rank)
+			} else {
+				t.text("")
 			}
-			rows = append(rows, []string{
-				a.Name, a.Dataset, row.Family, n, nc, k, loglik,
-				FormatFloat(row.AIC), FormatFloat(row.AICc), FormatFloat(row.BIC),
-				string(a.Comparison.Criterion), FormatFloat(row.Delta), FormatFloat(row.Weight), rank, converged, row.Note,
-				FormatFloat(row.EvidenceRatio), row.Support, method, iterations, evaluations, gradNorm,
-			})
+			t.bool(f != nil && f.Converged)
+			t.text(row.Note)
+			t.num(row.EvidenceRatio)
+			t.text(row.Support)
+			if f != nil {
+				t.text(f.Method)
+				t.int(f.Iterations)
+				t.int(f.Evaluations)
+				t.num(f.GradientNorm)
+			} else {
+				t.text("")
+				t.text("")
+				t.text("")
+				t.text("")
+			}
+			t.end()
 		}
 	}
-	return rows
+	return t.b
 }
 
-func (r *Results) parameterRows() [][]string {
-	rows := [][]string{ParametersHeader}
+func (r *Results) parametersCSV() []byte {
+	rows := 0
+	for _, a := range r.Analyses {
+		for _, ps := range a.Parameters {
+			rows += len(ps)
+		}
+	}
+	t := newCSVTable(ParametersHeader, 160*rows+512)
 	for _, a := range r.Analyses {
 		for i, ps := range a.Parameters {
 			fam := a.Comparison.Rows[i].Family
 			for _, p := range ps {
-				rows = append(rows, []string{a.Name, fam, p.Parameter, FormatFloat(p.Estimate), FormatFloat(p.StdError),
-					FormatFloat(p.CILower), FormatFloat(p.CIUpper), p.CIMethod, strconv.FormatBool(p.Fixed)})
+				t.text(a.Name)
+				t.text(fam)
+				t.text(p.Parameter)
+				t.num(p.Estimate)
+				t.num(p.StdError)
+				t.num(p.CILower)
+				t.num(p.CIUpper)
+				t.text(p.CIMethod)
+				t.bool(p.Fixed)
+				t.end()
 			}
 		}
 	}
-	return rows
+	return t.b
 }
 
-func (r *Results) derivedRows() [][]string {
-	rows := [][]string{DerivedHeader}
+func (r *Results) derivedCSV() []byte {
+	rows := 0
+	for _, a := range r.Analyses {
+		rows += len(a.Derived)
+	}
+	t := newCSVTable(DerivedHeader, 160*rows+512)
 	for _, a := range r.Analyses {
 		for _, d := range a.Derived {
-			rows = append(rows, []string{a.Name, d.Family, d.Quantity, FormatFloat(d.Argument), FormatFloat(d.Estimate),
-				FormatFloat(d.CILower), FormatFloat(d.CIUpper), d.CIMethod})
+			t.text(a.Name)
+			t.text(d.Family)
+			t.text(d.Quantity)
+			t.num(d.Argument)
+			t.num(d.Estimate)
+			t.num(d.CILower)
+			t.num(d.CIUpper)
+			t.text(d.CIMethod)
+			t.end()
 		}
 	}
-	return rows
+	return t.b
 }
 
-func (r *Results) gofRows() [][]string {
-	rows := [][]string{GOFHeader}
+func (r *Results) gofCSV() []byte {
+	rows := 0
+	for _, a := range r.Analyses {
+		rows += len(a.GOF)
+	}
+	t := newCSVTable(GOFHeader, 100*rows+512)
 	for _, a := range r.Analyses {
 		for _, g := range a.GOF {
-			rows = append(rows, []string{a.Name, g.Family, g.Statistic, FormatFloat(g.Value), FormatFloat(g.PValue), itoa(g.Replicates)})
+			t.text(a.Name)
+			t.text(g.Family)
+			t.text(g.Statistic)
+			t.num(g.Value)
+			t.num(g.PValue)
+			t.int(g.Replicates)
+			t.end()
 		}
 	}
-	return rows
+	return t.b
 }
