@@ -159,8 +159,13 @@ func (f gammaFamily) Applicable(d *Data, fixed Fixed) error {
 // iteration starts from Minka's (2002) approximation
 // k₀ = (3 − s + √((s−3)² + 24s))/(12s) inside a bracket of the root.
 func gammaMLE(x []float64, opt Options) (shape, rate, ll float64, conv Convergence) {
+	return gammaMLESum(x, sumOf(x), opt)
+}
+
+// gammaMLESum is gammaMLE given Σ x (from a pass the caller made anyway).
+func gammaMLESum(x []float64, sum float64, opt Options) (shape, rate, ll float64, conv Convergence) {
 	n := float64(len(x))
-	xbar := sumOf(x) / n
+	xbar := sum / n
 	if math.IsInf(xbar, 0) {
 		// Σx overflowed: take the mean of x/n instead.
 		xbar = 0
@@ -179,14 +184,25 @@ func gammaMLE(x []float64, opt Options) (shape, rate, ll float64, conv Convergen
 	var sumD, sumL, sy, sumDLog float64
 	acc := newLogAccumulator()
 	for _, v := range x {
-		d := (v - xbar) / xbar
+		d := (v - xbar) * ixbar
 		sumD += d
 		if math.Abs(d) < 0.1 {
-			l := log1pmx(d)
+			// log1pmx's series, with one division.
+			r := 1 / (2 + d)
+			u := d * r
+			u2 := u * u
+			l := -d*d*r + 2*u*u2*(1.0/3+u2*(1.0/5+u2*(1.0/7+u2*(1.0/9+u2*(1.0/11+u2*(1.0/13))))))
 			sumL += l
 			sy += d + l
 		} else {
-			acc.mul(v * ixbar)
+			if ratio := v * ixbar; ratio >= 0x1p-250 && ratio <= 0x1p250 {
+				acc.p *= ratio // acc.mul, written out for speed
+				if acc.k++; acc.k == 4 {
+					acc.renormalise()
+				}
+			} else {
+				acc.mul(ratio)
+			}
 			sumDLog += d
 		}
 	}
@@ -228,6 +244,15 @@ func gammaMLE(x []float64, opt Options) (shape, rate, ll float64, conv Convergen
 }
 
 func (f gammaFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) >= 2 {
+		// Applicable's conditions (values > 0, not all equal) and Σ x from
+		// one pass.
+		if lo, hi, sum := scan4(d.Exact); lo > 0 && lo < hi {
+			fit := newFit(f, d)
+			fit.setSolved(gammaMLESum(d.Exact, sum, opt))
+			return fit, nil
+		}
+	}
 	if !quickApplicable(d, opt, 2, true) {
 		if err := f.Applicable(d, opt.Fixed); err != nil {
 			return nil, err
