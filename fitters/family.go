@@ -88,7 +88,10 @@ type Convergence struct {
 	Iterations  int
 	Evaluations int
 	// GradientNorm is the largest absolute score component at the reported
-	// optimum, on the scale the optimiser worked on (0 for a closed form).
+	// optimum, on the scale the optimiser worked on (0 for a closed form);
+	// where the last Newton step was taken without a confirming pass
+	// (Taylor bounds proved it converged: logistic, loglogistic, weibull,
+	// gumbel), it is that proven upper bound.
 	GradientNorm float64
 	// Converged reports whether the reported values are the maximum
 	// likelihood estimate. False means: do not use them for ranking.
