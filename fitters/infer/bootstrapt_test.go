@@ -5,6 +5,7 @@ import (
 	"math"
 	"os"
 	"slices"
+	"strings"
 	"testing"
 
 	"fitseal/fitters"
@@ -95,5 +96,90 @@ func TestQuantile6(t *testing.T) {
 				t.Errorf("m = %v, p = %v: %v (clamped %v), numpy %v (clamped %v)", m, p, got, clamped, c.Quantiles[k], wantClamped)
 			}
 		}
+	}
+}
+
+// TestBootstrapTEveryFamily draws every family's replicates with their
+// information (the data as in TestEveryFamily) and checks that a
+// bootstrap row is either a bootstrap-t interval or a percentile one whose
+// note says why, that no row lacks an interval without a reason, and that
+// the regular continuous families get finite bootstrap-t intervals for
+// every parameter and derived quantity.
+func TestBootstrapTEveryFamily(t *testing.T) {
+	regular := map[string]bool{"normal": true, "lognormal": true, "exponential": true, "gamma": true,
+		"weibull": true, "gumbel": true, "gev": true, "logistic": true, "loglogistic": true,
+		"invgauss": true, "beta": true}
+	counts := []float64{0, 1, 1, 2, 0, 3, 1, 0, 2, 1, 4, 0, 1, 2, 1}
+	for _, fam := range fitters.Families() {
+		t.Run(fam.Name(), func(t *testing.T) {
+			d := fitters.Complete(ballBearings)
+			opt := fitters.Options{}
+			switch {
+			case fam.Name() == "beta":
+				x := make([]float64, len(ballBearings))
+				for i, v := range ballBearings {
+					x[i] = v / 200
+				}
+				d = fitters.Complete(x)
+			case fam.Name() == "gpd":
+				opt.Fixed = fitters.Fixed{"threshold": 15}
+			case fam.Name() == "binomial" || fam.Name() == "betabinomial":
+				d = &fitters.Data{Exact: counts, Trials: []int{4, 4, 5, 5, 3, 6, 4, 2, 5, 5, 8, 3, 4, 6, 2}}
+			case fam.Kind() == fitters.Discrete:
+				d = fitters.Complete(counts)
+			}
+			fit, err := fam.Fit(d, opt)
+			if err != nil || !fit.Converged {
+				t.Skipf("no converged fit: %v", err)
+			}
+			rep, err := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 49, NoStatistics: true, Information: true,
+				Stream: Stream{Master: 1, Family: fam.Name()}})
+			if err != nil {
+				t.Skipf("no bootstrap: %v", err)
+			}
+			s := Settings{Level: 0.9, Replicates: rep}
+			check := func(what, method, note string, lo, hi float64) {
+				t.Helper()
+				t.Logf("%s: [%v, %v] %s; %s", what, lo, hi, method, note)
+				switch {
+				case strings.HasPrefix(method, "bootstrap-t ("):
+				case strings.HasPrefix(method, "bootstrap percentile") && strings.Contains(note, "percentile interval instead of bootstrap-t"):
+				case method == "bootstrap-t" && note != "":
+				default:
+					t.Errorf("%s: method %q, note %q", what, method, note)
+				}
+				if (math.IsNaN(lo) || math.IsNaN(hi)) && note == "" {
+					t.Errorf("%s: no interval and no reason", what)
+				}
+				if regular[fam.Name()] && (!strings.HasPrefix(method, "bootstrap-t (") || math.IsNaN(lo) || math.IsNaN(hi) || math.IsInf(lo, 0) || math.IsInf(hi, 0)) {
+					t.Errorf("%s: [%v, %v] %q %q, want a finite bootstrap-t interval", what, lo, hi, method, note)
+				}
+			}
+			rows, err := Intervals(fam, fit, d, MethodBootstrap, s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, r := range rows {
+				if !r.Fixed {
+					check(r.Parameter, r.Method, r.Note, r.Lower, r.Upper)
+				}
+			}
+			for _, q := range []struct {
+				q   Quantity
+				arg float64
+			}{{Quantile, 0.5}, {ReturnLevel, 100}, {Exceedance, 0.5 * ballBearings[22]}} {
+				if fam.Name() == "beta" && q.q == Exceedance {
+					q.arg = 0.5
+				}
+				dv, err := Derived(fam, fit, d, q.q, q.arg, MethodBootstrap, s)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if d.Trials != nil {
+					continue // no single value: the note says so
+				}
+				check(string(q.q), dv.Method, dv.Note, dv.Lower, dv.Upper)
+			}
+		})
 	}
 }
