@@ -205,6 +205,10 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	if opt.Tool == (Tool{}) {
 		opt.Tool = CurrentTool()
 	}
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
 	inputs := opt.Inputs
 	if inputs == nil {
 		var err error
@@ -216,7 +220,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	for k, v := range inputs {
 		payload[k] = v
 	}
-	files, err := res.Files()
+	files, err := res.FilesOn(workers)
 	if err != nil {
 		return Contents{}, err
 	}

@@ -3,6 +3,7 @@ package runner
 import (
 	"math"
 	"strconv"
+	"sync"
 )
 
 // Result file names, as they appear under the bundle's data/results/.
@@ -36,14 +37,36 @@ func FormatFloat(x float64) string {
 
 // Files returns the result files by name (FitsFile, …), each as the exact
 // bytes to store; the same results give the same bytes.
-func (r *Results) Files() (map[string][]byte, error) {
-	return map[string][]byte{
-		FitsFile:       r.fitsCSV(),
-		ParametersFile: r.parametersCSV(),
-		DerivedFile:    r.derivedCSV(),
-		GOFFile:        r.gofCSV(),
-		ResultsFile:    r.resultsJSON(),
-	}, nil
+func (r *Results) Files() (map[string][]byte, error) { return r.FilesOn(1) }
+
+// FilesOn is [Results.Files] with the files written on at most workers
+// goroutines at once (results.json on one while the tables are written on
+// the others); the bytes do not depend on workers.
+func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
+	names := []string{ResultsFile, FitsFile, ParametersFile, DerivedFile, GOFFile}
+	write := []func() []byte{r.resultsJSON, r.fitsCSV, r.parametersCSV, r.derivedCSV, r.gofCSV}
+	data := make([][]byte, len(names))
+	next := make(chan int, len(names))
+	for i := range names {
+		next <- i
+	}
+	close(next)
+	var wg sync.WaitGroup
+	for w := 0; w < min(max(1, workers), len(names)); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				data[i] = write[i]()
+			}
+		}()
+	}
+	wg.Wait()
+	out := make(map[string][]byte, len(names))
+	for i, name := range names {
+		out[name] = data[i]
+	}
+	return out, nil
 }
 
 // resultsJSON is results.json (layout: document_json.go).
