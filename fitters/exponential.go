@@ -136,7 +136,7 @@ func (f exponentialFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			}
 			rate = r / s * f
 		}
-		fit.Estimates = []float64{rate}
+		fit.Estimates[0] = rate
 		fit.LogLik = r*math.Log(rate) - r // λ̂·total = r
 		fit.Convergence = closedForm()
 		return fit, nil

@@ -7,23 +7,42 @@ import (
 )
 
 // newFit starts a Fit record for family f on data d, with every parameter
-// free and the estimates unset (NaN).
+// free and the estimates unset (NaN). For up to four parameters the record
+// and its Estimates and Fixed slices come from one allocation (fitBox).
 func newFit(f Family, d *Data) *Fit {
 	names := f.Parameters()
-	est := make([]float64, len(names))
+	k := len(names)
+	var fit *Fit
+	var est []float64
+	var fixed []bool
+	if k <= len(fitBox{}.est) {
+		b := new(fitBox)
+		fit, est, fixed = &b.fit, b.est[:k:k], b.fixed[:k:k]
+	} else {
+		fit, est, fixed = new(Fit), make([]float64, k), make([]bool, k)
+	}
 	for i := range est {
 		est[i] = math.NaN()
 	}
-	return &Fit{
+	*fit = Fit{
 		Family:     f.Name(),
 		Parameters: names,
 		Estimates:  est,
-		Fixed:      make([]bool, len(names)),
+		Fixed:      fixed,
 		LogLik:     math.NaN(),
-		K:          len(names),
+		K:          k,
 		N:          d.N(),
 		NCensored:  d.NCensored(),
 	}
+	return fit
+}
+
+// fitBox holds a Fit with room for its estimates and fixed flags, so that
+// newFit allocates once (bootstrap refits create one per replicate).
+type fitBox struct {
+	fit   Fit
+	est   [4]float64
+	fixed [4]bool
 }
 
 // closedForm is the convergence record of an explicit solution.

@@ -216,7 +216,7 @@ func (f invgaussFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			fit.Convergence = Convergence{Method: "closed form", Reason: fmt.Sprintf("the shape's estimate is %v: the data have no spread in floating point", s)}
 			return fit, nil
 		}
-		fit.Estimates = []float64{m, s}
+		fit.Estimates[0], fit.Estimates[1] = m, s
 		fit.LogLik = ll
 		fit.Convergence = closedForm()
 		return fit, nil

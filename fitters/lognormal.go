@@ -140,7 +140,7 @@ func (f lognormalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	fit := newFit(f, d)
 	if d.IsComplete() {
 		mu, sigma, ll := lognormalMLE(d.Exact)
-		fit.Estimates = []float64{mu, sigma}
+		fit.Estimates[0], fit.Estimates[1] = mu, sigma
 		fit.LogLik = ll
 		fit.Convergence = closedForm()
 		return fit, nil

@@ -92,7 +92,7 @@ func (f normalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	fit := newFit(f, d)
 	if d.IsComplete() {
 		mu, sd := meanSD(d.Exact)
-		fit.Estimates = []float64{mu, sd}
+		fit.Estimates[0], fit.Estimates[1] = mu, sd
 		fit.LogLik = f.LogLik(fit.Estimates, d)
 		fit.Convergence = closedForm()
 		return fit, nil
