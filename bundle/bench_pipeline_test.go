@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"testing"
 	"time"
 
@@ -30,11 +31,15 @@ func BenchmarkPipeline(b *testing.B) {
 	}
 	out := filepath.Join(b.TempDir(), "bench.tar.gz")
 	workers := 1
-	if s := os.Getenv("FITSEAL_BENCH_WORKERS"); s == "2" {
-		workers = 2
+	if s := os.Getenv("FITSEAL_BENCH_WORKERS"); s != "" {
+		if n, err := strconv.Atoi(s); err == nil && n > 0 {
+			workers = n
+		}
 	}
 	created := time.Unix(1700000000, 0).UTC()
+	var read, fit, seal time.Duration
 	for i := 0; i < b.N; i++ {
+		t0 := time.Now()
 		p, err := runner.Load(proj)
 		if err != nil {
 			b.Fatal(err)
@@ -43,10 +48,12 @@ func BenchmarkPipeline(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
+		t1 := time.Now()
 		res, err := runner.Run(context.Background(), p, runner.RunOptions{Workers: workers})
 		if err != nil {
 			b.Fatal(err)
 		}
+		t2 := time.Now()
 		c, err := Seal(res, SealOptions{Created: created, CreatedFrom: "SOURCE_DATE_EPOCH", Signer: signer.PublicKey(), Inputs: inputs, Workers: workers})
 		if err != nil {
 			b.Fatal(err)
@@ -54,5 +61,12 @@ func BenchmarkPipeline(b *testing.B) {
 		if err := WriteBundle(out, true, c, signer); err != nil {
 			b.Fatal(err)
 		}
+		read, fit, seal = read+t1.Sub(t0), fit+t2.Sub(t1), seal+time.Since(t2)
 	}
+	// Wall time per run of each stage: loading and reading the inputs,
+	// runner.Run (reading the CSV, fitting, inference), sealing and writing.
+	n := float64(b.N)
+	b.ReportMetric(read.Seconds()/n, "s-inputs")
+	b.ReportMetric(fit.Seconds()/n, "s-run")
+	b.ReportMetric(seal.Seconds()/n, "s-seal+write")
 }
