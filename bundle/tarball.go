@@ -118,7 +118,7 @@ func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, wo
 	}
 	sort.Slice(entries, func(i, j int) bool { return entries[i].name < entries[j].name })
 
-	// Gzip members of 1 MiB of tar each, compressed on every core
+	// Gzip members of 1 MiB of tar each, compressed on up to workers cores
 	// (gzip_parallel.go); the bytes do not depend on the number of cores.
 	zw := newMemberWriter(w, gzipLevel, workers)
 	tw := tar.NewWriter(zw)
