@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 )
 
@@ -65,13 +66,52 @@ func sha256Hex(b []byte) string {
 
 // manifest writes "HASH  PATH" lines sorted by path (RFC 8493, section 2.1.3).
 func manifest(files map[string][]byte, paths []string) []byte {
+	return manifestOn(1, files, paths)
+}
+
+// manifestOn is manifest with the files hashed on at most workers
+// goroutines; the lines do not depend on workers.
+func manifestOn(workers int, files map[string][]byte, paths []string) []byte {
 	sorted := append([]string(nil), paths...)
 	sort.Strings(sorted)
+	sums := sha256All(workers, files, sorted)
 	var b strings.Builder
-	for _, p := range sorted {
-		fmt.Fprintf(&b, "%s  %s\n", sha256Hex(files[p]), encodeManifestPath(p))
+	for i, p := range sorted {
+		b.WriteString(sums[i])
+		b.WriteString("  ")
+		b.WriteString(encodeManifestPath(p))
+		b.WriteByte('\n')
 	}
 	return []byte(b.String())
+}
+
+// sha256All returns the hex SHA-256 of files[p] for each of paths, in
+// order, hashing on at most workers goroutines (at least one).
+func sha256All(workers int, files map[string][]byte, paths []string) []string {
+	sums := make([]string, len(paths))
+	if workers <= 1 || len(paths) < 2 {
+		for i, p := range paths {
+			sums[i] = sha256Hex(files[p])
+		}
+		return sums
+	}
+	next := make(chan int, len(paths))
+	for i := range paths {
+		next <- i
+	}
+	close(next)
+	var wg sync.WaitGroup
+	for w := 0; w < min(workers, len(paths)); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				sums[i] = sha256Hex(files[paths[i]])
+			}
+		}()
+	}
+	wg.Wait()
+	return sums
 }
 
 // manifestEntry is one line of a manifest.
@@ -184,6 +224,7 @@ type bagContents struct {
 	Created     time.Time
 	Description string
 	ToolVersion string
+	Workers     int // goroutines hashing the payload (0: one)
 }
 
 // buildBag makes every member of a bag except the signature: the payload
@@ -204,7 +245,7 @@ func buildBag(c bagContents) (map[string][]byte, error) {
 	}
 	files[RunFile] = c.RunJSON
 	files[BagItFile] = []byte(bagItDeclaration)
-	files[ManifestFile] = manifest(files, payloadPaths)
+	files[ManifestFile] = manifestOn(c.Workers, files, payloadPaths)
 	files[BagInfoFile] = bagInfo(c.Created, c.Description, c.ToolVersion, payloadOxum(files))
 	files[TagManifestFile] = manifest(files, tagManifestCovers)
 	return files, nil

@@ -178,6 +178,12 @@ func ReadInputs(p *runner.Project) (map[string][]byte, error) {
 // ResultsIdentity is the SHA-256 of the manifest lines ("HEX  data/PATH\n",
 // sorted by path) of every payload file under inputs/ and results/.
 func ResultsIdentity(payload map[string][]byte) string {
+	return resultsIdentityOn(1, payload)
+}
+
+// resultsIdentityOn is ResultsIdentity with the files hashed on at most
+// workers goroutines.
+func resultsIdentityOn(workers int, payload map[string][]byte) string {
 	var paths []string
 	for p := range payload {
 		if strings.HasPrefix(p, "inputs/") || strings.HasPrefix(p, "results/") {
@@ -185,10 +191,10 @@ func ResultsIdentity(payload map[string][]byte) string {
 		}
 	}
 	sort.Strings(paths)
+	sums := sha256All(workers, payload, paths)
 	h := sha256.New()
-	for _, p := range paths {
-		sum := sha256.Sum256(payload[p])
-		fmt.Fprintf(h, "%s  %s/%s\n", hex.EncodeToString(sum[:]), PayloadDir, encodeManifestPath(p))
+	for i, p := range paths {
+		fmt.Fprintf(h, "%s  %s/%s\n", sums[i], PayloadDir, encodeManifestPath(p))
 	}
 	return hex.EncodeToString(h.Sum(nil))
 }
@@ -227,7 +233,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	for name, b := range files {
 		payload["results/"+name] = b
 	}
-	ident := ResultsIdentity(payload)
+	ident := resultsIdentityOn(workers, payload)
 	var shard *ShardRecord
 	if opt.Shard != nil {
 		shard = &ShardRecord{Index: opt.Shard.Index, Count: opt.Shard.Count, Assignment: runner.ShardAssignment,

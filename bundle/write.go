@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"strings"
 	"time"
@@ -44,7 +45,7 @@ func Members(c Contents, signer Signer) (map[string][]byte, error) {
 	}
 	files, err := buildBag(bagContents{
 		Payload: c.Payload, RunJSON: c.RunJSON, Created: c.Created,
-		Description: c.Description, ToolVersion: c.ToolVersion,
+		Description: c.Description, ToolVersion: c.ToolVersion, Workers: workersOf(c.Workers),
 	})
 	if err != nil {
 		return nil, err
@@ -55,6 +56,14 @@ func Members(c Contents, signer Signer) (map[string][]byte, error) {
 	}
 	files[SignatureFile] = sig
 	return files, nil
+}
+
+// workersOf is the number of goroutines Contents.Workers allows.
+func workersOf(w int) int {
+	if w <= 0 {
+		return runtime.GOMAXPROCS(0)
+	}
+	return w
 }
 
 func sortedMembers(files map[string][]byte) []member {
