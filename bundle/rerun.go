@@ -182,7 +182,7 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 		add(projectMember, KindRerun, "the re-run failed: %v", strings.ReplaceAll(err.Error(), tmp+string(filepath.Separator), ""))
 		return rep, nil
 	}
-	files, err := res.Files()
+	files, err := res.FilesOn(workers)
 	if err != nil {
 		return nil, err
 	}
