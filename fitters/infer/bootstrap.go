@@ -155,6 +155,7 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 		Estimates: make([][]float64, B), Statistics: make([][]float64, B)}
 	reasons := make([]string, B)
 	var noCov []string
+	free := freeIndices(fit)
 	if opt.Information {
 		rep.Covariances = make([]*mat.SymDense, B)
 		noCov = make([]string, B)
@@ -217,12 +218,14 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 					// sim.Exact is still replicate r's sample: the refit's
 					// information is taken on the data it was fitted to.
 					info, err := ObservedInformation(fam, refit, sim)
-					if err != nil || (info.Covariance == nil && len(info.Free) > 0) {
+					switch {
+					case err != nil:
+						noCov[r] = err.Error()
+					case !slices.Equal(info.Free, free):
+						noCov[r] = "the refit's free parameters are not the fit's (opt.Fit fixes more)"
+					case info.Covariance == nil && len(free) > 0:
 						noCov[r] = "no covariance"
-						if err != nil {
-							noCov[r] = err.Error()
-						}
-					} else {
+					default:
 						rep.Covariances[r] = info.Covariance
 					}
 				}
