@@ -49,8 +49,13 @@ func ToolVersion() string {
 // encodeManifestPath percent-encodes the three characters that RFC 8493
 // (section 2.1.3) requires in manifest paths: CR, LF and "%".
 func encodeManifestPath(p string) string {
-	return strings.NewReplacer("%", "%25", "\r", "%0D", "\n", "%0A").Replace(p)
+	if !strings.ContainsAny(p, "%\r\n") {
+		return p
+	}
+	return manifestPathEncoder.Replace(p)
 }
+
+var manifestPathEncoder = strings.NewReplacer("%", "%25", "\r", "%0D", "\n", "%0A")
 
 // decodeManifestPath reverses encodeManifestPath; other escapes are kept as
 // written, as the RFC defines no others.
