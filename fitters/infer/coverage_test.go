@@ -354,8 +354,12 @@ failed are left out of every method alike.
 	}
 	exactNote := "none lies outside the band"
 	if len(exactOut) > 0 {
-		exactNote = fmt.Sprintf("%d lie outside the band (%s), about what two-standard-error limits lead one to expect (one cell in twenty)",
-			len(exactOut), strings.Join(exactOut, "; "))
+		verb := "lie"
+		if len(exactOut) == 1 {
+			verb = "lies"
+		}
+		exactNote = fmt.Sprintf("%d %s outside the band (%s), about what two-standard-error limits lead one to expect (one cell in twenty)",
+			len(exactOut), verb, strings.Join(exactOut, "; "))
 	}
 	easy := bootShape.datasets - bootShape.failedFits - bootShape.hardBoot
 	easyCovered := bootShape.covered - bootShape.hardCovered
