@@ -7,7 +7,14 @@ import "math"
 // the family's parameters (e.g. exp for a positive parameter). This is the
 // route for censored data, where the closed forms and profile equations of
 // complete data no longer hold; the starts come from a complete-data estimate.
+//
+// Location-scale families (and those of ln x) first try the dedicated
+// censored Newton route from the first start (fitCensoredLocScale); only
+// when it does not converge does the BFGS route run.
 func fitByMinimize(fit *Fit, f Family, d *Data, opt Options, toNatural func(theta []float64) []float64, starts [][]float64, method string) {
+	if len(starts) > 0 && fitCensoredLocScale(fit, f, d, opt, toNatural(starts[0])) {
+		return
+	}
 	dim := len(starts[0])
 	prob := problem{dim: dim, negLogLik: func(t []float64) float64 {
 		return -f.LogLik(toNatural(t), d)
