@@ -60,8 +60,13 @@ var manifestPathEncoder = strings.NewReplacer("%", "%25", "\r", "%0D", "\n", "%0
 // decodeManifestPath reverses encodeManifestPath; other escapes are kept as
 // written, as the RFC defines no others.
 func decodeManifestPath(p string) string {
-	return strings.NewReplacer("%0D", "\r", "%0d", "\r", "%0A", "\n", "%0a", "\n", "%25", "%").Replace(p)
+	if !strings.Contains(p, "%") {
+		return p
+	}
+	return manifestPathDecoder.Replace(p)
 }
+
+var manifestPathDecoder = strings.NewReplacer("%0D", "\r", "%0d", "\r", "%0A", "\n", "%0a", "\n", "%25", "%")
 
 // sha256Hex is the lower-case hex SHA-256 of b.
 func sha256Hex(b []byte) string {
