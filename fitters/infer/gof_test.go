@@ -312,3 +312,21 @@ func TestInfiniteStatistic(t *testing.T) {
 		}
 	}
 }
+
+// TestEDFStatisticsAllocatesNothing: KS, CvM and AD in one pass with no
+// buffer, whatever the family.
+func TestEDFStatisticsAllocatesNothing(t *testing.T) {
+	x := []float64{0.5, 1, 1.5, 2, 3, 5, 8, 13}
+	for _, c := range edfBenchCases {
+		d, err := family(t, c.family).New(c.params)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var out [3]float64
+		for _, dd := range []fitters.Dist{d, plainDist{d}} {
+			if n := testing.AllocsPerRun(20, func() { edfStatistics(dd, x, nil, nil, &out) }); n != 0 {
+				t.Errorf("%s (%T): %v allocations per call", c.family, dd, n)
+			}
+		}
+	}
+}
