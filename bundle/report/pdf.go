@@ -337,7 +337,7 @@ func methodsText(r *Report) []string {
 	intervals := map[string]string{
 		"profile":   "profile likelihood: the parameter values whose profile log-likelihood lies within half the chi-square quantile (1 degree of freedom) at that level of the maximum (Venzon & Moolgavkar 1988)",
 		"wald":      "Wald: the estimate ± the normal quantile times the standard error from the observed information",
-		"bootstrap": "parametric bootstrap percentiles: the model is simulated at the estimates and refitted",
+		"bootstrap": "studentized parametric bootstrap (bootstrap-t): the model is simulated at the estimates and refitted, and each replicate's estimate, standardised by its own observed-information standard error on the Wald scale, calibrates the interval (Davison & Hinkley 1997, section 5.2.1)",
 	}[s.Intervals]
 	if intervals == "" {
 		intervals = "as named in each table's interval column"

@@ -85,7 +85,7 @@ func TestEveryFamily(t *testing.T) {
 }
 
 // checkRow: no interval without a reason; an interval contains the
-// estimate (a bootstrap percentile interval need not, so only for Wald and
+// estimate (a bootstrap-t or percentile interval need not, so only for Wald and
 // profile, with a little slack for the profile's root-finding tolerance).
 func checkRow(t *testing.T, what string, est, lo, hi float64, note string, contains bool) {
 	t.Helper()
