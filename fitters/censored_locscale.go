@@ -87,14 +87,40 @@ func identityParams(mu, sigma float64) []float64  { return []float64{mu, sigma} 
 func identityFrom(p []float64) (float64, float64) { return p[0], p[1] }
 
 // censoredSample is a censored dataset on the standardized scale
-// u = (y − c)/s: exact values, non-detect limits, suspensions and
-// two-sided intervals (open intervals have become left or right censored).
+// u = (y − c)/s: exact values, and the distinct non-detect limits,
+// suspensions and two-sided intervals with how often each occurs (open
+// intervals have become left or right censored). Field data repeat their
+// limits (a few detection limits, suspensions at the end of a test), so
+// each censored term is evaluated once per distinct value.
 type censoredSample struct {
-	exact, left, right, lower, upper []float64
+	exact        []float64
+	left, right  tally
+	lower, upper []float64
+	inCount      []float64
+}
+
+// tally holds distinct values in order of first appearance with their
+// counts (the order keeps every sum deterministic).
+type tally struct {
+	u, n  []float64
+	index map[float64]int
+}
+
+func (t *tally) add(u float64) {
+	if i, ok := t.index[u]; ok {
+		t.n[i]++
+		return
+	}
+	if t.index == nil {
+		t.index = make(map[float64]int)
+	}
+	t.index[u] = len(t.u)
+	t.u = append(t.u, u)
+	t.n = append(t.n, 1)
 }
 
 // standardizeCensored maps every value of d to u = (y − c)/s, y = x or
-// y = ln(x/ref) with ln ref = c0 (so data clustered far from 1 keep their
+// y = ln(x/ref) with ln ref = c (so data clustered far from 1 keep their
 // spread). On the log scale a bound ≤ 0 is −∞ (an open lower end, or a
 // suspension that adds ln S = 0). It reports false when a value has no
 // place in the likelihood (an exact value or a non-detect limit ≤ 0 on the
@@ -113,47 +139,59 @@ func standardizeCensored(d *Data, logScale bool, c, s float64) (censoredSample, 
 		}
 		return (x - c) / s
 	}
+	bad := func(u float64) bool { return math.IsNaN(u) || math.IsInf(u, 0) }
 	var cs censoredSample
-	ok := true
-	conv := func(v []float64, dst *[]float64) {
-		out := make([]float64, len(v))
-		for i, x := range v {
-			out[i] = to(x)
-			if math.IsNaN(out[i]) || math.IsInf(out[i], 0) {
-				ok = false
-			}
+	cs.exact = make([]float64, len(d.Exact))
+	for i, x := range d.Exact {
+		if cs.exact[i] = to(x); bad(cs.exact[i]) {
+			return cs, false
 		}
-		*dst = out
 	}
-	conv(d.Exact, &cs.exact)
-	conv(d.Left, &cs.left)
+	for _, x := range d.Left {
+		u := to(x)
+		if bad(u) {
+			return cs, false
+		}
+		cs.left.add(u)
+	}
 	for _, x := range d.Right {
 		u := to(x)
 		if math.IsInf(u, -1) {
-			continue // a suspension at 0 of a positive law: ln S = 0
+			continue // a suspension at or below 0 of a positive law: ln S = 0
 		}
-		if math.IsNaN(u) || math.IsInf(u, 0) {
-			ok = false
+		if bad(u) {
+			return cs, false
 		}
-		cs.right = append(cs.right, u)
+		cs.right.add(u)
 	}
+	var pairs map[[2]float64]int
 	for i := range d.Lower {
 		l, u := to(d.Lower[i]), to(d.Upper[i])
 		switch {
 		case math.IsNaN(l) || math.IsNaN(u) || math.IsInf(l, 1) || math.IsInf(u, -1) || !(l < u):
-			ok = false
+			return cs, false
 		case math.IsInf(l, -1) && math.IsInf(u, 1):
 			// (−∞, ∞): probability one, nothing to add.
 		case math.IsInf(l, -1):
-			cs.left = append(cs.left, u)
+			cs.left.add(u)
 		case math.IsInf(u, 1):
-			cs.right = append(cs.right, l)
+			cs.right.add(l)
 		default:
+			k := [2]float64{l, u}
+			if j, ok := pairs[k]; ok {
+				cs.inCount[j]++
+				continue
+			}
+			if pairs == nil {
+				pairs = make(map[[2]float64]int)
+			}
+			pairs[k] = len(cs.lower)
 			cs.lower = append(cs.lower, l)
 			cs.upper = append(cs.upper, u)
+			cs.inCount = append(cs.inCount, 1)
 		}
 	}
-	return cs, ok
+	return cs, true
 }
 
 // censoredLocScalePoint evaluates, at a = μ/σ and b = 1/σ of the
@@ -193,24 +231,26 @@ func censoredLocScalePoint(std stdLocScale, cs *censoredSample, a, b float64) lo
 	p.ll += ne * math.Log(b)
 	p.gb += ne / b
 	p.hbb -= ne / (b * b)
-	for _, u := range cs.left {
+	for i, u := range cs.left.u {
+		w := cs.left.n[i]
 		z := b*u - a
 		lf := std.logCDF(z)
 		g, dg, _ := std.logDensity(z)
 		r := math.Exp(g - lf)
-		p.ll += lf
-		add(u, r, r*(dg-r))
+		p.ll += w * lf
+		add(u, w*r, w*r*(dg-r))
 	}
-	for _, u := range cs.right {
+	for i, u := range cs.right.u {
+		w := cs.right.n[i]
 		z := b*u - a
 		ls := std.logSurv(z)
 		g, dg, _ := std.logDensity(z)
 		h := math.Exp(g - ls)
-		p.ll += ls
-		add(u, -h, -h*(dg+h))
+		p.ll += w * ls
+		add(u, -w*h, -w*h*(dg+h))
 	}
 	for i, ul := range cs.lower {
-		uu := cs.upper[i]
+		uu, w := cs.upper[i], cs.inCount[i]
 		zl, zu := b*ul-a, b*uu-a
 		var lp float64
 		if lcl := std.logCDF(zl); lcl > -math.Ln2 {
@@ -221,15 +261,15 @@ func censoredLocScalePoint(std stdLocScale, cs *censoredSample, a, b float64) lo
 		gl, dl, _ := std.logDensity(zl)
 		gu, du, _ := std.logDensity(zu)
 		wl, wu := math.Exp(gl-lp), math.Exp(gu-lp)
-		p.ll += lp
+		p.ll += w * lp
 		// ∇P/P with ∇z = (−1, u).
 		pa := -(wu - wl)
 		pb := uu*wu - ul*wl
-		p.ga += pa
-		p.gb += pb
-		p.haa += wu*du - wl*dl - pa*pa
-		p.hab += -(uu*wu*du - ul*wl*dl) - pa*pb
-		p.hbb += uu*uu*wu*du - ul*ul*wl*dl - pb*pb
+		p.ga += w * pa
+		p.gb += w * pb
+		p.haa += w * (wu*du - wl*dl - pa*pa)
+		p.hab += w * (-(uu*wu*du - ul*wl*dl) - pa*pb)
+		p.hbb += w * (uu*uu*wu*du - ul*ul*wl*dl - pb*pb)
 	}
 	if math.IsNaN(p.ll) {
 		p.ll = math.Inf(-1)

@@ -209,11 +209,16 @@ func TestCensoredLocScaleAgreesWithGeneric(t *testing.T) {
 // tails included (z up to ±8).
 func TestCensoredLocScaleDerivatives(t *testing.T) {
 	cs := censoredSample{
-		exact: []float64{-1.2, 0.3, 0.9, 2.5},
-		left:  []float64{-8, -0.5},
-		right: []float64{1.1, 6},
-		lower: []float64{-3, 0.2, 2},
-		upper: []float64{-2.5, 0.7, 7},
+		exact:   []float64{-1.2, 0.3, 0.9, 2.5},
+		lower:   []float64{-3, 0.2, 2},
+		upper:   []float64{-2.5, 0.7, 7},
+		inCount: []float64{1, 3, 1},
+	}
+	for _, u := range []float64{-8, -0.5, -0.5} {
+		cs.left.add(u)
+	}
+	for _, u := range []float64{1.1, 6, 1.1, 1.1} {
+		cs.right.add(u)
 	}
 	laws := map[string]stdLocScale{"normal": stdNormal, "logistic": stdLogistic, "sev": stdSEV, "gumbel": stdGumbel}
 	for name, std := range laws {
