@@ -128,7 +128,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		return inputError(err)
 	}
 	contents, err := bundle.Seal(res, bundle.SealOptions{
-		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Inputs: inputs, Shard: shard,
+		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Inputs: inputs, Shard: shard, Workers: opt.Workers,
 	})
 	if err != nil {
 		return err
