@@ -147,6 +147,17 @@ func newtonFit(f Family, d *Data) (*Fit, error) {
 	return fit, nil
 }
 
+// checkRouteLogLik reports whether fit's log-likelihood (ℓ of the
+// standardized values mapped back) is the family's own LogLik at its
+// estimates, to 1e-12 relative.
+func checkRouteLogLik(f Family, fit *Fit, d *Data) error {
+	want := f.LogLik(fit.Estimates, d)
+	if rel := math.Abs(fit.LogLik-want) / math.Max(1, math.Abs(want)); !(rel <= 1e-12) {
+		return fmt.Errorf("reported logL %.17g, family LogLik at the estimates %.17g (rel %.2g)", fit.LogLik, want, rel)
+	}
+	return nil
+}
+
 // TestCensoredLocScaleAgreesWithGeneric fits every location-scale family
 // to seeded censored datasets (five censoring patterns, n from 15 to 200)
 // by the censored Newton route and by the generic BFGS route: where the
@@ -180,6 +191,9 @@ func TestCensoredLocScaleAgreesWithGeneric(t *testing.T) {
 				if err != nil {
 					t.Errorf("%s: %v", label, err)
 					continue
+				}
+				if err := checkRouteLogLik(f, nf, d); err != nil {
+					t.Errorf("%s: %v", label, err)
 				}
 				if !gen.Converged {
 					continue
