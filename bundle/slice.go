@@ -2,6 +2,7 @@ package bundle
 
 import (
 	"bytes"
+	"encoding/json"
 	"fmt"
 
 	"fitseal/runner"
@@ -51,9 +52,25 @@ func sameResultFiles(res *runner.Results, payload map[string][]byte, who string)
 		return err
 	}
 	for _, name := range []string{runner.FitsFile, runner.ParametersFile, runner.DerivedFile, runner.GOFFile, runner.ResultsFile} {
-		if !bytes.Equal(files[name], payload["results/"+name]) {
+		same := bytes.Equal(files[name], payload["results/"+name])
+		if !same && name == runner.ResultsFile {
+			// results.json is compared by content, not layout: bundles made
+			// before it was written compactly hold it indented.
+			same = sameJSON(files[name], payload["results/"+name])
+		}
+		if !same {
 			return fmt.Errorf("%sdata/results/%s is not what its results.json gives when read back (edited, or made by another build)", who, name)
 		}
 	}
 	return nil
+}
+
+// sameJSON says whether a and b are the same JSON text apart from
+// insignificant white space (json.Compact of each is equal).
+func sameJSON(a, b []byte) bool {
+	var ca, cb bytes.Buffer
+	if json.Compact(&ca, a) != nil || json.Compact(&cb, b) != nil {
+		return false
+	}
+	return bytes.Equal(ca.Bytes(), cb.Bytes())
 }
