@@ -38,6 +38,9 @@ func (d Weibull) LogCDF(x float64) float64 {
 	if !(x > 0) {
 		return math.Inf(-1)
 	}
+	if lz := d.Shape * lnRatio(x, d.Scale); lz < -700 {
+		return lz // ln(1 − e^(−w)) = ln w − w/2 + … with w = e^(lz) negligible
+	}
 	return log1mExp(-d.power(x))
 }
 
