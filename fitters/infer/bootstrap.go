@@ -172,7 +172,6 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			rng := rand.New(pcg)
 			sample := make([]float64, n)
 			sorted := make([]float64, n)
-			logF, logS := make([]float64, n), make([]float64, n)
 			sim := &fitters.Data{Trials: d.Trials}
 			var c cells
 			comps := make([]component, 0, 8)
@@ -242,7 +241,7 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 					}
 					srow[0], _ = chiSquareCounts(comps, sorted, &c)
 				} else {
-					edfStatistics(rd, sorted, logF, logS, &edf)
+					edfStatistics(rd, sorted, &edf)
 					copy(srow, edf[:])
 				}
 				rep.Statistics[r] = srow

@@ -126,7 +126,7 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 		return g, nil
 	}
 	var edf [3]float64
-	edfStatistics(dist, x, nil, nil, &edf)
+	edfStatistics(dist, x, &edf)
 	for i, name := range statNames(fitters.Continuous) {
 		st := Statistic{Name: name, Value: edf[i], PValue: math.NaN()}
 		if math.IsInf(edf[i], 1) {

@@ -67,7 +67,7 @@ func TestEDFStatisticsAgainstScipy(t *testing.T) {
 			slices.Sort(x)
 			for _, dd := range []fitters.Dist{d, plainDist{d}} {
 				var got [3]float64
-				edfStatistics(dd, x, nil, nil, &got)
+				edfStatistics(dd, x, &got)
 				for i, want := range []float64{c.KS, c.CvM, c.AD} {
 					if !close(got[i], want, 1e-9) {
 						t.Errorf("%T: %s = %.15g, scipy %.15g", dd, statNames(fitters.Continuous)[i], got[i], want)
@@ -132,8 +132,8 @@ func TestEDFStatisticsBothRoutes(t *testing.T) {
 		}
 		for _, s := range [][]float64{x, shifted} {
 			var own, plain [3]float64
-			edfStatistics(d, s, nil, nil, &own)
-			edfStatistics(plainDist{d}, s, nil, nil, &plain)
+			edfStatistics(d, s, &own)
+			edfStatistics(plainDist{d}, s, &plain)
 			for i := range own {
 				if !close(own[i], plain[i], 1e-9) {
 					t.Errorf("%s %s: %.15g through CDFTails, %.15g through LogCDF/LogSurvival", c.family, statNames(fitters.Continuous)[i], own[i], plain[i])
@@ -324,7 +324,7 @@ func TestEDFStatisticsAllocatesNothing(t *testing.T) {
 		}
 		var out [3]float64
 		for _, dd := range []fitters.Dist{d, plainDist{d}} {
-			if n := testing.AllocsPerRun(20, func() { edfStatistics(dd, x, nil, nil, &out) }); n != 0 {
+			if n := testing.AllocsPerRun(20, func() { edfStatistics(dd, x, &out) }); n != 0 {
 				t.Errorf("%s (%T): %v allocations per call", c.family, dd, n)
 			}
 		}

@@ -30,9 +30,9 @@ const (
 // family's own CDFTails, computing F, ln F and ln S together, or LogCDF
 // below the median and LogSurvival above it), never from ln(1 − F) after
 // cancellation, so a point far in a tail gives a large finite term rather
-// than ln 0. logF and logS are not used (callers may pass nil); out
+// than ln 0. out
 // receives (D, W², A²), a NaN statistic as +Inf.
-func edfStatistics(d fitters.Dist, x, logF, logS []float64, out *[3]float64) {
+func edfStatistics(d fitters.Dist, x []float64, out *[3]float64) {
 	var s edfSums
 	s.n = float64(len(x))
 	if t, ok := d.(fitters.CDFTailer); ok {

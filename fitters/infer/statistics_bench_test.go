@@ -43,12 +43,11 @@ func BenchmarkEDFStatistics(b *testing.B) {
 				x[i] = d.Rand(r)
 			}
 			slices.Sort(x)
-			logF, logS := make([]float64, len(x)), make([]float64, len(x))
 			var out [3]float64
 			b.ReportAllocs()
 			b.ResetTimer()
 			for i := 0; i < b.N; i++ {
-				edfStatistics(d, x, logF, logS, &out)
+				edfStatistics(d, x, &out)
 			}
 		})
 	}
