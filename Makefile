@@ -15,7 +15,7 @@ test:
 
 # Benchmarks of the hot paths; compare with ../shared/bench/run.sh for scipy.
 bench:
-	$(GO) test -run '^$$' -bench . -benchmem ./fitters/... ./runner/ ./bundle/
+	$(GO) test -run '^$$' -bench . -benchmem ./fitters/... ./runner/ ./bundle/...
 
 # Long studies (coverage simulations, fuzzing); results are kept in docs/.
 check-long:
