@@ -117,6 +117,9 @@ var censoredLocScaleFamilies = map[string]censoredLocScaleFamily{
 		fromParams: func(p []float64) (float64, float64) { return math.Log(p[0]), 1 / p[1] }},
 }
 
+// censoredNewtonMaxIter caps the censored Newton's iterations.
+const censoredNewtonMaxIter = 100
+
 // genericCensoredOnly, when set (by tests and benchmarks only), sends every
 // censored fit to the generic BFGS route, for comparison.
 var genericCensoredOnly bool
@@ -358,7 +361,10 @@ func fitCensoredLocScale(fit *Fit, f Family, d *Data, opt Options, start []float
 	}
 	eval := func(a, b float64) locScalePoint { return censoredLocScalePoint(fam.std, &cs, a, b) }
 	n := math.Max(1, float64(len(cs.exact)))
-	res := locScaleNewton(eval, 0, 1, opt.tolerance(), opt.maxIterations(), n, locScaleBounds{})
+	// On a concave ℓ Newton's method needs a handful of steps; a run that
+	// has not converged in censoredNewtonMaxIter is left to the generic
+	// route rather than allowed the generic route's iteration budget.
+	res := locScaleNewton(eval, 0, 1, opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter), n, locScaleBounds{})
 	if !res.converged {
 		return false
 	}
