@@ -124,19 +124,9 @@ var censoredLocScaleTruth = map[string][]float64{
 	"loglogistic": {40, 3},
 }
 
-// newtonFit fits censored d by the censored Newton route as the family's
-// Fit starts it; for the normal, whose Fit does not call the route yet,
-// from the mean and standard deviation of every recorded value (the start
-// of its BFGS route).
+// newtonFit fits censored d through the family's Fit and checks that it
+// took the censored Newton route.
 func newtonFit(f Family, d *Data) (*Fit, error) {
-	if f.Name() == "normal" {
-		fit := newFit(f, d)
-		m, s := meanSD(d.Values())
-		if !fitCensoredLocScale(fit, f, d, Options{}, []float64{m, s}) {
-			return nil, fmt.Errorf("the censored Newton route did not converge")
-		}
-		return fit, nil
-	}
 	fit, err := f.Fit(d, Options{})
 	if err != nil {
 		return nil, err

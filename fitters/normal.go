@@ -97,11 +97,16 @@ func (f normalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		fit.Convergence = closedForm()
 		return fit, nil
 	}
-	// Censored: BFGS on the standardised scale ((mu − m)/s, log(sigma/s)),
+	// Censored: the censored Newton route, else BFGS on the standardised scale ((mu − m)/s, log(sigma/s)),
 	// m and s the mean and spread of every recorded value, so that the
 	// convergence test does not depend on the data's units or offset.
 	m, sd := meanSD(d.Values())
 	s := math.Max(sd, 1e-3*math.Max(1, math.Abs(m)))
+	// First the censored Newton route (concave in (μ/σ, 1/σ)); BFGS only
+	// when it does not converge.
+	if fitCensoredLocScale(fit, f, d, opt, []float64{m, s}) {
+		return fit, nil
+	}
 	natural := func(t []float64) []float64 { return []float64{m + s*t[0], s * math.Exp(t[1])} }
 	prob := problem{dim: 2, scale: float64(d.N()), negLogLik: func(t []float64) float64 {
 		return -f.LogLik(natural(t), d)
