@@ -47,7 +47,7 @@ func (gumbelFamily) Parameters() []string { return []string{"location", "scale"}
 func (gumbelFamily) Kind() Kind           { return Continuous }
 func (gumbelFamily) Support() string      { return "real line" }
 func (gumbelFamily) Route() string {
-	return "profile score equation in the scale (safeguarded Newton), location in closed form; censored data: BFGS on (location, log scale)"
+	return "profile score equation in the scale (safeguarded Newton), location in closed form; censored data: Newton on the concave (μ/σ, 1/σ) likelihood, BFGS on (location, log scale) if it fails"
 }
 
 func (gumbelFamily) New(p []float64) (Dist, error) {

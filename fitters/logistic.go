@@ -69,7 +69,7 @@ func (logisticFamily) Parameters() []string { return []string{"location", "scale
 func (logisticFamily) Kind() Kind           { return Continuous }
 func (logisticFamily) Support() string      { return "real line" }
 func (logisticFamily) Route() string {
-	return "Newton with step halving (Chebyshev steps near the maximum) on the concave (location/scale, 1/scale) likelihood; censored data: BFGS on (location, log scale)"
+	return "Newton with step halving (Chebyshev steps near the maximum) on the concave (location/scale, 1/scale) likelihood; censored data: Newton on the concave (μ/σ, 1/σ) likelihood, BFGS on (location, log scale) if it fails"
 }
 
 func (logisticFamily) New(p []float64) (Dist, error) {

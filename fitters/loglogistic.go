@@ -65,7 +65,7 @@ func (loglogisticFamily) Parameters() []string { return []string{"scale", "shape
 func (loglogisticFamily) Kind() Kind           { return Continuous }
 func (loglogisticFamily) Support() string      { return "x > 0" }
 func (loglogisticFamily) Route() string {
-	return "Newton with step halving (Chebyshev steps near the maximum) on the logistic likelihood of ln x (concave in (ln scale·shape, shape)); censored data: BFGS on (log scale, log shape)"
+	return "Newton with step halving (Chebyshev steps near the maximum) on the logistic likelihood of ln x (concave in (ln scale·shape, shape)); censored data: Newton on the concave (μ/σ, 1/σ) likelihood of ln x, BFGS on (log scale, log shape) if it fails"
 }
 
 func (loglogisticFamily) New(p []float64) (Dist, error) {

@@ -54,7 +54,7 @@ func (lognormalFamily) Parameters() []string { return []string{"mu", "sigma"} }
 func (lognormalFamily) Kind() Kind           { return Continuous }
 func (lognormalFamily) Support() string      { return "x > 0" }
 func (lognormalFamily) Route() string {
-	return "closed form (mean and ML standard deviation of ln x); censored data: BFGS on (mu, log sigma)"
+	return "closed form (mean and ML standard deviation of ln x); censored data: Newton on the concave (μ/σ, 1/σ) likelihood of ln x, BFGS on (mu, log sigma) if it fails"
 }
 
 func (lognormalFamily) New(p []float64) (Dist, error) {

@@ -33,7 +33,7 @@ func (normalFamily) Parameters() []string { return []string{"mu", "sigma"} }
 func (normalFamily) Kind() Kind           { return Continuous }
 func (normalFamily) Support() string      { return "real line" }
 func (normalFamily) Route() string {
-	return "closed form (mean, ML standard deviation); censored data: BFGS on (mu, log sigma)"
+	return "closed form (mean, ML standard deviation); censored data: Newton on the concave (μ/σ, 1/σ) likelihood, BFGS on (mu, log sigma) if it fails"
 }
 
 func (normalFamily) New(p []float64) (Dist, error) {

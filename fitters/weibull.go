@@ -69,7 +69,7 @@ func (weibullFamily) Parameters() []string { return []string{"shape", "scale"} }
 func (weibullFamily) Kind() Kind           { return Continuous }
 func (weibullFamily) Support() string      { return "x ≥ 0" }
 func (weibullFamily) Route() string {
-	return "profile score equation in the shape (safeguarded Newton on x/max x), scale in closed form; censored data: BFGS on (log shape, log scale)"
+	return "profile score equation in the shape (safeguarded Newton on x/max x), scale in closed form; censored data: Newton on the concave (μ/σ, 1/σ) smallest-extreme-value likelihood of ln x, BFGS on (log shape, log scale) if it fails"
 }
 
 func (weibullFamily) New(p []float64) (Dist, error) {
