@@ -220,7 +220,10 @@ func (d LogLogistic) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 	return logisticTails(d.z(x))
 }
 
-// CDFTails of the gamma distribution: one regularized incomplete gamma
+// CDFTails of the gamma distribution: for shapes up to
+// incGammaMaxShape, incGammaTails (one series or continued fraction and
+// five transcendental calls per point). Otherwise, and where
+// incGammaTails declines, one regularized incomplete gamma
 // function, P(k, βx) below the mode region or Q(k, βx) above it, whichever
 // is under ½ (gonum computes the smaller one directly), its logarithm, and
 // log1p of minus it for the other tail; where the first one tried is
@@ -236,6 +239,11 @@ func (d Gamma) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 		return belowSupport()
 	case math.IsInf(y, 1):
 		return aboveSupport()
+	}
+	if a <= incGammaMaxShape {
+		if cdf, logCDF, logSurvival, ok := incGammaTails(a, y); ok {
+			return cdf, logCDF, logSurvival
+		}
 	}
 	if y > a {
 		if q := mathext.GammaIncRegComp(a, y); q < 0.5 {
