@@ -245,6 +245,12 @@ func (d Gamma) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 			return cdf, logCDF, logSurvival
 		}
 	}
+	return gammaTailsGonum(a, y)
+}
+
+// gammaTailsGonum is Gamma.CDFTails at y = βx > 0 by gonum's regularized
+// incomplete gamma functions.
+func gammaTailsGonum(a, y float64) (cdf, logCDF, logSurvival float64) {
 	if y > a {
 		if q := mathext.GammaIncRegComp(a, y); q < 0.5 {
 			return gammaUpperTails(a, y, q)

@@ -18,7 +18,7 @@ const incGammaMaxShape = 100
 //
 //	Q(a, x) = x^a e^(−x)/Γ(a) · 1/(x+1−a− 1(1−a)/(x+3−a− 2(2−a)/(x+5−a− …)))
 //
-// by the modified Lentz method. The logarithm of the prefactor
+// (gammaContinuedFraction). The logarithm of the prefactor
 // x^a e^(−x)/Γ(a) is formed first (ln Γ(a) once per call, or for a ≥ 30 as
 // c(a) + a·(ln(x/a) − (x/a − 1)) with c(a) = a ln a − a − ln Γ(a) from
 // Stirling's series, free of the cancellation of a ln x − x − ln Γ(a)), so
@@ -30,21 +30,29 @@ const incGammaMaxShape = 100
 // all but three bits); it is cheaper per term than the fraction there.
 func incGammaTails(a, x float64) (cdf, logCDF, logSurvival float64, ok bool) {
 	pre := logGammaPrefactor(a, x)
+	// e^pre does not wait for the series or the fraction: the processor
+	// overlaps it with them. Where it underflows, the tail T = e^pre·s is
+	// below 1e−300 and needed only absolutely; ln T = pre + ln s keeps
+	// every digit regardless.
+	ePre := math.Exp(pre)
 	if x < a+1+0.5*math.Sqrt(a) {
-		// Series: the ratios x/(a+n) are independent divisions; only the
-		// product is a dependency chain.
+		// Series, two terms per step: the term chain is one
+		// multiplication per two terms, the divisions are independent.
 		sum, term := 1.0, 1.0
-		ap := a
-		for n := 0; n < 1000; n++ {
-			ap++
-			term *= x / ap
-			sum += term
+		ap, x2 := a, x*x
+		for n := 0; n < 500; n++ {
+			a1 := ap + 1
+			ap += 2
+			t1 := term * (x / a1)
+			term *= x2 / (a1 * ap)
+			sum += t1 + term
 			if term < sum*0x1p-54 {
 				break
 			}
 		}
-		lp := pre + math.Log(sum/a)
-		p := math.Exp(lp)
+		s := sum / a
+		lp := pre + math.Log(s)
+		p := ePre * s
 		if p <= 0.9 {
 			return p, lp, log1mSmall(p), true
 		}
@@ -54,7 +62,7 @@ func incGammaTails(a, x float64) (cdf, logCDF, logSurvival float64, ok bool) {
 	}
 	h := gammaContinuedFraction(a, x)
 	lq := pre + math.Log(h)
-	q := math.Exp(lq)
+	q := ePre * h
 	return 1 - q, log1mSmall(q), lq, true
 }
 
@@ -102,31 +110,31 @@ func logGammaPrefactor(a, x float64) float64 {
 }
 
 // gammaContinuedFraction returns the continued fraction h of Q(a, x) =
-// x^a e^(−x)/Γ(a) · h for x ≥ a + 1 by the modified Lentz method (Press
-// et al., 1992, 5.2 and 6.2), with its guard against zero divisors.
+// x^a e^(−x)/Γ(a) · h for x ≥ a + 1: h = 1/K, K = b₀ + a₁/(b₁ + a₂/(b₂ + …)),
+// b_i = x + 2i + 1 − a, a_i = −i(i − a), from the convergents A_n/B_n of K
+// by the fundamental recurrences A_n = b_n A_(n−1) + a_n A_(n−2) (and the
+// same for B; Wallis; Press et al., 1992, 5.2), rescaled before they
+// overflow. Unlike the modified Lentz method, the recurrence has no
+// division on its dependency chain; the quotients B_n/A_n that test
+// convergence are off it.
 func gammaContinuedFraction(a, x float64) float64 {
-	const tiny = 1e-300
 	b := x + 1 - a
-	c := 1 / tiny
-	d := 1 / b
-	h := d
+	pa, pb := 1.0, 0.0 // A_(n−2), B_(n−2)
+	ca, cb := b, 1.0   // A_(n−1), B_(n−1)
+	h := 1 / b
 	for i := 1.0; i < 1000; i++ {
 		an := -i * (i - a)
 		b += 2
-		d = an*d + b
-		if math.Abs(d) < tiny {
-			d = tiny
+		pa, ca = ca, b*ca+an*pa
+		pb, cb = cb, b*cb+an*pb
+		if ca > 0x1p500 {
+			pa, ca, pb, cb = pa*0x1p-500, ca*0x1p-500, pb*0x1p-500, cb*0x1p-500
 		}
-		c = b + an/c
-		if math.Abs(c) < tiny {
-			c = tiny
+		hn := cb / ca
+		if math.Abs(hn-h) <= 0x1p-53*hn {
+			return hn
 		}
-		d = 1 / d
-		del := d * c
-		h *= del
-		if math.Abs(del-1) < 0x1p-53 {
-			break
-		}
+		h = hn
 	}
 	return h
 }
