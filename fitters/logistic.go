@@ -108,7 +108,13 @@ func (f logisticFamily) Applicable(d *Data, fixed Fixed) error {
 // locScaleNewton on the standardized values (x − x̄)/sd, starting from the
 // moment estimates μ₀ = x̄, s₀ = sd·√3/π.
 func logisticMLE(x []float64, opt Options) (location, scale, ll float64, conv Convergence) {
-	return locScaleMLE(x, logisticSums, math.Pi/math.Sqrt(3), locScaleBounds{c3: logisticG3Bound, c4: logisticG4Bound}, opt)
+	return logisticMLEInto(nil, x, opt)
+}
+
+// logisticMLEInto is logisticMLE standardizing x into z (see
+// locScaleMLEInto; z may be x itself).
+func logisticMLEInto(z, x []float64, opt Options) (location, scale, ll float64, conv Convergence) {
+	return locScaleMLEInto(z, x, logisticSums, math.Pi/math.Sqrt(3), locScaleBounds{c3: logisticG3Bound, c4: logisticG4Bound}, opt)
 }
 
 // logisticBounds are the standard logistic's derivative bounds: with
@@ -126,42 +132,48 @@ const (
 // q = 1/(1 + e), t = sign(z)(1 − e)q = tanh(z/2) and h = eq² = f₀(z),
 // g′ = −t, g″ = −2h and g‴ = 2ht. Σ ln(1 + e) is summed as the log of
 // products of up to 512 factors (as sumLogSmall), not as a log per value.
-// work (len ≥ len(v)) holds the exponentials.
+// work holds the exponentials of one block of v: its length is a whole
+// multiple of logProductChunk, or at least len(v).
 func logisticSums(v, work []float64, a, b float64) locScalePoint {
-	// The exponentials first, into work: a loop of independent calls that
-	// the processor overlaps, then the sums, whose divisions overlap too
-	// (one fused loop waits on each division in turn).
-	work = work[:len(v)]
-	for i, x := range v {
-		work[i] = math.Exp(-math.Abs(b*x - a))
-	}
+	// The exponentials first, into work, one block at a time: a loop of
+	// independent calls that the processor overlaps, then the sums, whose
+	// divisions overlap too (one fused loop waits on each division in turn).
+	// Blocks are whole multiples of logProductChunk, so the sums run in the
+	// same order whatever the block size.
 	var saz, st, stx, sh, shx, shxx, su, sux, suxx, suxxx, slog float64
-	for start := 0; start < len(v); start += logProductChunk {
-		end := min(start+logProductChunk, len(v))
-		es := work[start:end]
-		p := 1.0
-		for i, x := range v[start:end] {
-			e := es[i]
-			z := b*x - a
-			y := 1 + e
-			q := 1 / y
-			t := math.Copysign((1-e)*q, z)
-			h := e * q * q
-			saz += math.Abs(z)
-			st += t
-			stx += t * x
-			sh += h
-			hx := h * x
-			shx += hx
-			hxx := hx * x
-			shxx += hxx
-			su += h * t
-			sux += hx * t
-			suxx += hxx * t
-			suxxx += hxx * x * t
-			p *= y
+	for block := 0; block < len(v); block += len(work) {
+		vb := v[block:min(block+len(work), len(v))]
+		wb := work[:len(vb)]
+		for i, x := range vb {
+			wb[i] = math.Exp(-math.Abs(b*x - a))
 		}
-		slog += math.Log(p)
+		for start := 0; start < len(vb); start += logProductChunk {
+			end := min(start+logProductChunk, len(vb))
+			es := wb[start:end]
+			p := 1.0
+			for i, x := range vb[start:end] {
+				e := es[i]
+				z := b*x - a
+				y := 1 + e
+				q := 1 / y
+				t := math.Copysign((1-e)*q, z)
+				h := e * q * q
+				saz += math.Abs(z)
+				st += t
+				stx += t * x
+				sh += h
+				hx := h * x
+				shx += hx
+				hxx := hx * x
+				shxx += hxx
+				su += h * t
+				sux += hx * t
+				suxx += hxx * t
+				suxxx += hxx * x * t
+				p *= y
+			}
+			slog += math.Log(p)
+		}
 	}
 	n := float64(len(v))
 	return locScalePoint{
@@ -179,12 +191,25 @@ func logisticSums(v, work []float64, a, b float64) locScalePoint {
 	}
 }
 
+// locScaleBlock is the length of the exponentials' buffer that
+// locScaleMLE lends to sums: a whole multiple of logProductChunk, small
+// enough (32 KiB) to stay in cache, so that only the standardized values
+// take memory in proportion to n.
+const locScaleBlock = 8 * logProductChunk
+
 // locScaleMLE runs locScaleNewton for a log-concave location-scale family on
 // complete data, standardizing x first (into a borrowed buffer) and mapping
 // the result back; sums evaluates the family's ℓ on the standardized values,
 // b0 is the starting 1/scale on them and bounds has the family's bounds on
 // |g‴| and |g⁗| (vmax is set here).
 func locScaleMLE(x []float64, sums func(v, work []float64, a, b float64) locScalePoint, b0 float64, bounds locScaleBounds, opt Options) (location, scale, ll float64, conv Convergence) {
+	return locScaleMLEInto(nil, x, sums, b0, bounds, opt)
+}
+
+// locScaleMLEInto is locScaleMLE writing the standardized values into z
+// (len(z) = len(x); z may be x itself, which is then overwritten), or into
+// a borrowed buffer when z is nil.
+func locScaleMLEInto(z, x []float64, sums func(v, work []float64, a, b float64) locScalePoint, b0 float64, bounds locScaleBounds, opt Options) (location, scale, ll float64, conv Convergence) {
 	conv = Convergence{Method: "Newton with step halving, Chebyshev steps near the maximum"}
 	if len(x) == 0 {
 		conv.Reason = "no values"
@@ -193,7 +218,10 @@ func locScaleMLE(x []float64, sums func(v, work []float64, a, b float64) locScal
 	lo, hi, m, sd := spreadOf(x)
 	if outsideUnitRange(lo, hi) {
 		if xs, f := powerOfTwoScale(x); f != 1 {
-			location, scale, ll, conv = locScaleMLE(xs, sums, b0, bounds, opt)
+			if z != nil {
+				z = xs // a fresh copy of ours: standardize it in place
+			}
+			location, scale, ll, conv = locScaleMLEInto(z, xs, sums, b0, bounds, opt)
 			return location / f, scale / f, ll + float64(len(x))*math.Log(f), conv
 		}
 	}
@@ -201,10 +229,15 @@ func locScaleMLE(x []float64, sums func(v, work []float64, a, b float64) locScal
 		conv.Reason = fmt.Sprintf("the data's spread is %v: the scale has no finite estimate", sd)
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}
-	buf, wbuf := borrowScratch(len(x)), borrowScratch(len(x))
-	defer returnScratch(buf)
+	if z == nil {
+		buf := borrowScratch(len(x))
+		defer returnScratch(buf)
+		z = *buf
+	}
+	// Borrowed after z and small, so it never waits on the large-buffer gate.
+	wbuf := borrowScratch(min(len(x), locScaleBlock))
 	defer returnScratch(wbuf)
-	z, work := *buf, *wbuf
+	work := *wbuf
 	for i, xi := range x {
 		z[i] = (xi - m) / sd
 	}

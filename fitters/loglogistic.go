@@ -110,7 +110,7 @@ func loglogisticMLE(x []float64, opt Options) (scale, shape, ll float64, conv Co
 	defer returnScratch(buf)
 	y := *buf
 	lnRef, sy := logsAboutInto(y, x, 0)
-	m, s, lly, conv := logisticMLE(y, opt)
+	m, s, lly, conv := logisticMLEInto(y, y, opt) // y is ours: standardized in place
 	if !conv.Converged {
 		return math.NaN(), math.NaN(), math.NaN(), conv
 	}

@@ -77,10 +77,12 @@ func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error
 		return nil, err
 	}
 	fit := newFit(f, d)
-	values := d.Values()
+	values := d.valuesView() // read only
 	if u, ok := opt.Fixed["threshold"]; ok {
 		fit.Fixed[2], fit.K, fit.Estimates[2] = true, 2, u
-		dev := make([]float64, len(d.Exact))
+		devBuf := borrowScratch(len(d.Exact)) // nothing keeps dev after the fit
+		defer returnScratch(devBuf)
+		dev := *devBuf
 		for i, x := range d.Exact {
 			dev[i] = x - u
 		}
@@ -109,7 +111,9 @@ func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error
 	if !(span > 0) {
 		span = math.Max(math.Abs(floor), 1) * 1e-3
 	}
-	dev := make([]float64, len(d.Exact))
+	devBuf := borrowScratch(len(d.Exact)) // nothing keeps dev after the fit
+	defer returnScratch(devBuf)
+	dev := *devBuf
 	for i, x := range d.Exact {
 		dev[i] = x - floor
 	}
