@@ -281,7 +281,7 @@ func gammaUpperTails(a, y, q float64) (cdf, logCDF, logSurvival float64) {
 //	F = Φ(a) + e^(2λ/μ) Φ(−b),  S = Φ(−a) − e^(2λ/μ) Φ(−b),
 //
 // a = √(λ/x)(x/μ − 1), b = √(λ/x)(x/μ + 1) (Chhikara & Folks, 1989), in
-// linear space where |a| ≤ 30 (nothing underflows there), with one
+// linear space where |a| ≤ 37 (φ(a) > 1e−298: nothing underflows), with one
 // φ(a) = e^(−a²/2)/√(2π) shared by the Mills-ratio forms: the second term is
 // φ(a)R(b) for b ≥ 5 (φ(b)e^(2λ/μ) = φ(a)) and e^(2λ/μ)·erfc(b/√2)/2
 // below (where 2λ/μ < b²/2 < 12.5), Φ(a) is φ(a)R(−a) below a = −5 and
@@ -289,7 +289,7 @@ func gammaUpperTails(a, y, q float64) (cdf, logCDF, logSurvival float64) {
 // ln F and ln S = ln(1 − F); above it S is computed directly, as φ(a)(R(a)
 // − R(b)) by quadrature where the two terms nearly cancel (as
 // LogSurvival), as Φ(−a) − e^(2λ/μ)Φ(−b) elsewhere, and ln F = ln(1 − S).
-// Beyond |a| = 30, invGaussTailsLog works in log space throughout.
+// Beyond |a| = 37, invGaussTailsLog works in log space throughout.
 func (d InvGauss) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 	if !(x > 0) {
 		return belowSupport()
@@ -298,7 +298,7 @@ func (d InvGauss) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 		return aboveSupport()
 	}
 	a, b := d.ab(x)
-	if !(math.Abs(a) <= 30) {
+	if !(math.Abs(a) <= 37) {
 		return invGaussTailsLog(a, b)
 	}
 	phi := math.Exp(-0.5*a*a) * invSqrt2Pi
