@@ -221,8 +221,9 @@ func (d LogLogistic) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 }
 
 // CDFTails of the gamma distribution: for shapes up to
-// incGammaMaxShape, incGammaTails (one series or continued fraction and
-// five transcendental calls per point). Otherwise, and where
+// incGammaMaxShape, incGammaTails (one series or continued fraction; ln x, ln Γ(k), one
+// exponential, one logarithm of the sum, and ln(1 − T) by a short series
+// where T < ¼). Otherwise, and where
 // incGammaTails declines, one regularized incomplete gamma
 // function, P(k, βx) below the mode region or Q(k, βx) above it, whichever
 // is under ½ (gonum computes the smaller one directly), its logarithm, and

@@ -22,8 +22,8 @@ const incGammaMaxShape = 100
 // x^a e^(−x)/Γ(a) is formed first (ln Γ(a) once per call, or for a ≥ 30 as
 // c(a) + a·(ln(x/a) − (x/a − 1)) with c(a) = a ln a − a − ln Γ(a) from
 // Stirling's series, free of the cancellation of a ln x − x − ln Γ(a)), so
-// that ln P and ln Q stay finite where P or Q underflows. The other tail
-// is log1p of minus the one computed. ok is false where that would lose
+// that ln P and ln Q stay finite where P or Q underflows. The other tail's
+// logarithm is ln(1 − T) of the one computed (log1mSmall). ok is false where that would lose
 // digits (the series gives P > 0.9 below x = a + 1, only for a < 1): there
 // the caller takes the other tail from a direct evaluator. The series is
 // also used from a + 1 to a + 1 + √a/2 while P ≤ 0.9 (Q = 1 − P then keeps
