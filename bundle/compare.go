@@ -62,6 +62,12 @@ var resultKeys = map[string][]string{
 // by agree (nil: exactly, as parsed float64), text exactly. A row in one
 // version only is a difference whose column is "(row)".
 func CompareCSV(member string, a, b []byte, agree Agree) ([]Difference, int, error) {
+	return compareCSV(member, a, b, agree, nil)
+}
+
+// compareCSV is CompareCSV where the text cells of the columns skipText
+// accepts are not compared (nil: every text is compared).
+func compareCSV(member string, a, b []byte, agree Agree, skipText func(column string) bool) ([]Difference, int, error) {
 	ra, err := csv.NewReader(bytes.NewReader(a)).ReadAll()
 	if err != nil {
 		return nil, 0, fmt.Errorf("%s: %w", member, err)
@@ -127,7 +133,7 @@ func CompareCSV(member string, a, b []byte, agree Agree) ([]Difference, int, err
 				if fa == fb || (agree != nil && agree(h, fields, fa, fb)) {
 					continue
 				}
-			} else if va == vb {
+			} else if va == vb || (skipText != nil && skipText(h)) {
 				continue
 			}
 			diffs = append(diffs, Difference{Member: member, Row: i, Key: k, Column: h, A: va, B: vb})
@@ -152,6 +158,12 @@ func cell(row []string, c int) string {
 // value's path (e.g. analyses[0].fits[2].loglik). Numbers are compared by
 // agree with the sibling values of their object as fields.
 func CompareJSON(member string, a, b []byte, agree Agree) ([]Difference, int, error) {
+	return compareJSON(member, a, b, agree, nil)
+}
+
+// compareJSON is CompareJSON where text values whose path skipText accepts
+// are not compared (nil: every text is compared).
+func compareJSON(member string, a, b []byte, agree Agree, skipText func(path string) bool) ([]Difference, int, error) {
 	va, err := decodeJSON(a)
 	if err != nil {
 		return nil, 0, fmt.Errorf("%s: %w", member, err)
@@ -160,7 +172,7 @@ func CompareJSON(member string, a, b []byte, agree Agree) ([]Difference, int, er
 	if err != nil {
 		return nil, 0, fmt.Errorf("%s: %w", member, err)
 	}
-	c := &jsonCompare{member: member, agree: agree}
+	c := &jsonCompare{member: member, agree: agree, skipText: skipText}
 	c.walk("", va, vb, nil)
 	return c.diffs, c.compared, nil
 }
@@ -178,6 +190,7 @@ func decodeJSON(b []byte) (any, error) {
 type jsonCompare struct {
 	member   string
 	agree    Agree
+	skipText func(path string) bool
 	diffs    []Difference
 	compared int
 }
@@ -274,6 +287,11 @@ func (c *jsonCompare) walk(path string, a, b any, fields map[string]string) {
 		c.add(path, a, b)
 	default:
 		if a != b {
+			if _, text := a.(string); text && c.skipText != nil && c.skipText(path) {
+				if _, text := b.(string); text {
+					return
+				}
+			}
 			c.add(path, a, b)
 		}
 	}

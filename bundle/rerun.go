@@ -53,7 +53,19 @@ const (
 	// moves by more than 1e-9 of itself when the estimates move in their
 	// last digits, yet agrees to far better than 1e-12 as a probability.
 	ProbabilityTolerance = 1e-12
+	// StandardErrorFraction applies only when another build of fitseal made
+	// the bundle: an estimate may then differ by this fraction of its
+	// standard error. Another build may start the optimiser elsewhere, and
+	// where the likelihood is flat the optimum is fixed only to about 1e-9
+	// relative (a gradient test cannot do better), while a millionth of a
+	// standard error is far below anything the data can tell apart.
+	StandardErrorFraction = 1e-6
 )
+
+// OtherBuildStatement says what is compared differently when another build
+// of fitseal made the bundle.
+var OtherBuildStatement = fmt.Sprintf("as across platforms, and estimates also within %g of their standard error; "+
+	"the optimiser's descriptive texts (method, reason, note) not compared", StandardErrorFraction)
 
 // ToleranceStatement says, for a report, how numbers were compared across
 // platforms.
@@ -80,7 +92,11 @@ type RerunOptions struct {
 // RerunReport is what a re-run found.
 type RerunReport struct {
 	// Exact is true when the platforms match and numbers had to be equal.
-	Exact              bool
+	Exact bool
+	// OtherBuild, when not empty, says that the numbers differed in their
+	// last digits from a build of fitseal that is not known to be this one,
+	// and were therefore compared within the cross-platform tolerances.
+	OtherBuild         string
 	Recorded, Current  string // platforms
 	Compared           int    // numbers compared
 	RenderedCompared   int    // tables, figures and PDF compared byte for byte
@@ -196,40 +212,81 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 			return rep, nil
 		}
 	}
-	agree := Agree(nil)
-	if !rep.Exact {
-		agree = crossPlatform(proj.Settings.Bootstrap)
-	}
 	names := make([]string, 0, len(files))
 	for n := range files {
 		names = append(names, n)
 	}
 	sort.Strings(names)
+	compareAll := func(agree Agree, skipText func(string) bool) (diffs []Difference, counts map[string]int, formatErrs map[string]error) {
+		counts, formatErrs = map[string]int{}, map[string]error{}
+		for _, n := range names {
+			member := PayloadDir + "/results/" + n
+			recorded, ok := payload["results/"+n]
+			if !ok {
+				continue
+			}
+			var d []Difference
+			var count int
+			var err error
+			if strings.HasSuffix(n, ".json") {
+				d, count, err = compareJSON(member, recorded, files[n], agree, skipText)
+			} else {
+				var skipColumn func(string) bool
+				if skipText != nil && n == runner.FitsFile {
+					skipColumn = func(column string) bool { return column == "method" }
+				}
+				d, count, err = compareCSV(member, recorded, files[n], agree, skipColumn)
+			}
+			if err != nil {
+				formatErrs[member] = err
+				continue
+			}
+			counts[member] = count
+			diffs = append(diffs, d...)
+		}
+		return diffs, counts, formatErrs
+	}
+	var diffs []Difference
+	var counts map[string]int
+	var formatErrs map[string]error
+	if rep.Exact {
+		diffs, counts, formatErrs = compareAll(nil, nil)
+		if len(diffs) > 0 && !knownSameBuild(rec.Tool, opt.Tool) {
+			// Another (or an unidentifiable) build of fitseal may round the
+			// last digits differently and describe its optimiser otherwise:
+			// compare as across platforms, and say why.
+			rep.Exact = false
+			rep.OtherBuild = otherBuildNote(rec.Tool, opt.Tool)
+		}
+	}
+	if !rep.Exact {
+		var skip func(string) bool
+		if rep.OtherBuild != "" || rec.Tool.Version != opt.Tool.Version || rec.Tool.Revision != opt.Tool.Revision {
+			skip = optimizerText
+		}
+		agree := crossPlatform(proj.Settings.Bootstrap)
+		if skip != nil {
+			agree = crossBuild(agree)
+		}
+		diffs, counts, formatErrs = compareAll(agree, skip)
+	}
 	for _, n := range names {
 		member := PayloadDir + "/results/" + n
-		recorded, ok := payload["results/"+n]
-		if !ok {
+		if _, ok := payload["results/"+n]; !ok {
 			add(member, KindMissing, "the result file is not in the bundle")
 			continue
 		}
-		var diffs []Difference
-		var count int
-		if strings.HasSuffix(n, ".json") {
-			diffs, count, err = CompareJSON(member, recorded, files[n], agree)
-		} else {
-			diffs, count, err = CompareCSV(member, recorded, files[n], agree)
-		}
-		if err != nil {
+		if err := formatErrs[member]; err != nil {
 			add(member, KindFormat, "%v", err)
 			continue
 		}
-		rep.Compared += count
-		for _, d := range diffs {
-			// The message carries both values; Expected and Found stay
-			// empty so that String does not repeat them.
-			rep.Findings = append(rep.Findings, Finding{Member: member, Kind: KindNumber,
-				Message: "did not reproduce: " + d.Describe("recorded", "recomputed")})
-		}
+		rep.Compared += counts[member]
+	}
+	for _, d := range diffs {
+		// The message carries both values; Expected and Found stay empty
+		// so that String does not repeat them.
+		rep.Findings = append(rep.Findings, Finding{Member: d.Member, Kind: KindNumber,
+			Message: "did not reproduce: " + d.Describe("recorded", "recomputed")})
 	}
 	for p := range payload {
 		if strings.HasPrefix(p, "results/") && files[strings.TrimPrefix(p, "results/")] == nil {
@@ -394,5 +451,67 @@ func crossPlatform(bootstrap int) Agree {
 			}
 		}
 		return relClose(a, b, RelativeTolerance)
+	}
+}
+
+// knownSameBuild reports whether recorded and current are provably the same
+// build of fitseal: equal in every recorded field, unmodified, and
+// identified by a VCS revision or a released module version. Unstamped
+// development builds ("(devel)" without a revision) cannot be told apart.
+func knownSameBuild(recorded, current Tool) bool {
+	if recorded != current || current.Modified {
+		return false
+	}
+	return current.Revision != "" || (current.Version != "" && current.Version != "(devel)")
+}
+
+// otherBuildNote says why a re-run on the recording's platform compared
+// within tolerances.
+func otherBuildNote(recorded, current Tool) string {
+	describe := func(t Tool) string {
+		s := "fitseal " + t.Version
+		if t.Revision != "" {
+			s += " " + t.Revision
+			if t.Modified {
+				s += " (modified)"
+			}
+		}
+		return s
+	}
+	if recorded == current {
+		return "the numbers differ in their last digits and this build of fitseal carries no version or commit stamp, so it cannot be known to be the build that made the bundle (" + describe(recorded) + ")"
+	}
+	return fmt.Sprintf("another build of fitseal made the bundle (recorded %s, this is %s)", describe(recorded), describe(current))
+}
+
+// optimizerText accepts the descriptive texts of an optimiser record
+// (optimizer.method, .reason, .note), which another build of fitseal may
+// word differently or reach by another route to the same maximum; whether
+// the fit converged is still compared.
+func optimizerText(path string) bool {
+	i := strings.LastIndex(path, ".optimizer.")
+	if i < 0 {
+		return false
+	}
+	switch path[i+len(".optimizer."):] {
+	case "method", "reason", "note":
+		return true
+	}
+	return false
+}
+
+// crossBuild extends a cross-platform rule for a bundle made by another
+// build: an estimate also agrees when it moved by at most
+// StandardErrorFraction of the standard error recorded beside it.
+func crossBuild(platform Agree) Agree {
+	return func(column string, fields map[string]string, a, b float64) bool {
+		if platform(column, fields, a, b) {
+			return true
+		}
+		if column != "estimate" {
+			return false
+		}
+		se, err := strconv.ParseFloat(fields["std_error"], 64)
+		return err == nil && se > 0 && !math.IsInf(se, 0) && math.Abs(a-b) <= StandardErrorFraction*se
 	}
 }

@@ -164,6 +164,10 @@ func rerunLine(rep *bundle.RerunReport) string {
 		return fmt.Sprintf("re-run: %d numbers compared exactly (same platform as the recording: %s); %d tables, figures and PDF files identical to a fresh rendering",
 			rep.Compared, rep.Current, rep.RenderedCompared)
 	}
+	if rep.OtherBuild != "" {
+		return fmt.Sprintf("re-run: %d numbers compared within tolerances, because %s; for an exact check verify with the recorded build: %s; %s",
+			rep.Compared, rep.OtherBuild, bundle.ToleranceStatement, bundle.OtherBuildStatement)
+	}
 	return fmt.Sprintf("re-run: %d numbers compared within tolerances, because the platforms differ (recorded %s, this one %s): %s",
 		rep.Compared, rep.Recorded, rep.Current, bundle.ToleranceStatement)
 }
