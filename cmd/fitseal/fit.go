@@ -88,6 +88,7 @@ func runFit(ctx context.Context, o fitOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return inputError(err)
 	}
+	limitMemoryForFile(o.File)
 	res, err := runner.Run(ctx, p, runner.RunOptions{Workers: o.Workers, RankOnly: true})
 	if err != nil {
 		if errors.Is(err, context.Canceled) {

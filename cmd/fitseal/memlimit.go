@@ -1,0 +1,76 @@
+package main
+
+import (
+	"bytes"
+	"io"
+	"os"
+	"runtime/debug"
+)
+
+// largeDataRows is the number of data rows from which fit and run set a
+// soft memory limit: 1<<20 rows of one float64 are 8 MiB, below which the
+// garbage collector's default headroom (the heap may grow to twice what is
+// live) costs little.
+const largeDataRows = 1 << 20
+
+// heapPerRow is the soft limit's allowance per data row, in bytes: three
+// float64 (24 bytes), the data plus one transformed copy that a fit
+// borrows plus headroom, so that the process stays under 4× the data's
+// size as float64 (issue 8) without the garbage collector running on
+// every allocation.
+const heapPerRow = 24
+
+// limitMemory sets a soft memory limit (runtime/debug.SetMemoryLimit) of
+// held + heapPerRow·rows bytes, held being bytes the command keeps in
+// memory besides the data (the raw inputs `run` seals). It does nothing
+// when rows < largeDataRows, or when the user has set GOMEMLIMIT, which
+// then rules. The limit is soft: the collector works harder near it but
+// never fails an allocation, and results do not depend on it.
+func limitMemory(rows, held int64) {
+	if rows < largeDataRows || os.Getenv("GOMEMLIMIT") != "" {
+		return
+	}
+	debug.SetMemoryLimit(held + heapPerRow*rows)
+}
+
+// countLines returns the number of newline characters in r, an upper
+// bound on its CSV data rows.
+func countLines(r io.Reader) (int64, error) {
+	buf := make([]byte, 1<<16)
+	var n int64
+	for {
+		k, err := r.Read(buf)
+		n += int64(bytes.Count(buf[:k], []byte{'\n'}))
+		if err == io.EOF {
+			return n, nil
+		}
+		if err != nil {
+			return n, err
+		}
+	}
+}
+
+// limitMemoryForFile sets limitMemory from the lines of the CSV file at
+// path; a file that cannot be read is left to the reader to report.
+func limitMemoryForFile(path string) {
+	f, err := os.Open(path)
+	if err != nil {
+		return
+	}
+	defer f.Close()
+	if n, err := countLines(f); err == nil {
+		limitMemory(n, 0)
+	}
+}
+
+// limitMemoryForInputs sets limitMemory from the raw inputs `run` holds:
+// their lines bound the data rows, and their bytes stay in memory until
+// the bundle is sealed.
+func limitMemoryForInputs(inputs map[string][]byte) {
+	var rows, held int64
+	for _, b := range inputs {
+		rows += int64(bytes.Count(b, []byte{'\n'}))
+		held += int64(len(b))
+	}
+	limitMemory(rows, held)
+}
