@@ -1,0 +1,45 @@
+package main
+
+import (
+	"runtime/debug"
+	"strings"
+	"testing"
+)
+
+func TestCountLines(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want int64
+	}{{"", 0}, {"x\n", 1}, {"x\n1\n2", 2}, {strings.Repeat("1.5\n", 100000), 100000}} {
+		if got, err := countLines(strings.NewReader(c.in)); err != nil || got != c.want {
+			t.Errorf("countLines(%d bytes) = %d, %v; want %d", len(c.in), got, err, c.want)
+		}
+	}
+}
+
+// limitMemory sets held + 24 bytes per row for large data only, and leaves
+// a limit the user set with GOMEMLIMIT alone.
+func TestLimitMemory(t *testing.T) {
+	old := debug.SetMemoryLimit(-1)
+	t.Cleanup(func() { debug.SetMemoryLimit(old) })
+	t.Setenv("GOMEMLIMIT", "")
+	for _, c := range []struct {
+		rows, held, want int64
+	}{
+		{largeDataRows - 1, 0, old},
+		{10_000_000, 0, 240_000_000},
+		{10_000_000, 5_000_000, 245_000_000},
+	} {
+		debug.SetMemoryLimit(old)
+		limitMemory(c.rows, c.held)
+		if got := debug.SetMemoryLimit(-1); got != c.want {
+			t.Errorf("limitMemory(%d, %d): limit %d, want %d", c.rows, c.held, got, c.want)
+		}
+	}
+	debug.SetMemoryLimit(old)
+	t.Setenv("GOMEMLIMIT", "1GiB")
+	limitMemory(10_000_000, 0)
+	if got := debug.SetMemoryLimit(-1); got != old {
+		t.Errorf("with GOMEMLIMIT set: limit %d, want it untouched (%d)", got, old)
+	}
+}
