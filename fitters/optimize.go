@@ -105,13 +105,33 @@ func minimize(p problem, starts [][]float64, opt Options) optimum {
 		}
 	}
 	if best.converged && best.theta != nil {
-		x, f, gn, evals, iters := polish(p, grad, best.theta, best.negLogLik)
+		polishGrad := grad
+		if p.grad == nil {
+			polishGrad = func(g, theta []float64) {
+				fd.Gradient(g, p.negLogLik, theta, &fd.Settings{Formula: fourthOrderCentral})
+			}
+		}
+		x, f, gn, evals, iters := polish(p, polishGrad, best.theta, best.negLogLik)
 		best.theta, best.negLogLik, best.gradNorm = x, f, gn
 		totalEval += evals
 		totalIter += iters
 	}
 	best.iterations, best.evaluations, best.starts = totalIter, totalEval, len(starts)
 	return best
+}
+
+// fourthOrderCentral is the five-point first-derivative formula
+// f′(x) ≈ [f(x−2h) − 8f(x−h) + 8f(x+h) − f(x+2h)]/(12h) with h = 1e-3. Where a
+// family has no analytic score, the polish uses it instead of the two-point
+// formula BFGS uses: its truncation error is O(h⁴) rather than O(h²), so the
+// larger step keeps rounding noise (about ε|ℓ|/h) some 100 times smaller,
+// and the polished optimum no longer moves in its ninth digit with the
+// processor's rounding (a censored gamma fit agreed to only 1.6e-9 between
+// amd64 and arm64 with the two-point formula).
+var fourthOrderCentral = fd.Formula{
+	Stencil:    []fd.Point{{Loc: -2, Coeff: 1.0 / 12}, {Loc: -1, Coeff: -8.0 / 12}, {Loc: 1, Coeff: 8.0 / 12}, {Loc: 2, Coeff: -1.0 / 12}},
+	Derivative: 1,
+	Step:       1e-3,
 }
 
 // polish refines a converged optimum by Newton steps θ ← θ − H⁻¹g, with the
