@@ -47,7 +47,7 @@ func (exponentialFamily) Parameters() []string { return []string{"rate"} }
 func (exponentialFamily) Kind() Kind           { return Continuous }
 func (exponentialFamily) Support() string      { return "x ≥ 0" }
 func (exponentialFamily) Route() string {
-	return "closed form (n / Σx; right-censored: exact count / total time); other censoring: BFGS on log rate"
+	return "closed form (n / Σx; right-censored: exact count / total time); other censoring: Newton in the rate on the concave likelihood, BFGS on log rate if it fails"
 }
 
 func (exponentialFamily) New(p []float64) (Dist, error) {
@@ -145,6 +145,18 @@ func (f exponentialFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	rate0 := 1.0
 	if m := sumOf(x) / float64(len(x)); m > 0 && !math.IsInf(m, 0) {
 		rate0 = 1 / m
+	}
+	if len(opt.Fixed) == 0 {
+		// Newton on the concave likelihood in λ; BFGS only if it fails.
+		if rate, iters, score, ok := exponentialCensoredNewton(d, rate0); ok {
+			fit.Estimates[0] = rate
+			if ll := f.LogLik(fit.Estimates, d); !math.IsInf(ll, 0) && !math.IsNaN(ll) {
+				fit.LogLik = ll
+				fit.Convergence = Convergence{Method: "Newton in the rate (concave censored likelihood)",
+					Iterations: iters, Evaluations: iters + 1, GradientNorm: math.Abs(score * rate), Converged: true}
+				return fit, nil
+			}
+		}
 	}
 	starts := [][]float64{{math.Log(rate0)}, {math.Log(rate0 / 3)}}
 	toNatural := func(t []float64) []float64 { return []float64{math.Exp(t[0])} }
