@@ -97,7 +97,6 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return usageError{err}
 	}
-	limitMemoryForInputs(inputs)
 	git, err := bundle.GitProvenance(p.File, gitInputs(p, inputs))
 	if err != nil {
 		return fmt.Errorf("reading git provenance: %w", err)
