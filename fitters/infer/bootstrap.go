@@ -65,7 +65,10 @@ type Replicates struct {
 	// (asked for); FirstNoCovariance is the reason of the lowest-numbered one.
 	NoCovariance      int
 	FirstNoCovariance string
-	firstNoCovariance int
+	// firstNoCovariance and firstNoCovarianceWhy are that replicate's
+	// number and bare reason, for the bootstrap-t notes.
+	firstNoCovariance    int
+	firstNoCovarianceWhy string
 	// Failed counts replicates whose refit failed or did not converge;
 	// FirstFailure is the reason of the lowest-numbered one.
 	Failed       int
@@ -261,7 +264,7 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 		if why != "" {
 			if rep.NoCovariance == 0 {
 				rep.FirstNoCovariance = fmt.Sprintf("replicate %d: %s", r, why)
-				rep.firstNoCovariance = r
+				rep.firstNoCovariance, rep.firstNoCovarianceWhy = r, why
 			}
 			rep.NoCovariance++
 		}

@@ -91,6 +91,24 @@ func (st *studentized) note(requested int, short bool, level float64) string {
 	return joinNote(n, fmt.Sprintf("%d of %d replicates gave no studentized value and are left out of the bootstrap-t quantiles (%s)", st.left, requested, st.firstLeft))
 }
 
+// result returns the bootstrap-t interval of a quantity with estimate tHat
+// and standard error se on scale sc, its ci_method text and its note; ok is
+// false when no replicate gave a pivot, and note then says why.
+func (st *studentized) result(rep *Replicates, tHat, se float64, sc Scale, level float64) (method string, lo, hi float64, note string, ok bool) {
+	if len(st.t) == 0 {
+		return "", math.NaN(), math.NaN(), "no replicate gave a studentized value (" + st.firstLeft + ")", false
+	}
+	lo, hi, short := st.interval(tHat, se, sc, level)
+	return bootstrapTLabel(sc, len(st.t)), lo, hi, joinNote(failedNote(rep), st.note(rep.Requested, short, level)), true
+}
+
+// percentileFallback returns the percentile interval of vals (sorted in
+// place), its ci_method text and a note saying why it replaces bootstrap-t.
+func percentileFallback(vals []float64, level float64, rep *Replicates, why string) (method string, lo, hi float64, note string) {
+	lo, hi = percentileInterval(vals, level)
+	return percentileLabel(len(vals)), lo, hi, joinNote(failedNote(rep), why+": percentile interval instead of bootstrap-t")
+}
+
 // bootstrapTLabel is the ci_method text of a bootstrap-t interval.
 func bootstrapTLabel(sc Scale, used int) string {
 	return fmt.Sprintf("bootstrap-t (%s scale, B = %d)", sc, used)
@@ -116,7 +134,7 @@ func noCovarianceWhy(rep *Replicates, r int) string {
 	case rep.Covariances[r] != nil:
 		return ""
 	case rep.NoCovariance > 0 && r == rep.firstNoCovariance:
-		return rep.FirstNoCovariance[len(fmt.Sprintf("replicate %d: ", r)):]
+		return rep.firstNoCovarianceWhy
 	}
 	return "observed information gave no covariance"
 }
@@ -170,14 +188,11 @@ func bootstrapDerived(out *DerivedValue, rep *Replicates, g func([]float64) floa
 			}
 			st.add(r, tHat, sc.To(psi), math.Sqrt(v), "")
 		}
-		if len(st.t) > 0 {
-			out.Method = bootstrapTLabel(sc, len(st.t))
-			var short bool
-			out.Lower, out.Upper, short = st.interval(tHat, seT, sc, level)
-			out.Note = joinNote(failedNote(rep), st.note(rep.Requested, short, level))
+		var ok bool
+		if out.Method, out.Lower, out.Upper, out.Note, ok = st.result(rep, tHat, seT, sc, level); ok {
 			return
 		}
-		why = "no replicate gave a studentized value (" + st.firstLeft + ")"
+		why = out.Note
 	}
 	vals := make([]float64, 0, rep.Requested)
 	undefined := 0
@@ -191,9 +206,7 @@ func bootstrapDerived(out *DerivedValue, rep *Replicates, g func([]float64) floa
 			undefined++
 		}
 	}
-	out.Method = percentileLabel(len(vals))
-	out.Lower, out.Upper = percentileInterval(vals, level)
-	out.Note = joinNote(failedNote(rep), why+": percentile interval instead of bootstrap-t")
+	out.Method, out.Lower, out.Upper, out.Note = percentileFallback(vals, level, rep, why)
 	if undefined > 0 {
 		out.Note = joinNote(out.Note, fmt.Sprintf("the quantity is undefined for %d replicates, left out", undefined))
 	}

@@ -222,14 +222,11 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 					}
 					st.add(k, tHat, sc.To(e[i]), seStar, noCov)
 				}
-				if len(st.t) > 0 {
-					r.Method = bootstrapTLabel(sc, len(st.t))
-					var short bool
-					r.Lower, r.Upper, short = st.interval(tHat, se, sc, level)
-					r.Note = joinNote(failedNote(rep), st.note(rep.Requested, short, level))
+				var ok bool
+				if r.Method, r.Lower, r.Upper, r.Note, ok = st.result(rep, tHat, se, sc, level); ok {
 					continue
 				}
-				why = "no replicate gave a studentized value (" + st.firstLeft + ")"
+				why = r.Note
 			}
 			vals := make([]float64, 0, rep.Requested)
 			for _, e := range rep.Estimates {
@@ -237,9 +234,7 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 					vals = append(vals, e[i])
 				}
 			}
-			r.Method = percentileLabel(len(vals))
-			r.Lower, r.Upper = percentileInterval(vals, level)
-			r.Note = joinNote(failedNote(rep), why+": percentile interval instead of bootstrap-t")
+			r.Method, r.Lower, r.Upper, r.Note = percentileFallback(vals, level, rep, why)
 		}
 	default:
 		return nil, fmt.Errorf("unknown interval method %q", method)
