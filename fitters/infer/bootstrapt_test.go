@@ -106,28 +106,9 @@ func TestQuantile6(t *testing.T) {
 // the regular continuous families get finite bootstrap-t intervals for
 // every parameter and derived quantity.
 func TestBootstrapTEveryFamily(t *testing.T) {
-	regular := map[string]bool{"normal": true, "lognormal": true, "exponential": true, "gamma": true,
-		"weibull": true, "gumbel": true, "gev": true, "logistic": true, "loglogistic": true,
-		"invgauss": true, "beta": true}
-	counts := []float64{0, 1, 1, 2, 0, 3, 1, 0, 2, 1, 4, 0, 1, 2, 1}
 	for _, fam := range fitters.Families() {
 		t.Run(fam.Name(), func(t *testing.T) {
-			d := fitters.Complete(ballBearings)
-			opt := fitters.Options{}
-			switch {
-			case fam.Name() == "beta":
-				x := make([]float64, len(ballBearings))
-				for i, v := range ballBearings {
-					x[i] = v / 200
-				}
-				d = fitters.Complete(x)
-			case fam.Name() == "gpd":
-				opt.Fixed = fitters.Fixed{"threshold": 15}
-			case fam.Name() == "binomial" || fam.Name() == "betabinomial":
-				d = &fitters.Data{Exact: counts, Trials: []int{4, 4, 5, 5, 3, 6, 4, 2, 5, 5, 8, 3, 4, 6, 2}}
-			case fam.Kind() == fitters.Discrete:
-				d = fitters.Complete(counts)
-			}
+			d, opt := familyTestData(fam)
 			fit, err := fam.Fit(d, opt)
 			if err != nil || !fit.Converged {
 				t.Skipf("no converged fit: %v", err)
@@ -151,7 +132,7 @@ func TestBootstrapTEveryFamily(t *testing.T) {
 				if (math.IsNaN(lo) || math.IsNaN(hi)) && note == "" {
 					t.Errorf("%s: no interval and no reason", what)
 				}
-				if regular[fam.Name()] && (!strings.HasPrefix(method, "bootstrap-t (") || math.IsNaN(lo) || math.IsNaN(hi) || math.IsInf(lo, 0) || math.IsInf(hi, 0)) {
+				if regularFamilies[fam.Name()] && (!strings.HasPrefix(method, "bootstrap-t (") || math.IsNaN(lo) || math.IsNaN(hi) || math.IsInf(lo, 0) || math.IsInf(hi, 0)) {
 					t.Errorf("%s: [%v, %v] %q %q, want a finite bootstrap-t interval", what, lo, hi, method, note)
 				}
 			}

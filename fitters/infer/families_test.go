@@ -15,28 +15,9 @@ import (
 // For the regular continuous families, Wald and profile intervals must
 // exist, be closed and finite.
 func TestEveryFamily(t *testing.T) {
-	regular := map[string]bool{"normal": true, "lognormal": true, "exponential": true, "gamma": true,
-		"weibull": true, "gumbel": true, "gev": true, "logistic": true, "loglogistic": true,
-		"invgauss": true, "beta": true}
-	counts := []float64{0, 1, 1, 2, 0, 3, 1, 0, 2, 1, 4, 0, 1, 2, 1}
 	for _, fam := range fitters.Families() {
 		t.Run(fam.Name(), func(t *testing.T) {
-			d := fitters.Complete(ballBearings)
-			opt := fitters.Options{}
-			switch {
-			case fam.Name() == "beta":
-				x := make([]float64, len(ballBearings))
-				for i, v := range ballBearings {
-					x[i] = v / 200
-				}
-				d = fitters.Complete(x)
-			case fam.Name() == "gpd":
-				opt.Fixed = fitters.Fixed{"threshold": 15}
-			case fam.Name() == "binomial" || fam.Name() == "betabinomial":
-				d = &fitters.Data{Exact: counts, Trials: []int{4, 4, 5, 5, 3, 6, 4, 2, 5, 5, 8, 3, 4, 6, 2}}
-			case fam.Kind() == fitters.Discrete:
-				d = fitters.Complete(counts)
-			}
+			d, opt := familyTestData(fam)
 			fit, err := fam.Fit(d, opt)
 			if err != nil {
 				t.Skipf("not applicable: %v", err)
@@ -59,7 +40,7 @@ func TestEveryFamily(t *testing.T) {
 						continue
 					}
 					checkRow(t, string(m)+" "+r.Parameter, r.Estimate, r.Lower, r.Upper, r.Note, m != MethodBootstrap)
-					if regular[fam.Name()] && m != MethodBootstrap && (r.LowerOpen || r.UpperOpen || math.IsNaN(r.Lower) || math.IsNaN(r.Upper)) {
+					if regularFamilies[fam.Name()] && m != MethodBootstrap && (r.LowerOpen || r.UpperOpen || math.IsNaN(r.Lower) || math.IsNaN(r.Upper)) {
 						t.Errorf("%s %s: [%v, %v] open %v/%v (%s), want a closed interval", m, r.Parameter, r.Lower, r.Upper, r.LowerOpen, r.UpperOpen, r.Note)
 					}
 				}
@@ -75,7 +56,7 @@ func TestEveryFamily(t *testing.T) {
 						t.Fatal(err)
 					}
 					checkRow(t, string(m)+" "+string(q.q), dv.Estimate, dv.Lower, dv.Upper, dv.Note, m != MethodBootstrap)
-					if regular[fam.Name()] && m != MethodBootstrap && (math.IsNaN(dv.Lower) || math.IsNaN(dv.Upper) || dv.LowerOpen || dv.UpperOpen) {
+					if regularFamilies[fam.Name()] && m != MethodBootstrap && (math.IsNaN(dv.Lower) || math.IsNaN(dv.Upper) || dv.LowerOpen || dv.UpperOpen) {
 						t.Errorf("%s %s(%v): [%v, %v] (%s), want a closed interval", m, q.q, q.arg, dv.Lower, dv.Upper, dv.Note)
 					}
 				}
@@ -96,4 +77,36 @@ func checkRow(t *testing.T, what string, est, lo, hi float64, note string, conta
 	if contains && !math.IsNaN(lo) && !math.IsNaN(hi) && !(lo <= est+slack && est-slack <= hi) {
 		t.Errorf("%s: estimate %v outside [%v, %v]", what, est, lo, hi)
 	}
+}
+
+// regularFamilies are the continuous families whose likelihood is regular
+// on familyTestData, so that every interval method must give finite,
+// closed intervals.
+var regularFamilies = map[string]bool{"normal": true, "lognormal": true, "exponential": true, "gamma": true,
+	"weibull": true, "gumbel": true, "gev": true, "logistic": true, "loglogistic": true,
+	"invgauss": true, "beta": true}
+
+// familyTestData returns data fam can take, with its fit options: the
+// ball-bearing times, scaled into (0, 1) for beta, over a fixed threshold
+// for gpd; small counts (with trials for the binomial-type families) for
+// the discrete families.
+func familyTestData(fam fitters.Family) (*fitters.Data, fitters.Options) {
+	counts := []float64{0, 1, 1, 2, 0, 3, 1, 0, 2, 1, 4, 0, 1, 2, 1}
+	d := fitters.Complete(ballBearings)
+	opt := fitters.Options{}
+	switch {
+	case fam.Name() == "beta":
+		x := make([]float64, len(ballBearings))
+		for i, v := range ballBearings {
+			x[i] = v / 200
+		}
+		d = fitters.Complete(x)
+	case fam.Name() == "gpd":
+		opt.Fixed = fitters.Fixed{"threshold": 15}
+	case fam.Name() == "binomial" || fam.Name() == "betabinomial":
+		d = &fitters.Data{Exact: counts, Trials: []int{4, 4, 5, 5, 3, 6, 4, 2, 5, 5, 8, 3, 4, 6, 2}}
+	case fam.Kind() == fitters.Discrete:
+		d = fitters.Complete(counts)
+	}
+	return d, opt
 }
