@@ -109,7 +109,16 @@ func adequacy(rows []runner.GOFRow, family string) (string, float64) {
 func summarise(d *fitters.Data, missing int) DataSummary {
 	s := DataSummary{N: d.N(), Exact: len(d.Exact), LeftCensored: len(d.Left), RightCensored: len(d.Right),
 		IntervalCensored: len(d.Lower), Missing: missing, Min: math.NaN(), Median: math.NaN(), Max: math.NaN()}
-	v := finite(d.Values())
+	var v []float64
+	if d.IsComplete() {
+		// The view the goodness-of-fit statistics already sorted.
+		if sorted := d.SortedExact(); len(sorted) > 0 && finiteNum(sorted[0]) && finiteNum(sorted[len(sorted)-1]) {
+			v = sorted
+		}
+	}
+	if v == nil {
+		v = finite(d.Values())
+	}
 	if n := len(v); n > 0 {
 		s.Min, s.Max = v[0], v[n-1]
 		if n%2 == 1 {
