@@ -34,14 +34,17 @@ func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 // z = (y − μ)/σ, for a log-density g with derivatives g′, g″:
 //
 //	I_μμ = −Σg″/σ²,  I_μσ = −Σ(g″z + g′)/σ²,  I_σσ = −n/σ² − Σ(g″z² + 2g′z)/σ².
-func locScaleInformation(y []float64, g logConcaveTerm, mu, sigma float64, h *mat.SymDense) bool {
+//
+// Only g′ and g″ enter, so g is given by its derivatives alone (no ln per
+// point where g itself would need one, as the logistic's does).
+func locScaleInformation(y []float64, g scoreTerms, mu, sigma float64, h *mat.SymDense) bool {
 	if !(sigma > 0) || !finite(mu) || !finite(sigma) || len(y) == 0 {
 		return false
 	}
 	var s2, s2z1, s2zz2 float64
 	for _, v := range y {
 		z := (v - mu) / sigma
-		_, g1, g2 := g(z)
+		g1, g2 := g(z)
 		s2 += g2
 		s2z1 += g2*z + g1
 		s2zz2 += g2*z*z + 2*g1*z
@@ -51,35 +54,51 @@ func locScaleInformation(y []float64, g logConcaveTerm, mu, sigma float64, h *ma
 	return setInfo2(h, -s2/v, -s2z1/v, (-n-s2zz2)/v)
 }
 
-// normalLogDensity is ln φ(z) up to a constant, −z²/2, and its derivatives.
-func normalLogDensity(z float64) (g, dg, d2g float64) { return -z * z / 2, -z, -1 }
+// scoreTerms gives g′(z) and g″(z) of a standardized log-density g.
+type scoreTerms func(z float64) (dg, d2g float64)
 
-// gumbelLogDensity is ln f₀(z) = −z − e^(−z) of the standard Gumbel (largest
-// values) and its derivatives e^(−z) − 1 and −e^(−z).
-func gumbelLogDensity(z float64) (g, dg, d2g float64) {
+// normalScoreTerms: g = −z²/2 (ln φ up to a constant), g′ = −z, g″ = −1.
+func normalScoreTerms(z float64) (dg, d2g float64) { return -z, -1 }
+
+// gumbelScoreTerms: g = −z − e^(−z) (standard Gumbel, largest values),
+// g′ = e^(−z) − 1, g″ = −e^(−z).
+func gumbelScoreTerms(z float64) (dg, d2g float64) {
 	e := math.Exp(-z)
-	return -z - e, e - 1, -e
+	return e - 1, -e
+}
+
+// logisticScoreTerms: g = −z − 2 ln(1 + e^(−z)) (standard logistic),
+// g′ = −tanh(z/2), g″ = −2e^(−|z|)/(1 + e^(−|z|))²; the derivatives of
+// logisticLogDensity without its logarithm (one exp per point).
+func logisticScoreTerms(z float64) (dg, d2g float64) {
+	e := math.Exp(-math.Abs(z))
+	iq := 1 / (1 + e)
+	t := (1 - e) * iq // tanh(|z|/2)
+	if z < 0 {
+		t = -t
+	}
+	return -t, -2 * e * iq * iq
 }
 
 func (normalFamily) ObservedInformation(p []float64, d *Data, h *mat.SymDense) bool {
 	if len(p) != 2 || !d.IsComplete() {
 		return false
 	}
-	return locScaleInformation(d.Exact, normalLogDensity, p[0], p[1], h)
+	return locScaleInformation(d.Exact, normalScoreTerms, p[0], p[1], h)
 }
 
 func (logisticFamily) ObservedInformation(p []float64, d *Data, h *mat.SymDense) bool {
 	if len(p) != 2 || !d.IsComplete() {
 		return false
 	}
-	return locScaleInformation(d.Exact, logisticLogDensity, p[0], p[1], h)
+	return locScaleInformation(d.Exact, logisticScoreTerms, p[0], p[1], h)
 }
 
 func (gumbelFamily) ObservedInformation(p []float64, d *Data, h *mat.SymDense) bool {
 	if len(p) != 2 || !d.IsComplete() {
 		return false
 	}
-	return locScaleInformation(d.Exact, gumbelLogDensity, p[0], p[1], h)
+	return locScaleInformation(d.Exact, gumbelScoreTerms, p[0], p[1], h)
 }
 
 // ObservedInformation of the lognormal is the normal one of ln x (the
@@ -190,7 +209,7 @@ func (loglogisticFamily) ObservedInformation(p []float64, d *Data, h *mat.SymDen
 			return false
 		}
 		z := beta * lnRatio(x, alpha)
-		_, g1, g2 := logisticLogDensity(z)
+		g1, g2 := logisticScoreTerms(z)
 		s1 += g1
 		s2 += g2
 		s2z1 += g2*z + g1
