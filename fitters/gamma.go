@@ -68,7 +68,7 @@ func (gammaFamily) Parameters() []string { return []string{"shape", "rate"} }
 func (gammaFamily) Kind() Kind           { return Continuous }
 func (gammaFamily) Support() string      { return "x > 0" }
 func (gammaFamily) Route() string {
-	return "profile equation ln k − ψ(k) = ln x̄ − mean ln x (safeguarded Newton), rate = k/x̄; censored data: BFGS on (log shape, log rate)"
+	return "profile equation ln k − ψ(k) = ln x̄ − mean ln x (safeguarded Newton), rate = k/x̄; censored data: Newton on (ln shape, ln(rate·c/shape)) from the exact values' sufficient statistics, BFGS on (log shape, log rate) if it fails"
 }
 
 func (gammaFamily) New(p []float64) (Dist, error) {
@@ -263,6 +263,10 @@ func (f gammaFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		fit.setSolved(gammaMLE(d.Exact, opt))
 		return fit, nil
 	}
+	newtonOK, newtonFailed := fitGammaCensored(fit, d, opt)
+	if newtonOK {
+		return fit, nil
+	}
 	k0, b0 := 1.0, 1.0
 	if x := startSample(d, 2, true); len(x) >= 2 {
 		if k, b, _, c := gammaMLE(x, opt); c.Converged && k < 1e6 {
@@ -274,5 +278,8 @@ func (f gammaFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	starts := [][]float64{{math.Log(k0), math.Log(b0)}, {0, math.Log(b0 / k0)}}
 	toNatural := func(t []float64) []float64 { return []float64{math.Exp(t[0]), math.Exp(t[1])} }
 	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (log shape, log rate)")
+	if newtonFailed != "" {
+		censoredNewtonFallback(fit, newtonFailed)
+	}
 	return fit, nil
 }

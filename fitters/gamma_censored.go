@@ -1,0 +1,296 @@
+package fitters
+
+import (
+	"math"
+)
+
+// gammaCensoredSample holds what the censored gamma Newton route needs
+// from a dataset, gathered in one pass: the exact values' sufficient
+// statistics about a centre c > 0 (d = (x − c)/c: Σ d, Σ log1pmx(d) =
+// Σ (ln(1 + d) − d), Σ ln x) and the censored values as t = x/c, distinct
+// ones tallied (field data repeat their limits, so each censored term is
+// evaluated once per distinct value).
+type gammaCensoredSample struct {
+	n, c              float64
+	sumD, sumL, sumLn float64
+	left, right       tally
+	lower, upper      []float64
+	inCount           []float64
+	distinct          bool // at least two distinct exact values
+}
+
+// gammaShapeStep is the step in ln k of the shape's finite differences:
+// 2⁻¹⁰ ≈ 10⁻³. With the five-point stencil the first derivative's
+// truncation error is h⁴/30·|f⁽⁵⁾| ≈ 3·10⁻¹⁴ of |f| and its rounding error
+// 1.5·ε|f|/h ≈ 3·10⁻¹³ of |f| (f = ln of a tail probability, smooth in
+// ln k on the scale 1, whose tail evaluation is good to a few ulps); the
+// second derivative's rounding error, 5.3·ε|f|/h² ≈ 10⁻⁹ of |f|, only
+// slows Newton's last step, it does not move the maximum.
+const gammaShapeStep = 0x1p-10
+
+// gammaShapeFactors are e^(jh), j = −2, −1, 1, 2: the stencil's shapes
+// are k·e^(jh), each with one rounding.
+var gammaShapeFactors = [4]float64{
+	math.Exp(-2 * gammaShapeStep), math.Exp(-gammaShapeStep),
+	math.Exp(gammaShapeStep), math.Exp(2 * gammaShapeStep),
+}
+
+// newGammaCensoredSample gathers d's statistics about centre c. It reports
+// false when an observation has no place in the route (a non-positive exact
+// value or non-detect limit, a NaN, an empty interval), which leaves the
+// data to the generic route.
+func newGammaCensoredSample(d *Data, c float64) (gammaCensoredSample, bool) {
+	s := gammaCensoredSample{n: float64(len(d.Exact)), c: c}
+	if !(c > 0) || math.IsInf(c, 0) {
+		return s, false
+	}
+	ic := 1 / c
+	// Σ log1pmx(d): the series where |d| < 0.1, elsewhere ln(1 + d) − d
+	// with Σ ln(x/c) from the running product (logAccumulator), one
+	// logarithm per few values.
+	acc := newLogAccumulator()
+	var sumDFar float64
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, x := range d.Exact {
+		if !(x > 0) || math.IsInf(x, 1) {
+			return s, false
+		}
+		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		dv := (x - c) * ic
+		s.sumD += dv
+		if math.Abs(dv) < 0.1 {
+			s.sumL += log1pmx(dv)
+		} else {
+			acc.mul(x * ic)
+			sumDFar += dv
+		}
+	}
+	s.distinct = lo < hi
+	s.sumL += acc.sum() - sumDFar
+	// Σ ln x = n ln c + Σ ln(1 + d) = n ln c + Σ d + Σ log1pmx(d).
+	s.sumLn = s.n*math.Log(c) + s.sumD + s.sumL
+	to := func(x float64) float64 { return x * ic }
+	for _, x := range d.Left {
+		if !(x > 0) || math.IsInf(x, 1) {
+			// ln F(0) = −∞; ln F(∞) = 0 is harmless but rare: leave
+			// both to the generic route.
+			return s, false
+		}
+		s.left.add(to(x))
+	}
+	for _, x := range d.Right {
+		switch {
+		case math.IsNaN(x) || math.IsInf(x, 1):
+			return s, false
+		case x <= 0:
+			// a suspension at or below 0: ln S = 0
+		default:
+			s.right.add(to(x))
+		}
+	}
+	var pairs map[[2]float64]int
+	for i, l := range d.Lower {
+		u := d.Upper[i]
+		switch {
+		case math.IsNaN(l) || math.IsNaN(u) || !(l < u) || math.IsInf(l, 1) || math.IsInf(u, -1):
+			return s, false
+		case l <= 0 && math.IsInf(u, 1):
+			// probability one
+		case l <= 0:
+			s.left.add(to(u))
+		case math.IsInf(u, 1):
+			s.right.add(to(l))
+		default:
+			k := [2]float64{l, u}
+			if j, ok := pairs[k]; ok {
+				s.inCount[j]++
+				continue
+			}
+			if pairs == nil {
+				pairs = make(map[[2]float64]int)
+			}
+			pairs[k] = len(s.lower)
+			s.lower = append(s.lower, to(l))
+			s.upper = append(s.upper, to(u))
+			s.inCount = append(s.inCount, 1)
+		}
+	}
+	return s, true
+}
+
+// gammaCensoredPoint evaluates the censored gamma log-likelihood at
+// κ = ln k and ν = ln(βc/k) (so β = k·e^ν/c and y = βx = k·e^ν·t), with its
+// score and observed Hessian in (κ, ν).
+//
+// Exact values: with ρ = e^ν and C(k) = k ln k − k − ln Γ(k),
+//
+//	Σ ln f(x) = n C(k) + k·M(ν) − Σ ln x,
+//	M(ν) = n(ν − (ρ − 1)) + Σ log1pmx(d) − (ρ − 1)·Σ d,
+//
+// a form free of the cancellation of k ln β + (k−1) ln x − βx for a large
+// shape; C′(k) = ln k − ψ(k), C″(k) = 1/k − ψ′(k) (logMinusDigamma),
+// M′ = n − ρ(n + Σ d), M″ = −ρ(n + Σ d).
+//
+// A censored observation adds ln D, D = F(y_L) for a non-detect, S(y_R) for
+// a suspension, F(y_u) − F(y_l) for an interval, F(y) = P(k, y) the
+// regularized incomplete gamma function. In ν the derivatives are exact:
+// ∂P(k, y)/∂ν = y·p(y) = e^π with π = k ln y − y − ln Γ(k) (the prefactor),
+// ∂²P/∂ν² = e^π(k − y). In κ, P has no closed-form derivative (Abramowitz &
+// Stegun 6.5): ∂ ln D/∂κ and ∂² ln D/∂κ² come from five-point central
+// differences of ln D in κ (step gammaShapeStep), and the mixed derivative
+// from ∂π/∂κ = k(ln(ρt) − (ρt − 1) + ln k − ψ(k)) analytically:
+// ∂² ln D/∂κ∂ν = Σ σ_j w_j ∂π_j/∂κ − (∂ ln D/∂ν)(∂ ln D/∂κ), w_j = e^(π_j)/D.
+func gammaCensoredPoint(s *gammaCensoredSample, kappa, nu float64) newton2Point {
+	var p newton2Point
+	k, rho := math.Exp(kappa), math.Exp(nu)
+	if !(k > 0) || math.IsInf(k, 0) || !(rho > 0) || math.IsInf(rho, 0) {
+		p.ll = math.Inf(-1)
+		return p
+	}
+	em1 := math.Expm1(nu)
+	lmd, dlmd := logMinusDigamma(k) // ln k − ψ(k), 1/k − ψ′(k)
+	if s.n > 0 {
+		m := s.n*(nu-em1) + s.sumL - em1*s.sumD
+		dm := s.n - rho*(s.n+s.sumD)
+		d2m := -rho * (s.n + s.sumD)
+		gk := s.n*lmd + m
+		p.ll = s.n*gammaStirlingC(k) + k*m - s.sumLn
+		p.g0 = k * gk
+		p.g1 = k * dm
+		p.h00 = k*k*s.n*dlmd + k*gk
+		p.h01 = k * dm
+		p.h11 = k * d2m
+	}
+	// The stencil's shapes.
+	var ks [5]float64
+	ks[0], ks[1], ks[2], ks[3], ks[4] = k*gammaShapeFactors[0], k*gammaShapeFactors[1], k, k*gammaShapeFactors[2], k*gammaShapeFactors[3]
+	const h = gammaShapeStep
+	// term adds count × ln D with derivatives, from ln D at the stencil's
+	// shapes (f) and the ends' (t_j, σ_j).
+	term := func(count float64, f *[5]float64, ends [2]float64, signs [2]float64, nEnds int) {
+		lnD := f[2]
+		gK := (f[0] - 8*f[1] + 8*f[3] - f[4]) / (12 * h)
+		hKK := (-f[0] + 16*f[1] - 30*f[2] + 16*f[3] - f[4]) / (12 * h * h)
+		var gN, sNN, sKN float64
+		for j := 0; j < nEnds; j++ {
+			t := ends[j]
+			rt := rho * t
+			y := k * rt
+			w := signs[j] * math.Exp(logGammaPrefactor(k, y)-lnD)
+			gN += w
+			sNN += w * (k - y)
+			sKN += w * k * (math.Log(rt) - (rt - 1) + lmd)
+		}
+		p.ll += count * lnD
+		p.g0 += count * gK
+		p.g1 += count * gN
+		p.h00 += count * hKK
+		p.h01 += count * (sKN - gN*gK)
+		p.h11 += count * (sNN - gN*gN)
+	}
+	var f [5]float64
+	for i, t := range s.left.u {
+		for j, kj := range ks {
+			_, f[j], _ = Gamma{kj, 1}.CDFTails(kj * rho * t)
+		}
+		term(s.left.n[i], &f, [2]float64{t}, [2]float64{1}, 1)
+	}
+	for i, t := range s.right.u {
+		for j, kj := range ks {
+			_, _, f[j] = Gamma{kj, 1}.CDFTails(kj * rho * t)
+		}
+		term(s.right.n[i], &f, [2]float64{t}, [2]float64{-1}, 1)
+	}
+	for i, tl := range s.lower {
+		tu := s.upper[i]
+		for j, kj := range ks {
+			_, lfl, lsl := Gamma{kj, 1}.CDFTails(kj * rho * tl)
+			_, lfu, lsu := Gamma{kj, 1}.CDFTails(kj * rho * tu)
+			// F(u) − F(l), or S(l) − S(u) where F(l) > ½ (no cancellation).
+			if lfl > -math.Ln2 {
+				f[j] = logDiffExp(lsl, lsu)
+			} else {
+				f[j] = logDiffExp(lfu, lfl)
+			}
+		}
+		term(s.inCount[i], &f, [2]float64{tu, tl}, [2]float64{1, -1}, 2)
+	}
+	if math.IsNaN(p.ll) {
+		p.ll = math.Inf(-1)
+	}
+	return p
+}
+
+// gammaCensoredStart returns the starting shape and rate: the complete-data
+// estimate of the exact values when there are two distinct ones (Minka's
+// (2002) approximation to the root of ln k − ψ(k) = s, from the sample's
+// statistics), otherwise the start the generic route uses (gammaMLE of
+// startSample, or shape 1 at the sample mean).
+func gammaCensoredStart(s *gammaCensoredSample, d *Data, opt Options) (k0, b0 float64) {
+	if s.n >= 2 && s.distinct {
+		dbar := s.sumD / s.n
+		if v := -s.sumL/s.n + log1pmx(dbar); v > 0 {
+			k := (3 - v + math.Sqrt((v-3)*(v-3)+24*v)) / (12 * v)
+			if k > 0 && !math.IsInf(k, 0) {
+				return k, k / (s.c * (1 + dbar))
+			}
+		}
+	}
+	k0, b0 = 1.0, 1.0
+	if x := startSample(d, 2, true); len(x) >= 2 {
+		if k, b, _, c := gammaMLE(x, opt); c.Converged && k < 1e6 {
+			k0, b0 = k, b
+		} else if m := sumOf(x) / float64(len(x)); m > 0 {
+			b0 = 1 / m
+		}
+	}
+	return k0, b0
+}
+
+// fitGammaCensored fits the gamma distribution to censored data by
+// censoredNewton2 on (ln k, ln(βc/k)), c the mean of the exact values (of
+// every recorded value when there are none), from gammaCensoredStart. On
+// success it records the fit and returns ok; otherwise fit is untouched and
+// reason says why, for the caller's fallback to the generic route (empty
+// when the route does not apply: complete data, fixed parameters, or
+// genericCensoredOnly).
+func fitGammaCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) {
+	if genericCensoredOnly || len(opt.Fixed) != 0 || d.IsComplete() {
+		return false, "" // not this route's data: no fallback to report
+	}
+	c := 0.0
+	if len(d.Exact) > 0 {
+		c = sumOf(d.Exact) / float64(len(d.Exact))
+	}
+	if !(c > 0) || math.IsInf(c, 0) {
+		if x := startSample(d, 1, true); len(x) > 0 {
+			c = sumOf(x) / float64(len(x))
+		}
+	}
+	s, ok := newGammaCensoredSample(d, c)
+	if !ok {
+		return false, "an observation the route cannot take (a value ≤ 0, NaN or an empty interval)"
+	}
+	k0, b0 := gammaCensoredStart(&s, d, opt)
+	nu0 := math.Log(b0 * c / k0)
+	eval := func(kappa, nu float64) newton2Point { return gammaCensoredPoint(&s, kappa, nu) }
+	res := censoredNewton2(eval, math.Log(k0), nu0, opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter))
+	if !res.converged {
+		return false, res.reason
+	}
+	k := math.Exp(res.t0)
+	beta := k * math.Exp(res.t1) / c
+	if !(k > 0) || !(beta > 0) || math.IsInf(k, 0) || math.IsInf(beta, 0) || !finite(res.logLik) {
+		return false, "the maximum lies where the parameters are not finite"
+	}
+	fit.Convergence = Convergence{
+		Method:       "censored Newton on (ln shape, ln(rate·c/shape))",
+		Iterations:   res.iterations,
+		Evaluations:  res.evaluations,
+		GradientNorm: res.gradNorm,
+		Converged:    true,
+	}
+	fit.Estimates[0], fit.Estimates[1] = k, beta
+	fit.LogLik = res.logLik
+	return true, ""
+}
