@@ -26,37 +26,22 @@ const (
 //
 // The second form of A² (substitute j = n+1−i in the ln S sum: 2i−1 =
 // 2(n−j)+1) needs each point once, so the three sums run in one streaming
-// pass with no buffer. The logarithms come from fitters.CDFTails (the
-// family's own CDFTails, computing F, ln F and ln S together, or LogCDF
-// below the median and LogSurvival above it), never from ln(1 − F) after
-// cancellation, so a point far in a tail gives a large finite term rather
-// than ln 0. out
-// receives (D, W², A²), a NaN statistic as +Inf.
+// pass with no n-sized buffer. The logarithms come from
+// fitters.CDFTailsBatch, a block of fitters.CDFTailsBlock points a call
+// (the family's own batch or CDFTails, computing F, ln F and ln S
+// together, or LogCDF below the median and LogSurvival above it), never
+// from ln(1 − F) after cancellation, so a point far in a tail gives a
+// large finite term rather than ln 0. out receives (D, W², A²), a NaN
+// statistic as +Inf.
 func edfStatistics(d fitters.Dist, x []float64, out *[3]float64) {
 	var s edfSums
 	s.n = float64(len(x))
-	if t, ok := d.(fitters.CDFTailer); ok {
-		for i, v := range x {
-			f, lf, ls := t.CDFTails(v)
-			s.add(i, f, lf, ls)
-		}
-	} else {
-		// LogCDF until the median, LogSurvival after it: the sample is
-		// sorted, so each point costs one tail function.
-		upper := false
-		for i, v := range x {
-			if !upper {
-				lf := d.LogCDF(v)
-				if lf < -math.Ln2 {
-					f := math.Exp(lf) // F itself, also needed for D and W²
-					s.add(i, f, lf, math.Log1p(-f))
-					continue
-				}
-				upper = true
-			}
-			ls := d.LogSurvival(v)
-			lf := log1mExp(ls)
-			s.add(i, math.Exp(lf), lf, ls)
+	var f, lf, ls [fitters.CDFTailsBlock]float64
+	for lo := 0; lo < len(x); lo += fitters.CDFTailsBlock {
+		block := x[lo:min(lo+fitters.CDFTailsBlock, len(x))]
+		fitters.CDFTailsBatch(d, block, f[:], lf[:], ls[:])
+		for j := range block {
+			s.add(lo+j, f[j], lf[j], ls[j])
 		}
 	}
 	out[0] = s.ks
@@ -80,12 +65,4 @@ func (s *edfSums) add(i int, f, lf, ls float64) {
 	e := f - (2*fi+1)/(2*s.n)
 	s.cvm += e * e
 	s.ad += (2*fi+1)*lf + (2*(s.n-fi)-1)*ls
-}
-
-// log1mExp returns ln(1 − eᵃ) for a ≤ 0 accurately (Mächler, 2012).
-func log1mExp(a float64) float64 {
-	if a > -math.Ln2 {
-		return math.Log(-math.Expm1(a))
-	}
-	return math.Log1p(-math.Exp(a))
 }
