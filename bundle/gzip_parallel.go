@@ -2,9 +2,10 @@ package bundle
 
 import (
 	"bytes"
-	"compress/gzip"
 	"io"
 	"runtime"
+
+	"github.com/klauspost/compress/gzip"
 )
 
 // gzipChunk is the size of the tar stream compressed as one gzip member.
@@ -18,24 +19,40 @@ import (
 // level. Each member restarts deflate's 32 KiB window, which costs a few
 // hundred bytes per MiB; measured with BenchmarkGzipParallel
 // (gzip_parallel_test.go) on the 200-dataset bench bundle.
+//
+// The deflate encoder is github.com/klauspost/compress/flate (see
+// gzipLevel): pure Go, with no assembly in its flate or gzip packages; on
+// amd64 and arm64 it reads little-endian words through unsafe loads, which
+// give the same values as encoding/binary's, so its bytes are the same on
+// every platform. Bundles are read with the standard library's reader.
 const gzipChunk = 1 << 20
 
 // memberWriter compresses what it is given as consecutive gzip members of
 // gzipChunk bytes of input each, at most workers at a time, and writes
 // them to w in order.
+//
+// Chunk buffers, output buffers and encoders are recycled once a member is
+// written out, so a stream of any length holds at most workers+1 of each
+// (fresh 1 MiB buffers for every member cost more in page faults and
+// zeroing than the copy into them).
 type memberWriter struct {
 	w       io.Writer
 	level   int
 	workers int
-	buf     []byte
-	pending []chan compressed
+	cur     *memberJob // the job whose chunk is being filled, or nil
+	pending []chan *memberJob
+	free    []*memberJob
 	members int
 	err     error
 }
 
-type compressed struct {
-	data []byte
-	err  error
+// memberJob is one member in flight: the input chunk, the compressed
+// member and the encoder that made it, all reused by the next job.
+type memberJob struct {
+	chunk []byte
+	out   bytes.Buffer
+	zw    *gzip.Writer
+	err   error
 }
 
 // newMemberWriter compresses on at most workers goroutines; 0 means
@@ -53,10 +70,13 @@ func (m *memberWriter) Write(p []byte) (int, error) {
 	}
 	n := len(p)
 	for len(p) > 0 {
-		take := min(len(p), gzipChunk-len(m.buf))
-		m.buf = append(m.buf, p[:take]...)
+		if m.cur == nil {
+			m.cur = m.job()
+		}
+		take := min(len(p), gzipChunk-len(m.cur.chunk))
+		m.cur.chunk = append(m.cur.chunk, p[:take]...)
 		p = p[take:]
-		if len(m.buf) == gzipChunk {
+		if len(m.cur.chunk) == gzipChunk {
 			m.dispatch()
 			if m.err != nil {
 				return n - len(p), m.err
@@ -66,47 +86,71 @@ func (m *memberWriter) Write(p []byte) (int, error) {
 	return n, nil
 }
 
+// job takes a free job with an empty chunk; a new one when none is free.
+func (m *memberWriter) job() *memberJob {
+	if k := len(m.free); k > 0 {
+		j := m.free[k-1]
+		m.free = m.free[:k-1]
+		j.chunk = j.chunk[:0]
+		return j
+	}
+	return &memberJob{chunk: make([]byte, 0, gzipChunk)}
+}
+
 // dispatch starts compressing the buffered chunk, first writing out the
 // oldest finished member when workers are already busy.
 func (m *memberWriter) dispatch() {
 	for len(m.pending) >= m.workers && m.err == nil {
 		m.writeOldest()
 	}
-	chunk := m.buf
-	m.buf = make([]byte, 0, gzipChunk)
-	ch := make(chan compressed, 1)
+	j := m.cur
+	if j == nil {
+		j = m.job()
+	}
+	m.cur = nil
+	ch := make(chan *memberJob, 1)
 	go func(level int) {
-		var out bytes.Buffer
-		out.Grow(len(chunk) / 2)
-		zw, err := gzip.NewWriterLevel(&out, level)
-		if err == nil {
-			// gzip.Header left at its zero value: no name, no comment, MTIME 0.
-			if _, err = zw.Write(chunk); err == nil {
-				err = zw.Close()
+		j.out.Reset()
+		j.out.Grow(len(j.chunk)/2 + 1024)
+		if j.zw == nil {
+			j.zw, j.err = gzip.NewWriterLevel(&j.out, level)
+		} else {
+			j.zw.Reset(&j.out)
+		}
+		if j.err == nil {
+			// gzip.Header left at its zero value: no name, no comment,
+			// MTIME 0, OS 255 (unknown), as the standard library writes.
+			if _, j.err = j.zw.Write(j.chunk); j.err == nil {
+				j.err = j.zw.Close()
 			}
 		}
-		ch <- compressed{out.Bytes(), err}
+		ch <- j
 	}(m.level)
 	m.pending = append(m.pending, ch)
 	m.members++
 }
 
 func (m *memberWriter) writeOldest() {
-	c := <-m.pending[0]
+	j := <-m.pending[0]
 	m.pending = m.pending[1:]
+	defer func() {
+		if j.err == nil {
+			m.free = append(m.free, j)
+		}
+	}()
 	if m.err != nil {
 		return
 	}
-	if c.err != nil {
-		m.err = c.err
+	if j.err != nil {
+		m.err = j.err
 		return
 	}
-	_, m.err = m.w.Write(c.data)
+	_, m.err = m.w.Write(j.out.Bytes())
 }
 
 // Close compresses the rest (one member at least) and writes every member.
 func (m *memberWriter) Close() error {
-	if len(m.buf) > 0 || m.members == 0 {
+	if m.cur != nil || m.members == 0 {
 		m.dispatch()
 	}
 	for len(m.pending) > 0 {

@@ -21,31 +21,30 @@ type member struct {
 //
 // Measured on 2026-12-02 with BenchmarkGzipBundleLevels
 // (gzip_bundle_bench_test.go) on the tar stream of the 1000-dataset bench
-// bundle (`../shared/bench/run.sh -S 1000 --keep`: 41 MB, of which 13.9 MB
-// input CSV, 11.8 MB results.json, 5.6 MB result CSVs, 6.7 MB tables), as
-// 1 MiB members on one core of this shared 2-core machine (Go 1.26
-// compress/flate; times of a loaded machine, ratios exact):
+// bundle (`../shared/bench/run.sh -S 1000 --keep`: 45.6 MB, of which 13.9
+// MB input CSV, 11.8 MB results.json, 5.6 MB result CSVs, 6.7 MB tables),
+// as 1 MiB members on one core of this shared 2-core machine, with
+// github.com/klauspost/compress v1.20.4 and, for comparison, the standard
+// library's compress/gzip at level 1 (Go 1.26), which fitseal used before
+// (median of 3 runs of a loaded machine; ratios exact):
 //
-//	level  seconds  MB     ratio
-//	1      0.37     11.19  4.05
-//	2      0.50     10.37  4.38
-//	3      0.57     10.21  4.44
-//	4      0.57      9.89  4.59
-//	5      1.10      9.29  4.88
-//	6      1.58      9.10  4.98
-//	9      6.87      8.94  5.08
+//	encoder          level  seconds  MB     ratio
+//	compress/gzip    1      0.337    11.23  4.06
+//	klauspost        1      0.173    10.62  4.29
+//	klauspost        2      0.187    10.41  4.38
+//	klauspost        3      0.222    10.34  4.41
+//	klauspost        4      0.250    10.66  4.27
+//	klauspost        5      0.312    10.19  4.47
+//	klauspost        6      0.330    10.02  4.55
+//	klauspost        9      8.4       8.99  5.07
 //
-// Level 6 spent two thirds of its time on the input CSV (numeric text,
-// where its longer match search finds little). Level 1 is 4.3 times faster
-// than 6 for a bundle 23% larger; level 4 sits between (2.8 times faster,
-// 8.7% larger). Whole `fitseal run` on that workload (median of 3
-// alternated runs, CPU seconds of a loaded machine): level 4 4.4 s, level
-// 1 3.5 s. The bundle is written on every run and its compression was the
-// largest part of the bundle's own work, while 13% more bytes than level 4
-// (11.2 against 9.9 MB for 1000 datasets) cost little to keep: level 1. The
-// level is named, not left to the library's default, so that it cannot
-// change under us and alter the bytes.
-const gzipLevel = 1
+// Level 1 and level 2 take the same time within this machine's noise (4
+// alternated runs of 10 each: medians 0.211 and 0.214 s), and level 2 is
+// 2% smaller than level 1 and 7% smaller than the standard library's
+// level 1, in half its time; level 3 and above cost more time for little.
+// So: klauspost level 2. The level is named, not left to the library's
+// default, so that it cannot change under us and alter the bytes.
+const gzipLevel = 2
 
 // Folder and file modes inside every bundle (SPEC.md, "The bundle").
 const (
