@@ -13,10 +13,84 @@ import (
 type gammaCensoredSample struct {
 	n, c              float64
 	sumD, sumL, sumLn float64
-	left, right       tally
-	lower, upper      []float64
-	inCount           []float64
 	distinct          bool // at least two distinct exact values
+	tallied           censoredPositive
+}
+
+// censoredPositive holds the censored values of data on x > 0, scaled to
+// t = x/c: distinct non-detect limits and suspensions with their counts,
+// and distinct two-sided intervals with theirs (an interval open at or
+// below 0 is a non-detect at its upper end, one open above a suspension at
+// its lower end; a suspension at or below 0 adds ln S = 0 and is dropped).
+type censoredPositive struct {
+	left, right  tally
+	lower, upper []float64
+	inCount      []float64
+}
+
+// add tallies d's censored values scaled by ic = 1/c. It reports false when
+// one has no place in a likelihood on x > 0 that the Newton routes take: a
+// non-detect limit ≤ 0 (ln F = −∞) or infinite, a NaN, an empty interval.
+func (s *censoredPositive) add(d *Data, ic float64) bool {
+	to := func(x float64) float64 { return x * ic }
+	for _, x := range d.Left {
+		if !(x > 0) || math.IsInf(x, 1) {
+			return false
+		}
+		s.left.add(to(x))
+	}
+	for _, x := range d.Right {
+		switch {
+		case math.IsNaN(x) || math.IsInf(x, 1):
+			return false
+		case x > 0:
+			s.right.add(to(x))
+		}
+	}
+	var pairs map[[2]float64]int
+	for i, l := range d.Lower {
+		u := d.Upper[i]
+		switch {
+		case math.IsNaN(l) || math.IsNaN(u) || !(l < u) || math.IsInf(l, 1) || math.IsInf(u, -1):
+			return false
+		case l <= 0 && math.IsInf(u, 1):
+			// probability one
+		case l <= 0:
+			s.left.add(to(u))
+		case math.IsInf(u, 1):
+			s.right.add(to(l))
+		default:
+			k := [2]float64{l, u}
+			if j, ok := pairs[k]; ok {
+				s.inCount[j]++
+				continue
+			}
+			if pairs == nil {
+				pairs = make(map[[2]float64]int)
+			}
+			pairs[k] = len(s.lower)
+			s.lower = append(s.lower, to(l))
+			s.upper = append(s.upper, to(u))
+			s.inCount = append(s.inCount, 1)
+		}
+	}
+	return true
+}
+
+// censoredCentre returns the centre c of the Newton routes' statistics: the
+// mean of the exact values, or of every recorded positive value when there
+// are none (0 when there is nothing positive).
+func censoredCentre(d *Data) float64 {
+	c := 0.0
+	if len(d.Exact) > 0 {
+		c = sumOf(d.Exact) / float64(len(d.Exact))
+	}
+	if !(c > 0) || math.IsInf(c, 0) {
+		if x := startSample(d, 1, true); len(x) > 0 {
+			c = sumOf(x) / float64(len(x))
+		}
+	}
+	return c
 }
 
 // gammaShapeStep is the step in ln k of the shape's finite differences:
@@ -69,51 +143,8 @@ func newGammaCensoredSample(d *Data, c float64) (gammaCensoredSample, bool) {
 	s.sumL += acc.sum() - sumDFar
 	// Σ ln x = n ln c + Σ ln(1 + d) = n ln c + Σ d + Σ log1pmx(d).
 	s.sumLn = s.n*math.Log(c) + s.sumD + s.sumL
-	to := func(x float64) float64 { return x * ic }
-	for _, x := range d.Left {
-		if !(x > 0) || math.IsInf(x, 1) {
-			// ln F(0) = −∞; ln F(∞) = 0 is harmless but rare: leave
-			// both to the generic route.
-			return s, false
-		}
-		s.left.add(to(x))
-	}
-	for _, x := range d.Right {
-		switch {
-		case math.IsNaN(x) || math.IsInf(x, 1):
-			return s, false
-		case x <= 0:
-			// a suspension at or below 0: ln S = 0
-		default:
-			s.right.add(to(x))
-		}
-	}
-	var pairs map[[2]float64]int
-	for i, l := range d.Lower {
-		u := d.Upper[i]
-		switch {
-		case math.IsNaN(l) || math.IsNaN(u) || !(l < u) || math.IsInf(l, 1) || math.IsInf(u, -1):
-			return s, false
-		case l <= 0 && math.IsInf(u, 1):
-			// probability one
-		case l <= 0:
-			s.left.add(to(u))
-		case math.IsInf(u, 1):
-			s.right.add(to(l))
-		default:
-			k := [2]float64{l, u}
-			if j, ok := pairs[k]; ok {
-				s.inCount[j]++
-				continue
-			}
-			if pairs == nil {
-				pairs = make(map[[2]float64]int)
-			}
-			pairs[k] = len(s.lower)
-			s.lower = append(s.lower, to(l))
-			s.upper = append(s.upper, to(u))
-			s.inCount = append(s.inCount, 1)
-		}
+	if !s.tallied.add(d, ic) {
+		return s, false
 	}
 	return s, true
 }
@@ -189,20 +220,20 @@ func gammaCensoredPoint(s *gammaCensoredSample, kappa, nu float64) newton2Point 
 		p.h11 += count * (sNN - gN*gN)
 	}
 	var f [5]float64
-	for i, t := range s.left.u {
+	for i, t := range s.tallied.left.u {
 		for j, kj := range ks {
 			_, f[j], _ = Gamma{kj, 1}.CDFTails(kj * rho * t)
 		}
-		term(s.left.n[i], &f, [2]float64{t}, [2]float64{1}, 1)
+		term(s.tallied.left.n[i], &f, [2]float64{t}, [2]float64{1}, 1)
 	}
-	for i, t := range s.right.u {
+	for i, t := range s.tallied.right.u {
 		for j, kj := range ks {
 			_, _, f[j] = Gamma{kj, 1}.CDFTails(kj * rho * t)
 		}
-		term(s.right.n[i], &f, [2]float64{t}, [2]float64{-1}, 1)
+		term(s.tallied.right.n[i], &f, [2]float64{t}, [2]float64{-1}, 1)
 	}
-	for i, tl := range s.lower {
-		tu := s.upper[i]
+	for i, tl := range s.tallied.lower {
+		tu := s.tallied.upper[i]
 		for j, kj := range ks {
 			_, lfl, lsl := Gamma{kj, 1}.CDFTails(kj * rho * tl)
 			_, lfu, lsu := Gamma{kj, 1}.CDFTails(kj * rho * tu)
@@ -213,7 +244,7 @@ func gammaCensoredPoint(s *gammaCensoredSample, kappa, nu float64) newton2Point 
 				f[j] = logDiffExp(lfu, lfl)
 			}
 		}
-		term(s.inCount[i], &f, [2]float64{tu, tl}, [2]float64{1, -1}, 2)
+		term(s.tallied.inCount[i], &f, [2]float64{tu, tl}, [2]float64{1, -1}, 2)
 	}
 	if math.IsNaN(p.ll) {
 		p.ll = math.Inf(-1)
@@ -258,15 +289,7 @@ func fitGammaCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) {
 	if genericCensoredOnly || len(opt.Fixed) != 0 || d.IsComplete() {
 		return false, "" // not this route's data: no fallback to report
 	}
-	c := 0.0
-	if len(d.Exact) > 0 {
-		c = sumOf(d.Exact) / float64(len(d.Exact))
-	}
-	if !(c > 0) || math.IsInf(c, 0) {
-		if x := startSample(d, 1, true); len(x) > 0 {
-			c = sumOf(x) / float64(len(x))
-		}
-	}
+	c := censoredCentre(d)
 	s, ok := newGammaCensoredSample(d, c)
 	if !ok {
 		return false, "an observation the route cannot take (a value ≤ 0, NaN or an empty interval)"

@@ -99,7 +99,7 @@ func (invgaussFamily) Parameters() []string { return []string{"mean", "shape"} }
 func (invgaussFamily) Kind() Kind           { return Continuous }
 func (invgaussFamily) Support() string      { return "x > 0" }
 func (invgaussFamily) Route() string {
-	return "closed form (mean; 1/shape = mean(1/x − 1/x̄)); censored data: BFGS on (log mean, log shape)"
+	return "closed form (mean; 1/shape = mean(1/x − 1/x̄)); censored data: Newton on (c/mean, ln(shape/c)) from the exact values' sufficient statistics, BFGS on (log mean, log shape) if it fails"
 }
 
 func (invgaussFamily) New(p []float64) (Dist, error) {
@@ -221,6 +221,10 @@ func (f invgaussFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		fit.Convergence = closedForm()
 		return fit, nil
 	}
+	newtonOK, newtonFailed := fitInvgaussCensored(fit, d, opt)
+	if newtonOK {
+		return fit, nil
+	}
 	m0, s0 := 1.0, 1.0
 	if x := startSample(d, 2, true); len(x) >= 2 {
 		if m, s, _ := invgaussMLE(x); m > 0 && s > 0 && !math.IsInf(s, 0) {
@@ -232,5 +236,8 @@ func (f invgaussFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	starts := [][]float64{{0, 0}, {0, math.Log(1.0 / 3)}}
 	toNatural := func(t []float64) []float64 { return []float64{m0 * math.Exp(t[0]), s0 * math.Exp(t[1])} }
 	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (log mean, log shape)")
+	if newtonFailed != "" {
+		censoredNewtonFallback(fit, newtonFailed)
+	}
 	return fit, nil
 }
