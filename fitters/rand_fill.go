@@ -1,0 +1,234 @@
+package fitters
+
+import (
+	"math"
+	"math/rand/v2"
+	"sync"
+)
+
+// RandFiller is implemented by the distributions whose Rand costs more per
+// value than its arithmetic needs (a general math.Pow, set-up repeated on
+// every call). RandFill(r, dst) stores in dst exactly the values that
+// len(dst) successive calls of Rand(r) would return, bit for bit and in
+// the same order, and leaves r in the same state: a bootstrap that fills
+// its replicates this way gives the same p-values and intervals.
+type RandFiller interface {
+	RandFill(r *rand.Rand, dst []float64)
+}
+
+// FillRand fills dst with len(dst) draws of d from r: through RandFill
+// where d has it, else one Rand call per value (the same values either way).
+func FillRand(d Dist, r *rand.Rand, dst []float64) {
+	if f, ok := d.(RandFiller); ok {
+		f.RandFill(r, dst)
+		return
+	}
+	for i := range dst {
+		dst[i] = d.Rand(r)
+	}
+}
+
+// RandFill draws Scale·E^(1/Shape), E standard exponential, as Rand does,
+// with math.Pow's work for the fixed exponent y = 1/Shape done once:
+// math.Pow(x, y) for finite x > 0, x ≠ 1 and a y that is none of its
+// special cases computes, with y = yi + yf (yi an integer, |yf| ≤ ½),
+// e^(yf·ln x) times x^yi by repeated squaring of Frexp(x) (Go's math/pow.go).
+// powFixed repeats those steps, operation for operation, so the results are
+// identical (TestRandFillMatchesRand); the special cases go to math.Pow.
+func (d Weibull) RandFill(r *rand.Rand, dst []float64) {
+	if !fillsMatchRand() || !d.fill(r, dst) {
+		for i := range dst {
+			dst[i] = d.Rand(r)
+		}
+	}
+}
+
+// fill is RandFill without the check; false (nothing drawn) when 1/Shape
+// is one of math.Pow's special cases.
+func (d Weibull) fill(r *rand.Rand, dst []float64) bool {
+	p, ok := newPowFixed(1 / d.Shape)
+	if !ok {
+		return false
+	}
+	for i := range dst {
+		dst[i] = d.Scale * p.pow(r.ExpFloat64())
+	}
+	return true
+}
+
+// powFixed evaluates math.Pow(x, y) for one exponent y > 0.
+type powFixed struct {
+	y, yf float64
+	yi    int64
+}
+
+// newPowFixed splits y as math.Pow does; false when y is one of math.Pow's
+// special cases (y ≤ 0, 1, ½, infinite or NaN, or |y| ≥ 2^63), which the
+// caller leaves to math.Pow itself.
+func newPowFixed(y float64) (powFixed, bool) {
+	if !(y > 0) || y == 1 || y == 0.5 || math.IsInf(y, 0) || y >= 1<<63 {
+		return powFixed{}, false
+	}
+	yi, yf := math.Modf(y)
+	if yf != 0 && yf > 0.5 {
+		yf--
+		yi++
+	}
+	return powFixed{y: y, yf: yf, yi: int64(yi)}, true
+}
+
+// pow is math.Pow(x, p.y), for any x.
+func (p powFixed) pow(x float64) float64 {
+	const smallestNormal = 0x1p-1022
+	if !(x >= smallestNormal) || x == 1 || x > math.MaxFloat64 {
+		return math.Pow(x, p.y) // 0, subnormal, 1, negative, infinite or NaN
+	}
+	a1 := 1.0
+	ae := 0
+	if p.yf != 0 {
+		a1 = math.Exp(p.yf * math.Log(x))
+	}
+	if p.yi == 0 {
+		return a1 // math.Ldexp(a1, 0) is a1 itself
+	}
+	// Frexp of a normal x: the mantissa in [½, 1) and the exponent.
+	b := math.Float64bits(x)
+	x1 := math.Float64frombits(b&^(0x7ff<<52) | 1022<<52)
+	xe := int(b>>52&0x7ff) - 1022
+	for i := p.yi; i != 0; i >>= 1 {
+		if xe < -1<<12 || 1<<12 < xe {
+			ae += xe
+			break
+		}
+		if i&1 == 1 {
+			a1 *= x1
+			ae += xe
+		}
+		x1 *= x1
+		xe <<= 1
+		if x1 < .5 {
+			x1 += x1
+			xe--
+		}
+	}
+	return math.Ldexp(a1, ae)
+}
+
+// RandFill draws as Rand does (gonum's distuv.Gamma.Rand: Marsaglia &
+// Tsang, 2000, for shape ≥ 0.2; Liu, Martin & Syring, 2017, below), with
+// the constants of the shape worked out once instead of on every draw and
+// the generator called directly instead of through a wrapper. Each
+// expression is the one in distuv, operand for operand, and the variates
+// are requested in the same order (TestRandFillMatchesRand).
+func (d Gamma) RandFill(r *rand.Rand, dst []float64) {
+	if !fillsMatchRand() || !d.fill(r, dst) {
+		for i := range dst {
+			dst[i] = d.Rand(r) // distuv panics with its own message
+		}
+	}
+}
+
+// fill is RandFill without the check; false (nothing drawn) for parameters
+// out of range.
+func (d Gamma) fill(r *rand.Rand, dst []float64) bool {
+	a, b := d.Shape, d.Rate
+	if !(a > 0) || !(b > 0) {
+		return false
+	}
+	const smallAlphaThresh = 0.2
+	switch {
+	case a == 1:
+		for i := range dst {
+			dst[i] = r.ExpFloat64() / b
+		}
+	case a < smallAlphaThresh:
+		lambda := 1/a - 1
+		lr := -math.Log1p(1 / lambda / math.E)
+		for i := range dst {
+			dst[i] = gammaSmallShape(r, a, b, lambda, lr)
+		}
+	default:
+		d0 := a - 1.0/3
+		if a < 1 {
+			d0 += 1.0
+		}
+		c := 1 / (3 * math.Sqrt(d0))
+		for i := range dst {
+			m := 1.0
+			if a < 1 {
+				m = math.Pow(r.Float64(), 1/a)
+			}
+			dst[i] = gammaMarsagliaTsang(r, m, d0, c, b)
+		}
+	}
+	return true
+}
+
+// gammaMarsagliaTsang is the rejection loop of distuv.Gamma.Rand for shape
+// ≥ 0.2, with d and c given.
+func gammaMarsagliaTsang(r *rand.Rand, m, d, c, b float64) float64 {
+	for {
+		x := r.NormFloat64()
+		v := 1 + x*c
+		if v <= 0.0 {
+			continue
+		}
+		v = v * v * v
+		u := r.Float64()
+		if u < 1.0-0.0331*(x*x)*(x*x) {
+			return m * d * v / b
+		}
+		if math.Log(u) < 0.5*x*x+d*(1-v+math.Log(v)) {
+			return m * d * v / b
+		}
+	}
+}
+
+// gammaSmallShape is the rejection loop of distuv.Gamma.Rand for shape
+// below 0.2, with λ and lr given.
+func gammaSmallShape(r *rand.Rand, a, b, lambda, lr float64) float64 {
+	for {
+		e := r.ExpFloat64()
+		var z float64
+		if e >= -lr {
+			z = e + lr
+		} else {
+			z = -r.ExpFloat64() / lambda
+		}
+		eza := math.Exp(-z / a)
+		lh := -z - eza
+		var lEta float64
+		if z >= 0 {
+			lEta = -z
+		} else {
+			lEta = -1 + lambda*z
+		}
+		if lh-lEta > -r.ExpFloat64() {
+			return eza / b
+		}
+	}
+}
+
+// fillsMatchRand checks once, on first use, that the fills give Rand's
+// values on this machine (an architecture whose math.Pow is assembly, or
+// whose compiler fuses a multiply-add in one place and not in the other,
+// could differ); where they do not, RandFill falls back to calling Rand.
+var fillsMatchRand = sync.OnceValue(func() bool {
+	dists := []interface {
+		Dist
+		fill(r *rand.Rand, dst []float64) bool
+	}{Weibull{1.8, 120}, Weibull{0.4, 2}, Weibull{7, 1e-3},
+		Gamma{2.5, 0.4}, Gamma{0.5, 3}, Gamma{0.1, 1}, Gamma{1, 2}}
+	var got [64]float64
+	for i, d := range dists {
+		r1 := rand.New(rand.NewPCG(uint64(i), 99))
+		r2 := rand.New(rand.NewPCG(uint64(i), 99))
+		d.fill(r1, got[:])
+		for _, v := range got {
+			if math.Float64bits(v) != math.Float64bits(d.Rand(r2)) {
+				return false
+			}
+		}
+	}
+	return true
+})
