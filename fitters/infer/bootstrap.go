@@ -114,8 +114,11 @@ func bootstrapApplicable(d *fitters.Data, dist fitters.Dist) error {
 // inverse observed information of the refit on those values, which the
 // bootstrap-t intervals need). Replicates run on opt.Workers
 // goroutines; each writes only its own slot, so the result is the same for
-// any number of workers. Each worker reuses its sample, sort and cell
-// buffers and its generator; the refit itself allocates.
+// any number of workers. Each worker reuses its generator, its seeding
+// text, its sample, sorted copy, sort scratch and cell buffers: the loop
+// itself allocates nothing per replicate; the refit allocates its Fit
+// record (and parameter names), and fam.New the refitted model
+// (TestBootstrapLoopAllocatesNothing).
 func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt BootstrapOptions) (*Replicates, error) {
 	if !fit.Converged {
 		return nil, fmt.Errorf("%s: the fit did not converge; there is no model to simulate from", fam.Name())
@@ -173,8 +176,10 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			defer wg.Done()
 			pcg := rand.NewPCG(0, 0)
 			rng := rand.New(pcg)
+			seeds := stream.seeder()
 			sample := make([]float64, n)
 			sorted := make([]float64, n)
+			var sorter fitters.FloatSorter
 			sim := &fitters.Data{Trials: d.Trials}
 			var c cells
 			comps := make([]component, 0, 8)
@@ -187,17 +192,17 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				if opt.Drawn != nil {
 					opt.Drawn.Add(1)
 				}
-				stream.reseed(pcg, r)
+				seeds.reseed(pcg, r)
 				if groups == nil {
-					for i := range sample {
-						sample[i] = dist.Rand(rng)
-					}
+					fitters.FillRand(dist, rng, sample) // Rand's values, in order
 				} else {
 					for i := range sample {
 						sample[i] = simDists[groups.index[i]].dist.Rand(rng)
 					}
 				}
-				copy(sorted, sample)
+				if !opt.NoStatistics {
+					sorter.SortInto(sorted, sample) // slices.Sort's result, in O(n)
+				}
 				sim.Exact = sample
 				refit, err := fam.Fit(sim, fitOpt)
 				switch {
@@ -234,7 +239,6 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				if opt.NoStatistics {
 					continue
 				}
-				slices.Sort(sorted)
 				srow := stats[r*len(names) : (r+1)*len(names)]
 				if fam.Kind() == fitters.Discrete {
 					if groups != nil {

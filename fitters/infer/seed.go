@@ -4,6 +4,7 @@ import (
 	"crypto/sha256"
 	"encoding/binary"
 	"math/rand/v2"
+	"slices"
 	"strconv"
 )
 
@@ -38,8 +39,23 @@ func (s Stream) Rand(replicate int) *rand.Rand {
 	return rand.New(rand.NewPCG(a, b))
 }
 
-// reseed re-seeds an existing PCG in place for replicate (no allocation).
-func (s Stream) reseed(p *rand.PCG, replicate int) {
-	a, b := s.StreamSeed(replicate)
-	p.Seed(a, b)
+// seeder re-seeds a PCG for one replicate after another of a stream
+// without allocating: the identity's text up to the replicate number is
+// kept, and only the number is rewritten for each replicate.
+type seeder struct {
+	text   []byte
+	prefix int
+}
+
+func (s Stream) seeder() *seeder {
+	t := []byte(s.Identity(0))
+	t = t[:len(t)-1] // drop the "0"
+	return &seeder{text: slices.Grow(t, 20), prefix: len(t)}
+}
+
+// reseed seeds p for replicate as Stream.Rand(replicate) is seeded.
+func (z *seeder) reseed(p *rand.PCG, replicate int) {
+	z.text = strconv.AppendInt(z.text[:z.prefix], int64(replicate), 10)
+	h := sha256.Sum256(z.text)
+	p.Seed(binary.BigEndian.Uint64(h[0:8]), binary.BigEndian.Uint64(h[8:16]))
 }
