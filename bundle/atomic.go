@@ -159,7 +159,7 @@ func writeTree(dir string, files []member) error {
 		if err != nil {
 			return err
 		}
-		_, err = f.Write(m.Data)
+		err = m.writeBody(f, m.Path)
 		if err == nil {
 			err = f.Chmod(fileMode)
 		}

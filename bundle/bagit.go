@@ -76,42 +76,56 @@ func sha256Hex(b []byte) string {
 
 // manifest writes "HASH  PATH" lines sorted by path (RFC 8493, section 2.1.3).
 func manifest(files map[string][]byte, paths []string) []byte {
-	return manifestOn(1, files, paths)
+	return manifestOn(1, files, paths, nil)
 }
 
 // manifestOn is manifest with the files hashed on at most workers
-// goroutines; the lines do not depend on workers.
-func manifestOn(workers int, files map[string][]byte, paths []string) []byte {
+// goroutines, taking the hex SHA-256 of a path from known where it is
+// there; the lines do not depend on workers.
+func manifestOn(workers int, files map[string][]byte, paths []string, known map[string]string) []byte {
 	sorted := append([]string(nil), paths...)
 	sort.Strings(sorted)
-	sums := sha256All(workers, files, sorted)
-	var b strings.Builder
+	sums := sha256All(workers, files, sorted, known)
+	size := 0
 	for i, p := range sorted {
-		b.WriteString(sums[i])
-		b.WriteString("  ")
-		b.WriteString(encodeManifestPath(p))
-		b.WriteByte('\n')
+		size += len(sums[i]) + 2 + len(p) + 1
 	}
-	return []byte(b.String())
+	b := make([]byte, 0, size)
+	for i, p := range sorted {
+		b = append(b, sums[i]...)
+		b = append(b, "  "...)
+		b = append(b, encodeManifestPath(p)...)
+		b = append(b, '\n')
+	}
+	return b
 }
 
 // sha256All returns the hex SHA-256 of files[p] for each of paths, in
-// order, hashing on at most workers goroutines (at least one).
-func sha256All(workers int, files map[string][]byte, paths []string) []string {
+// order: known[p] where it is there, else hashed on at most workers
+// goroutines (at least one).
+func sha256All(workers int, files map[string][]byte, paths []string, known map[string]string) []string {
 	sums := make([]string, len(paths))
-	if workers <= 1 || len(paths) < 2 {
-		for i, p := range paths {
-			sums[i] = sha256Hex(files[p])
+	var todo []int
+	for i, p := range paths {
+		if s, ok := known[p]; ok {
+			sums[i] = s
+		} else {
+			todo = append(todo, i)
+		}
+	}
+	if workers <= 1 || len(todo) < 2 {
+		for _, i := range todo {
+			sums[i] = sha256Hex(files[paths[i]])
 		}
 		return sums
 	}
-	next := make(chan int, len(paths))
-	for i := range paths {
+	next := make(chan int, len(todo))
+	for _, i := range todo {
 		next <- i
 	}
 	close(next)
 	var wg sync.WaitGroup
-	for w := 0; w < min(workers, len(paths)); w++ {
+	for w := 0; w < min(workers, len(todo)); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -229,34 +243,60 @@ func tagValue(tags [][2]string, label string) (string, bool) {
 
 // bagContents is what a bag is made from.
 type bagContents struct {
-	Payload     map[string][]byte // paths relative to data/
+	Payload     map[string][]byte   // paths relative to data/
+	Disk        map[string]DiskFile // paths relative to data/, copied from disk
 	RunJSON     []byte
 	Created     time.Time
 	Description string
 	ToolVersion string
 	Workers     int // goroutines hashing the payload (0: one)
+	// Known holds hex SHA-256s already taken, by path relative to data/.
+	Known map[string]string
 }
 
 // buildBag makes every member of a bag except the signature: the payload
 // under data/, run.json, and the tag files that describe and hash them.
-func buildBag(c bagContents) (map[string][]byte, error) {
+// Files copied from disk are returned apart, by bag path; the manifest
+// lists their recorded SHA-256, which the copy is checked against.
+func buildBag(c bagContents) (map[string][]byte, map[string]DiskFile, error) {
 	files := make(map[string][]byte, len(c.Payload)+6)
-	var payloadPaths []string
+	disk := make(map[string]DiskFile, len(c.Disk))
+	known := make(map[string]string, len(c.Known)+len(c.Disk))
+	payloadPaths := make([]string, 0, len(c.Payload)+len(c.Disk))
+	var octets int64
 	for p, b := range c.Payload {
 		if err := checkMemberPath(p); err != nil {
-			return nil, fmt.Errorf("payload: %w", err)
+			return nil, nil, fmt.Errorf("payload: %w", err)
 		}
 		full := PayloadDir + "/" + p
 		files[full] = b
 		payloadPaths = append(payloadPaths, full)
+		octets += int64(len(b))
+		if s, ok := c.Known[p]; ok {
+			known[full] = s
+		}
+	}
+	for p, d := range c.Disk {
+		if err := checkMemberPath(p); err != nil {
+			return nil, nil, fmt.Errorf("payload: %w", err)
+		}
+		if _, dup := c.Payload[p]; dup {
+			return nil, nil, fmt.Errorf("payload: %s is given both as bytes and as a file on disk", p)
+		}
+		full := PayloadDir + "/" + p
+		disk[full] = d
+		payloadPaths = append(payloadPaths, full)
+		octets += d.Size
+		known[full] = d.hex()
 	}
 	if len(c.RunJSON) == 0 {
-		return nil, fmt.Errorf("%s is empty", RunFile)
+		return nil, nil, fmt.Errorf("%s is empty", RunFile)
 	}
 	files[RunFile] = c.RunJSON
 	files[BagItFile] = []byte(bagItDeclaration)
-	files[ManifestFile] = manifestOn(c.Workers, files, payloadPaths)
-	files[BagInfoFile] = bagInfo(c.Created, c.Description, c.ToolVersion, payloadOxum(files))
+	files[ManifestFile] = manifestOn(c.Workers, files, payloadPaths, known)
+	oxum := strconv.FormatInt(octets, 10) + "." + strconv.Itoa(len(payloadPaths))
+	files[BagInfoFile] = bagInfo(c.Created, c.Description, c.ToolVersion, oxum)
 	files[TagManifestFile] = manifest(files, tagManifestCovers)
-	return files, nil
+	return files, disk, nil
 }

@@ -14,6 +14,7 @@ import (
 	"sort"
 	"strings"
 	"time"
+	"unsafe"
 
 	"golang.org/x/crypto/ssh"
 
@@ -143,58 +144,183 @@ type SealOptions struct {
 // (as inputs/fitseal.toml), each data file at its project-relative path, and
 // the table templates of [report] templates, keyed by payload path.
 func ReadInputs(p *runner.Project) (map[string][]byte, error) {
+	in, _, err := readInputs(p, nil)
+	return in, err
+}
+
+// readInputs is ReadInputs, except that a data file that data shows was
+// parsed (runner.DatasetData.Source) is not read but returned as a DiskFile
+// with the size and SHA-256 it had when it was parsed, to be copied into
+// the bundle from disk.
+func readInputs(p *runner.Project, data map[string]*runner.DatasetData) (map[string][]byte, map[string]DiskFile, error) {
 	out := map[string][]byte{ProjectInput: p.Source}
+	disk := map[string]DiskFile{}
 	for _, rel := range p.InputFiles() {
-		b, err := os.ReadFile(filepath.Join(p.Dir, filepath.FromSlash(rel)))
+		name := path.Join("inputs", rel)
+		file := filepath.Join(p.Dir, filepath.FromSlash(rel))
+		fitted, ok, err := fittedDigest(p, data, rel)
 		if err != nil {
-			return nil, fmt.Errorf("reading input %s: %w", rel, err)
+			return nil, nil, err
 		}
-		out[path.Join("inputs", rel)] = b
+		if ok {
+			d := DiskFile{Path: file, Size: fitted.Bytes, SHA256: fitted.SHA256}
+			if err := checkDiskFile(PayloadDir+"/"+name, d); err != nil {
+				return nil, nil, err
+			}
+			disk[name] = d
+			continue
+		}
+		b, err := os.ReadFile(file)
+		if err != nil {
+			return nil, nil, fmt.Errorf("reading input %s: %w", rel, err)
+		}
+		out[name] = b
 	}
-	if t := p.Report.Templates; t != "" {
-		rel := path.Clean(filepath.ToSlash(t))
-		if path.IsAbs(rel) || rel == ".." || strings.HasPrefix(rel, "../") {
-			return nil, fmt.Errorf("[report] templates = %q is outside the project folder; keep the templates beside the project file so they can be bundled", t)
-		}
-		dir := filepath.Join(p.Dir, filepath.FromSlash(rel))
-		entries, err := os.ReadDir(dir)
+	tmpls, err := templateInputs(p)
+	if err != nil {
+		return nil, nil, err
+	}
+	for name, file := range tmpls {
+		b, err := os.ReadFile(file)
 		if err != nil {
-			return nil, fmt.Errorf("reading [report] templates: %w", err)
+			return nil, nil, err
 		}
-		for _, e := range entries {
-			if e.IsDir() || !strings.HasSuffix(e.Name(), templates.TableSuffix) {
-				continue
-			}
-			b, err := os.ReadFile(filepath.Join(dir, e.Name()))
-			if err != nil {
-				return nil, err
-			}
-			out[path.Join("inputs", rel, e.Name())] = b
+		out[name] = b
+	}
+	return out, disk, nil
+}
+
+// templateInputs are the table templates of [report] templates: payload
+// path → file.
+func templateInputs(p *runner.Project) (map[string]string, error) {
+	out := map[string]string{}
+	t := p.Report.Templates
+	if t == "" {
+		return out, nil
+	}
+	rel := path.Clean(filepath.ToSlash(t))
+	if path.IsAbs(rel) || rel == ".." || strings.HasPrefix(rel, "../") {
+		return nil, fmt.Errorf("[report] templates = %q is outside the project folder; keep the templates beside the project file so they can be bundled", t)
+	}
+	dir := filepath.Join(p.Dir, filepath.FromSlash(rel))
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, fmt.Errorf("reading [report] templates: %w", err)
+	}
+	for _, e := range entries {
+		if e.IsDir() || !strings.HasSuffix(e.Name(), templates.TableSuffix) {
+			continue
 		}
+		out[path.Join("inputs", rel, e.Name())] = filepath.Join(dir, e.Name())
 	}
 	return out, nil
+}
+
+// InputPaths is the payload path of every file a run reads — the keys of
+// ReadInputs, sorted — with ReadInputs's checks but without reading the
+// files: `run` lists them first and lets Seal (SealOptions.Inputs nil)
+// copy the data files into the bundle from disk as they were fitted,
+// instead of holding them through the run.
+func InputPaths(p *runner.Project) ([]string, error) {
+	tmpls, err := templateInputs(p)
+	if err != nil {
+		return nil, err
+	}
+	out := []string{ProjectInput}
+	for _, rel := range p.InputFiles() {
+		out = append(out, path.Join("inputs", rel))
+	}
+	for name := range tmpls {
+		out = append(out, name)
+	}
+	sort.Strings(out)
+	return out, nil
+}
+
+// fittedDigest is the size and SHA-256 that the data file rel (slash path
+// relative to the project folder) had when the run parsed it, and whether
+// it was parsed. Two datasets of one file that were parsed from different
+// bytes mean the file changed while the run read it: an error.
+func fittedDigest(p *runner.Project, data map[string]*runner.DatasetData, rel string) (runner.FileDigest, bool, error) {
+	var got runner.FileDigest
+	first := ""
+	for _, d := range p.Datasets {
+		dd := data[d.Name]
+		if dd == nil || dd.Source.IsZero() || path.Clean(filepath.ToSlash(d.File)) != rel {
+			continue
+		}
+		if first == "" {
+			got, first = dd.Source, d.Name
+		} else if dd.Source != got {
+			return got, false, fmt.Errorf("%s changed while fitseal read it: datasets %q and %q were read from different bytes; nothing was written: run again once the file no longer changes", rel, first, d.Name)
+		}
+	}
+	return got, first != "", nil
+}
+
+// checkFitted fails when the bytes given for a data file (payload path →
+// bytes) are not those the run parsed; it returns the hex SHA-256 of each
+// file it checked.
+func checkFitted(p *runner.Project, data map[string]*runner.DatasetData, inputs map[string][]byte) (map[string]string, error) {
+	sums := map[string]string{}
+	for _, rel := range p.InputFiles() {
+		name := path.Join("inputs", rel)
+		b, given := inputs[name]
+		fitted, ok, err := fittedDigest(p, data, rel)
+		if err != nil {
+			return nil, err
+		}
+		if !given || !ok {
+			continue
+		}
+		if sum := sha256.Sum256(b); int64(len(b)) != fitted.Bytes || sum != fitted.SHA256 {
+			return nil, fmt.Errorf("%s/%s: the bytes to bundle (%d, SHA-256 %x) are not those that were fitted (%d, SHA-256 %x): the file %w; nothing was written: run again once it no longer changes",
+				PayloadDir, name, len(b), sum, fitted.Bytes, fitted.SHA256, ErrInputChanged)
+		}
+		sums[name] = hex.EncodeToString(fitted.SHA256[:])
+	}
+	return sums, nil
 }
 
 // ResultsIdentity is the SHA-256 of the manifest lines ("HEX  data/PATH\n",
 // sorted by path) of every payload file under inputs/ and results/.
 func ResultsIdentity(payload map[string][]byte) string {
-	return resultsIdentityOn(1, payload)
+	return resultsIdentity(identitySums(1, payload, nil, nil))
 }
 
-// resultsIdentityOn is ResultsIdentity with the files hashed on at most
-// workers goroutines.
-func resultsIdentityOn(workers int, payload map[string][]byte) string {
+// identitySums is the hex SHA-256 of every payload file under inputs/ and
+// results/, in memory or on disk, by payload path: taken from known where
+// it is there, else hashed on at most workers goroutines.
+func identitySums(workers int, payload map[string][]byte, disk map[string]DiskFile, known map[string]string) map[string]string {
 	var paths []string
 	for p := range payload {
 		if strings.HasPrefix(p, "inputs/") || strings.HasPrefix(p, "results/") {
 			paths = append(paths, p)
 		}
 	}
-	sort.Strings(paths)
-	sums := sha256All(workers, payload, paths)
-	h := sha256.New()
+	sums := sha256All(workers, payload, paths, known)
+	out := make(map[string]string, len(paths)+len(disk))
 	for i, p := range paths {
-		fmt.Fprintf(h, "%s  %s/%s\n", sums[i], PayloadDir, encodeManifestPath(p))
+		out[p] = sums[i]
+	}
+	for p, d := range disk {
+		if strings.HasPrefix(p, "inputs/") || strings.HasPrefix(p, "results/") {
+			out[p] = d.hex()
+		}
+	}
+	return out
+}
+
+// resultsIdentity is ResultsIdentity from the files' hex SHA-256s.
+func resultsIdentity(sums map[string]string) string {
+	paths := make([]string, 0, len(sums))
+	for p := range sums {
+		paths = append(paths, p)
+	}
+	sort.Strings(paths)
+	h := sha256.New()
+	for _, p := range paths {
+		fmt.Fprintf(h, "%s  %s/%s\n", sums[p], PayloadDir, encodeManifestPath(p))
 	}
 	return hex.EncodeToString(h.Sum(nil))
 }
@@ -215,25 +341,33 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	inputs := opt.Inputs
+	// Data files the run parsed are copied into the bundle from disk and
+	// checked against the size and SHA-256 they had when parsed; given
+	// bytes are checked against them here.
+	inputs, disk := opt.Inputs, map[string]DiskFile(nil)
+	var known map[string]string
+	var err error
 	if inputs == nil {
-		var err error
-		if inputs, err = ReadInputs(p); err != nil {
-			return Contents{}, err
-		}
+		inputs, disk, err = readInputs(p, res.Data)
+	} else {
+		known, err = checkFitted(p, res.Data, inputs)
 	}
-	payload := map[string][]byte{}
-	for k, v := range inputs {
-		payload[k] = v
+	if err != nil {
+		return Contents{}, err
 	}
 	files, err := res.FilesOn(workers)
 	if err != nil {
 		return Contents{}, err
 	}
+	payload := make(map[string][]byte, len(inputs)+len(files)+8*len(res.Analyses)+4)
+	for k, v := range inputs {
+		payload[k] = v
+	}
 	for name, b := range files {
 		payload["results/"+name] = b
 	}
-	ident := resultsIdentityOn(workers, payload)
+	sums := identitySums(workers, payload, disk, known)
+	ident := resultsIdentity(sums)
 	var shard *ShardRecord
 	if opt.Shard != nil {
 		shard = &ShardRecord{Index: opt.Shard.Index, Count: opt.Shard.Count, Assignment: runner.ShardAssignment,
@@ -270,7 +404,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 		Format: RunFormat, Tool: opt.Tool, Created: opt.Created.UTC(), CreatedFrom: opt.CreatedFrom,
 		Git:    opt.Git,
 		Signer: SignerInfo{PublicKey: AuthorizedKey(opt.Signer), Fingerprint: Fingerprint(opt.Signer)},
-		Inputs: inputList(inputs), ResultsIdentity: ident, MasterSeed: p.Settings.Seed,
+		Inputs: inputList(inputs, disk, sums), ResultsIdentity: ident, MasterSeed: p.Settings.Seed,
 		Shard: shard, Record: res.Record(),
 	}
 	if rec.Git.Files == nil {
@@ -280,17 +414,28 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	if err != nil {
 		return Contents{}, err
 	}
+	memo := make(map[string]payloadSum, len(sums))
+	for p, h := range sums {
+		if b, ok := payload[p]; ok {
+			memo[p] = payloadSum{hex: h, data: unsafe.SliceData(b), n: len(b)}
+		}
+	}
 	return Contents{
 		Name: p.Name, Created: opt.Created.UTC(), Description: p.Description,
-		Payload: payload, RunJSON: append(js, '\n'), ToolVersion: opt.Tool.Version, Workers: opt.Workers,
+		Payload: payload, Files: disk, RunJSON: append(js, '\n'), ToolVersion: opt.Tool.Version, Workers: opt.Workers,
+		sums: memo,
 	}, nil
 }
 
-func inputList(inputs map[string][]byte) []InputFile {
-	out := make([]InputFile, 0, len(inputs))
+// inputList is run.json's list of inputs, in memory or on disk, with the
+// hex SHA-256s of sums (by payload path).
+func inputList(inputs map[string][]byte, disk map[string]DiskFile, sums map[string]string) []InputFile {
+	out := make([]InputFile, 0, len(inputs)+len(disk))
 	for p, b := range inputs {
-		sum := sha256.Sum256(b)
-		out = append(out, InputFile{Path: p, SHA256: hex.EncodeToString(sum[:]), Bytes: len(b)})
+		out = append(out, InputFile{Path: p, SHA256: sums[p], Bytes: len(b)})
+	}
+	for p, d := range disk {
+		out = append(out, InputFile{Path: p, SHA256: d.hex(), Bytes: int(d.Size)})
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].Path < out[j].Path })
 	return out

@@ -3,6 +3,7 @@ package bundle
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
 	"encoding/json"
 	"os"
 	"path/filepath"
@@ -109,7 +110,15 @@ func TestSealPayloadAndRunJSON(t *testing.T) {
 	c := sealContents(t, res, goldenTool)
 	src, _ := os.ReadFile(sealProject)
 	data, _ := os.ReadFile(filepath.Join("testdata", "seal", "data", "bearings.csv"))
-	if !bytes.Equal(c.Payload["inputs/fitseal.toml"], src) || !bytes.Equal(c.Payload["inputs/data/bearings.csv"], data) {
+	// The data file is not held but copied from disk as it was fitted.
+	if d, ok := c.Files["inputs/data/bearings.csv"]; !ok || d.Size != int64(len(data)) || d.SHA256 != sha256.Sum256(data) {
+		t.Errorf("data file to copy from disk: %+v, %v", d, ok)
+	}
+	if _, held := c.Payload["inputs/data/bearings.csv"]; held {
+		t.Error("the data file is held in memory")
+	}
+	bag := sealedBag(t, c)
+	if !bytes.Equal(c.Payload["inputs/fitseal.toml"], src) || !bytes.Equal(bag.Payload()["inputs/data/bearings.csv"], data) {
 		t.Error("inputs are not copied byte for byte")
 	}
 	for _, p := range []string{"results/fits.csv", "results/parameters.csv", "results/derived.csv", "results/gof.csv", "results/results.json",
@@ -147,7 +156,7 @@ func TestSealPayloadAndRunJSON(t *testing.T) {
 	if len(rec.Inputs) != 2 || rec.Inputs[0].Path != "inputs/data/bearings.csv" || rec.Inputs[0].SHA256 != sha256Hex(data) {
 		t.Errorf("inputs %+v", rec.Inputs)
 	}
-	if rec.ResultsIdentity != ResultsIdentity(c.Payload) {
+	if rec.ResultsIdentity != ResultsIdentity(bag.Payload()) {
 		t.Error("results_identity is not the hash of the inputs and results")
 	}
 	var raw map[string]any

@@ -11,10 +11,28 @@ import (
 )
 
 // member is one file of a bag: its slash path relative to the bag folder and
-// its bytes.
+// its bytes, or the file on disk they are copied from.
 type member struct {
 	Path string
 	Data []byte
+	Disk *DiskFile
+}
+
+// size is the member's length in bytes.
+func (m member) size() int64 {
+	if m.Disk != nil {
+		return m.Disk.Size
+	}
+	return int64(len(m.Data))
+}
+
+// writeBody writes the member's bytes to w.
+func (m member) writeBody(w io.Writer, name string) error {
+	if m.Disk != nil {
+		return copyDiskFile(w, name, *m.Disk)
+	}
+	_, err := w.Write(m.Data)
+	return err
 }
 
 // gzipLevel is the compression level of bundles.
@@ -70,7 +88,7 @@ func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, wo
 	type entry struct {
 		name string // full path without trailing slash
 		dir  bool
-		data []byte
+		file member
 	}
 	seen := map[string]bool{} // path → is a folder
 	folded := map[string]string{}
@@ -95,7 +113,7 @@ func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, wo
 			return err
 		}
 		full := bagName + "/" + f.Path
-		if err := add(entry{name: full, data: f.Data}); err != nil {
+		if err := add(entry{name: full, file: f}); err != nil {
 			return err
 		}
 	}
@@ -134,13 +152,13 @@ func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, wo
 		} else {
 			h.Typeflag = tar.TypeReg
 			h.Mode = fileMode
-			h.Size = int64(len(e.data))
+			h.Size = e.file.size()
 		}
 		if err := tw.WriteHeader(h); err != nil {
 			return fmt.Errorf("writing %s: %w", e.name, err)
 		}
 		if !e.dir {
-			if _, err := tw.Write(e.data); err != nil {
+			if err := e.file.writeBody(tw, e.file.Path); err != nil {
 				return fmt.Errorf("writing %s: %w", e.name, err)
 			}
 		}

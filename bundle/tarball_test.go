@@ -19,11 +19,11 @@ var testCreated = time.Date(2026, 12, 2, 3, 4, 5, 0, time.UTC)
 
 func sampleFiles() []member {
 	return []member{
-		{"bagit.txt", []byte("BagIt-Version: 1.0\n")},
-		{"data/inputs/data/seal_life.csv", []byte("hours\n1\n2\n")},
-		{"data/inputs/fitseal.toml", []byte("name = \"x\"\n")},
-		{"data/results/fits.csv", []byte("analysis\n")},
-		{"data-notes.txt", []byte("sorts between data and data/\n")},
+		{Path: "bagit.txt", Data: []byte("BagIt-Version: 1.0\n")},
+		{Path: "data/inputs/data/seal_life.csv", Data: []byte("hours\n1\n2\n")},
+		{Path: "data/inputs/fitseal.toml", Data: []byte("name = \"x\"\n")},
+		{Path: "data/results/fits.csv", Data: []byte("analysis\n")},
+		{Path: "data-notes.txt", Data: []byte("sorts between data and data/\n")},
 	}
 }
 
@@ -116,7 +116,7 @@ func TestWriteTarGzHeaders(t *testing.T) {
 
 func TestWriteTarGzLongAndNonASCIINamesUsePAX(t *testing.T) {
 	long := "data/" + string(bytes.Repeat([]byte("a"), 180)) + ".csv"
-	files := []member{{long, []byte("1")}, {"data/débit.csv", []byte("2")}}
+	files := []member{{Path: long, Data: []byte("1")}, {Path: "data/débit.csv", Data: []byte("2")}}
 	b, err := tarGzBytes("proj", files, testCreated)
 	if err != nil {
 		t.Fatal(err)
@@ -154,15 +154,15 @@ func TestWriteTarGzRejects(t *testing.T) {
 		name, bag string
 		files     []member
 	}{
-		{"absolute", "p", []member{{"/etc/passwd", nil}}},
-		{"dotdot", "p", []member{{"data/../../x", nil}}},
-		{"unclean", "p", []member{{"data//x", nil}}},
-		{"duplicate", "p", []member{{"a", nil}, {"a", nil}}},
-		{"case collision", "p", []member{{"data/A.csv", nil}, {"data/a.csv", nil}}},
-		{"file and folder", "p", []member{{"data", nil}, {"data/x", nil}}},
+		{"absolute", "p", []member{{Path: "/etc/passwd", Data: nil}}},
+		{"dotdot", "p", []member{{Path: "data/../../x", Data: nil}}},
+		{"unclean", "p", []member{{Path: "data//x", Data: nil}}},
+		{"duplicate", "p", []member{{Path: "a", Data: nil}, {Path: "a", Data: nil}}},
+		{"case collision", "p", []member{{Path: "data/A.csv", Data: nil}, {Path: "data/a.csv", Data: nil}}},
+		{"file and folder", "p", []member{{Path: "data", Data: nil}, {Path: "data/x", Data: nil}}},
 		{"bag with slash", "p/q", nil},
 		{"bag dotdot", "..", nil},
-		{"control char", "p", []member{{"data/a\nb", nil}}},
+		{"control char", "p", []member{{Path: "data/a\nb", Data: nil}}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			if _, err := tarGzBytes(tc.bag, tc.files, testCreated); err == nil {

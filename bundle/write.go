@@ -10,6 +10,7 @@ import (
 	"sort"
 	"strings"
 	"time"
+	"unsafe"
 )
 
 // Contents is everything a bundle is made from.
@@ -28,34 +29,90 @@ type Contents struct {
 	RunJSON []byte
 	// ToolVersion goes to bag-info.txt; empty means [ToolVersion].
 	ToolVersion string
+	// Files maps slash paths relative to data/ to files that are copied
+	// from disk while the bundle is written, checked against their
+	// recorded size and SHA-256 (DiskFile); a path is in Payload or in
+	// Files, not both.
+	Files map[string]DiskFile
 	// Workers bounds the goroutines that compress the archive (0: every
 	// core); it never changes the bytes.
 	Workers int
+
+	// sums are the SHA-256s Seal took of payload files, reused for the
+	// manifest while the Payload entry is still the same slice.
+	sums map[string]payloadSum
+}
+
+// payloadSum is the hex SHA-256 of a payload slice, with the slice it was
+// taken of.
+type payloadSum struct {
+	hex  string
+	data *byte
+	n    int
+}
+
+// sumOf records the hex SHA-256 of b.
+func sumOf(b []byte) payloadSum {
+	return payloadSum{hex: sha256Hex(b), data: unsafe.SliceData(b), n: len(b)}
+}
+
+// knownSums are the recorded SHA-256s whose payload entry is still the
+// slice that was hashed.
+func (c *Contents) knownSums() map[string]string {
+	known := make(map[string]string, len(c.sums))
+	for p, s := range c.sums {
+		if b, ok := c.Payload[p]; ok && unsafe.SliceData(b) == s.data && len(b) == s.n {
+			known[p] = s.hex
+		}
+	}
+	return known
 }
 
 // Members builds every member of the signed bag: payload under data/,
 // run.json, bagit.txt, bag-info.txt, both manifests and the signature. Keys
-// are slash paths relative to the bag folder.
+// are slash paths relative to the bag folder. Files on disk (Contents.Files)
+// are read into memory, checked as when they are written.
 func Members(c Contents, signer Signer) (map[string][]byte, error) {
-	if err := refusePrivateKeys(c); err != nil {
+	files, disk, err := members(c, signer)
+	if err != nil {
 		return nil, err
+	}
+	for p, d := range disk {
+		if files[p], err = readDiskFile(p, d); err != nil {
+			return nil, err
+		}
+	}
+	return files, nil
+}
+
+// members is Members with the files on disk returned apart, by bag path,
+// unread.
+func members(c Contents, signer Signer) (map[string][]byte, map[string]DiskFile, error) {
+	if err := refusePrivateKeys(c); err != nil {
+		return nil, nil, err
+	}
+	for p, d := range c.Files {
+		if err := checkDiskFile(PayloadDir+"/"+p, d); err != nil {
+			return nil, nil, err
+		}
 	}
 	if c.ToolVersion == "" {
 		c.ToolVersion = ToolVersion()
 	}
-	files, err := buildBag(bagContents{
-		Payload: c.Payload, RunJSON: c.RunJSON, Created: c.Created,
+	files, disk, err := buildBag(bagContents{
+		Payload: c.Payload, Disk: c.Files, RunJSON: c.RunJSON, Created: c.Created,
 		Description: c.Description, ToolVersion: c.ToolVersion, Workers: workersOf(c.Workers),
+		Known: c.knownSums(),
 	})
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	sig, err := signTagManifest(signer, files[TagManifestFile])
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	files[SignatureFile] = sig
-	return files, nil
+	return files, disk, nil
 }
 
 // workersOf is the number of goroutines Contents.Workers allows.
@@ -67,9 +124,17 @@ func workersOf(w int) int {
 }
 
 func sortedMembers(files map[string][]byte) []member {
-	out := make([]member, 0, len(files))
+	return allMembers(files, nil)
+}
+
+// allMembers is the members in memory and on disk, sorted by path.
+func allMembers(files map[string][]byte, disk map[string]DiskFile) []member {
+	out := make([]member, 0, len(files)+len(disk))
 	for p, b := range files {
-		out = append(out, member{p, b})
+		out = append(out, member{Path: p, Data: b})
+	}
+	for p, d := range disk {
+		out = append(out, member{Path: p, Disk: &d})
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].Path < out[j].Path })
 	return out
@@ -78,11 +143,11 @@ func sortedMembers(files map[string][]byte) []member {
 // WriteArchive writes the signed bag as a gzip-compressed tar to w (see
 // writeTarGz for what makes it deterministic).
 func WriteArchive(w io.Writer, c Contents, signer Signer) error {
-	files, err := Members(c, signer)
+	files, disk, err := members(c, signer)
 	if err != nil {
 		return err
 	}
-	return writeTarGz(w, c.Name, sortedMembers(files), c.Created, c.Workers)
+	return writeTarGz(w, c.Name, allMembers(files, disk), c.Created, c.Workers)
 }
 
 // IsArchivePath reports whether out names an archive (.tar.gz or .tgz)
@@ -100,16 +165,16 @@ func WriteBundle(out string, force bool, c Contents, signer Signer) error {
 	if err := checkBagName(c.Name); err != nil {
 		return err
 	}
-	files, err := Members(c, signer)
+	files, disk, err := members(c, signer)
 	if err != nil {
 		return err
 	}
 	if IsArchivePath(out) {
 		err = writeFileAtomic(out, force, fileMode, func(w io.Writer) error {
-			return writeTarGz(w, c.Name, sortedMembers(files), c.Created, c.Workers)
+			return writeTarGz(w, c.Name, allMembers(files, disk), c.Created, c.Workers)
 		})
 	} else {
-		err = writeFolderAtomic(out, force, sortedMembers(files))
+		err = writeFolderAtomic(out, force, allMembers(files, disk))
 	}
 	if errors.Is(err, ErrExists) {
 		return fmt.Errorf("%w; choose another output with -o, or use --force to replace it", err)
@@ -145,6 +210,21 @@ var privateKeyMarkers = [][]byte{
 
 var privateKeyTail = []byte("PRIVATE KEY-----")
 
+// maxKeyMarker is the length of the longest of privateKeyMarkers.
+var maxKeyMarker = func() int {
+	n := 0
+	for _, m := range privateKeyMarkers {
+		n = max(n, len(m))
+	}
+	return n
+}()
+
+// privateKeyError is the error for a bundle member (a bag path) that holds
+// a private key.
+func privateKeyError(name string) error {
+	return fmt.Errorf("%s holds a private key; fitseal never puts a private key in a bundle: remove it from the inputs", name)
+}
+
 // refusePrivateKeys fails when any payload file or run.json holds a private
 // key, naming the file.
 func refusePrivateKeys(c Contents) error {
@@ -154,7 +234,7 @@ func refusePrivateKeys(c Contents) error {
 		}
 		for _, m := range privateKeyMarkers {
 			if bytes.Contains(b, m) {
-				return fmt.Errorf("%s holds a private key; fitseal never puts a private key in a bundle: remove it from the inputs", name)
+				return privateKeyError(name)
 			}
 		}
 		return nil

@@ -39,17 +39,29 @@ type DatasetData struct {
 	Rows     int
 	Filtered int
 	Missing  int
+	// Source is the size and SHA-256 of the file's bytes as they were
+	// parsed (ReadDataset); zero for data read from elsewhere (ReadCSV).
+	Source FileDigest
 }
 
 // ReadDataset reads the dataset's file (relative to the project folder);
-// errors are [*DataError] naming the file as the project gives it.
+// errors are [*DataError] naming the file as the project gives it. The
+// file's bytes are hashed as they are parsed (DatasetData.Source).
 func ReadDataset(p *Project, d *Dataset) (*DatasetData, error) {
 	f, err := os.Open(d.Path(p))
 	if err != nil {
 		return nil, &DataError{File: d.File, Msg: fmt.Sprintf("cannot open: %v", unwrapPathError(err)), Err: err}
 	}
 	defer f.Close()
-	return ReadCSV(d.File, f, d)
+	dr := newDigestReader(f)
+	dd, err := ReadCSV(d.File, dr, d)
+	if err != nil {
+		return nil, err
+	}
+	if dd.Source, err = dr.digest(); err != nil {
+		return nil, &DataError{File: d.File, Msg: fmt.Sprintf("cannot read: %v", unwrapPathError(err)), Err: err}
+	}
+	return dd, nil
 }
 
 // ReadCSV reads a dataset from r, streaming it row by row; name is the

@@ -93,7 +93,9 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	if _, err := os.Lstat(out); err == nil && !o.Force {
 		return usageError{fmt.Errorf("%s already exists; choose another output with -o or replace it with --force", out)}
 	}
-	inputs, err := bundle.ReadInputs(p)
+	// The inputs are listed, not read: Seal copies the data files into
+	// the bundle from disk, checked against the bytes that were fitted.
+	inputs, err := bundle.InputPaths(p)
 	if err != nil {
 		return usageError{err}
 	}
@@ -128,7 +130,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		return inputError(err)
 	}
 	contents, err := bundle.Seal(res, bundle.SealOptions{
-		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Inputs: inputs, Shard: shard, Workers: opt.Workers,
+		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Shard: shard, Workers: opt.Workers,
 	})
 	if err != nil {
 		return err
@@ -158,10 +160,10 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 
 // gitInputs are the files whose git state run.json records, relative to the
 // project file's folder: the project file itself, then every other input.
-func gitInputs(p *runner.Project, inputs map[string][]byte) []string {
+func gitInputs(p *runner.Project, inputs []string) []string {
 	list := []string{filepath.Base(p.File)}
 	var rest []string
-	for k := range inputs {
+	for _, k := range inputs {
 		if k != bundle.ProjectInput {
 			rest = append(rest, strings.TrimPrefix(k, "inputs/"))
 		}
