@@ -55,19 +55,25 @@ func newInvgaussCensoredSample(d *Data, c float64) (invgaussCensoredSample, bool
 // 2(q−1)(n − Σd + Q) + 2(2q−1)(Σd − Q) + 2qQ and G″ = 2(n + Σd).
 //
 // A censored observation adds ln D with D = F(t_L), S(t_R) = 1 − F(t_R) or
-// F(t_u) − F(t_l), where F = Φ(a) + E, E = e^(2λ/μ)Φ(−b) = φ(a)R(b) (R the
-// Mills ratio), a = √(w/t)(qt − 1), b = √(w/t)(qt + 1) (Chhikara & Folks,
-// 1989). Its derivatives are analytic (from ∂F/∂μ = −(2λ/μ²)E and
-// ∂F/∂λ = −φ(a)/√(λx) + (2/μ)E, with φ(b)e^(2λ/μ) = φ(a)):
+// F(t_u) − F(t_l), where F = Φ(a) + e^(2λ/μ)Φ(−b) = Φ(a) + φ(a)R(b) (R the
+// Mills ratio; φ(b)e^(2λ/μ) = φ(a)), a = √(w/t)(qt − 1), b = √(w/t)(qt + 1)
+// (Chhikara & Folks, 1989). Its derivatives are analytic. With δ = b − a =
+// 2√(w/t), u = √(wt) = ∂a/∂q = ∂b/∂q, ∂a/∂σ = a/2, ∂b/∂σ = b/2, and the
+// positive remainders m₁ = 1 − bR(b) = −R′(b) and R₂ = R″(b) = (1 + b²)R − b,
+// the chain rule through F_a = φ(a)(m₁ + δR), F_b = −φ(a)m₁,
+// F_aa = −φ(a)(a(m₁ + δR) + R), F_ab = aφ(a)m₁, F_bb = φ(a)R₂ gives
 //
-//	F_q  = 2wE
-//	F_σ  = −√(w/t)φ(a) + 2wqE
-//	F_qq = 2w(2wE − √(wt)φ(a))
-//	F_qσ = 2wE + 4w²qE − wbφ(a)
-//	F_σσ = ½√(w/t)(a² − 1)φ(a) + 2wqE + 4w²q²E − wqbφ(a),
+//	F_q  = uδ R φ(a)                    (= 2wE, E = e^(2λ/μ)Φ(−b))
+//	F_σ  = ½δ(aR − m₁) φ(a)
+//	F_qq = −u²δ(m₁ + aR) φ(a)
+//	F_qσ = ½uδ((1 − a²)R + R₂) φ(a)
+//	F_σσ = ¼δ((a² − 1)(m₁ − aR) + (a + b)R₂) φ(a),
 //
-// each divided by D through e^(ln φ(a) − ln D) and e^(ln E − ln D), so the
-// far tails stay finite; ∇² ln D = ∇²D/D − (∇D/D)(∇D/D)ᵀ.
+// forms without the cancellation of the textbook ones (∂F/∂λ = −φ(a)/√(λx)
+// + (2/μ)E and its derivatives lose a factor b² to b³ when λ/μ is large,
+// b ≈ 2√(λ/μ)); millsTriple gives R, m₁ and R₂ from Laplace's continued
+// fraction where b ≥ 5. Each is divided by D through e^(ln φ(a) − ln D), so
+// the far tails stay finite; ∇² ln D = ∇²D/D − (∇D/D)(∇D/D)ᵀ.
 func invgaussCensoredPoint(s *invgaussCensoredSample, q, sigma float64) newton2Point {
 	var p newton2Point
 	w := math.Exp(sigma)
@@ -96,15 +102,17 @@ func invgaussCensoredPoint(s *invgaussCensoredSample, q, sigma float64) newton2P
 	end := func(t, sign, lnD float64) {
 		st := math.Sqrt(t)
 		rt := sw / st // √(w/t)
+		u := sw * st  // √(wt) = ∂a/∂q = ∂b/∂q
 		a, b := rt*(q*t-1), rt*(q*t+1)
-		lphi := -0.5*a*a - lnSqrt2Pi
-		A := sign * math.Exp(lphi-lnD)
-		B := sign * math.Exp(lphi+logMills(b)-lnD)
-		fq += 2 * w * B
-		fs += -rt*A + 2*w*q*B
-		fqq += 2 * w * (2*w*B - sw*st*A)
-		fqs += 2*w*B + 4*w*w*q*B - w*b*A
-		fss += 0.5*rt*(a*a-1)*A + 2*w*q*B + 4*w*w*q*q*B - w*q*b*A
+		delta := 2 * rt // b − a
+		r, m1, r2 := millsTriple(b)
+		A := sign * math.Exp(-0.5*a*a-lnSqrt2Pi-lnD) // σ_j φ(a)/D
+		ar := a * r
+		fq += u * delta * r * A
+		fs += 0.5 * delta * (ar - m1) * A
+		fqq -= u * u * delta * (m1 + ar) * A
+		fqs += 0.5 * u * delta * ((1-a*a)*r + r2) * A
+		fss += 0.25 * delta * ((a*a-1)*(m1-ar) + (a+b)*r2) * A
 	}
 	add := func(count, lnD float64) {
 		p.ll += count * lnD
@@ -202,4 +210,48 @@ func fitInvgaussCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string
 	fit.Estimates[0], fit.Estimates[1] = mean, shape
 	fit.LogLik = res.logLik
 	return true, ""
+}
+
+// millsTriple returns the normal Mills ratio R(b) = Φ(−b)/φ(b) for b > 0
+// with m₁ = 1 − bR = −R′ and R₂ = R″ = (1 + b²)R − b, all positive. For
+// b ≥ 5 they come from Laplace's continued fraction R = 1/K₀,
+// K_j = b + (j+1)/K_(j+1) (Abramowitz & Stegun 26.2.14): m₁ = R/K₁ and
+// R₂ = 2R/(K₁K₂), free of the cancellation of 1 − bR ≈ 1/b²
+// (oneMinusTMills' form). The fraction has millsRatioShort's number of
+// terms by band, each enough for R to half an ulp at the band's start
+// (TestMillsTriple checks the three against 120 terms). Below 5, R comes
+// from erfc and the remainders from their definitions, losing at most
+// about two digits near b = 5.
+func millsTriple(b float64) (r, m1, r2 float64) {
+	if b < 5 {
+		r = 0.5 * math.Erfc(b/sqrt2) * math.Exp(0.5*b*b) / invSqrt2Pi
+		m1 = 1 - b*r
+		return r, m1, r - b*m1
+	}
+	var n float64
+	switch {
+	case b < 7:
+		n = 30
+	case b < 10:
+		n = 21
+	case b < 15:
+		n = 16
+	case b < 25:
+		n = 13
+	default:
+		n = 10
+	}
+	return millsTripleCF(b, n)
+}
+
+// millsTripleCF is millsTriple's continued fraction with n terms.
+func millsTripleCF(b, n float64) (r, m1, r2 float64) {
+	k := b // K_n
+	for j := n; j >= 3; j-- {
+		k = b + j/k
+	}
+	k2 := k            // K₂ = b + 3/K₃
+	k1 := b + 2/k2     // K₁
+	r = 1 / (b + 1/k1) // 1/K₀
+	return r, r / k1, 2 * r / (k1 * k2)
 }
