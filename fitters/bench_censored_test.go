@@ -138,3 +138,31 @@ func BenchmarkNonparametric(b *testing.B) {
 		}
 	})
 }
+
+// BenchmarkFitCensoredGammaInvgauss times the censored gamma and inverse
+// Gaussian fits (benchSample's 1000 values, about 25 % censored) by their
+// Newton routes and by the generic BFGS route (genericCensoredOnly), for
+// the before/after ratio.
+func BenchmarkFitCensoredGammaInvgauss(b *testing.B) {
+	truths := map[string][]float64{"gamma": {2.5, 0.8}, "invgauss": {5, 12}}
+	for _, name := range []string{"gamma", "invgauss"} {
+		f, _ := Lookup(name)
+		d := benchSample(b, f, truths[name], 1000, false)
+		for _, generic := range []bool{false, true} {
+			route := "newton"
+			if generic {
+				route = "generic"
+			}
+			b.Run(name+"/"+route, func(b *testing.B) {
+				genericCensoredOnly = generic
+				defer func() { genericCensoredOnly = false }()
+				for i := 0; i < b.N; i++ {
+					fit, err := f.Fit(d, Options{})
+					if err != nil || !fit.Converged {
+						b.Fatalf("%v %+v", err, fit)
+					}
+				}
+			})
+		}
+	}
+}

@@ -132,3 +132,79 @@ func censoredNewton2(eval newton2Eval, t0, t1, tol float64, maxIter int) newton2
 func censoredNewtonFallback(fit *Fit, reason string) {
 	fit.Convergence.Method += "; the censored Newton route did not converge first (" + reason + ")"
 }
+
+// censoredPositive holds the censored values of data on x > 0, scaled to
+// t = x/c: distinct non-detect limits and suspensions with their counts,
+// and distinct two-sided intervals with theirs (an interval open at or
+// below 0 is a non-detect at its upper end, one open above a suspension at
+// its lower end; a suspension at or below 0 adds ln S = 0 and is dropped).
+type censoredPositive struct {
+	left, right  tally
+	lower, upper []float64
+	inCount      []float64
+}
+
+// add tallies d's censored values scaled by ic = 1/c. It reports false when
+// one has no place in a likelihood on x > 0 that the Newton routes take: a
+// non-detect limit ≤ 0 (ln F = −∞) or infinite, a NaN, an empty interval.
+func (s *censoredPositive) add(d *Data, ic float64) bool {
+	to := func(x float64) float64 { return x * ic }
+	for _, x := range d.Left {
+		if !(x > 0) || math.IsInf(x, 1) {
+			return false
+		}
+		s.left.add(to(x))
+	}
+	for _, x := range d.Right {
+		switch {
+		case math.IsNaN(x) || math.IsInf(x, 1):
+			return false
+		case x > 0:
+			s.right.add(to(x))
+		}
+	}
+	var pairs map[[2]float64]int
+	for i, l := range d.Lower {
+		u := d.Upper[i]
+		switch {
+		case math.IsNaN(l) || math.IsNaN(u) || !(l < u) || math.IsInf(l, 1) || math.IsInf(u, -1):
+			return false
+		case l <= 0 && math.IsInf(u, 1):
+			// probability one
+		case l <= 0:
+			s.left.add(to(u))
+		case math.IsInf(u, 1):
+			s.right.add(to(l))
+		default:
+			k := [2]float64{l, u}
+			if j, ok := pairs[k]; ok {
+				s.inCount[j]++
+				continue
+			}
+			if pairs == nil {
+				pairs = make(map[[2]float64]int)
+			}
+			pairs[k] = len(s.lower)
+			s.lower = append(s.lower, to(l))
+			s.upper = append(s.upper, to(u))
+			s.inCount = append(s.inCount, 1)
+		}
+	}
+	return true
+}
+
+// censoredCentre returns the centre c of the Newton routes' statistics: the
+// mean of the exact values, or of every recorded positive value when there
+// are none (0 when there is nothing positive).
+func censoredCentre(d *Data) float64 {
+	c := 0.0
+	if len(d.Exact) > 0 {
+		c = sumOf(d.Exact) / float64(len(d.Exact))
+	}
+	if !(c > 0) || math.IsInf(c, 0) {
+		if x := startSample(d, 1, true); len(x) > 0 {
+			c = sumOf(x) / float64(len(x))
+		}
+	}
+	return c
+}
