@@ -131,7 +131,63 @@ func lognormalMLE(x []float64) (mu, sigma, ll float64) {
 	return mu, sigma, ll
 }
 
+// lognormalFastMLE is lognormalMLE with ln x by fastLogs (one pass, no
+// reference point) and the squared deviations in a second pass. It reports
+// ok = false, leaving the data to lognormalMLE, unless Σ ln x is finite and
+// σ̂ > 0 (so every x is positive and finite and two differ) and
+// √(μ̂² + σ̂²) ≤ 32σ̂. The last keeps the accuracy of the route about x[0]:
+// each ln xᵢ is within 0.52 ulp ≤ 2⁻⁵²|ln xᵢ| (TestFastLogAccuracy), and
+// centring does not lengthen a vector, so |Δσ̂| ≤ 2⁻⁵² (mean (ln x)²)^½ =
+// 2⁻⁵² (μ̂² + σ̂²)^½ ≤ 2⁻⁴⁷ σ̂; data clustered far from 1 (1e7 ± 0.1) fail it
+// and keep every digit of their spread through logsAbout.
+func lognormalFastMLE(x []float64) (mu, sigma, ll float64, ok bool) {
+	buf := borrowScratch(len(x))
+	defer returnScratch(buf)
+	y := (*buf)[:len(x)]
+	sy := fastLogs(y, x)
+	n := float64(len(x))
+	m := sy / n
+	// Σ(y − m)² and Σ(y − m) in four partial sums, each product rounded
+	// on its own (no fused multiply-add, same bits on every processor).
+	var q0, q1, q2, q3, c0, c1, c2, c3 float64
+	i := 0
+	for ; i+4 <= len(y); i += 4 {
+		d0, d1, d2, d3 := y[i]-m, y[i+1]-m, y[i+2]-m, y[i+3]-m
+		q0 += float64(d0 * d0)
+		q1 += float64(d1 * d1)
+		q2 += float64(d2 * d2)
+		q3 += float64(d3 * d3)
+		c0 += d0
+		c1 += d1
+		c2 += d2
+		c3 += d3
+	}
+	for ; i < len(y); i++ {
+		d := y[i] - m
+		q0 += float64(d * d)
+		c0 += d
+	}
+	ss, c := (q0+q1)+(q2+q3), (c0+c1)+(c2+c3)
+	v := (ss - float64(c*c)/n) / n
+	mu, sigma = m+c/n, math.Sqrt(v)
+	if s2 := float64(sigma * sigma); !(sigma > 0) || math.IsInf(sy, 0) || math.IsNaN(sy) || float64(mu*mu)+s2 > 1024*s2 {
+		return 0, 0, 0, false
+	}
+	ll = -sy - float64(n*(fastLog(sigma)+lnSqrt2Pi)) - float64(0.5*n)
+	return mu, sigma, ll, true
+}
+
 func (f lognormalFamily) Fit(d *Data, opt Options) (*Fit, error) {
+	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) >= 2 {
+		// The log pass checks the data too: see lognormalFastMLE.
+		if mu, sigma, ll, ok := lognormalFastMLE(d.Exact); ok {
+			fit := newFit(f, d)
+			fit.Estimates[0], fit.Estimates[1] = mu, sigma
+			fit.LogLik = ll
+			fit.Convergence = closedForm()
+			return fit, nil
+		}
+	}
 	if !quickApplicable(d, opt, 2, true) {
 		if err := f.Applicable(d, opt.Fixed); err != nil {
 			return nil, err
