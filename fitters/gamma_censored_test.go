@@ -16,14 +16,17 @@ import (
 // which must take the censored Newton route and converge, and by the
 // generic BFGS route (genericCensoredOnly). Where BFGS converges, the
 // Newton maximum is never lower (log-likelihood within 1e-9 relative) and
-// the estimates agree within 1e-6 relative; the reported log-likelihood is
-// the family's own LogLik at the estimates (1e-11 relative). It returns how
+// the estimates agree within 1e-8 relative (measured on 600 datasets per
+// family: 3e-9, BFGS's own stopping error; log-likelihoods within 3e-14);
+// the reported log-likelihood is the family's own LogLik at the estimates
+// (1e-11 relative). It returns how
 // many datasets were compared, and on how many the route declined (allowed
 // only where boundary says the likelihood's supremum is on the edge of the
 // parameter space, with no interior maximum to converge to).
 func censoredNewtonAgreement(t *testing.T, name, prefix string, truths [][]float64, perScenario int, boundary func(*Data, *Fit) bool) (compared, declined int) {
 	t.Helper()
 	f, _ := Lookup(name)
+	var worstBelow, bestAbove, worstEst float64
 	for ti, truth := range truths {
 		dist, err := f.New(truth)
 		if err != nil {
@@ -68,18 +71,23 @@ func censoredNewtonAgreement(t *testing.T, name, prefix string, truths [][]float
 					continue
 				}
 				compared++
+				dl := (nf.LogLik - gen.LogLik) / math.Max(1, math.Abs(gen.LogLik))
+				worstBelow, bestAbove = math.Min(worstBelow, dl), math.Max(bestAbove, dl)
 				if nf.LogLik < gen.LogLik-1e-9*math.Abs(gen.LogLik) {
 					t.Errorf("%s: logL Newton %.15g below BFGS %.15g", label, nf.LogLik, gen.LogLik)
 				}
 				for i := range nf.Estimates {
 					a, b := nf.Estimates[i], gen.Estimates[i]
-					if rel := math.Abs(a-b) / math.Abs(b); rel > 1e-6 {
+					rel := math.Abs(a-b) / math.Abs(b)
+					worstEst = math.Max(worstEst, rel)
+					if rel > 1e-8 {
 						t.Errorf("%s: %s Newton %.15g, BFGS %.15g (rel %.2g)", label, f.Parameters()[i], a, b, rel)
 					}
 				}
 			}
 		}
 	}
+	t.Logf("%s: Newton logL − BFGS logL (relative) from %.2g to %.2g; estimates differ by at most %.2g relative", name, worstBelow, bestAbove, worstEst)
 	return compared, declined
 }
 
