@@ -180,7 +180,11 @@ func invgaussCensoredStart(s *invgaussCensoredSample, d *Data) (q0, w0 float64) 
 // fitInvgaussCensored fits the inverse Gaussian distribution to censored
 // data by censoredNewton2 on (c/μ, ln(λ/c)), c the mean of the exact values
 // (of every recorded value when there are none), from
-// invgaussCensoredStart. It reports as fitGammaCensored does.
+// invgaussCensoredStart. It reports as fitGammaCensored does; where the
+// iterates run to μ → ∞ (q → 0) with the score still pointing there, the
+// reason says the likelihood has no interior maximum (small, heavily
+// censored samples of a very skewed law can rise towards the Lévy law,
+// the limit as μ → ∞).
 func fitInvgaussCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) {
 	if genericCensoredOnly || len(opt.Fixed) != 0 || d.IsComplete() {
 		return false, "" // not this route's data: no fallback to report
@@ -194,6 +198,11 @@ func fitInvgaussCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string
 	eval := func(q, sigma float64) newton2Point { return invgaussCensoredPoint(&s, q, sigma) }
 	res := censoredNewton2(eval, q0, math.Log(w0), opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter))
 	if !res.converged {
+		if p := eval(res.t0, res.t1); res.t0 < 1e-9*q0 && p.g0 < 0 {
+			// The iterates ran to the edge q = c/μ → 0 with the score
+			// still pointing there.
+			return false, "no interior maximum: the likelihood keeps rising as the mean → ∞ (" + res.reason + ")"
+		}
 		return false, res.reason
 	}
 	mean, shape := c/res.t0, c*math.Exp(res.t1)
