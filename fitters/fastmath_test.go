@@ -417,3 +417,204 @@ func BenchmarkFastLog(b *testing.B) {
 		benchBest(b, func() { fastLogSink = fastLogs(dst, x) })
 	})
 }
+
+// bigExp is e^x in math/big: x = m ln2 + u with m = round(x/ln 2), |u| ≤ ln2/2,
+// e^u = Σ uⁿ/n! summed until a term is below 2^-(bigPrec+8), then scaled by 2^m.
+func bigExp(x float64) *big.Float {
+	m := math.Round(x / math.Ln2)
+	u := new(big.Float).SetPrec(bigPrec).Mul(bigLn2(), new(big.Float).SetFloat64(m))
+	u.Sub(new(big.Float).SetPrec(bigPrec).SetFloat64(x), u)
+	sum := big1()
+	term := big1()
+	for n := int64(1); ; n++ {
+		term.Mul(term, u)
+		term.Quo(term, new(big.Float).SetPrec(bigPrec).SetInt64(n))
+		sum.Add(sum, term)
+		if term.Sign() == 0 || term.MantExp(nil)-sum.MantExp(nil) < -bigPrec-8 {
+			break
+		}
+	}
+	return sum.SetMantExp(sum, int(m))
+}
+
+// TestFastExpTable checks expTable and the constants against
+// make_exp_table.py's output, 2^(j/128) = hi(1 + tail) against math/big
+// (e^(j ln2/128) by bigExp's series), and the exactness of k·ln2NHi.
+func TestFastExpTable(t *testing.T) {
+	b, err := os.ReadFile("../testdata/fastmath/exp_table.txt")
+	if err != nil {
+		t.Fatal(err)
+	}
+	row := regexp.MustCompile(`^\{(\S+), (\S+)\}, // (\d+)$`)
+	consts := map[string]float64{"invLn2N": invLn2N, "ln2NHi": ln2NHi, "ln2NLo": ln2NLo}
+	rows := 0
+	for _, line := range regexp.MustCompile("\n").Split(string(b), -1) {
+		if m := logConstLine.FindStringSubmatch(line); m != nil {
+			v, _ := strconv.ParseFloat(m[2], 64)
+			if consts[m[1]] != v {
+				t.Errorf("%s = %v in fastmath.go, make_exp_table.py gives %v", m[1], consts[m[1]], v)
+			}
+			delete(consts, m[1])
+		}
+		if m := row.FindStringSubmatch(line); m != nil {
+			j, _ := strconv.Atoi(m[3])
+			hi, _ := strconv.ParseFloat(m[1], 64)
+			tail, _ := strconv.ParseFloat(m[2], 64)
+			if expTable[j].hi != hi || expTable[j].tail != tail {
+				t.Errorf("entry %d: %v, make_exp_table.py gives {%v, %v}", j, expTable[j], hi, tail)
+			}
+			rows++
+		}
+	}
+	if rows != 128 || len(consts) != 0 {
+		t.Fatalf("exp_table.txt: %d rows, constants missing %v", rows, consts)
+	}
+	ln2N := new(big.Float).SetPrec(bigPrec).Quo(bigLn2(), new(big.Float).SetInt64(128))
+	for j, e := range expTable {
+		exact := new(big.Float).SetPrec(bigPrec).SetMantExp(big1(), 0)
+		if j > 0 {
+			// 2^(j/128) = e^(j ln2/128): a series in math/big.
+			u := new(big.Float).SetPrec(bigPrec).Mul(ln2N, new(big.Float).SetInt64(int64(j)))
+			exact = big1()
+			term := big1()
+			for n := int64(1); n < 60; n++ {
+				term.Mul(term, u)
+				term.Quo(term, new(big.Float).SetPrec(bigPrec).SetInt64(n))
+				exact.Add(exact, term)
+			}
+		}
+		got := new(big.Float).SetPrec(bigPrec).SetFloat64(e.tail)
+		got.Add(got, big1())
+		got.Mul(got, new(big.Float).SetFloat64(e.hi))
+		d := new(big.Float).Sub(got, exact)
+		if d.Sign() != 0 && d.MantExp(nil)-exact.MantExp(nil) > -104 {
+			t.Errorf("entry %d: hi(1 + tail) off 2^(j/128) by %v", j, d)
+		}
+		if h, _ := exact.Float64(); h != e.hi {
+			t.Errorf("entry %d: hi = %v, 2^(j/128) rounds to %v", j, e.hi, h)
+		}
+	}
+	for _, k := range []float64{-137900, -1, 1, 137900} {
+		p := new(big.Float).SetPrec(300).Mul(big.NewFloat(k), big.NewFloat(ln2NHi))
+		if f, acc := p.Float64(); acc != big.Exact || f != k*ln2NHi {
+			t.Errorf("k = %v: k·ln2NHi not exact", k)
+		}
+	}
+}
+
+// TestFastExpSpecial: special values and the ends of the range as math.Exp.
+func TestFastExpSpecial(t *testing.T) {
+	for _, x := range []float64{0, math.Copysign(0, -1), math.Inf(1), math.Inf(-1), math.NaN(), 1,
+		709.7827128933841, -745.1332191019412, -746, 710, 1e300, -1e300} {
+		got, want := fastExp(x), math.Exp(x)
+		if math.Float64bits(got) != math.Float64bits(want) && !(math.IsNaN(got) && math.IsNaN(want)) {
+			t.Errorf("fastExp(%v) = %v, math.Exp gives %v", x, got, want)
+		}
+	}
+	// The last finite and the smallest non-zero results, against math/big
+	// (math.Exp on amd64 gives +Inf at 709.78271289338397, whose e^x is
+	// 1.79769313486227e308 < MaxFloat64).
+	for _, x := range []float64{709.782712893384, 709.78, 708.5, -708.5, -709.1990659449098, -740, -745.1332191019411} {
+		if u := ulpErr(fastExp(x), bigExp(x)); math.Abs(u) > 1 {
+			t.Errorf("fastExp(%v) = %v: %.3f ulp from the math/big reference", x, fastExp(x), u)
+		}
+	}
+}
+
+// expTestInputs: a third uniform in [−745.2, 709.8], a third log-uniform in
+// |x| ∈ [2^-60, 8], a third at rounding boundaries of k (x near (k+½)ln2/128).
+func expTestInputs(seed uint64, n int) []float64 {
+	r := rand.New(rand.NewPCG(seed, 9))
+	x := make([]float64, n)
+	for i := range x {
+		switch i % 3 {
+		case 0:
+			x[i] = -745.2 + float64(1455*r.Float64())
+		case 1:
+			x[i] = math.Ldexp(1+r.Float64(), 2-r.IntN(62))
+			if r.IntN(2) == 0 {
+				x[i] = -x[i]
+			}
+		case 2:
+			k := float64(r.IntN(2*90000) - 90000)
+			v := float64((k + 0.5) * ln2NHi)
+			x[i] = math.Float64frombits(math.Float64bits(v) + uint64(r.IntN(5)) - 2)
+		}
+	}
+	return x
+}
+
+// TestFastExpAccuracy: fastExp within one ulp of e^x (math/big reference) on
+// 30,000 inputs; FITSEAL_LONG=1 takes 3,000,000.
+func TestFastExpAccuracy(t *testing.T) {
+	n := 30000
+	if os.Getenv("FITSEAL_LONG") == "1" {
+		n = 3000000
+	}
+	x := expTestInputs(1, n)
+	w := runtime.GOMAXPROCS(0)
+	var mu sync.Mutex
+	var wg sync.WaitGroup
+	var worst, at float64
+	for p := 0; p < w; p++ {
+		wg.Add(1)
+		go func(p int) {
+			defer wg.Done()
+			var pw, pa float64
+			for i := p; i < len(x); i += w {
+				if u := math.Abs(ulpErr(fastExp(x[i]), bigExp(x[i]))); u > pw {
+					pw, pa = u, x[i]
+				}
+			}
+			mu.Lock()
+			if pw > worst {
+				worst, at = pw, pa
+			}
+			mu.Unlock()
+		}(p)
+	}
+	wg.Wait()
+	t.Logf("worst error %.4f ulp at x = %v (%d inputs)", worst, at, n)
+	if worst > 1 {
+		t.Errorf("fastExp error %.4f ulp at x = %v, above 1 ulp", worst, at)
+	}
+}
+
+// TestFastExpBits pins a digest of fastExp's bits, the same on every
+// processor (checked on arm64 under qemu-aarch64-static).
+func TestFastExpBits(t *testing.T) {
+	var h uint64 = 14695981039346656037
+	for _, v := range expTestInputs(3, 100000) {
+		h ^= math.Float64bits(fastExp(v))
+		h *= 1099511628211
+	}
+	got := fmt.Sprintf("%016x", h)
+	t.Logf("fastExp digest %s", got)
+	if want := fastExpDigest; got != want {
+		t.Errorf("fastExp digest %s, want %s (GOARCH %s)", got, want, runtime.GOARCH)
+	}
+}
+
+const fastExpDigest = "d9c6c60021dbb46b"
+
+// BenchmarkFastExp compares math.Exp and fastExp over 1000 values in [−5, 5].
+func BenchmarkFastExp(b *testing.B) {
+	x := make([]float64, 1000)
+	for i := range x {
+		x[i] = -5 + 10*float64(i)/1000
+	}
+	for _, c := range []struct {
+		name string
+		f    func(float64) float64
+	}{{"math.Exp", math.Exp}, {"fastExp", fastExp}} {
+		b.Run(c.name+"/n=1000", func(b *testing.B) {
+			benchBest(b, func() {
+				var s float64
+				for _, v := range x {
+					s += c.f(v)
+				}
+				fastLogSink = s
+			})
+		})
+	}
+}
