@@ -111,6 +111,12 @@ func (p powFixed) pow(x float64) float64 {
 			xe--
 		}
 	}
+	// math.Ldexp(a1, ae), as a product by 2^ae where a1, 2^ae and the
+	// result are normal numbers (a product by a power of two is then exact).
+	if ea := int(math.Float64bits(a1) >> 52 & 0x7ff); ea != 0 && ea != 0x7ff &&
+		ae >= -1022 && ae <= 1023 && ea+ae >= 1 && ea+ae <= 0x7fe {
+		return a1 * math.Float64frombits(uint64(ae+1023)<<52)
+	}
 	return math.Ldexp(a1, ae)
 }
 
