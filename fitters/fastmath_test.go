@@ -45,15 +45,22 @@ func bigAtanh2(s *big.Float) *big.Float {
 // bigLog is ln x for positive finite x (normal or subnormal) in math/big:
 // x = m·2^e with m ∈ [√½, √2), ln x = e ln 2 + 2 atanh((m−1)/(m+1)).
 func bigLog(x float64) *big.Float {
-	m, e := math.Frexp(x) // m ∈ [0.5, 1)
-	if m < math.Sqrt2/2 {
-		m *= 2
+	return bigLogOf(new(big.Float).SetFloat64(x))
+}
+
+// bigLogOf is bigLog of a positive big.Float (of any precision: m − 1 is
+// taken at the precision of v, so ln(1 + 2^-100) keeps its digits).
+func bigLogOf(v *big.Float) *big.Float {
+	mant := new(big.Float)
+	e := v.MantExp(mant) // v = mant·2^e, mant ∈ [0.5, 1)
+	if mant.Cmp(big.NewFloat(math.Sqrt2/2)) < 0 {
+		mant.SetMantExp(mant, 1)
 		e--
 	}
-	bm := new(big.Float).SetPrec(bigPrec).SetFloat64(m)
-	num := new(big.Float).SetPrec(bigPrec).Sub(bm, big1())
+	bm := mant
+	num := new(big.Float).SetPrec(max(v.Prec(), bigPrec)).Sub(bm, big1())
 	den := new(big.Float).SetPrec(bigPrec).Add(bm, big1())
-	r := bigAtanh2(num.Quo(num, den))
+	r := bigAtanh2(new(big.Float).SetPrec(bigPrec).Quo(num, den))
 	t := new(big.Float).SetPrec(bigPrec).Mul(bigLn2(), new(big.Float).SetInt64(int64(e)))
 	return r.Add(r, t)
 }
@@ -607,6 +614,135 @@ func BenchmarkFastExp(b *testing.B) {
 		name string
 		f    func(float64) float64
 	}{{"math.Exp", math.Exp}, {"fastExp", fastExp}} {
+		b.Run(c.name+"/n=1000", func(b *testing.B) {
+			benchBest(b, func() {
+				var s float64
+				for _, v := range x {
+					s += c.f(v)
+				}
+				fastLogSink = s
+			})
+		})
+	}
+}
+
+// bigLog1p is ln(1 + u) in math/big, 1 + u held exactly (|u| ≥ 2^-300).
+func bigLog1p(u float64) *big.Float {
+	v := new(big.Float).SetPrec(1200).SetFloat64(u)
+	return bigLogOf(v.Add(v, big.NewFloat(1)))
+}
+
+// TestFastLog1pSpecial: special values and tiny |u| as math.Log1p, and the
+// ends of the range against math/big.
+func TestFastLog1pSpecial(t *testing.T) {
+	for _, u := range []float64{0, math.Copysign(0, -1), -1, -1.5, math.Inf(-1), math.Inf(1), math.NaN(),
+		0x1p-60, -0x1p-60, 0x1p-1074, -0x1p-1074, 1e300} {
+		got, want := fastLog1p(u), math.Log1p(u)
+		if math.Float64bits(got) != math.Float64bits(want) && !(math.IsNaN(got) && math.IsNaN(want)) {
+			t.Errorf("fastLog1p(%v) = %v, math.Log1p gives %v", u, got, want)
+		}
+	}
+	for _, u := range []float64{0x1p-54, -0x1p-54, 0x1.8p-54, 0x1p53, 0x1p53 - 1, -1 + 0x1p-53, -0.5, 1, math.MaxFloat64} {
+		if e := ulpErr(fastLog1p(u), bigLog1p(u)); math.Abs(e) > 1 {
+			t.Errorf("fastLog1p(%v) = %v: %.3f ulp from the math/big reference", u, fastLog1p(u), e)
+		}
+	}
+}
+
+// log1pTestInputs: half log-uniform in |u| ∈ [2^-60, 2^12] (either sign, > −1),
+// a quarter uniform in (−1, 1), a quarter within 2^-20 of −1 or of ±2^-k.
+func log1pTestInputs(seed uint64, n int) []float64 {
+	r := rand.New(rand.NewPCG(seed, 10))
+	x := make([]float64, 0, n)
+	for len(x) < n {
+		var u float64
+		switch len(x) % 4 {
+		case 0, 1:
+			u = math.Ldexp(1+r.Float64(), 12-r.IntN(73))
+			if r.IntN(2) == 0 {
+				u = -u
+			}
+		case 2:
+			u = 2*r.Float64() - 1
+		case 3:
+			d := math.Ldexp(r.Float64(), -20)
+			if r.IntN(2) == 0 {
+				u = -1 + d
+			} else {
+				u = math.Ldexp(1, -r.IntN(40)) + d - float64(r.IntN(2))*math.Ldexp(1, 1-r.IntN(40))
+			}
+		}
+		if u > -1 {
+			x = append(x, u)
+		}
+	}
+	return x
+}
+
+// TestFastLog1pAccuracy: fastLog1p within one ulp of ln(1 + u) (math/big)
+// on 30,000 inputs; FITSEAL_LONG=1 takes 2,000,000.
+func TestFastLog1pAccuracy(t *testing.T) {
+	n := 30000
+	if os.Getenv("FITSEAL_LONG") == "1" {
+		n = 2000000
+	}
+	x := log1pTestInputs(1, n)
+	w := runtime.GOMAXPROCS(0)
+	var mu sync.Mutex
+	var wg sync.WaitGroup
+	var worst, at float64
+	for p := 0; p < w; p++ {
+		wg.Add(1)
+		go func(p int) {
+			defer wg.Done()
+			var pw, pa float64
+			for i := p; i < len(x); i += w {
+				if u := math.Abs(ulpErr(fastLog1p(x[i]), bigLog1p(x[i]))); u > pw {
+					pw, pa = u, x[i]
+				}
+			}
+			mu.Lock()
+			if pw > worst {
+				worst, at = pw, pa
+			}
+			mu.Unlock()
+		}(p)
+	}
+	wg.Wait()
+	t.Logf("worst error %.4f ulp at u = %v (%d inputs)", worst, at, n)
+	if worst > 1 {
+		t.Errorf("fastLog1p error %.4f ulp at u = %v, above 1 ulp", worst, at)
+	}
+}
+
+// TestFastLog1pBits pins a digest of fastLog1p's bits, the same on every
+// processor (checked on arm64 under qemu-aarch64-static).
+func TestFastLog1pBits(t *testing.T) {
+	var h uint64 = 14695981039346656037
+	for _, v := range log1pTestInputs(3, 100000) {
+		h ^= math.Float64bits(fastLog1p(v))
+		h *= 1099511628211
+	}
+	got := fmt.Sprintf("%016x", h)
+	t.Logf("fastLog1p digest %s", got)
+	if want := fastLog1pDigest; got != want {
+		t.Errorf("fastLog1p digest %s, want %s (GOARCH %s)", got, want, runtime.GOARCH)
+	}
+}
+
+const fastLog1pDigest = "f2f4ac28304be82d"
+
+// BenchmarkFastLog1p compares math.Log1p and fastLog1p over 1000 values in
+// [−0.9, 1.1].
+func BenchmarkFastLog1p(b *testing.B) {
+	x := make([]float64, 1000)
+	for i := range x {
+		x[i] = -0.9 + 2*float64(i)/1000
+	}
+	for _, c := range []struct {
+		name string
+		f    func(float64) float64
+	}{{"math.Log1p", math.Log1p}, {"fastLog1p", fastLog1p}} {
 		b.Run(c.name+"/n=1000", func(b *testing.B) {
 			benchBest(b, func() {
 				var s float64

@@ -136,11 +136,10 @@ func lognormalMLE(x []float64) (mu, sigma, ll float64) {
 // ok = false, leaving the data to lognormalMLE, unless Σ ln x is finite and
 // σ̂ > 0 (so every x is positive and finite and two differ) and
 // √(μ̂² + σ̂²) ≤ 32σ̂. The last keeps the accuracy of the route about x[0]:
-// each ln xᵢ is within one ulp ≤ 2⁻⁵²|ln xᵢ| (0.593 ulp at worst in
-// TestFastLogAccuracy), and
+// each ln xᵢ is within one ulp ≤ 2⁻⁵²|ln xᵢ| (TestFastLogAccuracy), and
 // centring does not lengthen a vector, so |Δσ̂| ≤ 2⁻⁵² (mean (ln x)²)^½ =
-// 2⁻⁵² (μ̂² + σ̂²)^½ ≤ 2⁻⁴⁷ σ̂; data clustered far from 1 (1e7 ± 0.1) fail it
-// and keep every digit of their spread through logsAbout.
+// 2⁻⁵² (μ̂² + σ̂²)^½ ≤ 2⁻⁴⁷ σ̂; data clustered far from 1 (1e7 ± 0.1) fail
+// it and keep every digit of their spread through logsAbout.
 func lognormalFastMLE(x []float64) (mu, sigma, ll float64, ok bool) {
 	buf := borrowScratch(len(x))
 	defer returnScratch(buf)
