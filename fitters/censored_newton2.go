@@ -26,12 +26,18 @@ type newton2Result struct {
 	reason      string
 }
 
+// maxNewtonStep bounds each coordinate's change in one step of
+// censoredNewton2: both routes work on logarithms of the parameters, so a
+// factor e² at most.
+const maxNewtonStep = 2
+
 // censoredNewton2 maximises a smooth two-parameter log-likelihood that need
 // not be concave (the censored gamma and inverse Gaussian) by a modified
 // Newton method with a backtracking line search (Nocedal & Wright, 2006,
 // §3.4): the direction is Δ = (−H + τI)⁻¹∇ℓ, τ = 0 where −H is positive
 // definite, otherwise τ lifts the smallest eigenvalue of −H to 10⁻³ of the
-// largest (so Δ is an ascent direction); each step is halved until ℓ
+// largest (so Δ is an ascent direction); the step is shortened so that no
+// coordinate moves by more than maxNewtonStep, then halved until ℓ
 // increases. It stops when the Newton decrement λ² = ∇ℓᵀ(−H)⁻¹∇ℓ (twice
 // the gain the quadratic model still predicts) falls below
 // tol²·max(1, |ℓ|) at a point where −H is positive definite.
@@ -100,7 +106,12 @@ func censoredNewton2(eval newton2Eval, t0, t1, tol float64, maxIter int) newton2
 			t0, t1, p = t0+d0, t1+d1, np
 			continue
 		}
+		// A step may move each (logarithmic) coordinate by at most
+		// maxNewtonStep: a trust region for the far-off start.
 		step := 1.0
+		if big := math.Max(math.Abs(d0), math.Abs(d1)); big > maxNewtonStep {
+			step = maxNewtonStep / big
+		}
 		accepted := false
 		for h := 0; h < 60; h++ {
 			n0, n1 := t0+step*d0, t1+step*d1

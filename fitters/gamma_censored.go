@@ -184,22 +184,39 @@ func gammaCensoredPoint(s *gammaCensoredSample, kappa, nu float64) newton2Point 
 	return p
 }
 
-// gammaCensoredStart returns the starting shape and rate: the complete-data
-// estimate of the exact values when there are two distinct ones (Minka's
-// (2002) approximation to the root of ln k − ψ(k) = s, from the sample's
-// statistics), otherwise the start the generic route uses (gammaMLE of
-// startSample, or shape 1 at the sample mean).
-func gammaCensoredStart(s *gammaCensoredSample, d *Data, opt Options) (k0, b0 float64) {
+// gammaCensoredStart returns the starting (κ, ν) = (ln k, ln(βc/k)): of
+// two candidates, the one with the higher censored log-likelihood. One is
+// the complete-data estimate of the exact values when there are two
+// distinct ones (Minka's (2002) approximation to the root of
+// ln k − ψ(k) = s, from the sample's statistics), which ignores the
+// censored values; the other the moment estimate of every recorded value
+// (positiveMoments: k = m²/v, β = m/v). Without either, the generic
+// route's start (gammaMLE of startSample, or shape 1 at the sample mean).
+func gammaCensoredStart(s *gammaCensoredSample, d *Data, opt Options) (kappa0, nu0 float64) {
+	best := math.Inf(-1)
+	try := func(k, b float64) {
+		kappa, nu := math.Log(k), math.Log(b*s.c/k)
+		if !finite(kappa) || !finite(nu) {
+			return
+		}
+		if ll := gammaCensoredPoint(s, kappa, nu).ll; ll > best {
+			best, kappa0, nu0 = ll, kappa, nu
+		}
+	}
 	if s.n >= 2 && s.distinct {
 		dbar := s.sumD / s.n
 		if v := -s.sumL/s.n + log1pmx(dbar); v > 0 {
 			k := (3 - v + math.Sqrt((v-3)*(v-3)+24*v)) / (12 * v)
-			if k > 0 && !math.IsInf(k, 0) {
-				return k, k / (s.c * (1 + dbar))
-			}
+			try(k, k/(s.c*(1+dbar)))
 		}
 	}
-	k0, b0 = 1.0, 1.0
+	if m, v, _ := positiveMoments(d); m > 0 && v > 0 {
+		try(m*m/v, m/v)
+	}
+	if !math.IsInf(best, -1) {
+		return kappa0, nu0
+	}
+	k0, b0 := 1.0, 1.0
 	if x := startSample(d, 2, true); len(x) >= 2 {
 		if k, b, _, c := gammaMLE(x, opt); c.Converged && k < 1e6 {
 			k0, b0 = k, b
@@ -207,7 +224,7 @@ func gammaCensoredStart(s *gammaCensoredSample, d *Data, opt Options) (k0, b0 fl
 			b0 = 1 / m
 		}
 	}
-	return k0, b0
+	return math.Log(k0), math.Log(b0 * s.c / k0)
 }
 
 // fitGammaCensored fits the gamma distribution to censored data by
@@ -226,10 +243,9 @@ func fitGammaCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) {
 	if !ok {
 		return false, "an observation the route cannot take (a value ≤ 0, NaN or an empty interval)"
 	}
-	k0, b0 := gammaCensoredStart(&s, d, opt)
-	nu0 := math.Log(b0 * c / k0)
+	kappa0, nu0 := gammaCensoredStart(&s, d, opt)
 	eval := func(kappa, nu float64) newton2Point { return gammaCensoredPoint(&s, kappa, nu) }
-	res := censoredNewton2(eval, math.Log(k0), nu0, opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter))
+	res := censoredNewton2(eval, kappa0, nu0, opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter))
 	if !res.converged {
 		return false, res.reason
 	}

@@ -99,7 +99,7 @@ func (invgaussFamily) Parameters() []string { return []string{"mean", "shape"} }
 func (invgaussFamily) Kind() Kind           { return Continuous }
 func (invgaussFamily) Support() string      { return "x > 0" }
 func (invgaussFamily) Route() string {
-	return "closed form (mean; 1/shape = mean(1/x − 1/x̄)); censored data: Newton on (c/mean, ln(shape/c)) from the exact values' sufficient statistics, BFGS on (log mean, log shape) if it fails"
+	return "closed form (mean; 1/shape = mean(1/x − 1/x̄)); censored data: Newton on (ln(c/mean), ln(shape/c)) from the exact values' sufficient statistics, BFGS on (log mean, log shape) if it fails"
 }
 
 func (invgaussFamily) New(p []float64) (Dist, error) {

@@ -43,8 +43,9 @@ func newInvgaussCensoredSample(d *Data, c float64) (invgaussCensoredSample, bool
 }
 
 // invgaussCensoredPoint evaluates the censored inverse Gaussian
-// log-likelihood at q = c/μ and σ = ln(λ/c), w = e^σ, with its score and
-// observed Hessian in (q, σ).
+// log-likelihood at ln q and σ, q = c/μ, σ = ln(λ/c), w = e^σ, with its
+// score and observed Hessian in (ln q, σ): the derivatives below in q are
+// mapped by ∂/∂ln q = q∂/∂q, ∂²/∂(ln q)² = q²∂²/∂q² + q∂/∂q.
 //
 // Exact values (t = x/c = 1 + d): Σ ln f(x) = n(½ ln(wc) − ln√(2π)) −
 // 1.5 Σ ln x − (w/2)·G(q) with
@@ -74,9 +75,9 @@ func newInvgaussCensoredSample(d *Data, c float64) (invgaussCensoredSample, bool
 // b ≈ 2√(λ/μ)); millsTriple gives R, m₁ and R₂ from Laplace's continued
 // fraction where b ≥ 5. Each is divided by D through e^(ln φ(a) − ln D), so
 // the far tails stay finite; ∇² ln D = ∇²D/D − (∇D/D)(∇D/D)ᵀ.
-func invgaussCensoredPoint(s *invgaussCensoredSample, q, sigma float64) newton2Point {
+func invgaussCensoredPoint(s *invgaussCensoredSample, lq, sigma float64) newton2Point {
 	var p newton2Point
-	w := math.Exp(sigma)
+	q, w := math.Exp(lq), math.Exp(sigma)
 	if !(q > 0) || math.IsInf(q, 0) || !(w > 0) || math.IsInf(w, 0) {
 		p.ll = math.Inf(-1)
 		return p
@@ -150,39 +151,95 @@ func invgaussCensoredPoint(s *invgaussCensoredSample, q, sigma float64) newton2P
 	if math.IsNaN(p.ll) {
 		p.ll = math.Inf(-1)
 	}
+	gq := p.g0
+	p.g0 = q * gq
+	p.h00 = q*q*p.h00 + q*gq
+	p.h01 *= q
 	return p
 }
 
-// invgaussCensoredStart returns the starting q = c/μ and w = λ/c: the
-// closed form on the exact values when there are two distinct ones
-// (μ = x̄, so q = 1/(1 + mean d), and w = n/G(q)), otherwise the generic
-// route's start (invgaussMLE of startSample).
-func invgaussCensoredStart(s *invgaussCensoredSample, d *Data) (q0, w0 float64) {
+// invgaussCensoredStart returns the starting (ln q, σ) = (ln(c/μ),
+// ln(λ/c)): of two candidates, the one with the higher censored
+// log-likelihood. One is the closed form on the exact values when there
+// are two distinct ones (μ = x̄, so q = 1/(1 + mean d), and w = n/G(q));
+// it ignores the censored values and is far off when they are many and on
+// one side. The other is the moment estimate of every recorded value
+// (positiveMoments: μ = mean, 1/λ = mean(1/x) − 1/mean).
+func invgaussCensoredStart(s *invgaussCensoredSample, d *Data) (lq0, sigma0 float64) {
+	best := math.Inf(-1)
+	try := func(q, w float64) {
+		if !(q > 0) || !(w > 0) || math.IsInf(q, 0) || math.IsInf(w, 0) {
+			return
+		}
+		if ll := invgaussCensoredPoint(s, math.Log(q), math.Log(w)).ll; ll > best {
+			best, lq0, sigma0 = ll, math.Log(q), math.Log(w)
+		}
+	}
 	if s.n >= 2 && s.distinct {
 		q := 1 / (1 + s.sumD/s.n)
 		e := q - 1
 		g := e*e*(s.n-s.sumD+s.sumQ) + 2*q*e*(s.sumD-s.sumQ) + q*q*s.sumQ
-		if w := s.n / g; q > 0 && w > 0 && !math.IsInf(w, 0) {
-			return q, w
+		try(q, s.n/g)
+	}
+	if m, _, minv := positiveMoments(d); m > 0 {
+		l := m // a fallback shape where the moment one is not positive
+		if v := minv - 1/m; v > 0 {
+			l = 1 / v
+		}
+		try(s.c/m, l/s.c)
+	}
+	if math.IsInf(best, -1) {
+		return 0, 0 // μ = λ = c
+	}
+	return lq0, sigma0
+}
+
+// positiveMoments returns the mean, variance and mean reciprocal of every
+// positive finite value recorded in d: exact values, non-detect limits,
+// suspension times, and each interval's midpoint (or its one finite
+// positive end). These are crude moments of the law — censored values sit
+// at their limits — meant only for a starting point. Zeros when there is
+// no such value.
+func positiveMoments(d *Data) (mean, variance, meanInv float64) {
+	var n, sum, sumSq, sumInv float64
+	add := func(x float64) {
+		if x > 0 && !math.IsInf(x, 1) {
+			n++
+			sum += x
+			sumSq += x * x
+			sumInv += 1 / x
 		}
 	}
-	m0, l0 := s.c, s.c
-	if x := startSample(d, 2, true); len(x) >= 2 {
-		if m, l, _ := invgaussMLE(x); m > 0 && l > 0 && !math.IsInf(l, 0) {
-			m0, l0 = m, l
-		} else if m > 0 {
-			m0, l0 = m, m
+	for _, v := range [][]float64{d.Exact, d.Left, d.Right} {
+		for _, x := range v {
+			add(x)
 		}
 	}
-	return s.c / m0, l0 / s.c
+	for i, l := range d.Lower {
+		u := d.Upper[i]
+		switch {
+		case l > 0 && !math.IsInf(u, 1):
+			add(0.5 * (l + u))
+		case l > 0:
+			add(l)
+		default:
+			add(u)
+		}
+	}
+	if n == 0 {
+		return 0, 0, 0
+	}
+	mean = sum / n
+	return mean, math.Max(0, sumSq/n-mean*mean), sumInv / n
 }
 
 // fitInvgaussCensored fits the inverse Gaussian distribution to censored
-// data by censoredNewton2 on (c/μ, ln(λ/c)), c the mean of the exact values
+// data by censoredNewton2 on (ln(c/μ), ln(λ/c)), c the mean of the exact values
 // (of every recorded value when there are none), from
 // invgaussCensoredStart. It reports as fitGammaCensored does; where the
-// iterates run to μ → ∞ (q → 0) with the score still pointing there, the
-// reason says the likelihood has no interior maximum (small, heavily
+// iterates run to μ → ∞ (q → 0) with the score still pointing there, or
+// stop beyond μ = 10⁶c, the reason says the likelihood has no interior
+// maximum (small, heavily
 // censored samples of a very skewed law can rise towards the Lévy law,
 // the limit as μ → ∞).
 func fitInvgaussCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) {
@@ -194,23 +251,28 @@ func fitInvgaussCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string
 	if !ok {
 		return false, "an observation the route cannot take (a value ≤ 0, NaN or an empty interval)"
 	}
-	q0, w0 := invgaussCensoredStart(&s, d)
-	eval := func(q, sigma float64) newton2Point { return invgaussCensoredPoint(&s, q, sigma) }
-	res := censoredNewton2(eval, q0, math.Log(w0), opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter))
+	lq0, sigma0 := invgaussCensoredStart(&s, d)
+	eval := func(lq, sigma float64) newton2Point { return invgaussCensoredPoint(&s, lq, sigma) }
+	res := censoredNewton2(eval, lq0, sigma0, opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter))
 	if !res.converged {
-		if p := eval(res.t0, res.t1); res.t0 < 1e-9*q0 && p.g0 < 0 {
-			// The iterates ran to the edge q = c/μ → 0 with the score
-			// still pointing there.
+		if p := eval(res.t0, res.t1); res.t0 < lq0-20 && p.g0 < 0 {
+			// The iterates ran towards q = c/μ → 0 (by a factor e²⁰
+			// from the start) with the score still pointing there.
 			return false, "no interior maximum: the likelihood keeps rising as the mean → ∞ (" + res.reason + ")"
 		}
 		return false, res.reason
 	}
-	mean, shape := c/res.t0, c*math.Exp(res.t1)
+	if res.t0 < math.Log(1e-6) {
+		// ln(c/μ) → −∞ flattens ℓ: a "maximum" at μ > 10⁶c cannot be told
+		// from the edge μ = ∞.
+		return false, "no interior maximum: the likelihood is highest at a mean above 10⁶ times the data's centre (mean → ∞)"
+	}
+	mean, shape := c*math.Exp(-res.t0), c*math.Exp(res.t1)
 	if !(mean > 0) || !(shape > 0) || math.IsInf(mean, 0) || math.IsInf(shape, 0) || !finite(res.logLik) {
 		return false, "the maximum lies where the parameters are not finite"
 	}
 	fit.Convergence = Convergence{
-		Method:       "censored Newton on (c/mean, ln(shape/c))",
+		Method:       "censored Newton on (ln(c/mean), ln(shape/c))",
 		Iterations:   res.iterations,
 		Evaluations:  res.evaluations,
 		GradientNorm: res.gradNorm,

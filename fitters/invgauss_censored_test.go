@@ -23,10 +23,10 @@ func TestInvgaussCensoredNewtonAgreesWithBFGS(t *testing.T) {
 		c := censoredCentre(d)
 		q := c / fit.Estimates[0]
 		s, ok := newInvgaussCensoredSample(d, c)
-		if !ok || !(q < 1e-6) || !strings.Contains(fit.Method, "no interior maximum: the likelihood keeps rising as the mean → ∞") {
+		if !ok || !(q < 1e-6) || !strings.Contains(fit.Method, "no interior maximum") {
 			return false
 		}
-		p := invgaussCensoredPoint(&s, q, math.Log(fit.Estimates[1]/c))
+		p := invgaussCensoredPoint(&s, math.Log(q), math.Log(fit.Estimates[1]/c))
 		t.Logf("no interior maximum: BFGS mean %.4g (c/μ = %.3g), score in c/μ %.4g", fit.Estimates[0], q, p.g0)
 		return p.g0 < 0
 	}
@@ -87,13 +87,13 @@ func TestInvgaussCensoredDerivatives(t *testing.T) {
 	if !ok {
 		t.Fatal("sample rejected")
 	}
-	eval := func(q, sg float64) newton2Point { return invgaussCensoredPoint(&s, q, sg) }
+	eval := func(lq, sg float64) newton2Point { return invgaussCensoredPoint(&s, lq, sg) }
 	for _, pt := range [][2]float64{{1, 0.5}, {0.7, 1.2}, {1.4, -0.3}, {0.2, 2}} {
 		q, sg := pt[0], pt[1]
-		if want, got := f.LogLik([]float64{c / q, c * math.Exp(sg)}, d), eval(q, sg).ll; math.Abs(got-want) > 1e-12*math.Abs(want) {
+		if want, got := f.LogLik([]float64{c / q, c * math.Exp(sg)}, d), eval(math.Log(q), sg).ll; math.Abs(got-want) > 1e-12*math.Abs(want) {
 			t.Errorf("(%v, %v): ℓ %.17g, LogLik %.17g", q, sg, got, want)
 		}
-		checkPointDerivatives(t, "invgauss", eval, q, sg, 1e-4, 1e-8)
+		checkPointDerivatives(t, "invgauss", eval, math.Log(q), sg, 1e-4, 1e-8)
 	}
 }
 
