@@ -17,7 +17,7 @@ import (
 // generic BFGS route (genericCensoredOnly). Where BFGS converges, the
 // Newton maximum is never lower (log-likelihood within 1e-9 relative) and
 // the estimates agree within 1e-8 relative (measured on 600 datasets per
-// family: 3e-9, BFGS's own stopping error; log-likelihoods within 3e-14);
+// family: 7e-9, BFGS's own stopping error; log-likelihoods within 3e-14);
 // the reported log-likelihood is the family's own LogLik at the estimates
 // (1e-11 relative). It returns how
 // many datasets were compared, and on how many the route declined (allowed
@@ -208,7 +208,7 @@ func TestGammaCensoredShapeDerivatives(t *testing.T) {
 // scipy and polished by Newton's method in mpmath at 40 digits: the fit
 // takes the route and converges, its log-likelihood is within 1e-12
 // relative of the reference's (and never lower by more than that), and its
-// estimates within 1e-10 relative (measured: 1e-16 to 8e-12). The scipy
+// estimates within 1e-10 relative (measured: 1e-16 to 1e-11). The scipy
 // maxima themselves are only good to about 1e-7 (Nelder–Mead and BFGS in
 // float64); they are checked to be no higher than the reference beyond
 // rounding.
