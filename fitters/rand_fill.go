@@ -8,7 +8,10 @@ import (
 
 // RandFiller is implemented by the distributions whose Rand costs more per
 // value than its arithmetic needs (a general math.Pow, set-up repeated on
-// every call). RandFill(r, dst) stores in dst exactly the values that
+// every call, a call through an interface around a short body): weibull,
+// gamma and lognormal. The loglogistic has none: its Rand is its Quantile,
+// two logs and an exponential per value with nothing to share between
+// values, and filling directly measured no faster. RandFill(r, dst) stores in dst exactly the values that
 // len(dst) successive calls of Rand(r) would return, bit for bit and in
 // the same order, and leaves r in the same state: a bootstrap that fills
 // its replicates this way gives the same p-values and intervals.
@@ -120,6 +123,26 @@ func (p powFixed) pow(x float64) float64 {
 	return math.Ldexp(a1, ae)
 }
 
+// RandFill draws e^(μ + σZ) as Rand does; the gain is only the direct,
+// inlined call per value instead of a call through the Dist interface
+// (about a fifth of the time at n = 1000, BenchmarkRandFill).
+func (d LogNormal) RandFill(r *rand.Rand, dst []float64) {
+	if !fillsMatchRand() {
+		for i := range dst {
+			dst[i] = d.Rand(r)
+		}
+		return
+	}
+	d.fill(r, dst)
+}
+
+func (d LogNormal) fill(r *rand.Rand, dst []float64) bool {
+	for i := range dst {
+		dst[i] = math.Exp(d.Mu + d.Sigma*r.NormFloat64())
+	}
+	return true
+}
+
 // RandFill draws as Rand does (gonum's distuv.Gamma.Rand: Marsaglia &
 // Tsang, 2000, for shape ≥ 0.2; Liu, Martin & Syring, 2017, below), with
 // the constants of the shape worked out once instead of on every draw and
@@ -224,7 +247,7 @@ var fillsMatchRand = sync.OnceValue(func() bool {
 		Dist
 		fill(r *rand.Rand, dst []float64) bool
 	}{Weibull{1.8, 120}, Weibull{0.4, 2}, Weibull{7, 1e-3},
-		Gamma{2.5, 0.4}, Gamma{0.5, 3}, Gamma{0.1, 1}, Gamma{1, 2}}
+		Gamma{2.5, 0.4}, Gamma{0.5, 3}, Gamma{0.1, 1}, Gamma{1, 2}, LogNormal{1, 0.7}}
 	var got [64]float64
 	for i, d := range dists {
 		r1 := rand.New(rand.NewPCG(uint64(i), 99))

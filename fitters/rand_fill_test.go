@@ -12,7 +12,8 @@ import (
 // leaves the generator in the same state, for shapes on both sides of
 // every branch: math.Pow's special exponents (shape 1 → y = 1, shape 2 →
 // y = ½), an integer y (shape ½ → y = 2), yf above and below ½, a large
-// integer part, and gamma shapes below 0.2, in [0.2, 1), exactly 1 and above.
+// integer part, gamma shapes below 0.2, in [0.2, 1), exactly 1 and above,
+// and lognormals reaching underflow and overflow.
 func TestRandFillMatchesRand(t *testing.T) {
 	if !fillsMatchRand() {
 		t.Fatal("the start-up self-check found RandFill differing from Rand on this machine")
@@ -23,6 +24,7 @@ func TestRandFillMatchesRand(t *testing.T) {
 		Weibull{2.0000001, 5}, Weibull{1.0000001, 5}, Weibull{0.9999999, 5},
 		Gamma{2.5, 0.4}, Gamma{0.05, 2}, Gamma{0.2, 1}, Gamma{0.199, 1}, Gamma{0.7, 5},
 		Gamma{1, 3}, Gamma{30, 1e-3}, Gamma{1e4, 7}, Gamma{1e-3, 1e3},
+		LogNormal{1, 0.7}, LogNormal{-300, 40}, LogNormal{0, 1e-9},
 	}
 	for _, d := range cases {
 		t.Run(fmt.Sprintf("%T%v", d, d), func(t *testing.T) {
@@ -76,7 +78,7 @@ func TestPowFixedMatchesPow(t *testing.T) {
 // BenchmarkRandFill compares n = 1000 Rand calls with one RandFill.
 func BenchmarkRandFill(b *testing.B) {
 	dst := make([]float64, 1000)
-	for _, d := range []Dist{Weibull{1.8, 120}, Weibull{3.5, 1}, Gamma{2.5, 0.4}, Gamma{0.5, 1}} {
+	for _, d := range []Dist{Weibull{1.8, 120}, Weibull{3.5, 1}, Gamma{2.5, 0.4}, Gamma{0.5, 1}, LogNormal{1, 0.7}} {
 		name := fmt.Sprintf("%T%v", d, d)
 		b.Run("Rand/"+name, func(b *testing.B) {
 			r := rand.New(rand.NewPCG(1, 2))
