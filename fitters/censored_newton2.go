@@ -150,7 +150,7 @@ func censoredNewtonFallback(fit *Fit, reason string) {
 // below 0 is a non-detect at its upper end, one open above a suspension at
 // its lower end; a suspension at or below 0 adds ln S = 0 and is dropped).
 type censoredPositive struct {
-	left, right  tally
+	left, right  smallTally
 	lower, upper []float64
 	inCount      []float64
 }
@@ -218,4 +218,40 @@ func censoredCentre(d *Data) float64 {
 		}
 	}
 	return c
+}
+
+// smallTally holds distinct values in order of first appearance with their
+// counts, as tally does, but looks a value up by a linear scan while there
+// are at most 16 distinct ones (field data have a few detection limits and
+// suspension times: no hashing per value), by a map beyond.
+type smallTally struct {
+	u, n  []float64
+	index map[float64]int
+}
+
+func (t *smallTally) add(u float64) {
+	if t.index == nil {
+		for i := len(t.u) - 1; i >= 0; i-- {
+			if t.u[i] == u {
+				t.n[i]++
+				return
+			}
+		}
+		t.u = append(t.u, u)
+		t.n = append(t.n, 1)
+		if len(t.u) > 16 {
+			t.index = make(map[float64]int, 2*len(t.u))
+			for i, v := range t.u {
+				t.index[v] = i
+			}
+		}
+		return
+	}
+	if i, ok := t.index[u]; ok {
+		t.n[i]++
+		return
+	}
+	t.index[u] = len(t.u)
+	t.u = append(t.u, u)
+	t.n = append(t.n, 1)
 }

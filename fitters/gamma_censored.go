@@ -61,7 +61,12 @@ func newGammaCensoredSample(d *Data, c float64) (gammaCensoredSample, bool) {
 		if !(x > 0) || math.IsInf(x, 1) {
 			return s, false
 		}
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		if x < lo {
+			lo = x
+		}
+		if x > hi {
+			hi = x
+		}
 		dv := (x - c) * ic
 		s.sumD += dv
 		if math.Abs(dv) < 0.1 {

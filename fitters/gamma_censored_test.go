@@ -319,3 +319,28 @@ func TestGammaCensoredPointDerivatives(t *testing.T) {
 		checkPointDerivatives(t, "gamma", eval, kappa, nu, 1e-3, 1e-7)
 	}
 }
+
+// TestSmallTally checks that smallTally keeps distinct values in order of
+// first appearance with their counts, before and after it switches to a
+// map at 17 distinct values.
+func TestSmallTally(t *testing.T) {
+	var st smallTally
+	want := map[float64]float64{}
+	var order []float64
+	for i := 0; i < 200; i++ {
+		v := float64((i * 7) % 23)
+		if _, ok := want[v]; !ok {
+			order = append(order, v)
+		}
+		want[v]++
+		st.add(v)
+	}
+	if len(st.u) != len(order) {
+		t.Fatalf("%d distinct, want %d", len(st.u), len(order))
+	}
+	for i, v := range order {
+		if st.u[i] != v || st.n[i] != want[v] {
+			t.Errorf("entry %d: %v×%v, want %v×%v", i, st.u[i], st.n[i], v, want[v])
+		}
+	}
+}
