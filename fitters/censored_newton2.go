@@ -255,3 +255,42 @@ func (t *smallTally) add(u float64) {
 	t.u = append(t.u, u)
 	t.n = append(t.n, 1)
 }
+
+// positiveMoments returns the mean, variance and mean reciprocal of every
+// positive finite value recorded in d: exact values, non-detect limits,
+// suspension times, and each interval's midpoint (or its one finite
+// positive end). These are crude moments of the law — censored values sit
+// at their limits — meant only for a starting point. Zeros when there is
+// no such value.
+func positiveMoments(d *Data) (mean, variance, meanInv float64) {
+	var n, sum, sumSq, sumInv float64
+	add := func(x float64) {
+		if x > 0 && !math.IsInf(x, 1) {
+			n++
+			sum += x
+			sumSq += x * x
+			sumInv += 1 / x
+		}
+	}
+	for _, v := range [][]float64{d.Exact, d.Left, d.Right} {
+		for _, x := range v {
+			add(x)
+		}
+	}
+	for i, l := range d.Lower {
+		u := d.Upper[i]
+		switch {
+		case l > 0 && !math.IsInf(u, 1):
+			add(0.5 * (l + u))
+		case l > 0:
+			add(l)
+		default:
+			add(u)
+		}
+	}
+	if n == 0 {
+		return 0, 0, 0
+	}
+	mean = sum / n
+	return mean, math.Max(0, sumSq/n-mean*mean), sumInv / n
+}

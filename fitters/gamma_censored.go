@@ -28,7 +28,7 @@ type gammaCensoredSample struct {
 // relative error grows (to 10⁻⁷ at y = 40) but the absolute error stays
 // below 10⁻¹⁵. (A stencil at fixed y would be smooth there instead, but
 // for a large shape P(k, y) varies like Φ((y − k)/√k), steep in ln k, and
-// its errors reach 10⁻¹⁰ absolute at k = 150.) The mpmath comparison is
+// its errors reach 3·10⁻¹⁰ absolute at k = 150.) The mpmath comparison is
 // TestGammaCensoredShapeDerivatives. The second derivative's rounding
 // error, 5.3·ε|f|/h² ≈ 10⁻⁹ of |f|, only slows Newton's last step; it does
 // not move the maximum, which is where the score vanishes.
