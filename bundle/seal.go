@@ -127,7 +127,11 @@ type SealOptions struct {
 	// Tool is the code that ran; zero means CurrentTool().
 	Tool Tool
 	// Inputs, when not nil, are the input files' bytes by payload path
-	// (inputs/…); nil reads them from disk (ReadInputs).
+	// (inputs/…), which must be those the run parsed; nil reads the
+	// project file and templates from disk and has the data files the run
+	// parsed copied from disk while the bundle is written
+	// (Contents.Files), checked against the size and SHA-256 they had when
+	// parsed, so that they are never held in memory.
 	Inputs map[string][]byte
 	// Shard, when not nil, seals a partial bundle of res (a run with
 	// runner.RunOptions.Shard): inputs, the shard's results and run.json
@@ -328,7 +332,9 @@ func resultsIdentity(sums map[string]string) string {
 // Seal assembles a bundle's contents from a run: the inputs, the result
 // files, the tables, figures and PDF that [report] asks for, and run.json.
 // It is a pure function of its arguments (and of the input files when
-// opt.Inputs is nil), so the same run gives the same bytes.
+// opt.Inputs is nil), so the same run gives the same bytes. A data file
+// whose bytes are no longer those the run parsed is refused
+// ([ErrInputChanged]), here or when the bundle is written.
 func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	p := res.Project
 	if opt.Signer == nil {
@@ -376,6 +382,28 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 			shard.Analyses = append(shard.Analyses, a.Name)
 		}
 	}
+	// run.json does not depend on the rendered files: it is written while
+	// they are rendered.
+	runJSON := make(chan marshalled, 1)
+	go func() {
+		rec := RunRecord{
+			Format: RunFormat, Tool: opt.Tool, Created: opt.Created.UTC(), CreatedFrom: opt.CreatedFrom,
+			Git:    opt.Git,
+			Signer: SignerInfo{PublicKey: AuthorizedKey(opt.Signer), Fingerprint: Fingerprint(opt.Signer)},
+			Inputs: inputList(inputs, disk, sums), ResultsIdentity: ident, MasterSeed: p.Settings.Seed,
+			Shard: shard, Record: res.Record(),
+		}
+		if rec.Git.Files == nil {
+			rec.Git.Files = []GitFile{}
+		}
+		// Encode with an indent writes what json.MarshalIndent does, and
+		// the final newline, without a copy to add it.
+		var buf bytes.Buffer
+		enc := json.NewEncoder(&buf)
+		enc.SetIndent("", "  ")
+		err := enc.Encode(rec)
+		runJSON <- marshalled{buf.Bytes(), err}
+	}()
 	render := func(res *runner.Results, id report.Identity) (map[string][]byte, error) {
 		return renderOn(opt.Workers, res, id)
 	}
@@ -400,19 +428,9 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	for k, v := range rendered {
 		payload[k] = v
 	}
-	rec := RunRecord{
-		Format: RunFormat, Tool: opt.Tool, Created: opt.Created.UTC(), CreatedFrom: opt.CreatedFrom,
-		Git:    opt.Git,
-		Signer: SignerInfo{PublicKey: AuthorizedKey(opt.Signer), Fingerprint: Fingerprint(opt.Signer)},
-		Inputs: inputList(inputs, disk, sums), ResultsIdentity: ident, MasterSeed: p.Settings.Seed,
-		Shard: shard, Record: res.Record(),
-	}
-	if rec.Git.Files == nil {
-		rec.Git.Files = []GitFile{}
-	}
-	js, err := json.MarshalIndent(rec, "", "  ")
-	if err != nil {
-		return Contents{}, err
+	js := <-runJSON
+	if js.err != nil {
+		return Contents{}, js.err
 	}
 	memo := make(map[string]payloadSum, len(sums))
 	for p, h := range sums {
@@ -422,9 +440,15 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	}
 	return Contents{
 		Name: p.Name, Created: opt.Created.UTC(), Description: p.Description,
-		Payload: payload, Files: disk, RunJSON: append(js, '\n'), ToolVersion: opt.Tool.Version, Workers: opt.Workers,
+		Payload: payload, Files: disk, RunJSON: js.data, ToolVersion: opt.Tool.Version, Workers: opt.Workers,
 		sums: memo,
 	}, nil
+}
+
+// marshalled is a JSON encoding or its error.
+type marshalled struct {
+	data []byte
+	err  error
 }
 
 // inputList is run.json's list of inputs, in memory or on disk, with the
