@@ -45,9 +45,9 @@ const maxNewtonStep = 2
 // Near the maximum ℓ's rounding can hide the last gains: once the
 // decrement is below 10⁻¹² of |ℓ| the full Newton step is taken without
 // the increase test, at most five times; if the decrement has then fallen
-// below 10⁻¹⁶·max(1, |ℓ|) (estimates within about 10⁻⁸ of their standard
-// errors) the point is reported as converged at rounding level, otherwise
-// the run fails. Any failure is reported with its reason, and the caller
+// below 10⁻¹⁶·max(1, |ℓ|) the point is reported as converged at rounding
+// level (the decrement is the squared distance to the maximum in standard
+// errors: within 3·10⁻⁷ of them at |ℓ| = 1000), otherwise the run fails. Any failure is reported with its reason, and the caller
 // falls back to the generic route.
 func censoredNewton2(eval newton2Eval, t0, t1, tol float64, maxIter int) newton2Result {
 	res := newton2Result{t0: t0, t1: t1}
