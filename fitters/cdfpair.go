@@ -281,16 +281,8 @@ func gammaUpperTails(a, y, q float64) (cdf, logCDF, logSurvival float64) {
 //
 //	F = Φ(a) + e^(2λ/μ) Φ(−b),  S = Φ(−a) − e^(2λ/μ) Φ(−b),
 //
-// a = √(λ/x)(x/μ − 1), b = √(λ/x)(x/μ + 1) (Chhikara & Folks, 1989), in
-// linear space where |a| ≤ 37 (φ(a) > 1e−298: nothing underflows), with one
-// φ(a) = e^(−a²/2)/√(2π) shared by the Mills-ratio forms: the second term is
-// φ(a)R(b) for b ≥ 5 (φ(b)e^(2λ/μ) = φ(a)) and e^(2λ/μ)·erfc(b/√2)/2
-// below (where 2λ/μ < b²/2 < 12.5), Φ(a) is φ(a)R(−a) below a = −5 and
-// erfc(−a/√2)/2 above, and Φ(−a) likewise. Below the median ln F is
-// ln F and ln S = ln(1 − F); above it S is computed directly, as φ(a)(R(a)
-// − R(b)) by quadrature where the two terms nearly cancel (as
-// LogSurvival), as Φ(−a) − e^(2λ/μ)Φ(−b) elsewhere, and ln F = ln(1 − S).
-// Beyond |a| = 37, invGaussTailsLog works in log space throughout.
+// a = √(λ/x)(x/μ − 1), b = √(λ/x)(x/μ + 1) (Chhikara & Folks, 1989): see
+// invGaussTails.
 func (d InvGauss) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 	if !(x > 0) {
 		return belowSupport()
@@ -299,19 +291,41 @@ func (d InvGauss) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 		return aboveSupport()
 	}
 	a, b := d.ab(x)
+	return invGaussTails(a, b, d.Shape/d.Mean, math.NaN())
+}
+
+// invGaussTails returns the inverse Gaussian's F, ln F and ln S at
+// a = √(λ/x)(x/μ − 1), b = √(λ/x)(x/μ + 1), with r = λ/μ and e2 =
+// e^(2r) (NaN: computed here when needed; batch callers pass it once).
+// In linear space where |a| ≤ 37 (φ(a) > 1e−298: nothing underflows), with
+// one φ(a) = e^(−a²/2)/√(2π) shared by the Mills-ratio forms: the second
+// term is φ(a)R(b) for b ≥ 1.25√2 (φ(b)e^(2λ/μ) = φ(a)) and
+// e^(2λ/μ)·erfc(b/√2)/2 below (where 2λ/μ < b²/2 < 1.6), Φ(a) is φ(a)R(−a)
+// below a = −1.25√2 and erfc(−a/√2)/2 above, and Φ(−a) likewise; R(t)
+// from t ≥ 1.25√2 is mills (fdlibm's rational form of erfc without its
+// e^(−t²/2), one exponential, or the continued fraction beyond t = 39.6).
+// Below the median ln F is ln F and ln S = ln(1 − F); above it S is
+// computed directly, as φ(a)(R(a) − R(b)) by quadrature where the two terms
+// nearly cancel (as LogSurvival, with logMillsDifferenceFast), as Φ(−a) −
+// e^(2λ/μ)Φ(−b) elsewhere, and ln F = ln(1 − S). Beyond |a| = 37,
+// invGaussTailsLog works in log space throughout.
+func invGaussTails(a, b, r, e2 float64) (cdf, logCDF, logSurvival float64) {
 	if !(math.Abs(a) <= 37) {
 		return invGaussTailsLog(a, b)
 	}
 	phi := math.Exp(-0.5*a*a) * invSqrt2Pi
 	var second float64
-	if b >= 5 {
-		second = phi * millsRatioShort(b)
+	if b >= millsRationalLo {
+		second = phi * mills(b)
 	} else {
-		second = math.Exp(2*d.Shape/d.Mean) * 0.5 * math.Erfc(b/sqrt2)
+		if math.IsNaN(e2) {
+			e2 = math.Exp(2 * r)
+		}
+		second = e2 * 0.5 * math.Erfc(b/sqrt2)
 	}
 	var lower float64 // Φ(a)
-	if a < -5 {
-		lower = phi * millsRatioShort(-a)
+	if a <= -millsRationalLo {
+		lower = phi * mills(-a)
 	} else {
 		lower = 0.5 * math.Erfc(-a/sqrt2)
 	}
@@ -319,18 +333,35 @@ func (d InvGauss) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 		return f, math.Log(f), log1mSmall(f)
 	}
 	if a > -1 && b-a <= math.Max(1, a) {
-		ls := -0.5*a*a - lnSqrt2Pi + logMillsDifference(a, b)
+		ls := -0.5*a*a - lnSqrt2Pi + logMillsDifferenceFast(a, b)
 		s := math.Exp(ls)
 		return 1 - s, log1mSmall(s), ls
 	}
 	var upper float64 // Φ(−a)
-	if a > 5 {
-		upper = phi * millsRatioShort(a)
+	if a >= millsRationalLo {
+		upper = phi * mills(a)
 	} else {
 		upper = 0.5 * math.Erfc(a/sqrt2)
 	}
 	s := upper - second
 	return 1 - s, log1mSmall(s), math.Log(s)
+}
+
+// CDFTailsBatch is CDFTails over x with λ/μ and e^(2λ/μ) formed once.
+func (d InvGauss) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
+	r := d.Shape / d.Mean
+	e2 := math.Exp(2 * r) // +Inf when 2r > 709: then b ≥ 2√r never needs it
+	for i, v := range x {
+		switch {
+		case !(v > 0):
+			cdf[i], logCDF[i], logSurvival[i] = belowSupport()
+		case math.IsInf(v, 1):
+			cdf[i], logCDF[i], logSurvival[i] = aboveSupport()
+		default:
+			a, b := d.ab(v)
+			cdf[i], logCDF[i], logSurvival[i] = invGaussTails(a, b, r, e2)
+		}
+	}
 }
 
 // invSqrt2Pi is 1/√(2π).

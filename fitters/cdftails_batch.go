@@ -23,6 +23,9 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 	// A type switch, not an interface method: the buffers, often arrays
 	// on the caller's stack, then do not escape to the heap.
 	switch d := d.(type) {
+	case InvGauss:
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
+		return
 	case CDFTailer:
 		for i, v := range x {
 			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
