@@ -138,6 +138,15 @@ func optimizer(f *fitters.Fit) *Optimizer {
 
 // document is results.json: every table's content in one record.
 func (r *Results) document() docRoot {
+	doc := r.documentHead()
+	for _, a := range r.Analyses {
+		doc.Analyses = append(doc.Analyses, docAnalysisOf(a))
+	}
+	return doc
+}
+
+// documentHead is the document without its analyses (an empty list).
+func (r *Results) documentHead() docRoot {
 	p := r.Project
 	doc := docRoot{Format: ResultsFormat, Project: p.Name, Settings: p.Settings, Datasets: []docDataset{}, Analyses: []docAnalysis{}}
 	for _, d := range p.Datasets {
@@ -153,43 +162,45 @@ func (r *Results) document() docRoot {
 		}
 		doc.Datasets = append(doc.Datasets, ds)
 	}
-	for _, a := range r.Analyses {
-		c := a.Comparison
-		da := docAnalysis{Name: a.Name, Dataset: a.Dataset, N: a.Group.Data.N(), NCensored: a.Group.Data.NCensored(),
-			Missing: a.Group.Missing, Criterion: string(c.Criterion), RequestedCriterion: string(c.Requested), Note: c.Note,
-			Fits: []docFit{}, Derived: []docDerived{}, GOF: []docGOF{}}
-		for i, row := range c.Rows {
-			df := docFit{Family: row.Family, Applicable: row.Inapplicable == "", Inapplicable: row.Inapplicable,
-				N: da.N, NCensored: da.NCensored, LogLik: Number(math.NaN()),
-				AIC: Number(row.AIC), AICc: Number(row.AICc), BIC: Number(row.BIC), Delta: Number(row.Delta), Weight: Number(row.Weight),
-				EvidenceRatio: Number(row.EvidenceRatio), Rank: row.Rank, Support: row.Support, Note: row.Note, Inference: a.Inference[i],
-				Parameters: []docParameter{}}
-			if f := row.Fit; f != nil {
-				df.N, df.NCensored, df.Converged = f.N, f.NCensored, f.Converged
-				df.Optimizer = optimizer(f)
-				if f.Converged {
-					k := f.K
-					df.K, df.LogLik = &k, Number(f.LogLik)
-				}
-			}
-			for _, pr := range a.Parameters[i] {
-				df.Parameters = append(df.Parameters, docParameter{Name: pr.Parameter, Estimate: Number(pr.Estimate),
-					StdError: Number(pr.StdError), CILower: Number(pr.CILower), CIUpper: Number(pr.CIUpper), LowerOpen: pr.LowerOpen, UpperOpen: pr.UpperOpen,
-					CIMethod: pr.CIMethod, Fixed: pr.Fixed, Note: pr.Note})
-			}
-			da.Fits = append(da.Fits, df)
-		}
-		for _, d := range a.Derived {
-			da.Derived = append(da.Derived, docDerived{Family: d.Family, Quantity: d.Quantity, Argument: Number(d.Argument),
-				Estimate: Number(d.Estimate), StdError: Number(d.StdError), CILower: Number(d.CILower), CIUpper: Number(d.CIUpper),
-				LowerOpen: d.LowerOpen, UpperOpen: d.UpperOpen, CIMethod: d.CIMethod, Note: d.Note})
-		}
-		for _, g := range a.GOF {
-			da.GOF = append(da.GOF, docGOF{Family: g.Family, Statistic: g.Statistic, Value: Number(g.Value), PValue: Number(g.PValue), Replicates: g.Replicates, Note: g.Note})
-		}
-		doc.Analyses = append(doc.Analyses, da)
-	}
 	return doc
+}
+
+// docAnalysisOf is one analysis of the document.
+func docAnalysisOf(a *AnalysisResult) docAnalysis {
+	c := a.Comparison
+	da := docAnalysis{Name: a.Name, Dataset: a.Dataset, N: a.Group.Data.N(), NCensored: a.Group.Data.NCensored(),
+		Missing: a.Group.Missing, Criterion: string(c.Criterion), RequestedCriterion: string(c.Requested), Note: c.Note,
+		Fits: []docFit{}, Derived: []docDerived{}, GOF: []docGOF{}}
+	for i, row := range c.Rows {
+		df := docFit{Family: row.Family, Applicable: row.Inapplicable == "", Inapplicable: row.Inapplicable,
+			N: da.N, NCensored: da.NCensored, LogLik: Number(math.NaN()),
+			AIC: Number(row.AIC), AICc: Number(row.AICc), BIC: Number(row.BIC), Delta: Number(row.Delta), Weight: Number(row.Weight),
+			EvidenceRatio: Number(row.EvidenceRatio), Rank: row.Rank, Support: row.Support, Note: row.Note, Inference: a.Inference[i],
+			Parameters: []docParameter{}}
+		if f := row.Fit; f != nil {
+			df.N, df.NCensored, df.Converged = f.N, f.NCensored, f.Converged
+			df.Optimizer = optimizer(f)
+			if f.Converged {
+				k := f.K
+				df.K, df.LogLik = &k, Number(f.LogLik)
+			}
+		}
+		for _, pr := range a.Parameters[i] {
+			df.Parameters = append(df.Parameters, docParameter{Name: pr.Parameter, Estimate: Number(pr.Estimate),
+				StdError: Number(pr.StdError), CILower: Number(pr.CILower), CIUpper: Number(pr.CIUpper), LowerOpen: pr.LowerOpen, UpperOpen: pr.UpperOpen,
+				CIMethod: pr.CIMethod, Fixed: pr.Fixed, Note: pr.Note})
+		}
+		da.Fits = append(da.Fits, df)
+	}
+	for _, d := range a.Derived {
+		da.Derived = append(da.Derived, docDerived{Family: d.Family, Quantity: d.Quantity, Argument: Number(d.Argument),
+			Estimate: Number(d.Estimate), StdError: Number(d.StdError), CILower: Number(d.CILower), CIUpper: Number(d.CIUpper),
+			LowerOpen: d.LowerOpen, UpperOpen: d.UpperOpen, CIMethod: d.CIMethod, Note: d.Note})
+	}
+	for _, g := range a.GOF {
+		da.GOF = append(da.GOF, docGOF{Family: g.Family, Statistic: g.Statistic, Value: Number(g.Value), PValue: Number(g.PValue), Replicates: g.Replicates, Note: g.Note})
+	}
+	return da
 }
 
 // Record is what run.json needs from a run: the effective project (every

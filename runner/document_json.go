@@ -23,6 +23,25 @@ import (
 
 // appendDocument appends results.json to b.
 func appendDocument(b []byte, doc *docRoot) []byte {
+	b = appendDocumentHead(b, doc)
+	if doc.Analyses == nil {
+		b = append(b, "null"...)
+	} else {
+		b = append(b, '[')
+		for i := range doc.Analyses {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			b = appendAnalysis(append(b, '\n'), &doc.Analyses[i])
+		}
+		b = append(b, ']')
+	}
+	return append(b, "}\n"...)
+}
+
+// appendDocumentHead appends results.json up to its analyses: up to and
+// including `"analyses":`.
+func appendDocumentHead(b []byte, doc *docRoot) []byte {
 	b = append(b, `{"format":`...)
 	b = appendJSONString(b, doc.Format)
 	b = append(b, `,"project":`...)
@@ -42,20 +61,7 @@ func appendDocument(b []byte, doc *docRoot) []byte {
 		}
 		b = append(b, ']')
 	}
-	b = append(b, `,"analyses":`...)
-	if doc.Analyses == nil {
-		b = append(b, "null"...)
-	} else {
-		b = append(b, '[')
-		for i := range doc.Analyses {
-			if i > 0 {
-				b = append(b, ',')
-			}
-			b = appendAnalysis(append(b, '\n'), &doc.Analyses[i])
-		}
-		b = append(b, ']')
-	}
-	return append(b, "}\n"...)
+	return append(b, `,"analyses":`...)
 }
 
 func appendSettings(b []byte, s *Settings) []byte {

@@ -40,19 +40,26 @@ func FormatFloat(x float64) string {
 func (r *Results) Files() (map[string][]byte, error) { return r.FilesOn(1) }
 
 // FilesOn is [Results.Files] with the files written on at most workers
-// goroutines at once (results.json on one while the tables are written on
-// the others); the bytes do not depend on workers.
+// goroutines at once: results.json, the largest, in as many parts as there
+// are workers (resultsJSONPart), joined in order, beside the result CSVs;
+// the bytes do not depend on workers.
 func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
-	names := []string{ResultsFile, FitsFile, ParametersFile, DerivedFile, GOFFile}
-	write := []func() []byte{r.resultsJSON, r.fitsCSV, r.parametersCSV, r.derivedCSV, r.gofCSV}
-	data := make([][]byte, len(names))
-	next := make(chan int, len(names))
-	for i := range names {
+	workers = max(1, workers)
+	parts := workers
+	names := []string{FitsFile, ParametersFile, DerivedFile, GOFFile}
+	var write []func() []byte
+	for i := range parts {
+		write = append(write, func() []byte { return r.resultsJSONPart(i, parts) })
+	}
+	write = append(write, r.fitsCSV, r.parametersCSV, r.derivedCSV, r.gofCSV)
+	data := make([][]byte, len(write))
+	next := make(chan int, len(write))
+	for i := range write {
 		next <- i
 	}
 	close(next)
 	var wg sync.WaitGroup
-	for w := 0; w < min(max(1, workers), len(names)); w++ {
+	for w := 0; w < min(workers, len(write)); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -62,11 +69,28 @@ func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
 		}()
 	}
 	wg.Wait()
-	out := make(map[string][]byte, len(names))
+	out := make(map[string][]byte, len(names)+1)
+	out[ResultsFile] = joinParts(data[:parts])
 	for i, name := range names {
-		out[name] = data[i]
+		out[name] = data[parts+i]
 	}
 	return out, nil
+}
+
+// joinParts is the parts one after the other (the only part itself).
+func joinParts(parts [][]byte) []byte {
+	if len(parts) == 1 {
+		return parts[0]
+	}
+	n := 0
+	for _, p := range parts {
+		n += len(p)
+	}
+	out := make([]byte, 0, n)
+	for _, p := range parts {
+		out = append(out, p...)
+	}
+	return out
 }
 
 // resultsJSON is results.json (layout: document_json.go).
@@ -80,6 +104,40 @@ func (r *Results) resultsJSON() []byte {
 		size += 500 + 1400*len(a.Fits) + 350*(len(a.Derived)+len(a.GOF))
 	}
 	return appendDocument(make([]byte, 0, size), &doc)
+}
+
+// resultsJSONPart is part i of n of results.json: the analyses from i·A/n
+// up to (i+1)·A/n of the A analyses, after the head (everything before
+// them) in part 0 and before the tail in part n−1. The parts joined in
+// order are resultsJSON byte for byte (TestResultsJSONParts).
+func (r *Results) resultsJSONPart(i, n int) []byte {
+	lo, hi := i*len(r.Analyses)/n, (i+1)*len(r.Analyses)/n
+	size := 64
+	for _, a := range r.Analyses[lo:hi] {
+		size += 500 + 1400*len(a.Comparison.Rows) + 350*(len(a.Derived)+len(a.GOF))
+	}
+	var b []byte
+	if i == 0 {
+		head := r.documentHead()
+		size += 4096
+		for _, d := range head.Datasets {
+			size += 200 + 100*len(d.Groups)
+		}
+		b = append(appendDocumentHead(make([]byte, 0, size), &head), '[')
+	} else {
+		b = make([]byte, 0, size)
+	}
+	for j := lo; j < hi; j++ {
+		if j > 0 {
+			b = append(b, ',')
+		}
+		da := docAnalysisOf(r.Analyses[j])
+		b = appendAnalysis(append(b, '\n'), &da)
+	}
+	if i == n-1 {
+		b = append(b, "]}\n"...)
+	}
+	return b
 }
 
 func (r *Results) fitsCSV() []byte {
