@@ -28,12 +28,12 @@ func CDFTails(d Dist, x float64) (cdf, logCDF, logSurvival float64) {
 	}
 	lf := d.LogCDF(x)
 	if lf < -math.Ln2 {
-		f := math.Exp(lf)
-		return f, lf, math.Log1p(-f)
+		f := fastExp(lf)
+		return f, lf, fastLog1p(-f)
 	}
 	ls := d.LogSurvival(x)
 	lf = log1mExp(ls)
-	return math.Exp(lf), lf, ls
+	return fastExp(lf), lf, ls
 }
 
 // Values below the support: F = 0, ln F = −∞, ln S = 0; and above it.
@@ -46,20 +46,20 @@ func aboveSupport() (float64, float64, float64) { return 1, 0, math.Inf(-1) }
 func hazardTails(t float64) (cdf, logCDF, logSurvival float64) {
 	if t < math.Ln2 {
 		f := -math.Expm1(-t)
-		return f, math.Log(f), -t
+		return f, fastLog(f), -t
 	}
-	s := math.Exp(-t)
-	return 1 - s, math.Log1p(-s), -t
+	s := fastExp(-t)
+	return 1 - s, fastLog1p(-s), -t
 }
 
 // logHazardTails is hazardTails for t = e^lt given by its logarithm, so
 // that ln F = ln t − t/2 + O(t²) stays finite where t underflows.
 func logHazardTails(lt float64) (cdf, logCDF, logSurvival float64) {
 	if lt < -700 {
-		t := math.Exp(lt)
+		t := fastExp(lt)
 		return t, lt, -t
 	}
-	return hazardTails(math.Exp(lt))
+	return hazardTails(fastExp(lt))
 }
 
 // extremeTails returns F, ln F and ln S for ln F = −u, u = e^(−y) ≥ 0 (the
@@ -69,11 +69,11 @@ func logHazardTails(lt float64) (cdf, logCDF, logSurvival float64) {
 func extremeTails(u, y float64) (cdf, logCDF, logSurvival float64) {
 	switch {
 	case u > math.Ln2:
-		f := math.Exp(-u)
-		return f, -u, math.Log1p(-f)
+		f := fastExp(-u)
+		return f, -u, fastLog1p(-f)
 	case u > 1e-10:
 		s := -math.Expm1(-u)
-		return 1 - s, -u, math.Log(s)
+		return 1 - s, -u, fastLog(s)
 	}
 	return 1 - u, -u, -y - u/2
 }
@@ -84,12 +84,12 @@ func extremeTails(u, y float64) (cdf, logCDF, logSurvival float64) {
 // calls, the same logarithms as logLogisticCDF.
 func logisticTails(z float64) (cdf, logCDF, logSurvival float64) {
 	if z >= 0 {
-		e := math.Exp(-z)
-		l := math.Log1p(e)
+		e := fastExp(-z)
+		l := fastLog1p(e)
 		return 1 / (1 + e), -l, -z - l
 	}
-	e := math.Exp(z)
-	l := math.Log1p(e)
+	e := fastExp(z)
+	l := fastLog1p(e)
 	return e / (1 + e), z - l, -l
 }
 
@@ -104,20 +104,20 @@ func normalTails(z float64) (cdf, logCDF, logSurvival float64) {
 		return z, z, z
 	case z <= 0:
 		f, lf := normalSmallTail(-z)
-		return f, lf, math.Log1p(-f)
+		return f, lf, fastLog1p(-f)
 	}
 	s, ls := normalSmallTail(z)
-	return 1 - s, math.Log1p(-s), ls
+	return 1 - s, fastLog1p(-s), ls
 }
 
 // normalSmallTail returns Q(t) = 1 − Φ(t) and ln Q(t) for t ≥ 0.
 func normalSmallTail(t float64) (q, lq float64) {
 	if t < 37 {
 		q = 0.5 * math.Erfc(t/sqrt2)
-		return q, math.Log(q)
+		return q, fastLog(q)
 	}
 	lq = logNormalCDF(-t)
-	return math.Exp(lq), lq
+	return fastExp(lq), lq
 }
 
 // CDFTails of the normal distribution: see normalTails.
@@ -130,7 +130,7 @@ func (d LogNormal) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 	if !(x > 0) {
 		return belowSupport()
 	}
-	return normalTails((math.Log(x) - d.Mu) / d.Sigma)
+	return normalTails((fastLog(x) - d.Mu) / d.Sigma)
 }
 
 // CDFTails of the three-parameter lognormal: normalTails of (ln(x−γ) − μ)/σ.
@@ -192,7 +192,7 @@ func (d GPD) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 // CDFTails of the Gumbel distribution: ln F = −e^(−z), z = (x − μ)/β.
 func (d Gumbel) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 	z := (x - d.Location) / d.Scale
-	return extremeTails(math.Exp(-z), z)
+	return extremeTails(fastExp(-z), z)
 }
 
 // CDFTails of the GEV distribution: ln F = −e^(−y), y = ln(1 + ξz)/ξ.
@@ -204,7 +204,7 @@ func (d GEV) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 		}
 		return aboveSupport()
 	}
-	return extremeTails(math.Exp(-y), y)
+	return extremeTails(fastExp(-y), y)
 }
 
 // CDFTails of the logistic distribution: see logisticTails.
@@ -249,6 +249,38 @@ func (d Gamma) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 	return gammaTailsGonum(a, y)
 }
 
+// CDFTailsBatch is CDFTails over x with the constant part of the
+// prefactor's logarithm (ln Γ(k), or c(k) from k = 30 on) formed once.
+func (d Gamma) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
+	a := d.Shape
+	if !(a <= incGammaMaxShape) || math.IsNaN(d.Rate) {
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	}
+	c := gammaPrefactorConst(a)
+	for i, v := range x {
+		y := d.Rate * v
+		switch {
+		case math.IsNaN(y):
+			cdf[i], logCDF[i], logSurvival[i] = math.NaN(), math.NaN(), math.NaN()
+			continue
+		case y <= 0:
+			cdf[i], logCDF[i], logSurvival[i] = belowSupport()
+			continue
+		case math.IsInf(y, 1):
+			cdf[i], logCDF[i], logSurvival[i] = aboveSupport()
+			continue
+		}
+		f, lf, ls, ok := incGammaTailsPre(a, y, gammaPrefactorFast(a, y, c))
+		if !ok {
+			f, lf, ls = gammaTailsGonum(a, y)
+		}
+		cdf[i], logCDF[i], logSurvival[i] = f, lf, ls
+	}
+}
+
 // gammaTailsGonum is Gamma.CDFTails at y = βx > 0 by gonum's regularized
 // incomplete gamma functions.
 func gammaTailsGonum(a, y float64) (cdf, logCDF, logSurvival float64) {
@@ -259,22 +291,22 @@ func gammaTailsGonum(a, y float64) (cdf, logCDF, logSurvival float64) {
 	}
 	p := mathext.GammaIncReg(a, y)
 	if p < 0.5 {
-		lp := math.Log(p)
+		lp := fastLog(p)
 		if !(p > 1e-280) {
 			lp = logGammaSeries(a, y)
 		}
-		return p, lp, math.Log1p(-p)
+		return p, lp, fastLog1p(-p)
 	}
 	return gammaUpperTails(a, y, mathext.GammaIncRegComp(a, y))
 }
 
 // gammaUpperTails returns F, ln F and ln S from Q = Q(a, y) ≤ ½.
 func gammaUpperTails(a, y, q float64) (cdf, logCDF, logSurvival float64) {
-	lq := math.Log(q)
+	lq := fastLog(q)
 	if !(q > 1e-280) {
 		lq = logGammaContinuedFraction(a, y)
 	}
-	return 1 - q, math.Log1p(-q), lq
+	return 1 - q, fastLog1p(-q), lq
 }
 
 // CDFTails of the inverse Gaussian distribution,
@@ -313,13 +345,13 @@ func invGaussTails(a, b, r, e2 float64) (cdf, logCDF, logSurvival float64) {
 	if !(math.Abs(a) <= 37) {
 		return invGaussTailsLog(a, b)
 	}
-	phi := math.Exp(-0.5*a*a) * invSqrt2Pi
+	phi := fastExp(-0.5*a*a) * invSqrt2Pi
 	var second float64
 	if b >= millsRationalLo {
 		second = phi * mills(b)
 	} else {
 		if math.IsNaN(e2) {
-			e2 = math.Exp(2 * r)
+			e2 = fastExp(2 * r)
 		}
 		second = e2 * 0.5 * math.Erfc(b/sqrt2)
 	}
@@ -330,11 +362,11 @@ func invGaussTails(a, b, r, e2 float64) (cdf, logCDF, logSurvival float64) {
 		lower = 0.5 * math.Erfc(-a/sqrt2)
 	}
 	if f := lower + second; f < 0.5 {
-		return f, math.Log(f), log1mSmall(f)
+		return f, fastLog(f), log1mSmall(f)
 	}
 	if a > -1 && b-a <= math.Max(1, a) {
 		ls := -0.5*a*a - lnSqrt2Pi + logMillsDifferenceFast(a, b)
-		s := math.Exp(ls)
+		s := fastExp(ls)
 		return 1 - s, log1mSmall(s), ls
 	}
 	var upper float64 // Φ(−a)
@@ -344,13 +376,13 @@ func invGaussTails(a, b, r, e2 float64) (cdf, logCDF, logSurvival float64) {
 		upper = 0.5 * math.Erfc(a/sqrt2)
 	}
 	s := upper - second
-	return 1 - s, log1mSmall(s), math.Log(s)
+	return 1 - s, log1mSmall(s), fastLog(s)
 }
 
 // CDFTailsBatch is CDFTails over x with λ/μ and e^(2λ/μ) formed once.
 func (d InvGauss) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
 	r := d.Shape / d.Mean
-	e2 := math.Exp(2 * r) // +Inf when 2r > 709: then b ≥ 2√r never needs it
+	e2 := fastExp(2 * r) // +Inf when 2r > 709: then b ≥ 2√r never needs it
 	for i, v := range x {
 		switch {
 		case !(v > 0):
@@ -374,10 +406,10 @@ const invSqrt2Pi = 0.39894228040143267793994605993438186847585863116493
 func invGaussTailsLog(a, b float64) (cdf, logCDF, logSurvival float64) {
 	second := -0.5*a*a - lnSqrt2Pi + logMillsShort(b) // logSecond(a, b)
 	lf := logAddExpPair(logNormalCDFShort(a), second)
-	f := math.Exp(lf)
+	f := fastExp(lf)
 	switch {
 	case lf < -math.Ln2:
-		return f, lf, math.Log1p(-f)
+		return f, lf, fastLog1p(-f)
 	case a > -1 && b-a <= math.Max(1, a):
 		return f, lf, -0.5*a*a - lnSqrt2Pi + logMillsDifference(a, b)
 	}
@@ -417,7 +449,7 @@ func millsRatioShort(x float64) float64 {
 // logMillsShort is logMills with millsRatioShort.
 func logMillsShort(t float64) float64 {
 	if t >= 5 {
-		return math.Log(millsRatioShort(t))
+		return fastLog(millsRatioShort(t))
 	}
 	return logNormalCDF(-t) + 0.5*t*t + lnSqrt2Pi
 }
@@ -426,7 +458,7 @@ func logMillsShort(t float64) float64 {
 func logNormalCDFShort(z float64) float64 {
 	if z < -5 && !math.IsInf(z, -1) {
 		x := -z
-		return -0.5*x*x - lnSqrt2Pi + math.Log(millsRatioShort(x))
+		return -0.5*x*x - lnSqrt2Pi + fastLog(millsRatioShort(x))
 	}
 	return logNormalCDF(z)
 }

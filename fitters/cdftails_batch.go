@@ -26,6 +26,9 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 	case InvGauss:
 		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
+	case Gamma:
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
+		return
 	case CDFTailer:
 		for i, v := range x {
 			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
@@ -37,14 +40,14 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 		if !upper {
 			lf := d.LogCDF(v)
 			if lf < -math.Ln2 {
-				f := math.Exp(lf)
-				cdf[i], logCDF[i], logSurvival[i] = f, lf, math.Log1p(-f)
+				f := fastExp(lf)
+				cdf[i], logCDF[i], logSurvival[i] = f, lf, fastLog1p(-f)
 				continue
 			}
 			upper = true
 		}
 		ls := d.LogSurvival(v)
 		lf := log1mExp(ls)
-		cdf[i], logCDF[i], logSurvival[i] = math.Exp(lf), lf, ls
+		cdf[i], logCDF[i], logSurvival[i] = fastExp(lf), lf, ls
 	}
 }

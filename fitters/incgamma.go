@@ -29,12 +29,18 @@ const incGammaMaxShape = 100
 // also used from a + 1 to a + 1 + √a/2 while P ≤ 0.9 (Q = 1 − P then keeps
 // all but three bits); it is cheaper per term than the fraction there.
 func incGammaTails(a, x float64) (cdf, logCDF, logSurvival float64, ok bool) {
-	pre := logGammaPrefactor(a, x)
+	return incGammaTailsPre(a, x, gammaPrefactorFast(a, x, gammaPrefactorConst(a)))
+}
+
+// incGammaTailsPre is incGammaTails with the logarithm of the prefactor,
+// pre = ln(x^a e^(−x)/Γ(a)), given (gammaPrefactorFast): a batch forms
+// its constant part once.
+func incGammaTailsPre(a, x, pre float64) (cdf, logCDF, logSurvival float64, ok bool) {
 	// e^pre does not wait for the series or the fraction: the processor
 	// overlaps it with them. Where it underflows, the tail T = e^pre·s is
 	// below 1e−300 and needed only absolutely; ln T = pre + ln s keeps
 	// every digit regardless.
-	ePre := math.Exp(pre)
+	ePre := fastExp(pre)
 	if x < a+1+0.5*math.Sqrt(a) {
 		// Series, two terms per step: the term chain is one
 		// multiplication per two terms, the divisions are independent.
@@ -51,7 +57,7 @@ func incGammaTails(a, x float64) (cdf, logCDF, logSurvival float64, ok bool) {
 			}
 		}
 		s := sum / a
-		lp := pre + math.Log(s)
+		lp := pre + fastLog(s)
 		p := ePre * s
 		if p <= 0.9 {
 			return p, lp, log1mSmall(p), true
@@ -61,7 +67,7 @@ func incGammaTails(a, x float64) (cdf, logCDF, logSurvival float64, ok bool) {
 		}
 	}
 	h := gammaContinuedFraction(a, x)
-	lq := pre + math.Log(h)
+	lq := pre + fastLog(h)
 	q := ePre * h
 	return 1 - q, log1mSmall(q), lq, true
 }
@@ -74,7 +80,7 @@ func incGammaTails(a, x float64) (cdf, logCDF, logSurvival float64, ok bool) {
 // and |ln(1 − p)| > 0.28 keeps it relatively small.
 func log1mSmall(p float64) float64 {
 	if p >= 0.25 {
-		return math.Log(1 - p)
+		return fastLog(1 - p)
 	}
 	u := p / (2 - p)
 	u2 := u * u
@@ -107,6 +113,33 @@ func logGammaPrefactor(a, x float64) float64 {
 		l = math.Log(r) - (r - 1)
 	}
 	return gammaStirlingC(a) + a*l
+}
+
+// gammaPrefactorConst returns the part of ln(x^a e^(−x)/Γ(a)) that
+// depends on a alone, as logGammaPrefactor splits it: ln Γ(a) below a = 30,
+// c(a) = a ln a − a − ln Γ(a) (gammaStirlingC) from 30 on.
+func gammaPrefactorConst(a float64) float64 {
+	if a < 30 {
+		lg, _ := math.Lgamma(a)
+		return lg
+	}
+	return gammaStirlingC(a)
+}
+
+// gammaPrefactorFast is logGammaPrefactor with c = gammaPrefactorConst(a)
+// given and fastLog for the logarithms of x and x/a.
+func gammaPrefactorFast(a, x, c float64) float64 {
+	if a < 30 {
+		return a*fastLog(x) - x - c
+	}
+	r := x / a
+	var l float64
+	if r > 0.5 && r < 2 {
+		l = log1pmx((x - a) / a)
+	} else {
+		l = fastLog(r) - (r - 1)
+	}
+	return c + a*l
 }
 
 // gammaContinuedFraction returns the continued fraction h of Q(a, x) =

@@ -65,7 +65,7 @@ func tMillsRational(t float64) float64 {
 		r = erfcRb0 + s*(erfcRb1+s*(erfcRb2+s*(erfcRb3+s*(erfcRb4+s*(erfcRb5+s*erfcRb6)))))
 		q = 1 + s*(erfcSb1+s*(erfcSb2+s*(erfcSb3+s*(erfcSb4+s*(erfcSb5+s*(erfcSb6+s*erfcSb7))))))
 	}
-	return sqrtPi * math.Exp(-0.5625+r/q)
+	return sqrtPi * fastExp(-0.5625+r/q)
 }
 
 // mills is the normal Mills ratio R(t) for t ≥ millsRationalLo (≈ 1.77):
@@ -150,5 +150,5 @@ func logMillsDifferenceFast(a, b float64) float64 {
 	for i, u := range nodes {
 		s += weights[i] * oneMinusTMillsFast(m+h*u)
 	}
-	return math.Log(h * s)
+	return fastLog(h * s)
 }
