@@ -459,7 +459,7 @@ var logTable = [256]struct{ invC, lnCHi, lnCLo float64 }{
 // math/big reference) and the same bits on every processor (no product can be fused, as in
 // fastLog). Special values are those of math.Exp: e^NaN = NaN, e^+Inf = +Inf,
 // e^−Inf = 0, +Inf above 709.78271289338397, 0 below −745.13321910194111,
-// subnormal results below −708.4.
+// subnormal results below −708.4 (within one of their ulps).
 //
 // The method is Tang's table-driven exponential (Tang, 1989, ACM TOMS 15(2),
 // "Table-driven implementation of the exponential function in IEEE
@@ -475,7 +475,7 @@ var logTable = [256]struct{ invC, lnCHi, lnCLo float64 }{
 // so e^x = s + s·(tail + r + …) with s = 2^⌊k/N⌋ T_j.
 func fastExp(x float64) float64 {
 	ax := math.Float64bits(x) &^ (1 << 63)
-	if ax >= 0x4086200000000000 { // |x| ≥ 708, Inf or NaN
+	if ax >= 0x4085f00000000000 { // |x| ≥ 702, Inf or NaN
 		return expSpecial(x)
 	}
 	return expCore(x, 0)
@@ -494,7 +494,10 @@ func expCore(x float64, scale int64) float64 {
 	return s + float64(s*tmp)
 }
 
-// expSpecial is fastExp for |x| ≥ 708, infinite or NaN x.
+// expSpecial is fastExp for |x| ≥ 702, infinite or NaN x. Below −702
+// s·(tail + r + …) in expCore could be subnormal and lose digits, so the
+// result is taken 2⁶⁴ times larger and scaled back (exact while it is
+// normal).
 func expSpecial(x float64) float64 {
 	switch {
 	case x != x:
@@ -508,8 +511,9 @@ func expSpecial(x float64) float64 {
 		// (exact unless it overflows, as e^x does then).
 		return expCore(x, -1) * 2
 	}
-	// The result may be subnormal: e^x·2^64 is normal, and one more
-	// rounding to the subnormal grid keeps the error below one of its ulps.
+	// e^x·2⁶⁴ is normal; scaling back is exact for a normal result, and
+	// one more rounding to the subnormal grid keeps the error of a
+	// subnormal one below one of its ulps.
 	return expCore(x, 64) * 0x1p-64
 }
 
