@@ -49,7 +49,7 @@ func hazardTails(t float64) (cdf, logCDF, logSurvival float64) {
 		return f, fastLog(f), -t
 	}
 	s := fastExp(-t)
-	return 1 - s, fastLog1p(-s), -t
+	return 1 - s, log1mSmall(s), -t
 }
 
 // logHazardTails is hazardTails for t = e^lt given by its logarithm, so
@@ -70,7 +70,7 @@ func extremeTails(u, y float64) (cdf, logCDF, logSurvival float64) {
 	switch {
 	case u > math.Ln2:
 		f := fastExp(-u)
-		return f, -u, fastLog1p(-f)
+		return f, -u, log1mSmall(f)
 	case u > 1e-10:
 		s := -math.Expm1(-u)
 		return 1 - s, -u, fastLog(s)
@@ -104,10 +104,10 @@ func normalTails(z float64) (cdf, logCDF, logSurvival float64) {
 		return z, z, z
 	case z <= 0:
 		f, lf := normalSmallTail(-z)
-		return f, lf, fastLog1p(-f)
+		return f, lf, log1mSmall(f)
 	}
 	s, ls := normalSmallTail(z)
-	return 1 - s, fastLog1p(-s), ls
+	return 1 - s, log1mSmall(s), ls
 }
 
 // normalSmallTail returns Q(t) = 1 − Φ(t) and ln Q(t) for t ≥ 0.
@@ -156,7 +156,7 @@ func (d Weibull) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 	if !(x > 0) {
 		return belowSupport()
 	}
-	return logHazardTails(d.Shape * lnRatio(x, d.Scale))
+	return logHazardTails(d.Shape * lnRatioFast(x, d.Scale))
 }
 
 // CDFTails of the three-parameter Weibull: cumulative hazard ((x−γ)/λ)^k.
@@ -217,7 +217,7 @@ func (d LogLogistic) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 	if !(x > 0) {
 		return belowSupport()
 	}
-	return logisticTails(d.z(x))
+	return logisticTails(d.Shape * lnRatioFast(x, d.Scale)) // d.z with lnRatioFast
 }
 
 // CDFTails of the gamma distribution: for shapes up to

@@ -61,7 +61,7 @@ type edfSums struct{ n, ks, cvm, ad float64 }
 // F, ln F and ln S.
 func (s *edfSums) add(i int, f, lf, ls float64) {
 	fi := float64(i)
-	s.ks = math.Max(s.ks, math.Max((fi+1)/s.n-f, f-fi/s.n))
+	s.ks = max(s.ks, (fi+1)/s.n-f, f-fi/s.n) // the built-in: NaN and ±0 as math.Max, no call
 	e := f - (2*fi+1)/(2*s.n)
 	s.cvm += e * e
 	s.ad += (2*fi+1)*lf + (2*(s.n-fi)-1)*ls
