@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"strings"
 )
 
 // InvGauss is the inverse Gaussian distribution with Mean μ > 0 and Shape
@@ -238,6 +239,25 @@ func (f invgaussFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (log mean, log shape)")
 	if newtonFailed != "" {
 		censoredNewtonFallback(fit, newtonFailed)
+		markNoInteriorMaximum(fit, d, newtonFailed)
 	}
 	return fit, nil
+}
+
+// markNoInteriorMaximum marks the fallback fit not converged where the
+// censored Newton route found the likelihood rising as μ → ∞ and BFGS
+// then stopped at a mean above 10⁶ times the data's centre: there the
+// likelihood is flat to rounding and has no maximum-likelihood estimate
+// (its supremum is the Lévy limit, not an inverse Gaussian), so the
+// reported point must not be ranked or weighted as if it were one.
+func markNoInteriorMaximum(fit *Fit, d *Data, newtonFailed string) {
+	if !fit.Converged || !strings.HasPrefix(newtonFailed, "no interior maximum") {
+		return
+	}
+	c := censoredCentre(d)
+	if !(fit.Estimates[0] > 1e6*c) {
+		return
+	}
+	fit.Converged = false
+	fit.Reason = fmt.Sprintf("no maximum-likelihood estimate: the likelihood keeps rising as the mean → ∞ (BFGS stopped at mean %.4g, over 10⁶ times the data's centre %.4g); these censored data do not identify a finite-mean inverse Gaussian", fit.Estimates[0], c)
 }
