@@ -41,12 +41,26 @@ func belowSupport() (float64, float64, float64) { return 0, math.Inf(-1), 0 }
 func aboveSupport() (float64, float64, float64) { return 1, 0, math.Inf(-1) }
 
 // hazardTails returns F, ln F and ln S from the cumulative hazard
-// t = −ln S ≥ 0: S = e^(−t), F = −expm1(−t) below the median (t < ln 2)
-// and 1 − S above it; two transcendental calls.
+// t = −ln S ≥ 0: see hazardTailsLog, with ln t = fastLog(t) below the
+// median.
 func hazardTails(t float64) (cdf, logCDF, logSurvival float64) {
 	if t < math.Ln2 {
-		f := -math.Expm1(-t)
-		return f, fastLog(f), -t
+		return hazardTailsLog(t, fastLog(t))
+	}
+	s := fastExp(-t)
+	return 1 - s, log1mSmall(s), -t
+}
+
+// hazardTailsLog returns F, ln F and ln S from the cumulative hazard
+// t = −ln S ≥ 0 and lt = ln t: below the median (t < ln 2) ln F = ln t +
+// g(t) (log1mExpRatio: a polynomial, no logarithm) and F = e^(ln F); above
+// it S = e^(−t), F = 1 − S and ln F = ln(1 − S) (log1mSmall). Two
+// exponentials below the median, one and a logarithm or a short series
+// above.
+func hazardTailsLog(t, lt float64) (cdf, logCDF, logSurvival float64) {
+	if t < math.Ln2 {
+		lf := lt + log1mExpRatio(t)
+		return fastExp(lf), lf, -t
 	}
 	s := fastExp(-t)
 	return 1 - s, log1mSmall(s), -t
@@ -59,23 +73,21 @@ func logHazardTails(lt float64) (cdf, logCDF, logSurvival float64) {
 		t := fastExp(lt)
 		return t, lt, -t
 	}
-	return hazardTails(fastExp(lt))
+	return hazardTailsLog(fastExp(lt), lt)
 }
 
 // extremeTails returns F, ln F and ln S for ln F = −u, u = e^(−y) ≥ 0 (the
-// Gumbel and GEV form): F = e^(−u) below the median (u > ln 2),
-// S = −expm1(−u) above it, and ln S = −y − u/2 + O(u²) where u < 1e−10
-// (as Gumbel's LogSurvival) so that an underflowing u gives no ln 0.
+// Gumbel and GEV form): F = e^(−u) below the median (u > ln 2) and
+// ln S = ln(1 − F) (log1mSmall); above it ln S = ln(1 − e^(−u)) = −y + g(u)
+// (log1mExpRatio, exact to rounding down to u = 0, so that an underflowing
+// u gives no ln 0), S = e^(ln S) and F = 1 − S.
 func extremeTails(u, y float64) (cdf, logCDF, logSurvival float64) {
-	switch {
-	case u > math.Ln2:
+	if u > math.Ln2 {
 		f := fastExp(-u)
 		return f, -u, log1mSmall(f)
-	case u > 1e-10:
-		s := -math.Expm1(-u)
-		return 1 - s, -u, fastLog(s)
 	}
-	return 1 - u, -u, -y - u/2
+	ls := -y + log1mExpRatio(u)
+	return 1 - fastExp(ls), -u, ls
 }
 
 // logisticTails returns F, ln F and ln S of the standard logistic at z:

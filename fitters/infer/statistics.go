@@ -40,9 +40,7 @@ func edfStatistics(d fitters.Dist, x []float64, out *[3]float64) {
 	for lo := 0; lo < len(x); lo += fitters.CDFTailsBlock {
 		block := x[lo:min(lo+fitters.CDFTailsBlock, len(x))]
 		fitters.CDFTailsBatch(d, block, f[:], lf[:], ls[:])
-		for j := range block {
-			s.add(lo+j, f[j], lf[j], ls[j])
-		}
+		s.addBlock(lo, f[:len(block)], lf[:len(block)], ls[:len(block)])
 	}
 	out[0] = s.ks
 	out[1] = s.cvm + 1/(12*s.n)
@@ -57,12 +55,23 @@ func edfStatistics(d fitters.Dist, x []float64, out *[3]float64) {
 // edfSums accumulates the sums of edfStatistics over n points.
 type edfSums struct{ n, ks, cvm, ad float64 }
 
-// add takes the point of 0-based rank i (rank i+1 of the formulas) with
-// F, ln F and ln S.
-func (s *edfSums) add(i int, f, lf, ls float64) {
-	fi := float64(i)
-	s.ks = max(s.ks, (fi+1)/s.n-f, f-fi/s.n) // the built-in: NaN and ±0 as math.Max, no call
-	e := f - (2*fi+1)/(2*s.n)
-	s.cvm += e * e
-	s.ad += (2*fi+1)*lf + (2*(s.n-fi)-1)*ls
+// addBlock takes the points of 0-based ranks lo, lo+1, … (ranks lo+1, …
+// of the formulas) with their F, ln F and ln S. Each point's i/n is the
+// previous point's (i−1+1)/n, carried instead of divided again (the same
+// quotient of the same integers).
+func (s *edfSums) addBlock(lo int, f, lf, ls []float64) {
+	ks, cvm, ad, n := s.ks, s.cvm, s.ad, s.n
+	fi := float64(lo)
+	below := fi / n // (i−1)/n of the formulas
+	for j := range f {
+		fj := f[j]
+		above := (fi + 1) / n // i/n
+		ks = max(ks, above-fj, fj-below) // the built-in: NaN and ±0 as math.Max, no call
+		e := fj - (2*fi+1)/(2*n)
+		cvm += e * e
+		ad += (2*fi+1)*lf[j] + (2*(n-fi)-1)*ls[j]
+		below = above
+		fi++
+	}
+	s.ks, s.cvm, s.ad = ks, cvm, ad
 }
