@@ -65,7 +65,7 @@ func (s *edfSums) addBlock(lo int, f, lf, ls []float64) {
 	below := fi / n // (i−1)/n of the formulas
 	for j := range f {
 		fj := f[j]
-		above := (fi + 1) / n // i/n
+		above := (fi + 1) / n            // i/n
 		ks = max(ks, above-fj, fj-below) // the built-in: NaN and ±0 as math.Max, no call
 		e := fj - (2*fi+1)/(2*n)
 		cvm += e * e
