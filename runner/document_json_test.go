@@ -196,37 +196,3 @@ func BenchmarkResultsJSON(b *testing.B) {
 		}
 	})
 }
-
-// TestResultsJSONParts: results.json written in n parts and joined, as
-// FilesOn writes it on n workers, is resultsJSON byte for byte, for more
-// parts than analyses too, and for a run with no analysis.
-func TestResultsJSONParts(t *testing.T) {
-	path := splitProject(t, 5, 40, `"weibull", "lognormal", "exponential"`, "bootstrap = 0", true)
-	p, err := Load(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	res, err := Run(context.Background(), p, RunOptions{Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
-	empty := &Results{Project: res.Project, Data: res.Data}
-	for _, r := range []*Results{res, empty} {
-		want := r.resultsJSON()
-		for n := 1; n <= 8; n++ {
-			var parts [][]byte
-			for i := range n {
-				parts = append(parts, r.resultsJSONPart(i, n))
-			}
-			if got := joinParts(parts); !bytes.Equal(got, want) {
-				t.Errorf("%d analyses in %d parts: joined parts differ from results.json", len(r.Analyses), n)
-			}
-		}
-		for _, w := range []int{1, 2, 3, 8} {
-			files, err := r.FilesOn(w)
-			if err != nil || !bytes.Equal(files[ResultsFile], want) {
-				t.Errorf("%d analyses, FilesOn(%d): results.json differs (%v)", len(r.Analyses), w, err)
-			}
-		}
-	}
-}

@@ -40,26 +40,19 @@ func FormatFloat(x float64) string {
 func (r *Results) Files() (map[string][]byte, error) { return r.FilesOn(1) }
 
 // FilesOn is [Results.Files] with the files written on at most workers
-// goroutines at once: results.json, the largest, in as many parts as there
-// are workers (resultsJSONPart), joined in order, beside the result CSVs;
-// the bytes do not depend on workers.
+// goroutines at once (results.json on one while the tables are written on
+// the others); the bytes do not depend on workers.
 func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
-	workers = max(1, workers)
-	parts := workers
-	names := []string{FitsFile, ParametersFile, DerivedFile, GOFFile}
-	var write []func() []byte
-	for i := range parts {
-		write = append(write, func() []byte { return r.resultsJSONPart(i, parts) })
-	}
-	write = append(write, r.fitsCSV, r.parametersCSV, r.derivedCSV, r.gofCSV)
-	data := make([][]byte, len(write))
-	next := make(chan int, len(write))
-	for i := range write {
+	names := []string{ResultsFile, FitsFile, ParametersFile, DerivedFile, GOFFile}
+	write := []func() []byte{r.resultsJSON, r.fitsCSV, r.parametersCSV, r.derivedCSV, r.gofCSV}
+	data := make([][]byte, len(names))
+	next := make(chan int, len(names))
+	for i := range names {
 		next <- i
 	}
 	close(next)
 	var wg sync.WaitGroup
-	for w := 0; w < min(workers, len(write)); w++ {
+	for w := 0; w < min(max(1, workers), len(names)); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -69,75 +62,28 @@ func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
 		}()
 	}
 	wg.Wait()
-	out := make(map[string][]byte, len(names)+1)
-	out[ResultsFile] = joinParts(data[:parts])
+	out := make(map[string][]byte, len(names))
 	for i, name := range names {
-		out[name] = data[parts+i]
+		out[name] = data[i]
 	}
 	return out, nil
-}
-
-// joinParts is the parts one after the other (the only part itself).
-func joinParts(parts [][]byte) []byte {
-	if len(parts) == 1 {
-		return parts[0]
-	}
-	n := 0
-	for _, p := range parts {
-		n += len(p)
-	}
-	out := make([]byte, 0, n)
-	for _, p := range parts {
-		out = append(out, p...)
-	}
-	return out
 }
 
 // resultsJSON is results.json (layout: document_json.go).
 func (r *Results) resultsJSON() []byte {
 	doc := r.document()
-	size := 4096 // a little over the size, so that the buffer grows once at most
+	// A little over the size, so that the buffer grows once at most: the
+	// 1000-analysis bench (9 families, 3 GOF rows each) takes about 925
+	// bytes per fit with its parameters and 110 per GOF row; twice the
+	// size would be zeroed for nothing when the heap's memory is reused.
+	size := 4096
 	for _, d := range doc.Datasets {
 		size += 100 * len(d.Groups)
 	}
 	for _, a := range doc.Analyses {
-		size += 500 + 1400*len(a.Fits) + 350*(len(a.Derived)+len(a.GOF))
+		size += 500 + len(a.Name) + 1100*len(a.Fits) + 300*len(a.Derived) + 160*len(a.GOF)
 	}
 	return appendDocument(make([]byte, 0, size), &doc)
-}
-
-// resultsJSONPart is part i of n of results.json: the analyses from i·A/n
-// up to (i+1)·A/n of the A analyses, after the head (everything before
-// them) in part 0 and before the tail in part n−1. The parts joined in
-// order are resultsJSON byte for byte (TestResultsJSONParts).
-func (r *Results) resultsJSONPart(i, n int) []byte {
-	lo, hi := i*len(r.Analyses)/n, (i+1)*len(r.Analyses)/n
-	size := 64
-	for _, a := range r.Analyses[lo:hi] {
-		size += 500 + 1400*len(a.Comparison.Rows) + 350*(len(a.Derived)+len(a.GOF))
-	}
-	var b []byte
-	if i == 0 {
-		head := r.documentHead()
-		size += 4096
-		for _, d := range head.Datasets {
-			size += 200 + 100*len(d.Groups)
-		}
-		b = append(appendDocumentHead(make([]byte, 0, size), &head), '[')
-	} else {
-		b = make([]byte, 0, size)
-	}
-	for j := lo; j < hi; j++ {
-		if j > 0 {
-			b = append(b, ',')
-		}
-		da := docAnalysisOf(r.Analyses[j])
-		b = appendAnalysis(append(b, '\n'), &da)
-	}
-	if i == n-1 {
-		b = append(b, "]}\n"...)
-	}
-	return b
 }
 
 func (r *Results) fitsCSV() []byte {
