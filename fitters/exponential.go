@@ -102,7 +102,7 @@ func (f exponentialFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		// ≥ 0, not all 0) come out of the pass that sums the values.
 		lo, _, total := scan4(d.Exact)
 		if r := float64(len(d.Exact)); lo >= 0 && total > 0 && !math.IsInf(total, 1) {
-			fit := newFit(f, d)
+			fit := newFitOpt(f, d, opt)
 			rate := r / total
 			fit.Estimates[0] = rate
 			fit.LogLik = r*math.Log(rate) - r // λ̂·Σx = n

@@ -55,6 +55,9 @@ type Options struct {
 	MaxIterations int
 	// Fixed parameters, by name.
 	Fixed Fixed
+	// into, set by FitInto, is the caller's record that a complete-data
+	// fit fills and returns instead of allocating one (newFitOpt).
+	into *FitRecord
 }
 
 // DefaultTolerance and DefaultMaxIterations are the settings used when
@@ -105,8 +108,11 @@ type Convergence struct {
 
 // Fit is the result of maximising one family's likelihood on one dataset.
 type Fit struct {
-	Family     string
-	Parameters []string  // names, in the family's order
+	Family string
+	// Parameters are the names, in the family's order. For a registered
+	// family the slice is shared by every fit of that family (it is never
+	// allocated per fit): read it, never write to it.
+	Parameters []string
 	Estimates  []float64 // values, fixed ones included
 	Fixed      []bool    // which parameters were held fixed
 	LogLik     float64   // maximum log-likelihood, constants included
@@ -173,12 +179,27 @@ func inapplicable(family, format string, args ...any) error {
 
 var registry = map[string]Family{}
 
+// parameterNames holds each registered family's Parameters(), taken once
+// at registration: every Fit of the family shares this read-only slice
+// (newFit), instead of one allocated per fit.
+var parameterNames = map[string][]string{}
+
 // register adds f to the catalogue; called from each family's init.
 func register(f Family) {
 	if _, dup := registry[f.Name()]; dup {
 		panic("fitters: family registered twice: " + f.Name())
 	}
 	registry[f.Name()] = checkedFamily{f}
+	parameterNames[f.Name()] = f.Parameters()
+}
+
+// namesOf returns f's parameter names: the shared slice of a registered
+// family, a fresh f.Parameters() for any other.
+func namesOf(f Family) []string {
+	if names, ok := parameterNames[f.Name()]; ok {
+		return names
+	}
+	return f.Parameters()
 }
 
 // Lookup returns the family with the given name.

@@ -8,16 +8,36 @@ import (
 
 // newFit starts a Fit record for family f on data d, with every parameter
 // free and the estimates unset (NaN). For up to four parameters the record
-// and its Estimates and Fixed slices come from one allocation (fitBox).
-func newFit(f Family, d *Data) *Fit {
-	names := f.Parameters()
+// and its Estimates and Fixed slices come from one allocation (fitBox); the
+// parameter names are the family's shared slice (namesOf).
+func newFit(f Family, d *Data) *Fit { return newFitIn(f, d, nil) }
+
+// newFitOpt is newFit for the complete-data route of a family's Fit: when
+// the caller gave a record through FitInto (opt.into) and d is complete, it
+// starts that record instead of allocating one, so that a bootstrap refit
+// allocates nothing. Only the complete-data routes call it, and none of
+// them fits another family with opt, so one record is never filled twice
+// by one fit.
+func newFitOpt(f Family, d *Data, opt Options) *Fit {
+	if opt.into != nil && d.IsComplete() {
+		return newFitIn(f, d, &opt.into.box)
+	}
+	return newFit(f, d)
+}
+
+// newFitIn starts the record in b (a new one when b is nil or too small).
+func newFitIn(f Family, d *Data, b *fitBox) *Fit {
+	names := namesOf(f)
 	k := len(names)
 	var fit *Fit
 	var est []float64
 	var fixed []bool
 	if k <= len(fitBox{}.est) {
-		b := new(fitBox)
+		if b == nil {
+			b = new(fitBox)
+		}
 		fit, est, fixed = &b.fit, b.est[:k:k], b.fixed[:k:k]
+		clear(fixed)
 	} else {
 		fit, est, fixed = new(Fit), make([]float64, k), make([]bool, k)
 	}
@@ -38,11 +58,28 @@ func newFit(f Family, d *Data) *Fit {
 }
 
 // fitBox holds a Fit with room for its estimates and fixed flags, so that
-// newFit allocates once (bootstrap refits create one per replicate).
+// newFit allocates once, and a FitRecord not at all.
 type fitBox struct {
 	fit   Fit
 	est   [4]float64
 	fixed [4]bool
+}
+
+// FitRecord is a caller-owned home for the results of repeated fits
+// (FitInto): its zero value is ready to use, and it is reused by each fit.
+type FitRecord struct{ box fitBox }
+
+// FitInto fits fam to d as fam.Fit(d, opt) does, with the same result,
+// except that the complete-data routes of the continuous families of the
+// batch workload (normal, lognormal, exponential, gamma, weibull, gumbel,
+// logistic, loglogistic, invgauss) write it into rec and return &rec's Fit
+// instead of allocating one: with their scratch buffers borrowed from a
+// pool, such a refit allocates nothing. The returned Fit (its Estimates
+// and Fixed included) is valid until the next FitInto with rec; copy what
+// must outlive it. rec must not be used by two fits at once.
+func FitInto(fam Family, d *Data, opt Options, rec *FitRecord) (*Fit, error) {
+	opt.into = rec
+	return fam.Fit(d, opt)
 }
 
 // closedForm is the convergence record of an explicit solution.

@@ -248,7 +248,7 @@ func (f gammaFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		// Applicable's conditions (values > 0, not all equal) and Σ x from
 		// one pass.
 		if lo, hi, sum := scan4(d.Exact); lo > 0 && lo < hi {
-			fit := newFit(f, d)
+			fit := newFitOpt(f, d, opt)
 			fit.setSolved(gammaMLESum(d.Exact, sum, opt))
 			return fit, nil
 		}

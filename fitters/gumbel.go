@@ -197,7 +197,7 @@ func (f gumbelFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			return nil, err
 		}
 	}
-	fit := newFit(f, d)
+	fit := newFitOpt(f, d, opt)
 	if d.IsComplete() {
 		fit.setSolved(gumbelMLE(d.Exact, opt))
 		return fit, nil

@@ -200,7 +200,7 @@ func invgaussFast(x []float64) (mean, shape, ll float64, ok bool) {
 func (f invgaussFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) >= 2 {
 		if m, s, ll, ok := invgaussFast(d.Exact); ok {
-			fit := newFit(f, d)
+			fit := newFitOpt(f, d, opt)
 			fit.Estimates[0], fit.Estimates[1] = m, s
 			fit.LogLik = ll
 			fit.Convergence = closedForm()

@@ -258,7 +258,7 @@ func (f logisticFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			return nil, err
 		}
 	}
-	fit := newFit(f, d)
+	fit := newFitOpt(f, d, opt)
 	if d.IsComplete() {
 		fit.setSolved(logisticMLE(d.Exact, opt))
 		return fit, nil

@@ -124,7 +124,7 @@ func (f loglogisticFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			return nil, err
 		}
 	}
-	fit := newFit(f, d)
+	fit := newFitOpt(f, d, opt)
 	if d.IsComplete() {
 		fit.setSolved(loglogisticMLE(d.Exact, opt))
 		return fit, nil

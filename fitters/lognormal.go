@@ -181,7 +181,7 @@ func (f lognormalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) >= 2 {
 		// The log pass checks the data too: see lognormalFastMLE.
 		if mu, sigma, ll, ok := lognormalFastMLE(d.Exact); ok {
-			fit := newFit(f, d)
+			fit := newFitOpt(f, d, opt)
 			fit.Estimates[0], fit.Estimates[1] = mu, sigma
 			fit.LogLik = ll
 			fit.Convergence = closedForm()

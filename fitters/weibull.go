@@ -222,7 +222,7 @@ func (f weibullFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			return nil, err
 		}
 	}
-	fit := newFit(f, d)
+	fit := newFitOpt(f, d, opt)
 	if d.IsComplete() {
 		fit.setSolved(weibullMLE(d.Exact, opt))
 		return fit, nil
