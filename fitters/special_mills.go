@@ -57,13 +57,17 @@ const sqrtPi = 1.77245385090551602729816748334114518279754945612239
 // near −0.57 (no −t²/2 to round), one division.
 func tMillsRational(t float64) float64 {
 	s := 2 / (t * t) // 1/x²
+	s2 := s * s
+	s4 := s2 * s2
+	// R and S by Estrin's scheme (pairs, then pairs of pairs): three
+	// multiply-adds deep instead of Horner's seven or eight.
 	var r, q float64
 	if t < sqrt2/0.35 {
-		r = erfcRa0 + s*(erfcRa1+s*(erfcRa2+s*(erfcRa3+s*(erfcRa4+s*(erfcRa5+s*(erfcRa6+s*erfcRa7))))))
-		q = 1 + s*(erfcSa1+s*(erfcSa2+s*(erfcSa3+s*(erfcSa4+s*(erfcSa5+s*(erfcSa6+s*(erfcSa7+s*erfcSa8)))))))
+		r = ((erfcRa0 + s*erfcRa1) + s2*(erfcRa2+s*erfcRa3)) + s4*((erfcRa4+s*erfcRa5)+s2*(erfcRa6+s*erfcRa7))
+		q = ((1 + s*erfcSa1) + s2*(erfcSa2+s*erfcSa3)) + s4*((erfcSa4+s*erfcSa5)+s2*(erfcSa6+s*erfcSa7)) + s4*s4*erfcSa8
 	} else {
-		r = erfcRb0 + s*(erfcRb1+s*(erfcRb2+s*(erfcRb3+s*(erfcRb4+s*(erfcRb5+s*erfcRb6)))))
-		q = 1 + s*(erfcSb1+s*(erfcSb2+s*(erfcSb3+s*(erfcSb4+s*(erfcSb5+s*(erfcSb6+s*erfcSb7))))))
+		r = ((erfcRb0 + s*erfcRb1) + s2*(erfcRb2+s*erfcRb3)) + s4*((erfcRb4+s*erfcRb5)+s2*erfcRb6)
+		q = ((1 + s*erfcSb1) + s2*(erfcSb2+s*erfcSb3)) + s4*((erfcSb4+s*erfcSb5)+s2*(erfcSb6+s*erfcSb7))
 	}
 	return sqrtPi * fastExp(-0.5625+r/q)
 }
