@@ -115,10 +115,12 @@ func bootstrapApplicable(d *fitters.Data, dist fitters.Dist) error {
 // bootstrap-t intervals need). Replicates run on opt.Workers
 // goroutines; each writes only its own slot, so the result is the same for
 // any number of workers. Each worker reuses its generator, its seeding
-// text, its sample, sorted copy, sort scratch and cell buffers: the loop
-// itself allocates nothing per replicate; the refit allocates its Fit
-// record (and parameter names), and fam.New the refitted model
-// (TestBootstrapLoopAllocatesNothing).
+// text, its sample, sorted copy, sort scratch and cell buffers, its refit
+// record (fitters.FitInto) and the home of its refitted model
+// (fitters.Member): the loop itself allocates nothing per replicate
+// (TestBootstrapLoopAllocatesNothing), and nor do the complete-data refits
+// of the nine families of the batch workload (TestReplicateAllocatesNothing);
+// other families' refits allocate their own Fit and model.
 func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt BootstrapOptions) (*Replicates, error) {
 	if !fit.Converged {
 		return nil, fmt.Errorf("%s: the fit did not converge; there is no model to simulate from", fam.Name())
@@ -184,6 +186,8 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			var c cells
 			comps := make([]component, 0, 8)
 			var edf [3]float64
+			var rec fitters.FitRecord // each refit's result, valid until the next
+			member := fitters.NewMember(fam)
 			for {
 				r := int(next.Add(1) - 1)
 				if r >= B {
@@ -204,7 +208,7 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 					sorter.SortInto(sorted, sample) // slices.Sort's result, in O(n)
 				}
 				sim.Exact = sample
-				refit, err := fam.Fit(sim, fitOpt)
+				refit, err := fitters.FitInto(fam, sim, fitOpt, &rec)
 				switch {
 				case err != nil:
 					reasons[r] = err.Error()
@@ -213,7 +217,7 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 					reasons[r] = "refit did not converge: " + refit.Reason
 					continue
 				}
-				rd, err := fam.New(refit.Estimates)
+				rd, err := member.New(refit.Estimates) // fam.New's model, in place
 				if err != nil {
 					reasons[r] = err.Error()
 					continue
