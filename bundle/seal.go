@@ -396,12 +396,19 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 		if rec.Git.Files == nil {
 			rec.Git.Files = []GitFile{}
 		}
-		// Encode with an indent writes what json.MarshalIndent does, and
-		// the final newline, without a copy to add it.
+		// json.MarshalIndent's bytes (it is Marshal, then Indent) and the
+		// final newline, indented into a buffer sized once: MarshalIndent
+		// and an indenting Encoder grow theirs from empty, copying the
+		// megabytes of a large run's record several times.
+		compact, err := json.Marshal(rec)
+		if err != nil {
+			runJSON <- marshalled{nil, err}
+			return
+		}
 		var buf bytes.Buffer
-		enc := json.NewEncoder(&buf)
-		enc.SetIndent("", "  ")
-		err := enc.Encode(rec)
+		buf.Grow(3*len(compact) + 1)
+		err = json.Indent(&buf, compact, "", "  ")
+		buf.WriteByte('\n')
 		runJSON <- marshalled{buf.Bytes(), err}
 	}()
 	render := func(res *runner.Results, id report.Identity) (map[string][]byte, error) {
