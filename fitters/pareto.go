@@ -60,7 +60,7 @@ func (paretoFamily) Parameters() []string { return []string{"scale", "shape"} }
 func (paretoFamily) Kind() Kind           { return Continuous }
 func (paretoFamily) Support() string      { return "x ≥ scale" }
 func (paretoFamily) Route() string {
-	return "closed form (scale = sample minimum, a boundary estimate; shape = n/Σ ln(x/scale)); right-censored: closed form; other censoring: BFGS on (scale below the minimum, log shape)"
+	return "closed form (scale = sample minimum, a boundary estimate; shape = n/Σ ln(x/scale)); right-censored: closed form; non-detects or intervals: Newton on (ln shape, ln(−ln S(bound))), where the log-likelihood is concave in (shape, −ln S(bound)), scale at the smallest exact value when the score there points outward; BFGS on (scale below the bound, log shape) if it fails"
 }
 
 func (paretoFamily) New(p []float64) (Dist, error) {
@@ -157,7 +157,7 @@ func paretoMLE(exact, right []float64) (scale, shape, ll float64, ok bool) {
 	return lo, shape, ll, true
 }
 
-func (f paretoFamily) Fit(d *Data, opt Options) (*Fit, error) {
+func (f paretoFamily) Fit(d *Data, opt Options) (out *Fit, err error) {
 	if err := f.Applicable(d, opt.Fixed); err != nil {
 		return nil, err
 	}
@@ -174,7 +174,14 @@ func (f paretoFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		fit.Convergence.Note = paretoBoundaryNote
 		return fit, nil
 	}
-	// Non-detects or intervals: the scale stays below the bound U
+	// Non-detects or intervals: the concave censored Newton route first
+	// (pareto_censored.go), BFGS if it fails.
+	if ok, why := fitParetoCensored(fit, d, opt); ok {
+		return fit, nil
+	} else if why != "" {
+		defer func() { censoredNewtonFallback(out, why) }()
+	}
+	// The scale stays below the bound U
 	// (paretoBound) as scale = U·exp(−e^θ₀): an interior maximum by BFGS.
 	upper := paretoBound(d)
 	a0 := 1.0

@@ -1,0 +1,345 @@
+package fitters
+
+import (
+	"fmt"
+	"math"
+)
+
+// paretoCensoredSample holds what the censored Pareto Newton route needs
+// from a dataset, gathered in one pass. U is paretoBound (the largest scale
+// with a finite likelihood) and every value is kept as ℓ = ln(x/U): the
+// exact values through their count and Σ ℓ (a running product, one
+// logarithm per few values), the censored ones tallied by distinct value
+// and logged once.
+type paretoCensoredSample struct {
+	bound, lnBound float64
+	n, sumL        float64 // number of exact values, Σ ln(x/U) over them
+	atBound        bool    // U is an exact value and no non-detect or interval ends there
+	left, right    smallTally
+	lnLeft, lnRght []float64 // ln(x/U) of the tallied values
+	lower, width   []float64 // intervals: ln(l/U) and ln(u/l), l > 0
+	inCount        []float64
+}
+
+// newParetoCensoredSample gathers d's statistics; false when an
+// observation has no place in the route (a non-positive exact value or
+// non-detect limit, a NaN, an empty interval, no finite bound).
+func newParetoCensoredSample(d *Data) (paretoCensoredSample, bool) {
+	s := paretoCensoredSample{bound: paretoBound(d), n: float64(len(d.Exact))}
+	u := s.bound
+	if !(u > 0) || math.IsInf(u, 1) {
+		return s, false
+	}
+	s.lnBound = math.Log(u)
+	acc := newLogAccumulator()
+	lo := math.Inf(1)
+	for _, x := range d.Exact {
+		if !(x >= u) || math.IsInf(x, 1) {
+			return s, false
+		}
+		lo = min(lo, x)
+		acc.mul(x / u)
+	}
+	s.sumL = acc.sum()
+	s.atBound = lo == u
+	for _, x := range d.Left {
+		if !(x >= u) || math.IsInf(x, 1) {
+			return s, false
+		}
+		s.left.add(x)
+	}
+	for _, x := range d.Right {
+		switch {
+		case math.IsNaN(x) || math.IsInf(x, 1):
+			return s, false
+		case x > 0:
+			s.right.add(x)
+		}
+	}
+	var pairs map[[2]float64]int
+	for i, l := range d.Lower {
+		up := d.Upper[i]
+		switch {
+		case math.IsNaN(l) || math.IsNaN(up) || !(l < up) || math.IsInf(l, 1) || math.IsInf(up, -1):
+			return s, false
+		case l <= 0 && math.IsInf(up, 1):
+			// probability one
+		case math.IsInf(up, 1):
+			s.right.add(l)
+		case l <= 0:
+			s.left.add(up)
+		default:
+			k := [2]float64{l, up}
+			if j, ok := pairs[k]; ok {
+				s.inCount[j]++
+				continue
+			}
+			if pairs == nil {
+				pairs = make(map[[2]float64]int)
+			}
+			pairs[k] = len(s.lower)
+			if up == u {
+				s.atBound = false // ln(F(U) − F(l)) = −∞ at scale U
+			}
+			s.lower = append(s.lower, lnRatio(l, u))
+			s.width = append(s.width, lnRatio(up, l))
+			s.inCount = append(s.inCount, 1)
+		}
+	}
+	for _, x := range s.left.u {
+		l := lnRatio(x, u)
+		if l == 0 {
+			s.atBound = false // ln F(U) = −∞ at scale U
+		}
+		s.lnLeft = append(s.lnLeft, l)
+	}
+	for _, x := range s.right.u {
+		s.lnRght = append(s.lnRght, lnRatio(x, u))
+	}
+	return s, true
+}
+
+// paretoNatural is ℓ(α, h) with its score and Hessian in (α, h), the
+// Pareto log-likelihood in shape α and h = α·ln(U/x_m) = −ln S(U) ≥ 0 (the
+// cumulative hazard at the bound U; x_m = U·e^(−h/α)). Each value x enters
+// through E(x) = α·ln(x/x_m) = αℓ + h, linear in (α, h), with E ~ Exp(1):
+//
+//	exact:      ln α − ln x − E,        E ≥ 0
+//	non-detect: ln(1 − e^(−E))          (ln F)
+//	suspension: −max(E, 0)              (ln S)
+//	interval:   ln(e^(−max(E_l, 0)) − e^(−E_u)),
+//
+// each the logarithm of an integral of the log-concave Exp(1) density
+// over an interval whose ends are linear in (α, h), hence concave in
+// (α, h) (Prékopa, 1973; as Burridge, 1981, for location–scale laws): the
+// censored Pareto likelihood has at most one maximum over the convex
+// domain h ≥ 0. With q = 1/(e^E − 1), ln(1 − e^(−E)) has derivative q and
+// second derivative −q(1 + q) in E; the interval with E_l > 0 is
+// −E_l + ln(1 − e^(−αw)), w = ln(u/l). A suspension or interval end at
+// E = 0 takes the derivative on the side of increasing h.
+func paretoNatural(s *paretoCensoredSample, alpha, h float64) (p newton2Point) {
+	if !(alpha > 0) || !(h >= 0) || math.IsInf(alpha, 1) || math.IsInf(h, 1) {
+		p.ll = math.Inf(-1)
+		return p
+	}
+	// ℓ in p.ll, ∂α in g0, ∂h in g1, ∂αα in h00, ∂αh in h01, ∂hh in h11.
+	if s.n > 0 {
+		p.ll = s.n*math.Log(alpha) - (s.sumL + s.n*s.lnBound) - alpha*s.sumL - s.n*h
+		p.g0 = s.n/alpha - s.sumL
+		p.g1 = -s.n
+		p.h00 = -s.n / (alpha * alpha)
+	}
+	lnF := func(c, l float64) {
+		e := alpha*l + h
+		if !(e > 0) {
+			p.ll = math.Inf(-1)
+			return
+		}
+		em1 := math.Expm1(e)
+		q := 1 / em1
+		curv := -q * (1 + q)
+		p.ll += c * log1mExp(-e)
+		p.g0 += c * q * l
+		p.g1 += c * q
+		p.h00 += c * curv * l * l
+		p.h01 += c * curv * l
+		p.h11 += c * curv
+	}
+	for i, l := range s.lnLeft {
+		lnF(s.left.n[i], l)
+	}
+	for i, l := range s.lnRght {
+		if e := alpha*l + h; e >= 0 {
+			c := s.right.n[i]
+			p.ll -= c * e
+			p.g0 -= c * l
+			p.g1 -= c
+		}
+	}
+	for i, l := range s.lower {
+		c, w := s.inCount[i], s.width[i]
+		if alpha*l+h < 0 {
+			lnF(c, l+w)
+			continue
+		}
+		dw := alpha * w
+		q := 1 / math.Expm1(dw)
+		p.ll += c * (log1mExp(-dw) - (alpha*l + h))
+		p.g0 += c * (q*w - l)
+		p.g1 -= c
+		p.h00 -= c * q * (1 + q) * w * w
+	}
+	if math.IsNaN(p.ll) {
+		p.ll = math.Inf(-1)
+	}
+	return p
+}
+
+// paretoCensoredPoint is paretoNatural in the route's coordinates
+// (ln α, ln h): ∂/∂ln α = α∂/∂α, ∂²/∂(ln α)² = α²∂²/∂α² + α∂/∂α, and the
+// same for h.
+func paretoCensoredPoint(s *paretoCensoredSample, la, lh float64) newton2Point {
+	a, h := math.Exp(la), math.Exp(lh)
+	p := paretoNatural(s, a, h)
+	if !(h > 0) {
+		p.ll = math.Inf(-1)
+	}
+	p.h00 = a*a*p.h00 + a*p.g0
+	p.h01 *= a * h
+	p.h11 = h*h*p.h11 + h*p.g1
+	p.g0 *= a
+	p.g1 *= h
+	return p
+}
+
+// paretoEdgeShape maximises ℓ(α, 0) — the scale at the bound — over
+// t = ln α by Newton's method with step halving; ℓ(e^t, 0) is concave in t
+// (each term of paretoNatural is, with E = e^t·ℓ, ℓ ≥ 0). It stops when
+// the Newton decrement g²/(−H) falls below tol²·max(1, |ℓ|).
+func paretoEdgeShape(s *paretoCensoredSample, t, tol float64, maxIter int) (alpha float64, p newton2Point, iterations int, ok bool) {
+	at := func(t float64) newton2Point {
+		a := math.Exp(t)
+		q := paretoNatural(s, a, 0)
+		q.h00 = a*a*q.h00 + a*q.g0
+		q.g0 *= a
+		return q
+	}
+	p = at(t)
+	quiet := 0
+	for it := 1; it <= maxIter && finite(p.ll); it++ {
+		iterations = it
+		if !(p.h00 < 0) || !finite(p.g0) {
+			return 0, p, it, false
+		}
+		step := -p.g0 / p.h00
+		decrement, scale := p.g0*step, math.Max(1, math.Abs(p.ll))
+		if decrement <= tol*tol*scale {
+			return math.Exp(t), p, it, true
+		}
+		if decrement <= 1e-12*scale {
+			// As censoredNewton2 near the maximum: ℓ's rounding hides the
+			// last gains, so full steps without the increase test, at
+			// most five, converged if the decrement reaches 10⁻¹⁶·|ℓ|.
+			if quiet++; quiet > 5 {
+				return math.Exp(t), p, it, decrement <= 1e-16*scale
+			}
+			t, p = t+step, at(t+step)
+			continue
+		}
+		step = max(-maxNewtonStep, min(maxNewtonStep, step))
+		moved := false
+		for k := 0; k < 60; k++ {
+			if np := at(t + step); np.ll > p.ll {
+				t, p, moved = t+step, np, true
+				break
+			}
+			step /= 2
+		}
+		if !moved {
+			return 0, p, it, false
+		}
+	}
+	return 0, p, iterations, false
+}
+
+// paretoCensoredStart returns the starting (ln α, ln h): of a few
+// candidates, the one with the highest censored log-likelihood (each
+// evaluation costs only the distinct censored values). The shapes are
+// the closed form on the exact values and suspensions (paretoMLE, which
+// ignores the non-detects and intervals), or on every recorded value, or
+// the edge shape; h = −ln S(U) ranges from 1/(N+1) to 1.
+func paretoCensoredStart(s *paretoCensoredSample, d *Data, edge float64) (la0, lh0 float64) {
+	var shapes []float64
+	if _, a, _, ok := paretoMLE(d.Exact, d.Right); ok {
+		shapes = append(shapes, a)
+	}
+	if len(shapes) == 0 {
+		if x := startSample(d, 2, true); len(x) >= 2 {
+			if _, a, _, ok := paretoMLE(x, nil); ok {
+				shapes = append(shapes, a)
+			}
+		}
+	}
+	if edge > 0 {
+		shapes = append(shapes, edge)
+	}
+	if len(shapes) == 0 {
+		shapes = append(shapes, 1)
+	}
+	best := math.Inf(-1)
+	la0, lh0 = math.Log(shapes[0]), math.Log(0.1)
+	for _, a := range shapes {
+		for _, h := range []float64{1 / float64(d.N()+1), 0.01, 0.1, 1} {
+			if p := paretoNatural(s, a, h); p.ll > best {
+				best, la0, lh0 = p.ll, math.Log(a), math.Log(h)
+			}
+		}
+	}
+	return la0, lh0
+}
+
+// fitParetoCensored fits the Pareto distribution to data with non-detects
+// or intervals (the other cases have the closed form) by Newton's method
+// on the concave log-likelihood of paretoNatural. When the bound U is an
+// exact value the maximum may lie on the edge h = 0 (scale = U): the shape
+// is first maximised there (paretoEdgeShape), and if the score in h at
+// that point is ≤ 0 the edge point is the maximum (concavity: no
+// direction into h > 0 rises), reported with paretoBoundaryNote;
+// otherwise censoredNewton2 on (ln α, ln h) finds the interior maximum.
+// It reports as fitGammaCensored does.
+func fitParetoCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) {
+	if genericCensoredOnly || len(opt.Fixed) != 0 || (len(d.Left) == 0 && len(d.Lower) == 0) {
+		return false, ""
+	}
+	s, ok := newParetoCensoredSample(d)
+	if !ok {
+		return false, "an observation the route cannot take (a value ≤ 0, NaN or an empty interval)"
+	}
+	tol, maxIter := opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter)
+	edge := 0.0
+	if s.atBound {
+		start := 0.0
+		if _, a, _, ok := paretoMLE(d.Exact, d.Right); ok {
+			start = math.Log(a)
+		}
+		a, p, iters, ok := paretoEdgeShape(&s, start, tol, maxIter)
+		if !ok {
+			return false, fmt.Sprintf("the shape at the scale bound did not converge in %d iterations", iters)
+		}
+		if p.g1 <= 0 {
+			fit.Convergence = Convergence{
+				Method:       "censored Newton on ln shape, scale at the smallest exact value (concave likelihood, score into the interior ≤ 0)",
+				Iterations:   iters,
+				Evaluations:  iters,
+				GradientNorm: math.Abs(p.g0),
+				Converged:    true,
+				Note:         paretoBoundaryNote,
+			}
+			fit.Estimates[0], fit.Estimates[1] = s.bound, a
+			fit.LogLik = p.ll
+			return true, ""
+		}
+		edge = a
+	}
+	la0, lh0 := paretoCensoredStart(&s, d, edge)
+	eval := func(la, lh float64) newton2Point { return paretoCensoredPoint(&s, la, lh) }
+	res := censoredNewton2(eval, la0, lh0, tol, maxIter)
+	if !res.converged {
+		return false, res.reason
+	}
+	alpha, h := math.Exp(res.t0), math.Exp(res.t1)
+	scale := s.bound * math.Exp(-h/alpha)
+	if !(alpha > 0) || !(scale > 0) || math.IsInf(alpha, 0) || !finite(res.logLik) {
+		return false, "the maximum lies where the parameters are not finite"
+	}
+	fit.Convergence = Convergence{
+		Method:       "censored Newton on (ln shape, ln(−ln S(bound))) (concave likelihood)",
+		Iterations:   res.iterations,
+		Evaluations:  res.evaluations,
+		GradientNorm: res.gradNorm,
+		Converged:    true,
+	}
+	fit.Estimates[0], fit.Estimates[1] = scale, alpha
+	fit.LogLik = res.logLik
+	return true, ""
+}
