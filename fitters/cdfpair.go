@@ -91,18 +91,22 @@ func extremeTails(u, y float64) (cdf, logCDF, logSurvival float64) {
 }
 
 // logisticTails returns F, ln F and ln S of the standard logistic at z:
-// with e = e^(−|z|) and l = ln(1 + e), ln F = −l and ln S = −z − l for
-// z ≥ 0 (mirrored below), F = 1/(1 + e) or e/(1 + e); two transcendental
-// calls, the same logarithms as logLogisticCDF.
+// with e = e^(−|z|) and q = 1/(1 + e), the smaller tail probability is
+// p = e·q ≤ ½ (S for z ≥ 0, F below), the larger one's logarithm
+// ln(1 − p) = −ln(1 + e) by log1mSmall, and the smaller one's
+// ln p = −|z| + ln(1 − p): one exponential, one division and a short
+// series (or one logarithm where p > ¼), the logarithms of logLogisticCDF.
 func logisticTails(z float64) (cdf, logCDF, logSurvival float64) {
 	if z >= 0 {
 		e := fastExp(-z)
-		l := fastLog1p(e)
-		return 1 / (1 + e), -l, -z - l
+		q := 1 / (1 + e)
+		l := log1mSmall(e * q) // ln F = −ln(1 + e)
+		return q, l, -z + l
 	}
 	e := fastExp(z)
-	l := fastLog1p(e)
-	return e / (1 + e), z - l, -l
+	q := 1 / (1 + e)
+	l := log1mSmall(e * q) // ln S
+	return e * q, z + l, l
 }
 
 // normalTails returns Φ(z), ln Φ(z) and ln(1 − Φ(z)): the smaller tail

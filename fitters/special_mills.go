@@ -102,7 +102,7 @@ func oneMinusTMillsFast(t float64) float64 {
 	case t >= millsRationalLo:
 		return 1 - tMillsRational(t)
 	}
-	r := 0.5 * math.Erfc(t/sqrt2) * math.Exp(0.5*t*t+lnSqrt2Pi)
+	r := 0.5 * math.Erfc(t/sqrt2) * fastExp(0.5*t*t+lnSqrt2Pi)
 	return 1 - t*r
 }
 
