@@ -29,6 +29,43 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 	case Gamma:
 		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
+	// The other families of the batch workload: their CDFTails by a
+	// direct call, which the compiler may inline.
+	case Normal:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case LogNormal:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case Exponential:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case Weibull:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case LogLogistic:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case Gumbel:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case Logistic:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
 	case CDFTailer:
 		for i, v := range x {
 			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
