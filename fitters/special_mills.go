@@ -55,14 +55,16 @@ const sqrtPi = 1.77245385090551602729816748334114518279754945612239
 // erfc: with x = t/√2, R(t) = √(π/2)·e^(x²)·erfc(x) = (√π/t)·exp(−0.5625 +
 // R/S), so t·R(t) = √π·exp(−0.5625 + R/S): one exponential of an argument
 // near −0.57 (no −t²/2 to round), one division.
-func tMillsRational(t float64) float64 {
-	s := 2 / (t * t) // 1/x²
+func tMillsRational(t float64) float64 { return tMillsRationalS(2 / (t * t)) }
+
+// tMillsRationalS is tMillsRational given s = 2/t² (= 1/x²).
+func tMillsRationalS(s float64) float64 {
 	s2 := s * s
 	s4 := s2 * s2
 	// R and S by Estrin's scheme (pairs, then pairs of pairs): three
 	// multiply-adds deep instead of Horner's seven or eight.
 	var r, q float64
-	if t < sqrt2/0.35 {
+	if s > 0.35*0.35 { // x < 1/0.35, as fdlibm splits
 		r = ((erfcRa0 + s*erfcRa1) + s2*(erfcRa2+s*erfcRa3)) + s4*((erfcRa4+s*erfcRa5)+s2*(erfcRa6+s*erfcRa7))
 		q = ((1 + s*erfcSa1) + s2*(erfcSa2+s*erfcSa3)) + s4*((erfcSa4+s*erfcSa5)+s2*(erfcSa6+s*erfcSa7)) + s4*s4*erfcSa8
 	} else {
@@ -78,7 +80,8 @@ func tMillsRational(t float64) float64 {
 // 80-term fraction.
 func mills(t float64) float64 {
 	if t < millsRationalHi {
-		return tMillsRational(t) / t
+		inv := 1 / t // one division for s = 2/t² and the final 1/t
+		return tMillsRationalS(2*inv*inv) * inv
 	}
 	return millsRatioShort(t)
 }
