@@ -84,7 +84,7 @@ func (gpdFamily) Support() string {
 	return "x ≥ threshold (fixed)"
 }
 func (gpdFamily) Route() string {
-	return "BFGS on (log scale, shape) of the excesses over the fixed threshold, analytic score, from moment, probability-weighted-moment, exponential and spread starts; shape ≤ −1 (unbounded likelihood) is searched for an interior local maximum; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values"
+	return "BFGS on (log scale, shape) of the excesses over the fixed threshold, analytic score, from moment, probability-weighted-moment, exponential and spread starts; shape ≤ −1 (unbounded likelihood) is searched for an interior local maximum; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values; censored data: Newton on (log scale, shape) with analytic score and Hessian from the best start, the BFGS route if it fails or the shape runs to −1"
 }
 
 func (gpdFamily) New(p []float64) (Dist, error) {
@@ -196,6 +196,12 @@ func (f gpdFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		excess = append(excess, v-u)
 	}
 	starts := gpdStarts(excess)
+	// Censored data: Newton on (log scale, shape) first (gpd_censored.go).
+	if ok, why := fitGPDCensored(fit, d, u, y, starts, opt); ok {
+		return fit, nil
+	} else if why != "" {
+		defer censoredNewtonFallback(fit, why)
+	}
 	dist := func(t []float64) Dist { return GPD{math.Exp(t[0]), t[1], u} }
 	sub, ratio := stagedSubproblem(d, y, 2, gpdNLL)
 	o, staged := minimizeStaged(likelihoodProblem(2, gpdNLL(y), dist, d), sub, ratio, starts, opt)
