@@ -101,17 +101,39 @@ func gpdCensoredPoint(s *gpdCensoredSample, ls, xi float64) newton2Point {
 		p.ll = math.Inf(-1)
 		return p
 	}
+	// Exact values: gpdW inline with 1/ξ once — one log1p and one
+	// division per value; the far branch's sums (ln t, ξz/t − ln t and
+	// w_ξξ's numerator) are scaled by powers of 1/ξ at the end.
 	var sw, swx, swxx, szt, szt2, sz2t2 float64
+	var fl, fr, fq float64
 	for _, v := range s.y {
 		z := v * is
-		w, wx, wxx, it, _ := gpdW(xi, z)
+		u := xi * z
+		var it float64
+		if math.Abs(u) < 0.01 {
+			var w, wx, wxx float64
+			w, wx, wxx, it, _ = gpdW(xi, z)
+			sw += w
+			swx += wx
+			swxx += wxx
+		} else {
+			it = 1 / (1 + u)
+			l := math.Log1p(u)
+			r := u * it
+			fl += l
+			fr += r - l
+			fq += 2*l - 2*r - r*r
+		}
 		zt := z * it
-		sw += w
-		swx += wx
-		swxx += wxx
 		szt += zt
 		szt2 += zt * it
 		sz2t2 += zt * zt
+	}
+	if xi != 0 {
+		ix := 1 / xi
+		sw += fl * ix
+		swx += fr * ix * ix
+		swxx += fq * ix * ix * ix
 	}
 	p.ll = -s.n*ls - a*sw
 	p.g0 = -s.n + a*szt
@@ -225,8 +247,8 @@ func fitGPDCensored(fit *Fit, d *Data, u float64, y []float64, starts [][]float6
 		starts = append(starts[:len(starts):len(starts)], []float64{math.Log(sigma), 0})
 	}
 	for _, st := range starts {
-		if p := eval(st[0], gpdShapeScale*st[1]); finite(p.ll) {
-			order = append(order, ranked{p.ll, st[0], gpdShapeScale * st[1]})
+		if ll := gpdCensoredLogLik(&s, st[0], st[1]); finite(ll) {
+			order = append(order, ranked{ll, st[0], gpdShapeScale * st[1]})
 		}
 	}
 	slices.SortStableFunc(order, func(a, b ranked) int { return cmp.Compare(b.ll, a.ll) })
@@ -295,4 +317,46 @@ func gpdExponentialScale(s *gpdCensoredSample) float64 {
 		return 0
 	}
 	return total / events
+}
+
+// gpdCensoredLogLik is gpdCensoredPoint's log-likelihood alone (one log1p
+// per exact value, no derivatives), for ranking the starts.
+func gpdCensoredLogLik(s *gpdCensoredSample, ls, xi float64) float64 {
+	sigma := math.Exp(ls)
+	if !(xi > -1) || math.IsInf(xi, 1) || !(sigma > 0) || math.IsInf(sigma, 1) {
+		return math.Inf(-1)
+	}
+	is := 1 / sigma
+	if xi < 0 && 1+xi*s.yMax*is <= 0 {
+		return math.Inf(-1)
+	}
+	var sw, fl float64
+	for _, v := range s.y {
+		z := v * is
+		if u := xi * z; math.Abs(u) < 0.01 {
+			w, _ := boxLog(xi, z)
+			sw += w
+		} else {
+			fl += math.Log1p(u)
+		}
+	}
+	if xi != 0 {
+		sw += fl / xi
+	}
+	ll := -s.n*ls - (1+xi)*sw
+	g := GPD{Scale: sigma, Shape: xi}
+	t := &s.tallied
+	for i, y := range t.left.u {
+		ll += t.left.n[i] * g.LogCDF(y)
+	}
+	for i, y := range t.right.u {
+		ll += t.right.n[i] * g.LogSurvival(y)
+	}
+	for i, l := range t.lower {
+		ll += t.inCount[i] * logIntervalProb(g, l, t.upper[i])
+	}
+	if math.IsNaN(ll) {
+		return math.Inf(-1)
+	}
+	return ll
 }

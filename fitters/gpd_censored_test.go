@@ -109,3 +109,29 @@ func TestGPDCensoredFallbackNoteAndDeterminism(t *testing.T) {
 		t.Errorf("complete shape %v note %q; censored shape %v note %q", cf.Estimates[1], cf.Note, nf.Estimates[1], nf.Note)
 	}
 }
+
+// TestGPDCensoredLogLik checks the start-ranking log-likelihood against
+// gpdCensoredPoint's and the family's LogLik.
+func TestGPDCensoredLogLik(t *testing.T) {
+	const u = 10
+	d := &Data{Exact: []float64{11.3, 12.2, 10.1, 15.8, 11.6, 13.3, 10.004},
+		Left: []float64{10.5, 11, 11}, Right: []float64{10, 14, 16, 14},
+		Lower: []float64{10.2, 12.5, u, 11}, Upper: []float64{10.9, 16, 10.4, math.Inf(1)}}
+	f, _ := Lookup("gpd")
+	y := make([]float64, len(d.Exact))
+	for i, x := range d.Exact {
+		y[i] = x - u
+	}
+	s, _ := newGPDCensoredSample(d, u, y)
+	for _, pt := range [][2]float64{{0, 0.2}, {math.Log(3), -0.6}, {math.Log(2), 0}, {math.Log(2), 1e-4}, {math.Log(0.5), 0.8}} {
+		want := f.LogLik([]float64{math.Exp(pt[0]), pt[1], u}, d)
+		for _, got := range []float64{gpdCensoredLogLik(&s, pt[0], pt[1]), gpdCensoredPoint(&s, pt[0], pt[1]).ll} {
+			if math.Abs(got-want) > 1e-12*math.Abs(want) {
+				t.Errorf("(%v, %v): ℓ %.17g, LogLik %.17g", pt[0], pt[1], got, want)
+			}
+		}
+	}
+	if ll := gpdCensoredLogLik(&s, 0, -0.5); !math.IsInf(ll, -1) {
+		t.Errorf("an exact excess of 5.8 beyond the endpoint 2 of σ = 1, ξ = −0.5: ℓ = %v", ll)
+	}
+}
