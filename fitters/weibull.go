@@ -180,14 +180,7 @@ func weibullMLE(x []float64, opt Options) (shape, scale, ll float64, conv Conver
 				swcc += wc * c
 			}
 		} else {
-			for _, v := range e {
-				w := fastExp(k * v)
-				sw += w
-				c := v - me
-				wc := w * c
-				swc += wc
-				swcc += wc * c
-			}
+			sw, swc, swcc = weibullSums(e, k, me)
 		}
 		mc := swc / sw
 		dgLast = swcc/sw - mc*mc + 1/(k*k)
@@ -306,4 +299,37 @@ func weibullLogs(dst, x []float64, ref float64) (lnRef, sum float64) {
 		s0 += ya
 	}
 	return lnRef, s0 + s1
+}
+
+// weibullSums returns Σ w, Σ w·c and Σ w·c² over e, with w = e^(k·eᵢ) and
+// c = eᵢ − me, summed in order: the profile equation's pass. Each w is
+// exactly fastExp(k·eᵢ) (TestWeibullSumsMatchFastExp, bit for bit), with
+// expCore's body written out in the loop, as fastLogs does for fastLog:
+// fastExp and expCore are too large to inline, and two calls per value
+// cost about as much as the exponential itself.
+func weibullSums(e []float64, k, me float64) (sw, swc, swcc float64) {
+	for _, v := range e {
+		x := k * v
+		var w float64
+		if math.Float64bits(x)&^(1<<63) >= 0x4085f00000000000 { // |x| ≥ 702, Inf or NaN
+			w = fastExp(x)
+		} else {
+			// expCore(x, 0)
+			kd := float64(float64(x*invLn2N)+expShift) - expShift
+			ki := int64(kd)
+			r := (x - float64(kd*ln2NHi)) - float64(kd*ln2NLo)
+			t := &expTable[ki&127]
+			sc := math.Float64frombits(math.Float64bits(t.hi) + uint64(ki>>7)<<52)
+			r2 := float64(r * r)
+			p := (expC2 + float64(r*expC3)) + float64(r2*(expC4+float64(r*expC5)))
+			tmp := (t.tail + r) + float64(r2*p)
+			w = sc + float64(sc*tmp)
+		}
+		sw += w
+		c := v - me
+		wc := w * c
+		swc += wc
+		swcc += wc * c
+	}
+	return sw, swc, swcc
 }
