@@ -70,7 +70,7 @@ func (betaFamily) Parameters() []string { return []string{"alpha", "beta"} }
 func (betaFamily) Kind() Kind           { return Continuous }
 func (betaFamily) Support() string      { return "0 < x < 1" }
 func (betaFamily) Route() string {
-	return "BFGS on (log alpha, log beta) with analytic score from the sufficient statistics Σ ln x and Σ ln(1−x) (one pass), from moment and spread starts"
+	return "BFGS on (log alpha, log beta) with analytic score from the sufficient statistics Σ ln x and Σ ln(1−x) (one pass), from moment and spread starts; censored data: Newton on (log alpha, log beta) from the sufficient statistics, the censored terms' derivatives by differences in the shapes, BFGS if it fails"
 }
 
 func (betaFamily) New(p []float64) (Dist, error) {
@@ -125,6 +125,12 @@ func (f betaFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		return nil, err
 	}
 	fit := newFit(f, d)
+	// Censored data: Newton on (log alpha, log beta) first (beta_censored.go).
+	if ok, why := fitBetaCensored(fit, d, opt); ok {
+		return fit, nil
+	} else if why != "" {
+		defer censoredNewtonFallback(fit, why)
+	}
 	var s1, s2 float64
 	for _, x := range d.Exact {
 		s1 += math.Log(x)
