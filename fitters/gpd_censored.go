@@ -210,13 +210,15 @@ func gpdCensoredPoint(s *gpdCensoredSample, ls, xi float64) newton2Point {
 const gpdShapeScale = 4
 
 // gpdShapeNote is gpdFamily.Fit's note for a regular local maximum with
-// shape below −0.5 (TestGPDCensoredNote checks the two agree).
+// shape below −0.5 (TestGPDCensoredFallbackNoteAndDeterminism checks the
+// two agree).
 const gpdShapeNote = "shape < −0.5: a regular local maximum, but the usual asymptotic standard errors do not hold (Smith, 1985)"
 
 // fitGPDCensored fits the GPD over the fixed threshold u to censored data
-// by censoredNewton2 on (ln σ, ξ), from the best of the family's starts
-// (gpdStarts: moments, probability-weighted moments, exponential, spread
-// shapes) by the censored log-likelihood. y are the exact excesses. The
+// by censoredNewton2 on (ln σ, ξ), from the censored exponential fit and,
+// if that fails, from the family's starts (gpdStarts: moments,
+// probability-weighted moments, exponential, spread shapes) best first by
+// the censored log-likelihood. y are the exact excesses. The
 // route keeps to ξ > −1: where the iterates run to ξ → −1 it declines and
 // the family's own search of the non-regular region takes over. It
 // reports as fitGammaCensored does.
@@ -235,34 +237,43 @@ func fitGPDCensored(fit *Fit, d *Data, u float64, y []float64, starts [][]float6
 		p.h11 /= gpdShapeScale * gpdShapeScale
 		return p
 	}
-	// The starts in order of their log-likelihood, highest first: a start
-	// in the basin of the edge ξ → −1 (a moment estimate clamped at −0.9
-	// by heavily censored data looks bounded) is followed by the next.
-	type ranked struct {
-		ll     float64
-		ls, xi float64
+	run := func(ls, v float64) newton2Result {
+		return censoredNewton2(eval, ls, v, opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter))
 	}
-	var order []ranked
-	if sigma := gpdExponentialScale(&s); sigma > 0 && !math.IsInf(sigma, 1) {
-		starts = append(starts[:len(starts):len(starts)], []float64{math.Log(sigma), 0})
-	}
-	for _, st := range starts {
-		if ll := gpdCensoredLogLik(&s, st[0], st[1]); finite(ll) {
-			order = append(order, ranked{ll, st[0], gpdShapeScale * st[1]})
-		}
-	}
-	slices.SortStableFunc(order, func(a, b ranked) int { return cmp.Compare(b.ll, a.ll) })
-	if len(order) == 0 {
-		return false, "no start with a finite log-likelihood"
-	}
+	// First from the censored exponential fit (ξ = 0), which heeds the
+	// censoring; where that fails, from the family's starts in order of
+	// their log-likelihood, highest first: a start in the basin of the
+	// edge ξ → −1 (a moment estimate clamped at −0.9 by heavily censored
+	// data looks bounded) is followed by the next.
 	var res newton2Result
-	iterations, evaluations := 0, len(starts)
-	for _, st := range order {
-		res = censoredNewton2(eval, st.ls, st.xi, opt.tolerance(), min(opt.maxIterations(), censoredNewtonMaxIter))
-		iterations += res.iterations
-		evaluations += res.evaluations
-		if res.converged || res.t1 > -0.9*gpdShapeScale {
-			break // converged, or failed away from the edge ξ = −1
+	iterations, evaluations := 0, 0
+	if sigma := gpdExponentialScale(&s); sigma > 0 && !math.IsInf(sigma, 1) {
+		res = run(math.Log(sigma), 0)
+		iterations, evaluations = res.iterations, res.evaluations
+	}
+	if !res.converged {
+		type ranked struct {
+			ll     float64
+			ls, xi float64
+		}
+		var order []ranked
+		for _, st := range starts {
+			if ll := gpdCensoredLogLik(&s, st[0], st[1]); finite(ll) {
+				order = append(order, ranked{ll, st[0], gpdShapeScale * st[1]})
+			}
+		}
+		evaluations += len(starts)
+		slices.SortStableFunc(order, func(a, b ranked) int { return cmp.Compare(b.ll, a.ll) })
+		if len(order) == 0 && iterations == 0 {
+			return false, "no start with a finite log-likelihood"
+		}
+		for _, st := range order {
+			res = run(st.ls, st.xi)
+			iterations += res.iterations
+			evaluations += res.evaluations
+			if res.converged || res.t1 > -0.9*gpdShapeScale {
+				break // converged, or failed away from the edge ξ = −1
+			}
 		}
 	}
 	if !res.converged {
