@@ -215,7 +215,7 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	fit := newFit(f, d)
 	// Optimise on θ = ((μ − C)/S, ln(σ/S), ξ), the data's own units.
-	ls, starts := standardisedStarts(gevStarts(d.Values()))
+	ls, starts := standardisedStarts(gevStarts(d.valuesView()))
 	natural := func(t []float64) []float64 {
 		u := ls.fromTheta(t)
 		return []float64{u[0], math.Exp(u[1]), u[2]}
@@ -260,7 +260,7 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	// A converged unconstrained run with shape ≤ −1 whose upper endpoint
 	// stays clear of the sample maximum is itself an interior local maximum;
 	// it competes with the constrained one.
-	if est := natural(o.theta); o.converged && gevEndpointGap(est, d.Values()) > 1e-6 &&
+	if est := natural(o.theta); o.converged && gevEndpointGap(est, d.valuesView()) > 1e-6 &&
 		(c.theta == nil || !c.converged || o.negLogLik < c.negLogLik) {
 		fit.setOptimum(o, est, method)
 		fit.Note = "shape ≤ −1: an interior local maximum; the likelihood is unbounded as the upper endpoint approaches the sample maximum, and the usual standard errors do not hold (Smith, 1985)"

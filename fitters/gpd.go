@@ -107,7 +107,7 @@ func (f gpdFamily) Applicable(d *Data, fixed Fixed) error {
 	if !ok {
 		return inapplicable(f.Name(), "needs its threshold fixed (fixed = { gpd = { threshold = … } }): it models the excesses over it")
 	}
-	for _, v := range d.Values() {
+	for _, v := range d.valuesView() {
 		if v < u {
 			return inapplicable(f.Name(), "needs every value ≥ the threshold %v, the data have %v", u, v)
 		}
@@ -192,7 +192,7 @@ func (f gpdFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		y[i] = x - u
 	}
 	excess := make([]float64, 0, d.N())
-	for _, v := range d.Values() {
+	for _, v := range d.valuesView() {
 		excess = append(excess, v-u)
 	}
 	starts := gpdStarts(excess)

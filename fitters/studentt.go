@@ -236,7 +236,7 @@ func (f studentTFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	}
 	fit := newFit(f, d)
 	// Optimise on θ = ((μ − C)/S, ln(σ/S), ln ν), the data's own units.
-	ls, starts := standardisedStarts(studentTStarts(d.Values()))
+	ls, starts := standardisedStarts(studentTStarts(d.valuesView()))
 	natural := func(t []float64) []float64 {
 		u := ls.fromTheta(t)
 		return []float64{u[0], math.Exp(u[1]), math.Exp(u[2])}

@@ -52,7 +52,7 @@ func thresholdApplicable(f Family, d *Data, fixed Fixed) error {
 		return err
 	}
 	if u, ok := fixed["threshold"]; ok {
-		for _, v := range d.Values() {
+		for _, v := range d.valuesView() {
 			if !(v > u) {
 				return inapplicable(f.Name(), "needs every value above the fixed threshold %v, the data have %v", u, v)
 			}
