@@ -122,6 +122,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	if !o.Quiet && isTerminal(stderr) {
 		opt.Progress = stderr
 	}
+	limitMemoryForProject(p)
 	res, err := runner.Run(ctx, p, opt)
 	if err != nil {
 		if errors.Is(err, context.Canceled) {
