@@ -66,6 +66,48 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
 		}
 		return
+	// The same routes for the pointers a Member hands out (member.go).
+	case *InvGauss:
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
+		return
+	case *Gamma:
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
+		return
+	case *Normal:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case *LogNormal:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case *Exponential:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case *Weibull:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case *LogLogistic:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case *Gumbel:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
+	case *Logistic:
+		for i, v := range x {
+			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
+		}
+		return
 	case CDFTailer:
 		for i, v := range x {
 			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)

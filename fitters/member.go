@@ -1,42 +1,43 @@
 package fitters
 
-import (
-	"math"
-	"unsafe"
-)
+import "math"
 
 // Member is a caller-owned home for one member of a family, rebuilt in
-// place from new parameters: New(p) returns the Dist that fam.New(p)
-// returns (same dynamic type, same value, same error), but for the value
-// types of the families listed in inPlace it allocates nothing, where
-// fam.New's conversion of the value to a Dist allocates a copy of it on
-// the heap each time (`go build -gcflags=-m`: the Dist parameter of
-// CDFTailsBatch leaks, so no caller can keep it on the stack). A bootstrap
-// worker holds one Member and rebuilds it for each replicate's refit.
+// place from new parameters. For the value types of the families listed
+// in inPlace, New(p) returns a pointer to the Member's own storage holding
+// exactly the value fam.New(p) returns (a pointer fits in an interface
+// without a heap copy, where fam.New's conversion of the value to a Dist
+// allocates one each time: `go build -gcflags=-m` shows the Dist parameter
+// of CDFTailsBatch leaks). Every other family, and any p those families'
+// New would refuse, goes to fam.New itself. A bootstrap worker holds one
+// Member and rebuilds it for each replicate's refit.
 //
-// The returned Dist holds the value type itself (not a pointer), so every
-// type switch on it (CDFTailsBatch's) sees what it would see from fam.New;
-// its dynamic value is the Member's own storage, overwritten by the next
-// New: use it before the next call, and never from two goroutines at once.
+// The returned Dist is meant for CDFTailsBatch (which has a case for each
+// of these pointer types, taking the same route as for the value) and for
+// the Dist methods; a type switch on the value types does not match it.
+// It is overwritten by the next New: use it before the next call, and
+// never from two goroutines at once.
 type Member struct {
-	fam  Family
-	set  func(p []float64) bool // fills the home when fam.New surely accepts p
-	dist Dist                   // the home, as a Dist
+	fam Family
+	set func(p []float64) (Dist, bool) // the home, filled when fam.New surely accepts p
 }
 
 // NewMember returns a Member of fam.
 func NewMember(fam Family) *Member {
 	m := &Member{fam: fam}
 	if mk, ok := inPlace[fam.Name()]; ok {
-		m.set, m.dist = mk()
+		m.set = mk()
 	}
 	return m
 }
 
-// New returns fam.New(p), rebuilt in the Member's home where it can be.
+// New returns fam.New(p)'s member, rebuilt in the Member's home where it
+// can be.
 func (m *Member) New(p []float64) (Dist, error) {
-	if m.set != nil && m.set(p) {
-		return m.dist, nil
+	if m.set != nil {
+		if d, ok := m.set(p); ok {
+			return d, nil
+		}
 	}
 	return m.fam.New(p)
 }
@@ -46,7 +47,7 @@ func (m *Member) New(p []float64) (Dist, error) {
 // > 0. Every finite p with those parameters > 0 is accepted by the
 // family's New as exactly that value (TestMemberMatchesNew); any other p
 // goes to New itself, for its error.
-var inPlace = map[string]func() (func([]float64) bool, Dist){
+var inPlace = map[string]func() func([]float64) (Dist, bool){
 	"normal":      home(0b10, func(p []float64) Normal { return Normal{p[0], p[1]} }),
 	"lognormal":   home(0b10, func(p []float64) LogNormal { return LogNormal{p[0], p[1]} }),
 	"exponential": home(0b1, func(p []float64) Exponential { return Exponential{p[0]} }),
@@ -60,27 +61,27 @@ var inPlace = map[string]func() (func([]float64) bool, Dist){
 
 // home makes the in-place constructor of a family whose members are the
 // value type T built by build from its k parameters, bit i of positive
-// set where parameter i must be > 0 (k is the highest bit set, or 1).
-func home[T Dist](positive uint, build func(p []float64) T) func() (func([]float64) bool, Dist) {
+// set where parameter i must be > 0 (k is the highest bit set, or 1). The
+// home is one *T per Member.
+func home[T any, PT interface {
+	*T
+	Dist
+}](positive uint, build func(p []float64) T) func() func([]float64) (Dist, bool) {
 	k := max(1, bitLen(positive))
-	return func() (func([]float64) bool, Dist) {
-		v := new(T)
-		d, ok := boxAt(v, build)
-		if !ok {
-			return nil, nil
-		}
-		return func(p []float64) bool {
+	return func() func([]float64) (Dist, bool) {
+		v := PT(new(T))
+		return func(p []float64) (Dist, bool) {
 			if len(p) != k {
-				return false // New panics, as it should
+				return nil, false // New panics, as it should
 			}
 			for i, x := range p {
 				if math.IsNaN(x) || math.IsInf(x, 0) || (positive>>i&1 == 1 && !(x > 0)) {
-					return false
+					return nil, false
 				}
 			}
 			*v = build(p)
-			return true
-		}, d
+			return v, true
+		}
 	}
 }
 
@@ -90,33 +91,4 @@ func bitLen(u uint) int {
 		n++
 	}
 	return n
-}
-
-// boxAt returns a Dist whose dynamic type is T and whose dynamic value is
-// read from *v, so that writing *v changes the member it holds. A Dist is
-// two words, the type's method table and a pointer to the value (for a
-// type, like these structs of float64, that is not pointer-shaped); boxAt
-// takes the first from an ordinary conversion and sets the second to v.
-// It then checks that the result behaves as that layout says — equal to
-// the ordinary conversion of a value written through v, and following a
-// second write — and reports false otherwise (the Member then falls back
-// to fam.New, which allocates but is always right).
-func boxAt[T Dist](v *T, build func(p []float64) T) (Dist, bool) {
-	if unsafe.Sizeof(Dist(nil)) != 2*unsafe.Sizeof(uintptr(0)) {
-		return nil, false
-	}
-	var d Dist = *v
-	words := (*[2]unsafe.Pointer)(unsafe.Pointer(&d))
-	words[1] = unsafe.Pointer(v)
-	for _, probe := range [][]float64{{0.625, 1.75}, {3.5, 0.125}} {
-		*v = build(probe)
-		want := Dist(build(probe))
-		if d != want {
-			return nil, false
-		}
-		if _, ok := d.(T); !ok {
-			return nil, false
-		}
-	}
-	return d, true
 }
