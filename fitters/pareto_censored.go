@@ -196,8 +196,9 @@ func paretoCensoredPoint(s *paretoCensoredSample, la, lh float64) newton2Point {
 // t = ln α by Newton's method with step halving; ℓ(e^t, 0) is concave in t
 // (each term of paretoNatural is, with E = e^t·ℓ, ℓ ≥ 0). It stops when
 // the Newton decrement g²/(−H) falls below tol²·max(1, |ℓ|).
-func paretoEdgeShape(s *paretoCensoredSample, t, tol float64, maxIter int) (alpha float64, p newton2Point, iterations int, ok bool) {
+func paretoEdgeShape(s *paretoCensoredSample, t, tol float64, maxIter int) (alpha float64, p newton2Point, iterations, evaluations int, ok bool) {
 	at := func(t float64) newton2Point {
+		evaluations++
 		a := math.Exp(t)
 		q := paretoNatural(s, a, 0)
 		q.h00 = a*a*q.h00 + a*q.g0
@@ -209,19 +210,19 @@ func paretoEdgeShape(s *paretoCensoredSample, t, tol float64, maxIter int) (alph
 	for it := 1; it <= maxIter && finite(p.ll); it++ {
 		iterations = it
 		if !(p.h00 < 0) || !finite(p.g0) {
-			return 0, p, it, false
+			return 0, p, it, evaluations, false
 		}
 		step := -p.g0 / p.h00
 		decrement, scale := p.g0*step, math.Max(1, math.Abs(p.ll))
 		if decrement <= tol*tol*scale {
-			return math.Exp(t), p, it, true
+			return math.Exp(t), p, it, evaluations, true
 		}
 		if decrement <= 1e-12*scale {
 			// As censoredNewton2 near the maximum: ℓ's rounding hides the
 			// last gains, so full steps without the increase test, at
 			// most five, converged if the decrement reaches 10⁻¹⁶·|ℓ|.
 			if quiet++; quiet > 5 {
-				return math.Exp(t), p, it, decrement <= 1e-16*scale
+				return math.Exp(t), p, it, evaluations, decrement <= 1e-16*scale
 			}
 			t, p = t+step, at(t+step)
 			continue
@@ -236,10 +237,10 @@ func paretoEdgeShape(s *paretoCensoredSample, t, tol float64, maxIter int) (alph
 			step /= 2
 		}
 		if !moved {
-			return 0, p, it, false
+			return 0, p, it, evaluations, false
 		}
 	}
-	return 0, p, iterations, false
+	return 0, p, iterations, evaluations, false
 }
 
 // paretoCensoredStart returns the starting (ln α, ln h): of a few
@@ -302,7 +303,7 @@ func fitParetoCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) 
 		if _, a, _, ok := paretoMLE(d.Exact, d.Right); ok {
 			start = math.Log(a)
 		}
-		a, p, iters, ok := paretoEdgeShape(&s, start, tol, maxIter)
+		a, p, iters, evals, ok := paretoEdgeShape(&s, start, tol, maxIter)
 		if !ok {
 			return false, fmt.Sprintf("the shape at the scale bound did not converge in %d iterations", iters)
 		}
@@ -310,7 +311,7 @@ func fitParetoCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) 
 			fit.Convergence = Convergence{
 				Method:       "censored Newton on ln shape, scale at the smallest exact value (concave likelihood, score into the interior ≤ 0)",
 				Iterations:   iters,
-				Evaluations:  iters,
+				Evaluations:  evals,
 				GradientNorm: math.Abs(p.g0),
 				Converged:    true,
 				Note:         paretoBoundaryNote,
