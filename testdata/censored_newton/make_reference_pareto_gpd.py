@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""Reference maxima for the censored Pareto and generalised Pareto Newton routes.
+"""Reference maxima for the censored Pareto, generalised Pareto and beta Newton routes.
 
 Run with Debian's scipy and mpmath:
     /usr/bin/python3 testdata/censored_newton/make_reference_pareto_gpd.py
@@ -10,7 +10,9 @@ non-detect at L adds ln F(L), a suspension at R adds ln S(R), an interval
 (l, u] adds ln(F(u) - F(l)).  Pareto: S(x) = (scale/x)^shape for x >= scale
 (scipy.stats.pareto(b=shape, scale=scale)); GPD over the fixed threshold u:
 S(x) = (1 + shape (x-u)/scale)^(-1/shape) (scipy.stats.genpareto(c=shape,
-loc=u, scale=scale)).
+loc=u, scale=scale)); beta: scipy.stats.beta(a=alpha, b=beta), F = I_x(a, b)
+by mpmath.betainc(a, b, x1, x2, regularized=True), each censored term as
+one integral.
 
 Censored datasets are simulated here (numpy PCG64, seeds below) and censored
 as field data are (detection limits, suspensions, bins).  Each maximum is
@@ -22,7 +24,7 @@ found twice:
     likelihood may be highest on that edge), keeping the better;
   - mpmath at 40 digits from the scipy point: Newton's method on the score
     (mpmath.diff) in (ln scale, ln shape) for the Pareto, (ln scale, shape)
-    for the GPD, stopped when the step is below 1e-25.  For the Pareto whose
+    for the GPD, (ln alpha, ln beta) for the beta, stopped when the step is below 1e-25.  For the Pareto whose
     scipy maximum is on the edge, Newton in ln shape at scale = U, and the
     edge is confirmed by the one-sided derivative in the scale there
     (positive: the likelihood still rises towards the edge).
@@ -48,6 +50,8 @@ def sig3(x):
 
 
 def dist(family, p):
+    if family == "beta":
+        return stats.beta(a=p[0], b=p[1])
     if family == "pareto":
         return stats.pareto(b=p[1], scale=p[0])
     return stats.genpareto(c=p[1], loc=GPD_THRESHOLD, scale=p[0])
@@ -74,12 +78,13 @@ def censor(family, truth, n, seed, kind):
         frac = rng.random(n)
         for i, v in enumerate(x):
             if u[i] < 0.5:
-                out["right"].append(sig3(GPD_THRESHOLD + (v - GPD_THRESHOLD) * frac[i]))
+                base = GPD_THRESHOLD if family == "gpd" else 0.0
+                out["right"].append(sig3(base + (v - base) * frac[i]))
             else:
                 out["exact"].append(float(v))
     elif kind == "binned+exact":
         edges = [sig3(g.ppf(q)) for q in (0.1, 0.3, 0.5, 0.7, 0.9)]
-        bottom = 0.0 if family == "pareto" else GPD_THRESHOLD
+        bottom = GPD_THRESHOLD if family == "gpd" else 0.0
         for i, v in enumerate(x):
             if i % 3 == 0:
                 out["exact"].append(float(v))
@@ -122,11 +127,15 @@ CASES = [
     ("gpd", [8.0, -0.3], 120, 43, "binned+exact"),
     ("gpd", [1.0, 0.05], 100, 44, "heavy right"),
     ("gpd", [4.0, -0.7], 150, 45, "limits+suspensions"),
+    ("beta", [2.0, 5.0], 150, 51, "limits+suspensions"),
+    ("beta", [0.5, 2.0], 120, 52, "binned+exact"),
+    ("beta", [0.6, 0.4], 100, 53, "random suspensions"),
+    ("beta", [40.0, 60.0], 150, 54, "limits+suspensions"),
 ]
 
 
 def loglik_scipy(family, p, d):
-    if p[0] <= 0 or (family == "pareto" and p[1] <= 0):
+    if p[0] <= 0 or (family in ("pareto", "beta") and p[1] <= 0):
         return -math.inf
     D = dist(family, p)
     with np.errstate(all="ignore"):
@@ -137,8 +146,9 @@ def loglik_scipy(family, p, d):
             s += np.sum(D.logcdf(np.array(d["left"])))
         if d["right"]:
             s += np.sum(D.logsf(np.array(d["right"])))
-        for lo, up in zip(d["lower"], d["upper"]):
-            s += math.log(D.cdf(up) - D.cdf(lo)) if D.cdf(up) > D.cdf(lo) else -math.inf
+        if d["lower"]:
+            diff = D.cdf(np.array(d["upper"])) - D.cdf(np.array(d["lower"]))
+            s += np.sum(np.log(diff)) if np.all(diff > 0) else -math.inf
     s = float(s)
     return s if math.isfinite(s) else -math.inf
 
@@ -147,6 +157,12 @@ def mp_sf(family, p, x):
     x = mp.mpf(x)
     if mp.isinf(x):
         return mp.mpf(0)
+    if family == "beta":
+        if x <= 0:
+            return mp.mpf(1)
+        if x >= 1:
+            return mp.mpf(0)
+        return mp.re(mp.betainc(p[1], p[0], 0, 1 - x, regularized=True))
     if family == "pareto":
         scale, shape = p
         return mp.mpf(1) if x <= scale else (scale / x) ** shape
@@ -168,7 +184,10 @@ def loglik_mp(family, p, d, tallies):
     s = mp.mpf(0)
     for x in d["exact"]:
         x = mp.mpf(x)
-        if family == "pareto":
+        if family == "beta":
+            a, b = p
+            s += (a - 1) * mp.log(x) + (b - 1) * mp.log(1 - x) - (mp.loggamma(a) + mp.loggamma(b) - mp.loggamma(a + b))
+        elif family == "pareto":
             scale, shape = p
             if x < scale:
                 return mp.ninf
@@ -179,6 +198,17 @@ def loglik_mp(family, p, d, tallies):
             if t <= 0:
                 return mp.ninf
             s += -mp.log(sigma) - (1 / xi + 1) * mp.log(t)
+    if family == "beta":
+        # every censored term as one integral, mpmath.betainc(a, b, x1, x2)
+        a, b = p
+        prob = lambda x1, x2: mp.re(mp.betainc(a, b, max(x1, 0), min(x2, 1), regularized=True))
+        for L, c in left.items():
+            s += c * mp.log(prob(0, L))
+        for R, c in right.items():
+            s += c * mp.log(prob(R, 1))
+        for (lo, up), c in iv.items():
+            s += c * mp.log(prob(lo, up))
+        return s
     for L, c in left.items():
         s += c * mp.log(1 - mp_sf(family, p, L))
     for R, c in right.items():
@@ -237,6 +267,10 @@ def fit_case(family, truth, n, seed, kind):
             te, fe = polish(lambda t: -loglik_scipy(family, [U, math.exp(t[0])], d), [math.log(truth[1])])
             if fe <= fun:
                 edge, scipy_p, fun = True, [U, math.exp(te[0])], fe
+    elif family == "beta":
+        nat = lambda t: [math.exp(t[0]), math.exp(t[1])]
+        t, fun = polish(lambda t: -loglik_scipy(family, nat(t), d), [math.log(truth[0]), math.log(truth[1])])
+        scipy_p = nat(t)
     else:
         nat = lambda t: [math.exp(t[0]), t[1]]
         t, fun = polish(lambda t: -loglik_scipy(family, nat(t), d), [math.log(truth[0]), truth[1]])
@@ -253,7 +287,7 @@ def fit_case(family, truth, n, seed, kind):
         score = float(mp.diff(lambda s: loglik_mp(family, [s, mp.exp(a)], d, tallies), U, direction=-1))
         assert score > 0, "edge not confirmed"
     else:
-        if family == "pareto":
+        if family in ("pareto", "beta"):
             f2 = lambda a, b: loglik_mp(family, [mp.exp(a), mp.exp(b)], d, tallies)
             x = newton(f2, mp.matrix([mp.log(scipy_p[0]), mp.log(scipy_p[1])]), 2)
             est_mp = [mp.exp(x[0]), mp.exp(x[1])]
@@ -276,7 +310,7 @@ def fit_case(family, truth, n, seed, kind):
 
 def main():
     fits = [fit_case(*c) for c in CASES]
-    ref = dict(note="written by make_reference_pareto_gpd.py; estimates (scale, shape)", fits=fits)
+    ref = dict(note="written by make_reference_pareto_gpd.py; estimates (scale, shape), beta (alpha, beta)", fits=fits)
     with open(os.path.join(HERE, "reference_pareto_gpd.json"), "w") as fh:
         json.dump(ref, fh, indent=1)
 
