@@ -141,7 +141,7 @@ func BenchmarkNonparametric(b *testing.B) {
 
 // BenchmarkFitCensoredGammaInvgauss times the censored fits of the
 // families with a dedicated two-parameter Newton route (gamma, inverse
-// Gaussian, Pareto, GPD over the threshold 30; benchSample's 1000 values,
+// Gaussian, Pareto, GPD over the threshold 30, beta; benchSample's 1000 values,
 // about 25 % censored) by their Newton routes and by the generic BFGS
 // route (genericCensoredOnly), for the before/after ratio.
 func BenchmarkFitCensoredGammaInvgauss(b *testing.B) {
@@ -154,6 +154,7 @@ func BenchmarkFitCensoredGammaInvgauss(b *testing.B) {
 		{"invgauss", []float64{5, 12}, Options{}},
 		{"pareto", []float64{2, 2.5}, Options{}},
 		{"gpd", []float64{5, 0.2, 30}, Options{Fixed: Fixed{"threshold": 30}}},
+		{"beta", []float64{2, 5}, Options{}},
 	}
 	for _, c := range cases {
 		f, _ := Lookup(c.name)
