@@ -84,7 +84,7 @@ func (gpdFamily) Support() string {
 	return "x ≥ threshold (fixed)"
 }
 func (gpdFamily) Route() string {
-	return "BFGS on (log scale, shape) of the excesses over the fixed threshold, analytic score, from moment, probability-weighted-moment, exponential and spread starts; shape ≤ −1 (unbounded likelihood) is searched for an interior local maximum; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values; censored data: Newton on (log scale, shape) with analytic score and Hessian from the best start, the BFGS route if it fails or the shape runs to −1"
+	return "BFGS on (log scale, shape) of the excesses over the fixed threshold, analytic score, from moment, probability-weighted-moment, exponential and spread starts; shape ≤ −1 (unbounded likelihood) is searched for an interior local maximum; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values; censored data: Newton on (log scale, shape) with analytic score and Hessian from the censored exponential fit (the starts above, best first, if that fails), the BFGS route if it fails or the shape runs to −1"
 }
 
 func (gpdFamily) New(p []float64) (Dist, error) {
