@@ -58,7 +58,7 @@ func TestFitIntoAllocatesNothing(t *testing.T) {
 					t.Fatal(err)
 				}
 			})
-			if allocs != 0 {
+			if allocs != 0 && !raceEnabled {
 				t.Errorf("%s: FitInto makes %v allocations per fit, want 0", c.name, allocs)
 			}
 		}
