@@ -19,7 +19,7 @@ import (
 // suspensions or only three exact values).
 func TestGPDCensoredNewtonAgreesWithBFGS(t *testing.T) {
 	c := newtonAgreementCase{name: "gpd", opt: Options{Fixed: Fixed{"threshold": 10}}, truths: gpdTruths, scenarios: censoredScenarios,
-		declines: func(f *Fit) bool {
+		declines: func(_ *Data, f *Fit) bool {
 			return strings.Contains(f.Method, "the shape ran towards −1") && (!f.Converged || f.Estimates[1] < -0.9)
 		}}
 	seeds := agreementSeeds()
