@@ -113,7 +113,8 @@ func copyDiskFile(w io.Writer, member string, d DiskFile) error {
 	return nil
 }
 
-// refuseKeyIn fails when b holds the beginning of a private key.
+// refuseKeyIn fails when b holds the beginning of a private key (every
+// marker ends with privateKeyTail, so one search rules most data out).
 func refuseKeyIn(member string, b []byte) error {
 	if !bytes.Contains(b, privateKeyTail) {
 		return nil

@@ -1,7 +1,6 @@
 package bundle
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -228,26 +227,15 @@ func privateKeyError(name string) error {
 // refusePrivateKeys fails when any payload file or run.json holds a private
 // key, naming the file.
 func refusePrivateKeys(c Contents) error {
-	check := func(name string, b []byte) error {
-		if !bytes.Contains(b, privateKeyTail) { // every marker ends so
-			return nil
-		}
-		for _, m := range privateKeyMarkers {
-			if bytes.Contains(b, m) {
-				return privateKeyError(name)
-			}
-		}
-		return nil
-	}
 	paths := make([]string, 0, len(c.Payload))
 	for p := range c.Payload {
 		paths = append(paths, p)
 	}
 	sort.Strings(paths)
 	for _, p := range paths {
-		if err := check(PayloadDir+"/"+p, c.Payload[p]); err != nil {
+		if err := refuseKeyIn(PayloadDir+"/"+p, c.Payload[p]); err != nil {
 			return err
 		}
 	}
-	return check(RunFile, c.RunJSON)
+	return refuseKeyIn(RunFile, c.RunJSON)
 }
