@@ -246,14 +246,6 @@ func fitBetaCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) {
 	if !(a > 0) || !(b > 0) || math.IsInf(a, 0) || math.IsInf(b, 0) || !finite(res.logLik) {
 		return false, "the maximum lies where the parameters are not finite"
 	}
-	fit.Convergence = Convergence{
-		Method:       "censored Newton on (log alpha, log beta)",
-		Iterations:   res.iterations,
-		Evaluations:  res.evaluations,
-		GradientNorm: res.gradNorm,
-		Converged:    true,
-	}
-	fit.Estimates[0], fit.Estimates[1] = a, b
-	fit.LogLik = res.logLik
+	fit.setSolved(a, b, res.logLik, res.convergence("censored Newton on (log alpha, log beta)"))
 	return true, ""
 }

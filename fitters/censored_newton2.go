@@ -26,6 +26,11 @@ type newton2Result struct {
 	reason      string
 }
 
+// convergence is the record of a converged run by the named method.
+func (r newton2Result) convergence(method string) Convergence {
+	return Convergence{Method: method, Iterations: r.iterations, Evaluations: r.evaluations, GradientNorm: r.gradNorm, Converged: true}
+}
+
 // maxNewtonStep bounds each coordinate's change in one step of
 // censoredNewton2: both routes work on logarithms of the parameters, so a
 // factor e² at most.

@@ -259,14 +259,6 @@ func fitGammaCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) {
 	if !(k > 0) || !(beta > 0) || math.IsInf(k, 0) || math.IsInf(beta, 0) || !finite(res.logLik) {
 		return false, "the maximum lies where the parameters are not finite"
 	}
-	fit.Convergence = Convergence{
-		Method:       "censored Newton on (ln shape, ln(rate·c/shape))",
-		Iterations:   res.iterations,
-		Evaluations:  res.evaluations,
-		GradientNorm: res.gradNorm,
-		Converged:    true,
-	}
-	fit.Estimates[0], fit.Estimates[1] = k, beta
-	fit.LogLik = res.logLik
+	fit.setSolved(k, beta, res.logLik, res.convergence("censored Newton on (ln shape, ln(rate·c/shape))"))
 	return true, ""
 }

@@ -232,15 +232,7 @@ func fitInvgaussCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string
 	if !(mean > 0) || !(shape > 0) || math.IsInf(mean, 0) || math.IsInf(shape, 0) || !finite(res.logLik) {
 		return false, "the maximum lies where the parameters are not finite"
 	}
-	fit.Convergence = Convergence{
-		Method:       "censored Newton on (ln(c/mean), ln(shape/c))",
-		Iterations:   res.iterations,
-		Evaluations:  res.evaluations,
-		GradientNorm: res.gradNorm,
-		Converged:    true,
-	}
-	fit.Estimates[0], fit.Estimates[1] = mean, shape
-	fit.LogLik = res.logLik
+	fit.setSolved(mean, shape, res.logLik, res.convergence("censored Newton on (ln(c/mean), ln(shape/c))"))
 	return true, ""
 }
 

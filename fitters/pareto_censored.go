@@ -333,14 +333,6 @@ func fitParetoCensored(fit *Fit, d *Data, opt Options) (ok bool, reason string) 
 	if !(alpha > 0) || !(scale > 0) || math.IsInf(alpha, 0) || !finite(res.logLik) {
 		return false, "the maximum lies where the parameters are not finite"
 	}
-	fit.Convergence = Convergence{
-		Method:       "censored Newton on (ln shape, ln(−ln S(bound))) (concave likelihood)",
-		Iterations:   res.iterations,
-		Evaluations:  res.evaluations,
-		GradientNorm: res.gradNorm,
-		Converged:    true,
-	}
-	fit.Estimates[0], fit.Estimates[1] = scale, alpha
-	fit.LogLik = res.logLik
+	fit.setSolved(scale, alpha, res.logLik, res.convergence("censored Newton on (ln shape, ln(−ln S(bound))) (concave likelihood)"))
 	return true, ""
 }
