@@ -45,7 +45,7 @@ func newBetaCensoredSample(d *Data) (betaCensoredSample, bool) {
 		}
 		s.right.add(x)
 	}
-	var pairs map[[2]float64]int
+	var pairs intervalNumbers
 	for i, l := range d.Lower {
 		u := d.Upper[i]
 		switch {
@@ -58,15 +58,10 @@ func newBetaCensoredSample(d *Data) (betaCensoredSample, bool) {
 		case u >= 1:
 			s.right.add(l)
 		default:
-			k := [2]float64{l, u}
-			if j, ok := pairs[k]; ok {
+			if j, fresh := pairs.number(l, u, len(s.lower)); !fresh {
 				s.inCount[j]++
 				continue
 			}
-			if pairs == nil {
-				pairs = make(map[[2]float64]int)
-			}
-			pairs[k] = len(s.lower)
 			s.lower = append(s.lower, l)
 			s.upper = append(s.upper, u)
 			s.inCount = append(s.inCount, 1)

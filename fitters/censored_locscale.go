@@ -214,7 +214,7 @@ func standardizeCensored(d *Data, logScale bool, c, s float64) (censoredSample, 
 		}
 		cs.right.add(u)
 	}
-	var pairs map[[2]float64]int
+	var pairs intervalNumbers
 	for i := range d.Lower {
 		l, u := to(d.Lower[i]), to(d.Upper[i])
 		switch {
@@ -227,15 +227,10 @@ func standardizeCensored(d *Data, logScale bool, c, s float64) (censoredSample, 
 		case math.IsInf(u, 1):
 			cs.right.add(l)
 		default:
-			k := [2]float64{l, u}
-			if j, ok := pairs[k]; ok {
+			if j, fresh := pairs.number(l, u, len(cs.lower)); !fresh {
 				cs.inCount[j]++
 				continue
 			}
-			if pairs == nil {
-				pairs = make(map[[2]float64]int)
-			}
-			pairs[k] = len(cs.lower)
 			cs.lower = append(cs.lower, l)
 			cs.upper = append(cs.upper, u)
 			cs.inCount = append(cs.inCount, 1)

@@ -179,7 +179,7 @@ func (s *censoredPositive) add(d *Data, ic float64) bool {
 			s.right.add(to(x))
 		}
 	}
-	var pairs map[[2]float64]int
+	var pairs intervalNumbers
 	for i, l := range d.Lower {
 		u := d.Upper[i]
 		switch {
@@ -192,15 +192,10 @@ func (s *censoredPositive) add(d *Data, ic float64) bool {
 		case math.IsInf(u, 1):
 			s.right.add(to(l))
 		default:
-			k := [2]float64{l, u}
-			if j, ok := pairs[k]; ok {
+			if j, fresh := pairs.number(l, u, len(s.lower)); !fresh {
 				s.inCount[j]++
 				continue
 			}
-			if pairs == nil {
-				pairs = make(map[[2]float64]int)
-			}
-			pairs[k] = len(s.lower)
 			s.lower = append(s.lower, to(l))
 			s.upper = append(s.upper, to(u))
 			s.inCount = append(s.inCount, 1)
@@ -223,6 +218,24 @@ func censoredCentre(d *Data) float64 {
 		}
 	}
 	return c
+}
+
+// intervalNumbers numbers distinct two-sided intervals (l, u] in order of
+// first appearance, for the censored routes' tallies of interval data.
+type intervalNumbers map[[2]float64]int
+
+// number returns the interval's number, and fresh = true when it had none
+// (it then gets next, the count of intervals already numbered).
+func (m *intervalNumbers) number(l, u float64, next int) (j int, fresh bool) {
+	k := [2]float64{l, u}
+	if j, ok := (*m)[k]; ok {
+		return j, false
+	}
+	if *m == nil {
+		*m = make(intervalNumbers)
+	}
+	(*m)[k] = next
+	return next, true
 }
 
 // smallTally holds distinct values in order of first appearance with their

@@ -56,7 +56,7 @@ func newParetoCensoredSample(d *Data) (paretoCensoredSample, bool) {
 			s.right.add(x)
 		}
 	}
-	var pairs map[[2]float64]int
+	var pairs intervalNumbers
 	for i, l := range d.Lower {
 		up := d.Upper[i]
 		switch {
@@ -69,15 +69,10 @@ func newParetoCensoredSample(d *Data) (paretoCensoredSample, bool) {
 		case l <= 0:
 			s.left.add(up)
 		default:
-			k := [2]float64{l, up}
-			if j, ok := pairs[k]; ok {
+			if j, fresh := pairs.number(l, up, len(s.lower)); !fresh {
 				s.inCount[j]++
 				continue
 			}
-			if pairs == nil {
-				pairs = make(map[[2]float64]int)
-			}
-			pairs[k] = len(s.lower)
 			if up == u {
 				s.atBound = false // ln(F(U) − F(l)) = −∞ at scale U
 			}
