@@ -267,14 +267,7 @@ func (f gammaFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	if newtonOK {
 		return fit, nil
 	}
-	k0, b0 := 1.0, 1.0
-	if x := startSample(d, 2, true); len(x) >= 2 {
-		if k, b, _, c := gammaMLE(x, opt); c.Converged && k < 1e6 {
-			k0, b0 = k, b
-		} else if m := sumOf(x) / float64(len(x)); m > 0 {
-			b0 = 1 / m
-		}
-	}
+	k0, b0 := gammaRoughStart(d, opt)
 	starts := [][]float64{{math.Log(k0), math.Log(b0)}, {0, math.Log(b0 / k0)}}
 	toNatural := func(t []float64) []float64 { return []float64{math.Exp(t[0]), math.Exp(t[1])} }
 	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (log shape, log rate)")
@@ -282,4 +275,19 @@ func (f gammaFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		censoredNewtonFallback(fit, newtonFailed)
 	}
 	return fit, nil
+}
+
+// gammaRoughStart is the (shape, rate) start of the censored routes: the
+// complete-data fit to the values startSample takes, or shape 1 and the
+// reciprocal of their mean where that fit fails, or (1, 1).
+func gammaRoughStart(d *Data, opt Options) (k0, b0 float64) {
+	k0, b0 = 1, 1
+	if x := startSample(d, 2, true); len(x) >= 2 {
+		if k, b, _, c := gammaMLE(x, opt); c.Converged && k < 1e6 {
+			k0, b0 = k, b
+		} else if m := sumOf(x) / float64(len(x)); m > 0 {
+			b0 = 1 / m
+		}
+	}
+	return k0, b0
 }

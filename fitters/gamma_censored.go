@@ -221,14 +221,7 @@ func gammaCensoredStart(s *gammaCensoredSample, d *Data, opt Options) (kappa0, n
 	if !math.IsInf(best, -1) {
 		return kappa0, nu0
 	}
-	k0, b0 := 1.0, 1.0
-	if x := startSample(d, 2, true); len(x) >= 2 {
-		if k, b, _, c := gammaMLE(x, opt); c.Converged && k < 1e6 {
-			k0, b0 = k, b
-		} else if m := sumOf(x) / float64(len(x)); m > 0 {
-			b0 = 1 / m
-		}
-	}
+	k0, b0 := gammaRoughStart(d, opt)
 	return math.Log(k0), math.Log(b0 * s.c / k0)
 }
 
