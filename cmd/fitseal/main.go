@@ -55,7 +55,10 @@ func exitCode(err error) int {
 func main() {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
-	os.Exit(run(ctx, os.Args[1:], os.Stdout, os.Stderr))
+	stopProfile := startCPUProfile(os.Getenv, os.Stderr)
+	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr)
+	stopProfile()
+	os.Exit(code)
 }
 
 // run dispatches to a subcommand and reports its error; it returns the exit status.
