@@ -41,10 +41,34 @@ func fastLog(x float64) float64 {
 }
 
 // fastLogs writes ln x[i] into dst[i] (len(dst) ≥ len(x); dst may be x) and
-// returns Σ ln x[i], summed in order. Each value is exactly fastLog(x[i]):
-// the loop holds logCore's body written out (the compiler inlines nothing
-// this large), which TestFastLogsSlice checks bit for bit.
+// returns Σ ln x[i], summed in order i = 0, 1, 2, …. Each value is exactly
+// fastLog(x[i]) (TestFastLogsSlice, TestFastLogsKernelsBits): the logs of a
+// block of logsBlock values come from logsInto, the vector kernel the
+// processor has (fastmath_amd64.s) or logsGeneric, and are then summed in
+// order while the block is still in the cache, so the sum's bits do not
+// depend on the kernel either.
 func fastLogs(dst, x []float64) (sum float64) {
+	dst = dst[:len(x)]
+	for len(x) > 0 {
+		n := min(len(x), logsBlock)
+		d := dst[:n]
+		logsInto(d, x[:n])
+		for _, y := range d {
+			sum += y
+		}
+		dst, x = dst[n:], x[n:]
+	}
+	return sum
+}
+
+// logsBlock is the number of values fastLogs takes the logs of before it
+// sums them: 4 KiB of results, well inside the first-level cache.
+const logsBlock = 512
+
+// logsGeneric writes fastLog(x[i]) into dst[i] (len(dst) = len(x); dst may
+// be x): the pure-Go kernel, with logCore's body written out in the loop
+// (the compiler inlines nothing this large).
+func logsGeneric(dst, x []float64) {
 	dst = dst[:len(x)]
 	for i, v := range x {
 		ix := math.Float64bits(v)
@@ -71,9 +95,7 @@ func fastLogs(dst, x []float64) (sum float64) {
 			y = hi + (tail + float64(r2*p))
 		}
 		dst[i] = y
-		sum += y
 	}
-	return sum
 }
 
 // logSpecial is fastLog of zero, subnormal, negative, infinite and NaN x.
@@ -494,6 +516,37 @@ func expCore(x float64, scale int64) float64 {
 	p := (expC2 + float64(r*expC3)) + float64(r2*(expC4+float64(r*expC5)))
 	tmp := (t.tail + r) + float64(r2*p)
 	return s + float64(s*tmp)
+}
+
+// fastExps writes e^x[i] into dst[i] (len(dst) ≥ len(x); dst may be x),
+// each exactly fastExp(x[i]) (TestFastExpsKernelsBits): through the vector
+// kernel the processor has (fastmath_amd64.s) or expsGeneric.
+func fastExps(dst, x []float64) {
+	expsInto(dst[:len(x)], x)
+}
+
+// expsGeneric writes fastExp(x[i]) into dst[i] (len(dst) = len(x); dst may
+// be x): the pure-Go kernel, with expCore's body written out in the loop.
+func expsGeneric(dst, x []float64) {
+	dst = dst[:len(x)]
+	for i, v := range x {
+		var y float64
+		if math.Float64bits(v)&^(1<<63) >= 0x4085f00000000000 { // |x| ≥ 702, Inf or NaN
+			y = expSpecial(v)
+		} else {
+			// expCore(v, 0)
+			kd := float64(float64(v*invLn2N)+expShift) - expShift
+			k := int64(kd)
+			r := (v - float64(kd*ln2NHi)) - float64(kd*ln2NLo)
+			t := &expTable[k&127]
+			s := math.Float64frombits(math.Float64bits(t.hi) + uint64(k>>7)<<52)
+			r2 := float64(r * r)
+			p := (expC2 + float64(r*expC3)) + float64(r2*(expC4+float64(r*expC5)))
+			tmp := (t.tail + r) + float64(r2*p)
+			y = s + float64(s*tmp)
+		}
+		dst[i] = y
+	}
 }
 
 // expSpecial is fastExp for |x| ≥ 702, infinite or NaN x. Below −702
