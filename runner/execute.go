@@ -42,7 +42,7 @@ type taskResult struct {
 // of workers and assembles the results in plan order. Cancelling ctx stops
 // the run; Run then returns ctx's error and no results.
 func Run(ctx context.Context, p *Project, opt RunOptions) (*Results, error) {
-	data, err := ReadAll(p)
+	data, err := readAll(p, opt.Workers)
 	if err != nil {
 		return nil, err
 	}
@@ -61,8 +61,18 @@ func Run(ctx context.Context, p *Project, opt RunOptions) (*Results, error) {
 }
 
 // ReadAll reads every dataset that an analysis uses, in project order. A
-// dataset that is not split must have at least one observation.
+// dataset that is not split must have at least one observation. Each file
+// is parsed on every core.
 func ReadAll(p *Project) (map[string]*DatasetData, error) {
+	return readAll(p, 0)
+}
+
+// readAll is ReadAll parsing each file on at most workers goroutines
+// (0: every core).
+func readAll(p *Project, workers int) (map[string]*DatasetData, error) {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
 	used := map[string]bool{}
 	for _, a := range p.Analyses {
 		used[a.Dataset] = true
@@ -72,7 +82,7 @@ func ReadAll(p *Project) (map[string]*DatasetData, error) {
 		if !used[d.Name] {
 			continue
 		}
-		dd, err := ReadDataset(p, d)
+		dd, err := readDataset(p, d, workers)
 		if err != nil {
 			return nil, err
 		}
