@@ -10,3 +10,17 @@ func logsInto(dst, x []float64) { logsGeneric(dst, x) }
 // expsInto writes fastExp(x[i]) into dst[i] (len(dst) = len(x)): the
 // pure-Go loop.
 func expsInto(dst, x []float64) { expsGeneric(dst, x) }
+
+// mathKernel names a set of kernels for fastLogs and fastExps: here only
+// the pure-Go loops.
+type mathKernel int
+
+const kernelGo mathKernel = 0
+
+// availableKernels lists the kernel sets this build can run.
+func availableKernels() []mathKernel { return []mathKernel{kernelGo} }
+
+// useKernel is a no-op here (one kernel set); it returns its undo.
+func useKernel(mathKernel) (restore func()) { return func() {} }
+
+func (mathKernel) String() string { return "go" }

@@ -422,7 +422,28 @@ func BenchmarkFastLog(b *testing.B) {
 	})
 	b.Run("fastLogs/n=1000", func(b *testing.B) {
 		benchBest(b, func() { fastLogSink = fastLogs(dst, x) })
+		reportPerElement(b, len(x))
 	})
+	for _, k := range availableKernels() {
+		b.Run("fastLogs/"+k.String()+"/n=1000", func(b *testing.B) {
+			defer useKernel(k)()
+			benchBest(b, func() { fastLogSink = fastLogs(dst, x) })
+			reportPerElement(b, len(x))
+		})
+		// The logs alone, without the in-order sum (a chain of dependent
+		// additions).
+		b.Run("logsInto/"+k.String()+"/n=1000", func(b *testing.B) {
+			defer useKernel(k)()
+			benchBest(b, func() { logsInto(dst, x) })
+			reportPerElement(b, len(x))
+		})
+	}
+}
+
+// reportPerElement reports ns/elem: the mean time of one call of the
+// benchmark over n values, per value.
+func reportPerElement(b *testing.B, n int) {
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n), "ns/elem")
 }
 
 // bigExp is e^x in math/big: x = m ln2 + u with m = round(x/ln 2), |u| ≤ ln2/2,
@@ -634,6 +655,19 @@ func BenchmarkFastExp(b *testing.B) {
 				}
 				fastLogSink = s
 			})
+			reportPerElement(b, len(x))
+		})
+	}
+	dst := make([]float64, len(x))
+	b.Run("fastExps/n=1000", func(b *testing.B) {
+		benchBest(b, func() { fastExps(dst, x) })
+		reportPerElement(b, len(x))
+	})
+	for _, k := range availableKernels() {
+		b.Run("fastExps/"+k.String()+"/n=1000", func(b *testing.B) {
+			defer useKernel(k)()
+			benchBest(b, func() { fastExps(dst, x) })
+			reportPerElement(b, len(x))
 		})
 	}
 }

@@ -1,0 +1,344 @@
+//go:build amd64 && !purego
+
+#include "textflag.h"
+
+// Vector kernels of fastLog and fastExp (fastmath.go): the same operations
+// in the same order on 8 (AVX-512) or 4 (AVX2) lanes, each product rounded
+// on its own (VMULPD, never a fused multiply-add), the same tables read by
+// gathers, so every lane gives fastLog's or fastExp's bits. Each kernel
+// works on whole vectors from the start of x and returns the number of
+// values it wrote: len(x) rounded down to the vector width, or the index
+// of the first vector holding an input the scalar path treats specially
+// (fastmath_amd64.go does that vector and the tail in Go).
+
+// Constants, each a 64-bit pattern repeated four times (32 bytes): AVX2
+// reads them as memory operands, AVX-512 broadcasts the first quadword.
+#define CONST4(name, bits) \
+	DATA name<>+0(SB)/8, bits; \
+	DATA name<>+8(SB)/8, bits; \
+	DATA name<>+16(SB)/8, bits; \
+	DATA name<>+24(SB)/8, bits; \
+	GLOBL name<>(SB), RODATA|NOPTR, $32
+
+// fastLog
+CONST4(lgMinNorm, $0x0010000000000000)  // bits of the smallest normal
+CONST4(lgSpan, $0x7fe0000000000000)     // normal bits − minNorm < span
+CONST4(lgSpanFlip, $0xffdfffffffffffff) // (span − 1) with the sign bit flipped
+CONST4(lgSign, $0x8000000000000000)
+CONST4(lgOff, $0x3fe6000000000000)      // bits of 0.6875
+CONST4(lg255, $0x00000000000000ff)
+CONST4(lgExpMask, $0xfff0000000000000)
+CONST4(lgLow9, $0xfffffffffffffe00)     // clears the last 9 bits
+CONST4(lgKBias, $0x4000000000000000)    // tmp + 2^62: k + 1024 in the top 12 bits
+CONST4(lgMagic, $0x4330000000000000)    // 2^52
+CONST4(lgMagicK, $0x4330000000000400)   // 2^52 + 1024
+CONST4(lgOne, $0x3ff0000000000000)
+CONST4(lgLn2Hi, $0x3fe62e42fefa3800)
+CONST4(lgLn2Lo, $0x3d2ef35793c76730)
+CONST4(lgP0, $0xbfdfffffffffffce)
+CONST4(lgP1, $0x3fd5555555542f63)
+CONST4(lgP2, $0xbfd00000033955ce)
+CONST4(lgP3, $0x3fc999a7618a6968)
+CONST4(lgP4, $0xbfc5491653530cc3)
+
+// fastExp
+CONST4(exAbs, $0x7fffffffffffffff)
+CONST4(exBound, $0x4085f00000000000)   // bits of 702
+CONST4(exBoundM1, $0x4085efffffffffff)
+CONST4(exInvLn2N, $0x40671547652b82fe)
+CONST4(exShift, $0x4338000000000000)   // 1.5·2^52
+CONST4(exLn2NHi, $0x3f762e42fefc0000)
+CONST4(exLn2NLo, $0xbd3c610ca86c3899)
+CONST4(exC2, $0x3fe0000000000000)
+CONST4(exC3, $0x3fc5555555555555)
+CONST4(exC4, $0x3fa5555555555555)
+CONST4(exC5, $0x3f81111111111111)
+CONST4(ex127, $0x000000000000007f)
+CONST4(exNot127, $0xffffffffffffff80)
+
+// func logsAVX512(dst, x []float64) int
+TEXT ·logsAVX512(SB), NOSPLIT, $0-56
+	MOVQ dst_base+0(FP), DX
+	MOVQ x_base+24(FP), SI
+	MOVQ x_len+32(FP), CX
+	LEAQ ·logTable(SB), DI
+	ANDQ $-8, CX
+	XORQ BX, BX
+	VPBROADCASTQ lgMinNorm<>(SB), Z16
+	VPBROADCASTQ lgSpan<>(SB), Z17
+	VPBROADCASTQ lgOff<>(SB), Z18
+	VPBROADCASTQ lg255<>(SB), Z19
+	VPBROADCASTQ lgExpMask<>(SB), Z20
+	VPBROADCASTQ lgLow9<>(SB), Z21
+	VPBROADCASTQ lgOne<>(SB), Z22
+	VPBROADCASTQ lgLn2Hi<>(SB), Z23
+	VPBROADCASTQ lgLn2Lo<>(SB), Z24
+	VPBROADCASTQ lgP0<>(SB), Z25
+	VPBROADCASTQ lgP1<>(SB), Z26
+	VPBROADCASTQ lgP2<>(SB), Z27
+	VPBROADCASTQ lgP3<>(SB), Z28
+	VPBROADCASTQ lgP4<>(SB), Z29
+
+logs512loop:
+	CMPQ BX, CX
+	JGE  logs512done
+	VMOVDQU64 (SI)(BX*8), Z0       // ix
+	VPSUBQ    Z16, Z0, Z1
+	VPCMPUQ   $5, Z17, Z1, K1      // ix − minNorm ≥ span (unsigned): special
+	KORTESTB  K1, K1
+	JNZ       logs512done
+	VPSUBQ    Z18, Z0, Z1          // tmp = ix − logOff
+	VPSRLQ    $44, Z1, Z2
+	VPANDQ    Z19, Z2, Z2          // table index
+	VPSLLQ    $1, Z2, Z3
+	VPADDQ    Z3, Z2, Z2           // index·3: entries are 24 bytes
+	VPSRAQ    $52, Z1, Z3          // k
+	VCVTQQ2PD Z3, Z3               // kd
+	VPANDQ    Z20, Z1, Z1
+	VPSUBQ    Z1, Z0, Z0           // zb
+	VPANDQ    Z21, Z0, Z1          // zh
+	VSUBPD    Z1, Z0, Z0           // zl = zb − zh
+	KXNORB    K1, K1, K1
+	VGATHERQPD (DI)(Z2*8), K1, Z4  // 1/c
+	KXNORB    K2, K2, K2
+	VGATHERQPD 8(DI)(Z2*8), K2, Z5 // (ln c)hi
+	KXNORB    K3, K3, K3
+	VGATHERQPD 16(DI)(Z2*8), K3, Z6 // (ln c)lo
+	VMULPD    Z4, Z1, Z1
+	VSUBPD    Z22, Z1, Z1          // zh·(1/c) − 1
+	VMULPD    Z4, Z0, Z0
+	VADDPD    Z0, Z1, Z0           // r
+	VMULPD    Z23, Z3, Z1
+	VADDPD    Z5, Z1, Z1           // w = kd·ln2Hi + (ln c)hi
+	VADDPD    Z0, Z1, Z2           // hi = w + r
+	VSUBPD    Z2, Z1, Z1
+	VADDPD    Z0, Z1, Z1           // lo = (w − hi) + r
+	VMULPD    Z0, Z0, Z4           // r2
+	VMULPD    Z26, Z0, Z5
+	VADDPD    Z25, Z5, Z5          // p01 = P0 + r·P1
+	VMULPD    Z28, Z0, Z7
+	VADDPD    Z27, Z7, Z7          // P2 + r·P3
+	VMULPD    Z29, Z4, Z8
+	VADDPD    Z8, Z7, Z7           // p24 = (P2 + r·P3) + r2·P4
+	VMULPD    Z7, Z4, Z7
+	VADDPD    Z7, Z5, Z5           // p = p01 + r2·p24
+	VMULPD    Z24, Z3, Z3
+	VADDPD    Z3, Z6, Z6           // (ln c)lo + kd·ln2Lo
+	VADDPD    Z1, Z6, Z6           // tail = … + lo
+	VMULPD    Z5, Z4, Z4
+	VADDPD    Z4, Z6, Z6           // tail + r2·p
+	VADDPD    Z6, Z2, Z2           // hi + (tail + r2·p)
+	VMOVUPD   Z2, (DX)(BX*8)
+	ADDQ      $8, BX
+	JMP       logs512loop
+
+logs512done:
+	MOVQ BX, ret+48(FP)
+	VZEROUPPER
+	RET
+
+// func logsAVX2(dst, x []float64) int
+TEXT ·logsAVX2(SB), NOSPLIT, $0-56
+	MOVQ dst_base+0(FP), DX
+	MOVQ x_base+24(FP), SI
+	MOVQ x_len+32(FP), CX
+	LEAQ ·logTable(SB), DI
+	ANDQ $-4, CX
+	XORQ BX, BX
+	VMOVDQU lgOff<>(SB), Y8
+	VMOVDQU lgOne<>(SB), Y9
+	VMOVDQU lgLn2Hi<>(SB), Y10
+	VMOVDQU lgP0<>(SB), Y11
+	VMOVDQU lgP1<>(SB), Y12
+	VMOVDQU lgP2<>(SB), Y13
+	VMOVDQU lgP3<>(SB), Y14
+
+logs2loop:
+	CMPQ BX, CX
+	JGE  logs2done
+	VMOVDQU  (SI)(BX*8), Y0         // ix
+	VPSUBQ   lgMinNorm<>(SB), Y0, Y1
+	VPXOR    lgSign<>(SB), Y1, Y1
+	VPCMPGTQ lgSpanFlip<>(SB), Y1, Y1 // ix − minNorm ≥ span (unsigned): special
+	VPTEST   Y1, Y1
+	JNZ      logs2done
+	VPSUBQ   Y8, Y0, Y1              // tmp = ix − logOff
+	VPSRLQ   $44, Y1, Y2
+	VPAND    lg255<>(SB), Y2, Y2     // table index
+	VPSLLQ   $1, Y2, Y3
+	VPADDQ   Y3, Y2, Y2              // index·3: entries are 24 bytes
+	VPADDQ   lgKBias<>(SB), Y1, Y3
+	VPSRLQ   $52, Y3, Y3             // k + 1024
+	VPOR     lgMagic<>(SB), Y3, Y3   // 2^52 + k + 1024
+	VSUBPD   lgMagicK<>(SB), Y3, Y3  // kd, exact
+	VPAND    lgExpMask<>(SB), Y1, Y1
+	VPSUBQ   Y1, Y0, Y0              // zb
+	VPAND    lgLow9<>(SB), Y0, Y1    // zh
+	VSUBPD   Y1, Y0, Y0              // zl = zb − zh
+	VPCMPEQQ Y4, Y4, Y4
+	VGATHERQPD Y4, (DI)(Y2*8), Y5    // 1/c
+	VPCMPEQQ Y4, Y4, Y4
+	VGATHERQPD Y4, 8(DI)(Y2*8), Y6   // (ln c)hi
+	VPCMPEQQ Y4, Y4, Y4
+	VGATHERQPD Y4, 16(DI)(Y2*8), Y7  // (ln c)lo
+	VMULPD   Y5, Y1, Y1
+	VSUBPD   Y9, Y1, Y1              // zh·(1/c) − 1
+	VMULPD   Y5, Y0, Y0
+	VADDPD   Y0, Y1, Y0              // r
+	VMULPD   Y10, Y3, Y1
+	VADDPD   Y6, Y1, Y1              // w = kd·ln2Hi + (ln c)hi
+	VADDPD   Y0, Y1, Y2              // hi = w + r
+	VSUBPD   Y2, Y1, Y1
+	VADDPD   Y0, Y1, Y1              // lo = (w − hi) + r
+	VMULPD   Y0, Y0, Y4              // r2
+	VMULPD   Y12, Y0, Y5
+	VADDPD   Y11, Y5, Y5             // p01 = P0 + r·P1
+	VMULPD   Y14, Y0, Y6
+	VADDPD   Y13, Y6, Y6             // P2 + r·P3
+	VMULPD   lgP4<>(SB), Y4, Y0
+	VADDPD   Y0, Y6, Y6              // p24 = (P2 + r·P3) + r2·P4
+	VMULPD   Y6, Y4, Y6
+	VADDPD   Y6, Y5, Y5              // p = p01 + r2·p24
+	VMULPD   lgLn2Lo<>(SB), Y3, Y3
+	VADDPD   Y3, Y7, Y7              // (ln c)lo + kd·ln2Lo
+	VADDPD   Y1, Y7, Y7              // tail = … + lo
+	VMULPD   Y5, Y4, Y4
+	VADDPD   Y4, Y7, Y7              // tail + r2·p
+	VADDPD   Y7, Y2, Y2              // hi + (tail + r2·p)
+	VMOVUPD  Y2, (DX)(BX*8)
+	ADDQ     $4, BX
+	JMP      logs2loop
+
+logs2done:
+	MOVQ BX, ret+48(FP)
+	VZEROUPPER
+	RET
+
+// func expsAVX512(dst, x []float64) int
+TEXT ·expsAVX512(SB), NOSPLIT, $0-56
+	MOVQ dst_base+0(FP), DX
+	MOVQ x_base+24(FP), SI
+	MOVQ x_len+32(FP), CX
+	LEAQ ·expTable(SB), DI
+	ANDQ $-8, CX
+	XORQ BX, BX
+	VPBROADCASTQ exAbs<>(SB), Z16
+	VPBROADCASTQ exBound<>(SB), Z17
+	VPBROADCASTQ exInvLn2N<>(SB), Z18
+	VPBROADCASTQ exShift<>(SB), Z19
+	VPBROADCASTQ exLn2NHi<>(SB), Z20
+	VPBROADCASTQ exLn2NLo<>(SB), Z21
+	VPBROADCASTQ exC2<>(SB), Z22
+	VPBROADCASTQ exC3<>(SB), Z23
+	VPBROADCASTQ exC4<>(SB), Z24
+	VPBROADCASTQ exC5<>(SB), Z25
+	VPBROADCASTQ ex127<>(SB), Z26
+	VPBROADCASTQ exNot127<>(SB), Z27
+
+exps512loop:
+	CMPQ BX, CX
+	JGE  exps512done
+	VMOVUPD   (SI)(BX*8), Z0        // x
+	VPANDQ    Z16, Z0, Z1
+	VPCMPUQ   $5, Z17, Z1, K1       // |x| ≥ 702, Inf or NaN: special
+	KORTESTB  K1, K1
+	JNZ       exps512done
+	VMULPD    Z18, Z0, Z1
+	VADDPD    Z19, Z1, Z1           // t = x·N/ln2 + shift
+	VSUBPD    Z19, Z1, Z2           // kd = t − shift
+	VPSUBQ    Z19, Z1, Z1           // k = bits(t) − bits(shift)
+	VMULPD    Z20, Z2, Z3
+	VSUBPD    Z3, Z0, Z0            // x − kd·ln2NHi
+	VMULPD    Z21, Z2, Z3
+	VSUBPD    Z3, Z0, Z0            // r
+	VPANDQ    Z26, Z1, Z4
+	VPSLLQ    $1, Z4, Z4            // j·2: entries are 16 bytes
+	VPANDQ    Z27, Z1, Z1
+	VPSLLQ    $45, Z1, Z1           // (k>>7)<<52
+	KXNORB    K1, K1, K1
+	VGATHERQPD (DI)(Z4*8), K1, Z5   // hi
+	KXNORB    K2, K2, K2
+	VGATHERQPD 8(DI)(Z4*8), K2, Z6  // tail
+	VPADDQ    Z1, Z5, Z5            // s
+	VMULPD    Z0, Z0, Z7            // r2
+	VMULPD    Z23, Z0, Z8
+	VADDPD    Z22, Z8, Z8           // C2 + r·C3
+	VMULPD    Z25, Z0, Z9
+	VADDPD    Z24, Z9, Z9           // C4 + r·C5
+	VMULPD    Z9, Z7, Z9
+	VADDPD    Z9, Z8, Z8            // p
+	VADDPD    Z0, Z6, Z6            // tail + r
+	VMULPD    Z8, Z7, Z7
+	VADDPD    Z7, Z6, Z6            // tmp = (tail + r) + r2·p
+	VMULPD    Z6, Z5, Z6
+	VADDPD    Z6, Z5, Z5            // s + s·tmp
+	VMOVUPD   Z5, (DX)(BX*8)
+	ADDQ      $8, BX
+	JMP       exps512loop
+
+exps512done:
+	MOVQ BX, ret+48(FP)
+	VZEROUPPER
+	RET
+
+// func expsAVX2(dst, x []float64) int
+TEXT ·expsAVX2(SB), NOSPLIT, $0-56
+	MOVQ dst_base+0(FP), DX
+	MOVQ x_base+24(FP), SI
+	MOVQ x_len+32(FP), CX
+	LEAQ ·expTable(SB), DI
+	ANDQ $-4, CX
+	XORQ BX, BX
+	VMOVDQU exAbs<>(SB), Y8
+	VMOVDQU exBoundM1<>(SB), Y9
+	VMOVDQU exInvLn2N<>(SB), Y10
+	VMOVDQU exShift<>(SB), Y11
+	VMOVDQU exLn2NHi<>(SB), Y12
+	VMOVDQU exLn2NLo<>(SB), Y13
+	VMOVDQU exC3<>(SB), Y14
+
+exps2loop:
+	CMPQ BX, CX
+	JGE  exps2done
+	VMOVUPD  (SI)(BX*8), Y0          // x
+	VPAND    Y8, Y0, Y1
+	VPCMPGTQ Y9, Y1, Y1              // |x| ≥ 702, Inf or NaN: special
+	VPTEST   Y1, Y1
+	JNZ      exps2done
+	VMULPD   Y10, Y0, Y1
+	VADDPD   Y11, Y1, Y1             // t = x·N/ln2 + shift
+	VSUBPD   Y11, Y1, Y2             // kd = t − shift
+	VPSUBQ   Y11, Y1, Y1             // k = bits(t) − bits(shift)
+	VMULPD   Y12, Y2, Y3
+	VSUBPD   Y3, Y0, Y0              // x − kd·ln2NHi
+	VMULPD   Y13, Y2, Y3
+	VSUBPD   Y3, Y0, Y0              // r
+	VPAND    ex127<>(SB), Y1, Y4
+	VPSLLQ   $1, Y4, Y4              // j·2: entries are 16 bytes
+	VPAND    exNot127<>(SB), Y1, Y1
+	VPSLLQ   $45, Y1, Y1             // (k>>7)<<52
+	VPCMPEQQ Y3, Y3, Y3
+	VGATHERQPD Y3, (DI)(Y4*8), Y5    // hi
+	VPCMPEQQ Y3, Y3, Y3
+	VGATHERQPD Y3, 8(DI)(Y4*8), Y6   // tail
+	VPADDQ   Y1, Y5, Y5              // s
+	VMULPD   Y0, Y0, Y7              // r2
+	VMULPD   Y14, Y0, Y2
+	VADDPD   exC2<>(SB), Y2, Y2      // C2 + r·C3
+	VMULPD   exC5<>(SB), Y0, Y3
+	VADDPD   exC4<>(SB), Y3, Y3      // C4 + r·C5
+	VMULPD   Y3, Y7, Y3
+	VADDPD   Y3, Y2, Y2              // p
+	VADDPD   Y0, Y6, Y6              // tail + r
+	VMULPD   Y2, Y7, Y7
+	VADDPD   Y7, Y6, Y6              // tmp = (tail + r) + r2·p
+	VMULPD   Y6, Y5, Y6
+	VADDPD   Y6, Y5, Y5              // s + s·tmp
+	VMOVUPD  Y5, (DX)(BX*8)
+	ADDQ     $4, BX
+	JMP      exps2loop
+
+exps2done:
+	MOVQ BX, ret+48(FP)
+	VZEROUPPER
+	RET
