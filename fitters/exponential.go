@@ -99,9 +99,11 @@ func (f exponentialFamily) Applicable(d *Data, fixed Fixed) error {
 func (f exponentialFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) > 0 {
 		// Complete data: Applicable's checks (no fixed parameter, values
-		// ≥ 0, not all 0) come out of the pass that sums the values.
-		lo, _, total := scan4(d.Exact)
-		if r := float64(len(d.Exact)); lo >= 0 && total > 0 && !math.IsInf(total, 1) {
+		// ≥ 0, not all 0) come out of the pass that sums the values: no
+		// sign bit set (−0 and negative NaNs go the general way) and a
+		// positive finite sum (no NaN).
+		total, bits, _ := sumBits4(d.Exact)
+		if r := float64(len(d.Exact)); bits>>63 == 0 && total > 0 && !math.IsInf(total, 1) {
 			fit := newFitOpt(f, d, opt)
 			rate := r / total
 			fit.Estimates[0] = rate

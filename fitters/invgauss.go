@@ -197,8 +197,44 @@ func invgaussFast(x []float64) (mean, shape, ll float64, ok bool) {
 	return m, shape, ll, true
 }
 
+// invgaussOnePass is the closed form from one pass over x
+// (positiveScanRecip: Σ x, Σ ln x and Σ 1/x, with the range test), used
+// when every value lies in [2⁻⁶⁴, 2⁶⁴) and the difference
+//
+//	1/λ̂ = mean(1/x) − 1/x̄
+//
+// cancels at most a factor F = mean(1/x)·λ̂ ≤ 256 (F ≈ 1 + λ/μ for data
+// drawn from the family; all-equal data give F = ∞ and fail it). Σ x is
+// within 8u relative (u = 2⁻⁵³), Σ 1/x within 16u, so 1/λ̂ is within
+// 27F·u ≤ 2⁻⁴⁰ relative; data with a larger λ/μ (tightly clustered
+// values) go to invgaussFast's sum of non-negative terms. At the optimum
+// ll = n(½ ln λ̂ − ln√(2π)) − 1.5 Σ ln x − n/2.
+func invgaussOnePass(x []float64) (mean, shape, ll float64, ok bool) {
+	ps, ok := positiveScanRecip(x)
+	if !ok {
+		return 0, 0, 0, false
+	}
+	n := float64(len(x))
+	m := ps.sum / n
+	mr := ps.recip / n
+	inv := mr - 1/m // 1/λ̂
+	if !(inv > 0) || mr > 256*inv {
+		return 0, 0, 0, false
+	}
+	shape = 1 / inv
+	ll = n*(0.5*math.Log(shape)-lnSqrt2Pi) - 1.5*ps.log.value() - 0.5*n
+	return m, shape, ll, true
+}
+
 func (f invgaussFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) >= 2 {
+		if m, s, ll, ok := invgaussOnePass(d.Exact); ok {
+			fit := newFitOpt(f, d, opt)
+			fit.Estimates[0], fit.Estimates[1] = m, s
+			fit.LogLik = ll
+			fit.Convergence = closedForm()
+			return fit, nil
+		}
 		if m, s, ll, ok := invgaussFast(d.Exact); ok {
 			fit := newFitOpt(f, d, opt)
 			fit.Estimates[0], fit.Estimates[1] = m, s

@@ -76,7 +76,7 @@ func (f normalFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) >= 2 {
 		// Complete data: Applicable's checks (no fixed parameter, n ≥ 2,
 		// not all equal) come out of the same two passes as the estimates.
-		if lo, hi, mu, sd := spreadOf(d.Exact); lo < hi && sd > 0 && !math.IsInf(sd, 0) {
+		if mu, sd, ok := meanSDQuick(d.Exact); ok && sd > 0 && !math.IsInf(sd, 0) {
 			fit := newFitOpt(f, d, opt)
 			fit.Estimates[0], fit.Estimates[1] = mu, sd
 			// At the maximum Σ((x − μ̂)/σ̂)² = n: ℓ = −n(ln σ̂ + ln√(2π)) − n/2.
