@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"strings"
 
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -235,6 +236,42 @@ func (f studentTFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		return nil, err
 	}
 	fit := newFit(f, d)
+	route := fitStudentTCensored(fit, d, opt)
+	// The normal limit (df → ∞) is the supremum when it is at least as
+	// likely as the best finite df found.
+	nfit, err := normalFamily{}.Fit(d, Options{Tolerance: opt.Tolerance, MaxIterations: opt.MaxIterations})
+	normalOK := err == nil && nfit.Converged
+	if !route.solved && !(route.towardsNormal && normalOK && nfit.LogLik >= fit.LogLik) {
+		fitStudentTBFGS(fit, d, opt)
+		if route.reason != "" {
+			censoredNewtonFallback(fit, route.reason)
+		}
+	}
+	if normalOK && (math.IsNaN(fit.LogLik) || nfit.LogLik >= fit.LogLik) {
+		fit.Estimates = []float64{nfit.Estimates[0], nfit.Estimates[1], math.Inf(1)}
+		fit.LogLik = nfit.LogLik
+		fit.Convergence.Converged = true
+		fit.Convergence.Reason = ""
+		fit.Convergence.Iterations += nfit.Iterations
+		fit.Convergence.Evaluations += nfit.Evaluations
+		fit.Convergence.GradientNorm = nfit.GradientNorm
+		if route.towardsNormal && strings.HasPrefix(fit.Method, "censored Newton") {
+			fit.Convergence.Method += " (" + route.reason + ")"
+		}
+		fit.Convergence.Method += "; normal limit by " + nfit.Method
+		fit.Note = "df → ∞: the likelihood increases towards the normal limit; reported df = +Inf with the normal distribution's maximum log-likelihood"
+		return fit, nil
+	}
+	if fit.Converged && fit.Estimates[2] < 0.01 {
+		fit.Converged = false
+		fit.Reason = "non-regular likelihood: df → 0 with the scale shrinking onto tied values; no interior maximum"
+	}
+	return fit, nil
+}
+
+// fitStudentTBFGS records in fit the multi-start BFGS maximum (staged on a
+// subsample above stageAbove complete values).
+func fitStudentTBFGS(fit *Fit, d *Data, opt Options) {
 	// Optimise on θ = ((μ − C)/S, ln(σ/S), ln ν), the data's own units.
 	ls, starts := standardisedStarts(studentTStarts(d.valuesView()))
 	natural := func(t []float64) []float64 {
@@ -245,30 +282,9 @@ func (f studentTFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	nll := func(x []float64) exactNLL { return ls.wrap(studentTNLL(x)) }
 	sub, ratio := stagedSubproblem(d, d.Exact, 3, nll)
 	o, staged := minimizeStaged(likelihoodProblem(3, nll(d.Exact), dist, d), sub, ratio, starts, opt)
-	method := stagedMethod("BFGS on (location, log scale, log df)", staged)
 	var est []float64
 	if o.theta != nil {
 		est = natural(o.theta)
 	}
-	fit.setOptimum(o, est, method)
-	// The normal limit (df → ∞) is the supremum when it is at least as
-	// likely as the best finite df found.
-	nfit, err := normalFamily{}.Fit(d, Options{Tolerance: opt.Tolerance, MaxIterations: opt.MaxIterations})
-	if err == nil && nfit.Converged && (o.theta == nil || nfit.LogLik >= fit.LogLik) {
-		fit.Estimates = []float64{nfit.Estimates[0], nfit.Estimates[1], math.Inf(1)}
-		fit.LogLik = nfit.LogLik
-		fit.Convergence.Converged = true
-		fit.Convergence.Reason = ""
-		fit.Convergence.Iterations += nfit.Iterations
-		fit.Convergence.Evaluations += nfit.Evaluations
-		fit.Convergence.GradientNorm = nfit.GradientNorm
-		fit.Convergence.Method += "; normal limit by " + nfit.Method
-		fit.Note = "df → ∞: the likelihood increases towards the normal limit; reported df = +Inf with the normal distribution's maximum log-likelihood"
-		return fit, nil
-	}
-	if fit.Converged && est[2] < 0.01 {
-		fit.Converged = false
-		fit.Reason = "non-regular likelihood: df → 0 with the scale shrinking onto tied values; no interior maximum"
-	}
-	return fit, nil
+	fit.setOptimum(o, est, stagedMethod("BFGS on (location, log scale, log df)", staged))
 }
