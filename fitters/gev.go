@@ -209,11 +209,29 @@ func gevStarts(values []float64) [][]float64 {
 	return starts
 }
 
+// gevShapeBelowHalfNote cautions about a maximum with −1 < ξ < −0.5.
+const gevShapeBelowHalfNote = "shape < −0.5: the maximum is a regular local maximum, but the usual asymptotic standard errors do not hold (Smith, 1985)"
+
 func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	if err := f.Applicable(d, opt.Fixed); err != nil {
 		return nil, err
 	}
 	fit := newFit(f, d)
+	solved, reason := fitGEVCensored(fit, d, opt)
+	if solved {
+		return fit, nil
+	}
+	fitGEVBFGS(fit, d, opt)
+	if reason != "" {
+		censoredNewtonFallback(fit, reason)
+	}
+	return fit, nil
+}
+
+// fitGEVBFGS records in fit the multi-start BFGS search: the best maximum
+// with shape > −1, or, where BFGS ends at shape ≤ −1 (the likelihood is
+// unbounded there), an interior local maximum or the largest with shape > −1.
+func fitGEVBFGS(fit *Fit, d *Data, opt Options) {
 	// Optimise on θ = ((μ − C)/S, ln(σ/S), ξ), the data's own units.
 	ls, starts := standardisedStarts(gevStarts(d.valuesView()))
 	natural := func(t []float64) []float64 {
@@ -228,14 +246,14 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	method := stagedMethod("BFGS on (location, log scale, shape)", staged)
 	if o.theta == nil {
 		fit.setOptimum(o, nil, method)
-		return fit, nil
+		return
 	}
 	if est := natural(o.theta); est[2] > -1 {
 		fit.setOptimum(o, est, method)
 		if est[2] < -0.5 {
-			fit.Note = "shape < −0.5: the maximum is a regular local maximum, but the usual asymptotic standard errors do not hold (Smith, 1985)"
+			fit.Note = gevShapeBelowHalfNote
 		}
-		return fit, nil
+		return
 	}
 	// Shape ≤ −1: the likelihood is unbounded as the upper endpoint
 	// μ − σ/ξ approaches the sample maximum. Look for the largest local
@@ -264,12 +282,12 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		(c.theta == nil || !c.converged || o.negLogLik < c.negLogLik) {
 		fit.setOptimum(o, est, method)
 		fit.Note = "shape ≤ −1: an interior local maximum; the likelihood is unbounded as the upper endpoint approaches the sample maximum, and the usual standard errors do not hold (Smith, 1985)"
-		return fit, nil
+		return
 	}
 	if c.theta != nil && c.converged && c.theta[2] > math.Log(1e-6) {
 		fit.setOptimum(c, natural(constrained(c.theta)), cmethod)
 		fit.Note = "likelihood unbounded for shape < −1 (upper endpoint at the sample maximum); reported the largest local maximum with shape > −1; usual standard errors do not hold (Smith, 1985)"
-		return fit, nil
+		return
 	}
 	fit.Convergence = Convergence{
 		Method:      cmethod,
@@ -278,7 +296,6 @@ func (f gevFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		Converged:   false,
 		Reason:      "non-regular likelihood: it grows without bound as shape < −1 and the upper endpoint approaches the sample maximum, and no interior local maximum with shape > −1 was found",
 	}
-	return fit, nil
 }
 
 // gevEndpointGap returns min over the values of 1 + ξ(x − μ)/σ at p =
