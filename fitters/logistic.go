@@ -145,8 +145,9 @@ func logisticSums(v, work []float64, a, b float64) locScalePoint {
 		vb := v[block:min(block+len(work), len(v))]
 		wb := work[:len(vb)]
 		for i, x := range vb {
-			wb[i] = math.Exp(-math.Abs(b*x - a))
+			wb[i] = -math.Abs(b*x - a)
 		}
+		fastExps(wb, wb)
 		for start := 0; start < len(vb); start += logProductChunk {
 			end := min(start+logProductChunk, len(vb))
 			es := wb[start:end]
