@@ -166,6 +166,11 @@ func (f lognormal3Family) Fit(d *Data, opt Options) (*Fit, error) {
 		dist:    func(a, b, g float64) Dist { return Lognormal3{a, b, g} },
 		start:   lognormalStart,
 		limit:   "normal",
-		note:    func(float64, float64) string { return "" },
+		censored: &thresholdLocScale{
+			std:       stdNormal,
+			fromStart: func(mu, lnSigma float64) (float64, float64) { return mu, lnSigma },
+			toNatural: func(mu, sigma float64) (float64, float64) { return mu, sigma },
+		},
+		note: func(float64, float64) string { return "" },
 	}, d, opt)
 }

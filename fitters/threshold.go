@@ -24,6 +24,9 @@ type thresholdModel struct {
 	limit string
 	// note returns a caution for a converged free-threshold fit.
 	note func(a, b float64) string
+	// censored, when set, is the family as a location–scale law of
+	// ln(x − γ), for the censored Newton route (fitThresholdCensored).
+	censored *thresholdLocScale
 }
 
 // thresholdFloor is the smallest value that must lie above the threshold:
@@ -138,6 +141,13 @@ func fitThreshold(f Family, m thresholdModel, d *Data, opt Options) (*Fit, error
 		}
 	}
 	farLimit, nearBoundary := math.Log(1e4*span), math.Log(1e-3*span)
+	solved, newtonReason := fitThresholdCensored(fit, m, d, opt, dev, floor, starts, farLimit, nearBoundary)
+	if solved {
+		return fit, nil
+	}
+	if newtonReason != "" {
+		defer censoredNewtonFallback(fit, newtonReason)
+	}
 	staged := false
 	r := thresholdRuns{}
 	if d.IsComplete() && len(dev) > stageAbove {

@@ -152,6 +152,11 @@ func (f weibull3Family) Fit(d *Data, opt Options) (*Fit, error) {
 		dist:    func(a, b, g float64) Dist { return Weibull3{a, b, g} },
 		start:   weibullStart,
 		limit:   "smallest-extreme-value",
+		censored: &thresholdLocScale{
+			std:       stdSEV,
+			fromStart: func(lnK, lnLambda float64) (float64, float64) { return lnLambda, -lnK },
+			toNatural: func(mu, sigma float64) (float64, float64) { return 1 / sigma, math.Exp(mu) },
+		},
 		note: func(k, _ float64) string {
 			if k <= 2 {
 				return "shape ≤ 2: the usual asymptotic standard errors do not hold for the threshold (Smith, 1985)"
