@@ -266,7 +266,8 @@ func (d Gamma) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 }
 
 // CDFTailsBatch is CDFTails over x with the constant part of the
-// prefactor's logarithm (ln Γ(k), or c(k) from k = 30 on) formed once.
+// prefactor's logarithm (ln Γ(k), or c(k) from k = 30 on) formed once, in
+// blocks of stages (gammaBlock).
 func (d Gamma) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
 	a := d.Shape
 	if !(a <= incGammaMaxShape) || math.IsNaN(d.Rate) {
@@ -276,25 +277,12 @@ func (d Gamma) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
 		return
 	}
 	c := gammaPrefactorConst(a)
-	for i, v := range x {
-		y := d.Rate * v
-		switch {
-		case math.IsNaN(y):
-			cdf[i], logCDF[i], logSurvival[i] = math.NaN(), math.NaN(), math.NaN()
-			continue
-		case y <= 0:
-			cdf[i], logCDF[i], logSurvival[i] = belowSupport()
-			continue
-		case math.IsInf(y, 1):
-			cdf[i], logCDF[i], logSurvival[i] = aboveSupport()
-			continue
-		}
-		f, lf, ls, ok := incGammaTailsPre(a, y, gammaPrefactorFast(a, y, c))
-		if !ok {
-			f, lf, ls = gammaTailsGonum(a, y)
-		}
-		cdf[i], logCDF[i], logSurvival[i] = f, lf, ls
+	w := tailsPool.Get().(*tailsScratch)
+	for lo := 0; lo < len(x); lo += CDFTailsBlock {
+		hi := min(lo+CDFTailsBlock, len(x))
+		gammaBlock(d, c, w, x[lo:hi], cdf[lo:hi], logCDF[lo:hi], logSurvival[lo:hi])
 	}
+	tailsPool.Put(w)
 }
 
 // gammaTailsGonum is Gamma.CDFTails at y = βx > 0 by gonum's regularized

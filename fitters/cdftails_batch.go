@@ -42,29 +42,19 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 		}
 		return
 	case Exponential:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case Weibull:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case LogLogistic:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case Gumbel:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case Logistic:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	// The same routes for the pointers a Member hands out (member.go).
 	case *InvGauss:
@@ -84,29 +74,19 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 		}
 		return
 	case *Exponential:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case *Weibull:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case *LogLogistic:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case *Gumbel:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case *Logistic:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case CDFTailer:
 		for i, v := range x {

@@ -91,4 +91,6 @@ func TestCDFTailsBatchEqualsCDFTails(t *testing.T) {
 }
 
 // same is equality that takes NaN as equal to NaN.
-func same(a, b float64) bool { return a == b || (math.IsNaN(a) && math.IsNaN(b)) }
+func same(a, b float64) bool {
+	return math.Float64bits(a) == math.Float64bits(b) || (math.IsNaN(a) && math.IsNaN(b))
+}

@@ -42,21 +42,7 @@ func incGammaTailsPre(a, x, pre float64) (cdf, logCDF, logSurvival float64, ok b
 	// every digit regardless.
 	ePre := fastExp(pre)
 	if x < a+1+0.5*math.Sqrt(a) {
-		// Series, two terms per step: the term chain is one
-		// multiplication per two terms, the divisions are independent.
-		sum, term := 1.0, 1.0
-		ap, x2 := a, x*x
-		for n := 0; n < 500; n++ {
-			a1 := ap + 1
-			ap += 2
-			t1 := term * (x / a1)
-			term *= x2 / (a1 * ap)
-			sum += t1 + term
-			if term < sum*0x1p-54 {
-				break
-			}
-		}
-		s := sum / a
+		s := gammaSeries(a, x)
 		lp := pre + fastLog(s)
 		p := ePre * s
 		if p <= 0.9 {
@@ -72,6 +58,25 @@ func incGammaTailsPre(a, x, pre float64) (cdf, logCDF, logSurvival float64, ok b
 	return 1 - q, log1mSmall(q), lq, true
 }
 
+// gammaSeries returns s = Σ_n x^n/(a(a+1)…(a+n)), the series of
+// P(a, x) = x^a e^(−x)/Γ(a) · s, two terms per step: the term chain is one
+// multiplication per two terms, the divisions are independent.
+func gammaSeries(a, x float64) float64 {
+	sum, term := 1.0, 1.0
+	ap, x2 := a, x*x
+	for n := 0; n < 500; n++ {
+		a1 := ap + 1
+		ap += 2
+		t1 := term * (x / a1)
+		term *= x2 / (a1 * ap)
+		sum += t1 + term
+		if term < sum*0x1p-54 {
+			break
+		}
+	}
+	return sum / a
+}
+
 // log1mSmall returns ln(1 − p) for 0 ≤ p ≤ 0.9, as math.Log1p(−p) does
 // but cheaper: below ¼ by the series
 // ln(1 − p) = −2 artanh(u) = −2(u + u³/3 + u⁵/5 + …), u = p/(2 − p) ≤ 1/7
@@ -83,6 +88,11 @@ func log1mSmall(p float64) float64 {
 	if p >= 0.25 {
 		return fastLog(1 - p)
 	}
+	return log1mSeries(p)
+}
+
+// log1mSeries is log1mSmall's series, for p < ¼.
+func log1mSeries(p float64) float64 {
 	u := p / (2 - p)
 	u2 := u * u
 	// s = Σ_{k=0…10} u2^k/(2k+3) by Estrin's scheme (a tree of pairs: four
