@@ -162,7 +162,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 	if failure != nil {
 		return nil, failure
 	}
-	return assemble(p, plan, results)
+	return assemble(p, plan, results, workers)
 }
 
 // runTask fits one family; a panic inside a family is turned into an error

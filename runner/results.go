@@ -3,6 +3,8 @@ package runner
 import (
 	"fmt"
 	"math"
+	"sync"
+	"sync/atomic"
 
 	"fitseal/fitters"
 	"fitseal/fitters/infer"
@@ -82,52 +84,87 @@ type GOFRow struct {
 const ModelAverage = "model-average"
 
 // assemble ranks each analysis's candidates and gathers intervals, derived
-// quantities and goodness of fit, in plan order.
-func assemble(p *Project, plan *Plan, tasks []taskResult) (*Results, error) {
-	res := &Results{Project: p}
-	ti := 0
-	for _, pa := range plan.Analyses {
-		entries := make([]fitters.Entry, 0, len(pa.Candidates.Families))
-		infs := make([]*taskResult, 0, len(pa.Candidates.Families))
-		for _, fam := range pa.Candidates.Families {
-			tr := &tasks[ti]
-			ti++
-			entries = append(entries, fitters.Entry{Family: fam, Fit: tr.fit, Err: tr.err})
-			infs = append(infs, tr)
-			if tr.inf != nil && tr.inf.replicates > 0 {
-				st := stream(p, pa.Name, fam)
-				a, b := st.StreamSeed(0)
-				res.Seeds = append(res.Seeds, Seed{Analysis: pa.Name, Family: fam, Purpose: st.Purpose,
-					Replicates: tr.inf.replicates, Identity: st.Identity(0), FirstSeed: [2]uint64{a, b}})
+// quantities and goodness of fit, in plan order; the analyses are
+// assembled on up to workers goroutines, each into its own slot, so the
+// result does not depend on their number.
+func assemble(p *Project, plan *Plan, tasks []taskResult, workers int) (*Results, error) {
+	// first[i] is the index in tasks of analysis i's first task.
+	first := make([]int, len(plan.Analyses)+1)
+	for i, pa := range plan.Analyses {
+		first[i+1] = first[i] + len(pa.Candidates.Families)
+	}
+	analyses := make([]*AnalysisResult, len(plan.Analyses))
+	seeds := make([][]Seed, len(plan.Analyses))
+	errs := make([]error, len(plan.Analyses))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < max(1, min(workers, len(plan.Analyses))); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(plan.Analyses) {
+					return
+				}
+				analyses[i], seeds[i], errs[i] = assembleAnalysis(p, plan.Analyses[i], tasks[first[i]:first[i+1]])
 			}
+		}()
+	}
+	wg.Wait()
+	res := &Results{Project: p, Analyses: analyses}
+	for i := range plan.Analyses {
+		if errs[i] != nil {
+			return nil, errs[i]
 		}
-		crit, err := fitters.ParseCriterion(pa.Spec.Criterion)
-		if err != nil {
-			return nil, err
-		}
-		cmp, err := fitters.Compare(entries, crit)
-		if err != nil {
-			return nil, fmt.Errorf("analysis %q: %w", pa.Name, err)
-		}
-		ar := &AnalysisResult{Name: pa.Name, Dataset: pa.DatasetName, Group: pa.Group, Spec: pa.Spec, Comparison: cmp,
-			Parameters: make([][]ParameterRow, len(cmp.Rows)), Inference: make([]string, len(cmp.Rows))}
-		for i, row := range cmp.Rows {
-			tr := infs[i]
-			switch {
-			case tr.infErr != nil:
-				ar.Inference[i] = "no intervals: " + tr.infErr.Error()
-			case tr.inf != nil:
-				ar.Inference[i] = tr.inf.note
-			}
-			if row.Rank > 0 {
-				ar.Parameters[i] = parameterRows(row.Fit, tr.inf)
-				ar.GOF = append(ar.GOF, gofRows(row.Family, tr.inf)...)
-			}
-		}
-		ar.Derived = derived(p, pa.Spec, cmp, infs)
-		res.Analyses = append(res.Analyses, ar)
+		res.Seeds = append(res.Seeds, seeds[i]...)
 	}
 	return res, nil
+}
+
+// assembleAnalysis ranks one analysis's candidates (tasks holds its fits,
+// in candidate order) and gathers its intervals, derived quantities,
+// goodness of fit and the seeds of its bootstrap streams.
+func assembleAnalysis(p *Project, pa *PlannedAnalysis, tasks []taskResult) (*AnalysisResult, []Seed, error) {
+	var seeds []Seed
+	entries := make([]fitters.Entry, 0, len(pa.Candidates.Families))
+	infs := make([]*taskResult, 0, len(pa.Candidates.Families))
+	for ti, fam := range pa.Candidates.Families {
+		tr := &tasks[ti]
+		entries = append(entries, fitters.Entry{Family: fam, Fit: tr.fit, Err: tr.err})
+		infs = append(infs, tr)
+		if tr.inf != nil && tr.inf.replicates > 0 {
+			st := stream(p, pa.Name, fam)
+			a, b := st.StreamSeed(0)
+			seeds = append(seeds, Seed{Analysis: pa.Name, Family: fam, Purpose: st.Purpose,
+				Replicates: tr.inf.replicates, Identity: st.Identity(0), FirstSeed: [2]uint64{a, b}})
+		}
+	}
+	crit, err := fitters.ParseCriterion(pa.Spec.Criterion)
+	if err != nil {
+		return nil, nil, err
+	}
+	cmp, err := fitters.Compare(entries, crit)
+	if err != nil {
+		return nil, nil, fmt.Errorf("analysis %q: %w", pa.Name, err)
+	}
+	ar := &AnalysisResult{Name: pa.Name, Dataset: pa.DatasetName, Group: pa.Group, Spec: pa.Spec, Comparison: cmp,
+		Parameters: make([][]ParameterRow, len(cmp.Rows)), Inference: make([]string, len(cmp.Rows))}
+	for i, row := range cmp.Rows {
+		tr := infs[i]
+		switch {
+		case tr.infErr != nil:
+			ar.Inference[i] = "no intervals: " + tr.infErr.Error()
+		case tr.inf != nil:
+			ar.Inference[i] = tr.inf.note
+		}
+		if row.Rank > 0 {
+			ar.Parameters[i] = parameterRows(row.Fit, tr.inf)
+			ar.GOF = append(ar.GOF, gofRows(row.Family, tr.inf)...)
+		}
+	}
+	ar.Derived = derived(p, pa.Spec, cmp, infs)
+	return ar, seeds, nil
 }
 
 func parameterRows(f *fitters.Fit, inf *inference) []ParameterRow {
