@@ -131,50 +131,83 @@ func lognormalMLE(x []float64) (mu, sigma, ll float64) {
 	return mu, sigma, ll
 }
 
-// lognormalFastMLE is lognormalMLE with ln x by fastLogs (one pass, no
-// reference point) and the squared deviations in a second pass. It reports
-// ok = false, leaving the data to lognormalMLE, unless Σ ln x is finite and
-// σ̂ > 0 (so every x is positive and finite and two differ) and
-// √(μ̂² + σ̂²) ≤ 32σ̂. The last keeps the accuracy of the route about x[0]:
-// each ln xᵢ is within one ulp ≤ 2⁻⁵²|ln xᵢ| (TestFastLogAccuracy), and
-// centring does not lengthen a vector, so |Δσ̂| ≤ 2⁻⁵² (mean (ln x)²)^½ =
-// 2⁻⁵² (μ̂² + σ̂²)^½ ≤ 2⁻⁴⁷ σ̂; data clustered far from 1 (1e7 ± 0.1) fail
-// it and keep every digit of their spread through logsAbout.
+// lognormalFastMLE is lognormalMLE in one pass over x: the logs of a
+// block of logsBlock values at a time by the batch kernel (logsInto, each
+// exactly fastLog(x[i])) into a small buffer, and while the block is in
+// cache the shifted sums S₁ = Σ(y − K) and S₂ = Σ(y − K)², y = ln x, in
+// four interleaved partial sums each (products rounded on their own: no
+// fused multiply-add, same bits on every processor). K is the median of
+// ln x at the first, middle and last value, so that μ̂ = K + S₁/n,
+// σ̂² = (S₂ − S₁²/n)/n and Σ ln x = nK + S₁.
+//
+// It reports ok = false, leaving the data to lognormalMLE, unless the sums
+// are finite and σ̂ > 0 (so every x is positive and finite and two
+// differ), (μ̂ − K)² ≤ 16σ̂² and √(μ̂² + σ̂²) ≤ 32σ̂. The shift test bounds
+// the cancellation in S₂ − S₁²/n by S₂/(nσ̂²) = 1 + (μ̂ − K)²/σ̂² ≤ 17, so
+// σ̂² carries at most about 17·(n/4 + 3)u relative error in the worst
+// case (u = 2⁻⁵³; typically √n·u); the last keeps the accuracy of the
+// route about x[0]: each ln xᵢ is within one ulp ≤ 2⁻⁵²|ln xᵢ|
+// (TestFastLogAccuracy), and centring does not lengthen a vector, so
+// |Δσ̂| ≤ 2⁻⁵² (mean (ln x)²)^½ = 2⁻⁵² (μ̂² + σ̂²)^½ ≤ 2⁻⁴⁷ σ̂; data
+// clustered far from 1 (1e7 ± 0.1) fail it and keep every digit of their
+// spread through logsAbout.
 func lognormalFastMLE(x []float64) (mu, sigma, ll float64, ok bool) {
-	buf := borrowScratch(len(x))
+	buf := borrowScratch(min(len(x), logsBlock))
 	defer returnScratch(buf)
-	y := (*buf)[:len(x)]
-	sy := fastLogs(y, x)
+	y := *buf
+	k := median3(fastLog(x[0]), fastLog(x[len(x)/2]), fastLog(x[len(x)-1]))
+	var s0, s1, s2, s3, q0, q1, q2, q3 float64
+	for start := 0; start < len(x); start += len(y) {
+		xb := x[start:min(start+len(y), len(x))]
+		yb := y[:len(xb)]
+		logsInto(yb, xb)
+		i := 0
+		for ; i+4 <= len(yb); i += 4 {
+			v := yb[i : i+4 : i+4]
+			d0, d1, d2, d3 := v[0]-k, v[1]-k, v[2]-k, v[3]-k
+			s0 += d0
+			s1 += d1
+			s2 += d2
+			s3 += d3
+			q0 += float64(d0 * d0)
+			q1 += float64(d1 * d1)
+			q2 += float64(d2 * d2)
+			q3 += float64(d3 * d3)
+		}
+		for ; i < len(yb); i++ {
+			d := yb[i] - k
+			s0 += d
+			q0 += float64(d * d)
+		}
+	}
 	n := float64(len(x))
-	m := sy / n
-	// Σ(y − m)² and Σ(y − m) in four partial sums, each product rounded
-	// on its own (no fused multiply-add, same bits on every processor).
-	var q0, q1, q2, q3, c0, c1, c2, c3 float64
-	i := 0
-	for ; i+4 <= len(y); i += 4 {
-		d0, d1, d2, d3 := y[i]-m, y[i+1]-m, y[i+2]-m, y[i+3]-m
-		q0 += float64(d0 * d0)
-		q1 += float64(d1 * d1)
-		q2 += float64(d2 * d2)
-		q3 += float64(d3 * d3)
-		c0 += d0
-		c1 += d1
-		c2 += d2
-		c3 += d3
-	}
-	for ; i < len(y); i++ {
-		d := y[i] - m
-		q0 += float64(d * d)
-		c0 += d
-	}
-	ss, c := (q0+q1)+(q2+q3), (c0+c1)+(c2+c3)
-	v := (ss - float64(c*c)/n) / n
-	mu, sigma = m+c/n, math.Sqrt(v)
-	if s2 := float64(sigma * sigma); !(sigma > 0) || math.IsInf(sy, 0) || math.IsNaN(sy) || float64(mu*mu)+s2 > 1024*s2 {
+	sd, sq := (s0+s1)+(s2+s3), (q0+q1)+(q2+q3)
+	dm := sd / n
+	v := (sq - float64(sd*dm)) / n
+	mu, sigma = k+dm, math.Sqrt(v)
+	sy := float64(n*k) + sd
+	s2v := float64(sigma * sigma)
+	if !(sigma > 0) || math.IsInf(sq, 0) || math.IsNaN(sy) || math.IsInf(sy, 0) ||
+		float64(dm*dm) > 16*s2v || float64(mu*mu)+s2v > 1024*s2v {
 		return 0, 0, 0, false
 	}
 	ll = -sy - float64(n*(fastLog(sigma)+lnSqrt2Pi)) - float64(0.5*n)
 	return mu, sigma, ll, true
+}
+
+// median3 returns the middle one of a, b and c (NaN if any is NaN or the
+// comparisons fail: the caller's finiteness tests then refuse the data).
+func median3(a, b, c float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if b > c {
+		b = c
+	}
+	if a > b {
+		return a
+	}
+	return b
 }
 
 func (f lognormalFamily) Fit(d *Data, opt Options) (*Fit, error) {
