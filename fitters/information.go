@@ -173,16 +173,9 @@ func (weibullFamily) ObservedInformation(p []float64, d *Data, h *mat.SymDense) 
 		return false
 	}
 	k, lam := p[0], p[1]
-	var st, sty, styy float64
-	for _, x := range d.Exact {
-		if !(x > 0) {
-			return false
-		}
-		y := lnRatio(x, lam)
-		t := math.Exp(k * y)
-		st += t
-		sty += t * y
-		styy += t * y * y
+	st, sty, styy, ok := weibullInfoSums(d.Exact, k, lam)
+	if !ok {
+		return false
 	}
 	n := float64(len(d.Exact))
 	return setInfo2(h, n/(k*k)+styy, (n-k*sty-st)/lam, (k*(k+1)*st-n*k)/(lam*lam))
@@ -203,17 +196,9 @@ func (loglogisticFamily) ObservedInformation(p []float64, d *Data, h *mat.SymDen
 		return false
 	}
 	alpha, beta := p[0], p[1]
-	var s1, s2, s2z1, s2zz float64
-	for _, x := range d.Exact {
-		if !(x > 0) {
-			return false
-		}
-		z := beta * lnRatio(x, alpha)
-		g1, g2 := logisticScoreTerms(z)
-		s1 += g1
-		s2 += g2
-		s2z1 += g2*z + g1
-		s2zz += g2 * z * z
+	s1, s2, s2z1, s2zz, ok := loglogisticInfoSums(d.Exact, alpha, beta)
+	if !ok {
+		return false
 	}
 	n := float64(len(d.Exact))
 	imm := -beta * beta * s2
