@@ -112,7 +112,7 @@ func (gevFamily) Support() string {
 	return "1 + shape·(x − location)/scale > 0"
 }
 func (gevFamily) Route() string {
-	return "BFGS on (location, log scale, shape) with analytic score from probability-weighted-moment, Gumbel and spread starts; shape < −1 (unbounded likelihood) is searched for an interior local maximum; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values"
+	return "BFGS on (location, log scale, shape) with analytic score from probability-weighted-moment, Gumbel and spread starts; shape < −1 (unbounded likelihood) is searched for an interior local maximum; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values; censored data: Newton on (location, log scale, shape) with analytic score and Hessian from the better of the probability-weighted-moment and Gumbel starts, the BFGS route if it fails or the shape runs to −1"
 }
 
 func (gevFamily) New(p []float64) (Dist, error) {

@@ -71,7 +71,7 @@ func (lognormal3Family) Parameters() []string { return []string{"mu", "sigma", "
 func (lognormal3Family) Kind() Kind           { return Continuous }
 func (lognormal3Family) Support() string      { return "x > threshold" }
 func (lognormal3Family) Route() string {
-	return "BFGS on (mu, log sigma, log(min − threshold)) with analytic score, each start (lognormal fits of x − (min − margin) for four margins) run separately; the largest interior local maximum is reported, runaways to the sample minimum never; threshold fixed: closed form on ln(x − threshold), BFGS when censored; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values"
+	return "BFGS on (mu, log sigma, log(min − threshold)) with analytic score, each start (lognormal fits of x − (min − margin) for four margins) run separately; the largest interior local maximum is reported, runaways to the sample minimum never; threshold fixed: closed form on ln(x − threshold), BFGS when censored; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values; censored data, threshold free: Newton on (mu, log sigma, log(min − threshold)) with analytic score and Hessian from the best of the starts above, the BFGS runs if it fails or the threshold runs to the minimum or off to −∞"
 }
 
 func (lognormal3Family) New(p []float64) (Dist, error) {

@@ -142,7 +142,7 @@ func (studentTFamily) Parameters() []string { return []string{"location", "scale
 func (studentTFamily) Kind() Kind           { return Continuous }
 func (studentTFamily) Support() string      { return "real line" }
 func (studentTFamily) Route() string {
-	return "BFGS on (location, log scale, log df) with analytic score from median/MAD, moment and spread starts; df → ∞ reports the normal limit; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values"
+	return "BFGS on (location, log scale, log df) with analytic score from median/MAD, moment and spread starts; df → ∞ reports the normal limit; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values; censored data: Newton on (location, log scale, log df) from the best of the starts above (censored terms' df derivatives by differences), the normal limit when it runs beyond df = 10⁴, the BFGS route if it fails"
 }
 
 func (studentTFamily) New(p []float64) (Dist, error) {

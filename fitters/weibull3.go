@@ -69,7 +69,7 @@ func (weibull3Family) Parameters() []string { return []string{"shape", "scale", 
 func (weibull3Family) Kind() Kind           { return Continuous }
 func (weibull3Family) Support() string      { return "x > threshold" }
 func (weibull3Family) Route() string {
-	return "BFGS on (log shape, log scale, log(min − threshold)) with analytic score, each start (Weibull fits of x − (min − margin) for four margins) run separately; the largest interior local maximum is reported, runaways to the sample minimum never; threshold fixed: BFGS on the excesses; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values"
+	return "BFGS on (log shape, log scale, log(min − threshold)) with analytic score, each start (Weibull fits of x − (min − margin) for four margins) run separately; the largest interior local maximum is reported, runaways to the sample minimum never; threshold fixed: BFGS on the excesses; above 4000 complete values the starts run on a 2000-value subsample and the best is polished on all values; censored data, threshold free: Newton on (log scale, −log shape, log(min − threshold)) with analytic score and Hessian from the best of the starts above, the BFGS runs if it fails or the threshold runs to the minimum or off to −∞"
 }
 
 func (weibull3Family) New(p []float64) (Dist, error) {
