@@ -53,8 +53,13 @@ func (d Weibull) fill(r *rand.Rand, dst []float64) bool {
 	if !ok {
 		return false
 	}
+	// The exponential variates first, in order (the generator's stream is
+	// the same), then the powers, independent of one another.
 	for i := range dst {
-		dst[i] = d.Scale * p.pow(r.ExpFloat64())
+		dst[i] = r.ExpFloat64()
+	}
+	for i, e := range dst {
+		dst[i] = d.Scale * p.pow(e)
 	}
 	return true
 }
@@ -89,7 +94,7 @@ func (p powFixed) pow(x float64) float64 {
 	a1 := 1.0
 	ae := 0
 	if p.yf != 0 {
-		a1 = math.Exp(p.yf * math.Log(x))
+		a1 = libExp(p.yf * libLog(x)) // math.Exp and math.Log, inlined
 	}
 	if p.yi == 0 {
 		return a1 // math.Ldexp(a1, 0) is a1 itself

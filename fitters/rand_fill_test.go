@@ -75,24 +75,38 @@ func TestPowFixedMatchesPow(t *testing.T) {
 	}
 }
 
-// BenchmarkRandFill compares n = 1000 Rand calls with one RandFill.
+// BenchmarkRandFill compares n = 1000 Rand calls with one RandFill
+// (cpu-ns/op: the process's CPU time per op, steadier than ns/op on a
+// shared machine).
 func BenchmarkRandFill(b *testing.B) {
 	dst := make([]float64, 1000)
 	for _, d := range []Dist{Weibull{1.8, 120}, Weibull{3.5, 1}, Gamma{2.5, 0.4}, Gamma{0.5, 1}, LogNormal{1, 0.7}} {
 		name := fmt.Sprintf("%T%v", d, d)
 		b.Run("Rand/"+name, func(b *testing.B) {
 			r := rand.New(rand.NewPCG(1, 2))
+			cpu := processCPUNanos()
 			for b.Loop() {
 				for i := range dst {
 					dst[i] = d.Rand(r)
 				}
 			}
+			reportCPU(b, cpu)
 		})
 		b.Run("RandFill/"+name, func(b *testing.B) {
 			r := rand.New(rand.NewPCG(1, 2))
+			cpu := processCPUNanos()
 			for b.Loop() {
 				FillRand(d, r, dst)
 			}
+			reportCPU(b, cpu)
 		})
+	}
+}
+
+// reportCPU reports the process CPU time since cpu (processCPUNanos) per
+// op as cpu-ns/op, where it can be read.
+func reportCPU(b *testing.B, cpu int64) {
+	if cpu >= 0 {
+		b.ReportMetric(float64(processCPUNanos()-cpu)/float64(b.N), "cpu-ns/op")
 	}
 }
