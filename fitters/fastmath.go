@@ -42,33 +42,23 @@ func fastLog(x float64) float64 {
 
 // fastLogs writes ln x[i] into dst[i] (len(dst) ≥ len(x); dst may be x) and
 // returns Σ ln x[i], summed in order i = 0, 1, 2, …. Each value is exactly
-// fastLog(x[i]) (TestFastLogsSlice, TestFastLogsKernelsBits): the logs of a
-// block of logsBlock values come from logsInto, the vector kernel the
-// processor has (fastmath_amd64.s) or logsGeneric, and are then summed in
-// order while the block is still in the cache, so the sum's bits do not
-// depend on the kernel either.
+// fastLog(x[i]) and the sum has the bits of the in-order sum of fastLog
+// (TestFastLogsSlice, TestFastLogsKernelsBits) whichever kernel runs:
+// the vector kernel the processor has (fastmath_amd64.s) or logsSumGeneric.
 func fastLogs(dst, x []float64) (sum float64) {
-	dst = dst[:len(x)]
-	for len(x) > 0 {
-		n := min(len(x), logsBlock)
-		d := dst[:n]
-		logsInto(d, x[:n])
-		for _, y := range d {
-			sum += y
-		}
-		dst, x = dst[n:], x[n:]
-	}
-	return sum
+	return logsSumInto(dst[:len(x)], x)
 }
 
-// logsBlock is the number of values fastLogs takes the logs of before it
-// sums them: 4 KiB of results, well inside the first-level cache.
+// logsBlock is a block size for callers of logsInto that take the logs of
+// a long slice a block at a time into a small buffer: 4 KiB of results,
+// well inside the first-level cache.
 const logsBlock = 512
 
-// logsGeneric writes fastLog(x[i]) into dst[i] (len(dst) = len(x); dst may
-// be x): the pure-Go kernel, with logCore's body written out in the loop
-// (the compiler inlines nothing this large).
-func logsGeneric(dst, x []float64) {
+// logsSumGeneric writes fastLog(x[i]) into dst[i] (len(dst) = len(x); dst
+// may be x) and returns their sum in order: the pure-Go kernel, with
+// logCore's body written out in the loop (the compiler inlines nothing
+// this large).
+func logsSumGeneric(dst, x []float64) (sum float64) {
 	dst = dst[:len(x)]
 	for i, v := range x {
 		ix := math.Float64bits(v)
@@ -95,7 +85,9 @@ func logsGeneric(dst, x []float64) {
 			y = hi + (tail + float64(r2*p))
 		}
 		dst[i] = y
+		sum += y
 	}
+	return sum
 }
 
 // logSpecial is fastLog of zero, subnormal, negative, infinite and NaN x.

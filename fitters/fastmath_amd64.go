@@ -54,13 +54,15 @@ func (k mathKernel) String() string {
 // The assembly kernels (fastmath_amd64.s) write fastLog or fastExp of
 // x[0:n] into dst[0:n] (len(dst) ≥ len(x)) and return n: len(x) rounded
 // down to the vector width (8 or 4), or the start of the first vector that
-// holds a value the scalar function treats specially.
+// holds a value the scalar function treats specially. The log kernels
+// return s = sum + dst[0] + dst[1] + … + dst[n−1] too, added in that
+// order, if addSum is true (s = sum otherwise).
 
 //go:noescape
-func logsAVX512(dst, x []float64) int
+func logsAVX512(dst, x []float64, sum float64, addSum bool) (n int, s float64)
 
 //go:noescape
-func logsAVX2(dst, x []float64) int
+func logsAVX2(dst, x []float64, sum float64, addSum bool) (n int, s float64)
 
 //go:noescape
 func expsAVX512(dst, x []float64) int
@@ -70,8 +72,37 @@ func expsAVX2(dst, x []float64) int
 
 // logsInto writes fastLog(x[i]) into dst[i] (len(dst) = len(x); dst may be
 // x).
-func logsInto(dst, x []float64) {
-	vectorInto(dst, x, logsAVX512, logsAVX2, logsGeneric)
+func logsInto(dst, x []float64) { logsKernel(dst, x, false) }
+
+// logsSumInto is logsInto that also returns Σ dst[i], summed in order.
+func logsSumInto(dst, x []float64) float64 { return logsKernel(dst, x, true) }
+
+// logsKernel writes fastLog(x[i]) into dst[i] and, if addSum, returns their
+// sum in order. Where the kernel of fastmathKernel stops (a vector with a
+// special value, or the tail shorter than a vector) fastLog takes one
+// vector's width of values, and the kernel resumes after them with the sum
+// so far.
+func logsKernel(dst, x []float64, addSum bool) (sum float64) {
+	kernel, width := logsAVX512, 8
+	switch fastmathKernel {
+	case kernelAVX2:
+		kernel, width = logsAVX2, 4
+	case kernelGo:
+		return logsSumGeneric(dst, x)
+	}
+	dst = dst[:len(x)]
+	for len(x) > 0 {
+		var i int
+		i, sum = kernel(dst, x, sum, addSum)
+		j := min(len(x), i+width)
+		for k := i; k < j; k++ {
+			y := fastLog(x[k])
+			dst[k] = y
+			sum += y
+		}
+		dst, x = dst[j:], x[j:]
+	}
+	return sum
 }
 
 // expsInto writes fastExp(x[i]) into dst[i] (len(dst) = len(x); dst may be
@@ -101,3 +132,13 @@ func vectorInto(dst, x []float64, avx512, avx2 func(dst, x []float64) int, gener
 		dst, x = dst[j:], x[j:]
 	}
 }
+
+// logTableRows is logTable with each entry padded to 32 bytes,
+// (1/c, (ln c)hi, (ln c)lo, 0): the vector kernels read one entry with
+// one 256-bit load (or two of 128 bits) instead of three gathers.
+var logTableRows = func() (rows [256][4]float64) {
+	for i, e := range logTable {
+		rows[i] = [4]float64{e.invC, e.lnCHi, e.lnCLo, 0}
+	}
+	return rows
+}()

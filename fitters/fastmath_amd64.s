@@ -4,12 +4,15 @@
 
 // Vector kernels of fastLog and fastExp (fastmath.go): the same operations
 // in the same order on 8 (AVX-512) or 4 (AVX2) lanes, each product rounded
-// on its own (VMULPD, never a fused multiply-add), the same tables read by
-// gathers, so every lane gives fastLog's or fastExp's bits. Each kernel
+// on its own (VMULPD, never a fused multiply-add), the same table entries
+// (read by scalar-indexed loads and unpacked: gathers cost three times as
+// much here), so every lane gives fastLog's or fastExp's bits. Each kernel
 // works on whole vectors from the start of x and returns the number of
 // values it wrote: len(x) rounded down to the vector width, or the index
 // of the first vector holding an input the scalar path treats specially
-// (fastmath_amd64.go does that vector and the tail in Go).
+// (fastmath_amd64.go does that vector and the tail in Go). The log kernels
+// also add the logs, in order, to the running sum they are given, if
+// addSum is true.
 
 // Constants, each a 64-bit pattern repeated four times (32 bytes): AVX2
 // reads them as memory operands, AVX-512 broadcasts the first quadword.
@@ -26,7 +29,6 @@ CONST4(lgSpan, $0x7fe0000000000000)     // normal bits − minNorm < span
 CONST4(lgSpanFlip, $0xffdfffffffffffff) // (span − 1) with the sign bit flipped
 CONST4(lgSign, $0x8000000000000000)
 CONST4(lgOff, $0x3fe6000000000000)      // bits of 0.6875
-CONST4(lg255, $0x00000000000000ff)
 CONST4(lgExpMask, $0xfff0000000000000)
 CONST4(lgLow9, $0xfffffffffffffe00)     // clears the last 9 bits
 CONST4(lgKBias, $0x4000000000000000)    // tmp + 2^62: k + 1024 in the top 12 bits
@@ -56,18 +58,43 @@ CONST4(exC5, $0x3f81111111111111)
 CONST4(ex127, $0x000000000000007f)
 CONST4(exNot127, $0xffffffffffffff80)
 
-// func logsAVX512(dst, x []float64) int
-TEXT ·logsAVX512(SB), NOSPLIT, $0-56
+// LOAD8OFFSETS loads the eight byte offsets a kernel stored at (SP) into
+// R8-R13, R15 and AX (lanes 0-7); LOAD4OFFSETS the first four.
+#define LOAD4OFFSETS \
+	MOVQ 0(SP), R8; \
+	MOVQ 8(SP), R9; \
+	MOVQ 16(SP), R10; \
+	MOVQ 24(SP), R11
+
+#define LOAD8OFFSETS \
+	LOAD4OFFSETS; \
+	MOVQ 32(SP), R12; \
+	MOVQ 40(SP), R13; \
+	MOVQ 48(SP), R15; \
+	MOVQ 56(SP), AX
+
+// SCALARIDX(off, r) sets r to 4·(table index) of the value at
+// off(SI)(BX*8): the index (tmp>>44)&255 of tmp = ix − logOff is
+// ((ix>>44) + 0xa0)&255, logOff having no bits below 2^44 and 0x3fe60 ≡
+// −0xa0 mod 256; the row is at (DI)(r*8).
+#define SCALARIDX(off, r) \
+	MOVQ off(SI)(BX*8), r; \
+	SHRQ $42, r; \
+	ADDQ $0x280, r; \
+	ANDQ $0x3fc, r
+
+// func logsAVX512(dst, x []float64, sum float64, addSum bool) (n int, s float64)
+TEXT ·logsAVX512(SB), NOSPLIT, $0-80
 	MOVQ dst_base+0(FP), DX
 	MOVQ x_base+24(FP), SI
 	MOVQ x_len+32(FP), CX
-	LEAQ ·logTable(SB), DI
+	LEAQ ·logTableRows(SB), DI
 	ANDQ $-8, CX
 	XORQ BX, BX
+	VMOVSD sum+48(FP), X30
 	VPBROADCASTQ lgMinNorm<>(SB), Z16
 	VPBROADCASTQ lgSpan<>(SB), Z17
 	VPBROADCASTQ lgOff<>(SB), Z18
-	VPBROADCASTQ lg255<>(SB), Z19
 	VPBROADCASTQ lgExpMask<>(SB), Z20
 	VPBROADCASTQ lgLow9<>(SB), Z21
 	VPBROADCASTQ lgOne<>(SB), Z22
@@ -88,22 +115,38 @@ logs512loop:
 	KORTESTB  K1, K1
 	JNZ       logs512done
 	VPSUBQ    Z18, Z0, Z1          // tmp = ix − logOff
-	VPSRLQ    $44, Z1, Z2
-	VPANDQ    Z19, Z2, Z2          // table index
-	VPSLLQ    $1, Z2, Z3
-	VPADDQ    Z3, Z2, Z2           // index·3: entries are 24 bytes
+	SCALARIDX(0, R8)
+	SCALARIDX(8, R9)
+	SCALARIDX(16, R10)
+	SCALARIDX(24, R11)
+	SCALARIDX(32, R12)
+	SCALARIDX(40, R13)
+	SCALARIDX(48, R15)
+	SCALARIDX(56, AX)
 	VPSRAQ    $52, Z1, Z3          // k
 	VCVTQQ2PD Z3, Z3               // kd
 	VPANDQ    Z20, Z1, Z1
 	VPSUBQ    Z1, Z0, Z0           // zb
 	VPANDQ    Z21, Z0, Z1          // zh
 	VSUBPD    Z1, Z0, Z0           // zl = zb − zh
-	KXNORB    K1, K1, K1
-	VGATHERQPD (DI)(Z2*8), K1, Z4  // 1/c
-	KXNORB    K2, K2, K2
-	VGATHERQPD 8(DI)(Z2*8), K2, Z5 // (ln c)hi
-	KXNORB    K3, K3, K3
-	VGATHERQPD 16(DI)(Z2*8), K3, Z6 // (ln c)lo
+	// Rows (1/c, (ln c)hi, (ln c)lo, 0) of lanes 0|2, 1|3, 4|6, 5|7 into
+	// Z4, Z5, Z6, Z7; unpacking and 128-bit shuffles put each column in
+	// lane order.
+	VMOVUPD      (DI)(R8*8), Y4
+	VINSERTF64X4 $1, (DI)(R10*8), Z4, Z4
+	VMOVUPD      (DI)(R9*8), Y5
+	VINSERTF64X4 $1, (DI)(R11*8), Z5, Z5
+	VMOVUPD      (DI)(R12*8), Y6
+	VINSERTF64X4 $1, (DI)(R15*8), Z6, Z6
+	VMOVUPD      (DI)(R13*8), Y7
+	VINSERTF64X4 $1, (DI)(AX*8), Z7, Z7
+	VUNPCKLPD    Z5, Z4, Z8           // 1/c and (ln c)lo of lanes 0-3
+	VUNPCKHPD    Z5, Z4, Z9           // (ln c)hi of lanes 0-3
+	VUNPCKLPD    Z7, Z6, Z10
+	VUNPCKHPD    Z7, Z6, Z11
+	VSHUFF64X2   $0x88, Z10, Z8, Z4   // 1/c
+	VSHUFF64X2   $0x88, Z11, Z9, Z5   // (ln c)hi
+	VSHUFF64X2   $0xdd, Z10, Z8, Z6   // (ln c)lo
 	VMULPD    Z4, Z1, Z1
 	VSUBPD    Z22, Z1, Z1          // zh·(1/c) − 1
 	VMULPD    Z4, Z0, Z0
@@ -128,30 +171,46 @@ logs512loop:
 	VMULPD    Z5, Z4, Z4
 	VADDPD    Z4, Z6, Z6           // tail + r2·p
 	VADDPD    Z6, Z2, Z2           // hi + (tail + r2·p)
-	VMOVUPD   Z2, (DX)(BX*8)
+	VMOVUPD       Y2, (DX)(BX*8)
+	VEXTRACTF64X4 $1, Z2, 32(DX)(BX*8)
+	CMPB          addSum+56(FP), $0
+	JEQ           logs512next
+	// sum += y[0]; sum += y[1]; … in lane order, from the two 256-bit
+	// stores just made (a 512-bit store would not forward to them).
+	VADDSD        (DX)(BX*8), X30, X30
+	VADDSD        8(DX)(BX*8), X30, X30
+	VADDSD        16(DX)(BX*8), X30, X30
+	VADDSD        24(DX)(BX*8), X30, X30
+	VADDSD        32(DX)(BX*8), X30, X30
+	VADDSD        40(DX)(BX*8), X30, X30
+	VADDSD        48(DX)(BX*8), X30, X30
+	VADDSD        56(DX)(BX*8), X30, X30
+
+logs512next:
 	ADDQ      $8, BX
 	JMP       logs512loop
 
 logs512done:
-	MOVQ BX, ret+48(FP)
+	MOVQ   BX, n+64(FP)
+	VMOVSD X30, s+72(FP)
 	VZEROUPPER
 	RET
 
-// func logsAVX2(dst, x []float64) int
-TEXT ·logsAVX2(SB), NOSPLIT, $0-56
+// func logsAVX2(dst, x []float64, sum float64, addSum bool) (n int, s float64)
+TEXT ·logsAVX2(SB), NOSPLIT, $0-80
 	MOVQ dst_base+0(FP), DX
 	MOVQ x_base+24(FP), SI
 	MOVQ x_len+32(FP), CX
-	LEAQ ·logTable(SB), DI
+	LEAQ ·logTableRows(SB), DI
 	ANDQ $-4, CX
 	XORQ BX, BX
+	VMOVSD  sum+48(FP), X14
 	VMOVDQU lgOff<>(SB), Y8
 	VMOVDQU lgOne<>(SB), Y9
 	VMOVDQU lgLn2Hi<>(SB), Y10
 	VMOVDQU lgP0<>(SB), Y11
 	VMOVDQU lgP1<>(SB), Y12
 	VMOVDQU lgP2<>(SB), Y13
-	VMOVDQU lgP3<>(SB), Y14
 
 logs2loop:
 	CMPQ BX, CX
@@ -163,10 +222,10 @@ logs2loop:
 	VPTEST   Y1, Y1
 	JNZ      logs2done
 	VPSUBQ   Y8, Y0, Y1              // tmp = ix − logOff
-	VPSRLQ   $44, Y1, Y2
-	VPAND    lg255<>(SB), Y2, Y2     // table index
-	VPSLLQ   $1, Y2, Y3
-	VPADDQ   Y3, Y2, Y2              // index·3: entries are 24 bytes
+	SCALARIDX(0, R8)
+	SCALARIDX(8, R9)
+	SCALARIDX(16, R10)
+	SCALARIDX(24, R11)
 	VPADDQ   lgKBias<>(SB), Y1, Y3
 	VPSRLQ   $52, Y3, Y3             // k + 1024
 	VPOR     lgMagic<>(SB), Y3, Y3   // 2^52 + k + 1024
@@ -175,12 +234,19 @@ logs2loop:
 	VPSUBQ   Y1, Y0, Y0              // zb
 	VPAND    lgLow9<>(SB), Y0, Y1    // zh
 	VSUBPD   Y1, Y0, Y0              // zl = zb − zh
-	VPCMPEQQ Y4, Y4, Y4
-	VGATHERQPD Y4, (DI)(Y2*8), Y5    // 1/c
-	VPCMPEQQ Y4, Y4, Y4
-	VGATHERQPD Y4, 8(DI)(Y2*8), Y6   // (ln c)hi
-	VPCMPEQQ Y4, Y4, Y4
-	VGATHERQPD Y4, 16(DI)(Y2*8), Y7  // (ln c)lo
+	// Halves of the rows (1/c, (ln c)hi | (ln c)lo, 0) of lanes 0|2 and
+	// 1|3; unpacking puts each column in lane order.
+	VMOVUPD     (DI)(R8*8), X4
+	VINSERTF128 $1, (DI)(R10*8), Y4, Y4
+	VMOVUPD     (DI)(R9*8), X2
+	VINSERTF128 $1, (DI)(R11*8), Y2, Y2
+	VUNPCKLPD   Y2, Y4, Y5           // 1/c
+	VUNPCKHPD   Y2, Y4, Y6           // (ln c)hi
+	VMOVUPD     16(DI)(R8*8), X4
+	VINSERTF128 $1, 16(DI)(R10*8), Y4, Y4
+	VMOVUPD     16(DI)(R9*8), X2
+	VINSERTF128 $1, 16(DI)(R11*8), Y2, Y2
+	VUNPCKLPD   Y2, Y4, Y7           // (ln c)lo
 	VMULPD   Y5, Y1, Y1
 	VSUBPD   Y9, Y1, Y1              // zh·(1/c) − 1
 	VMULPD   Y5, Y0, Y0
@@ -193,7 +259,7 @@ logs2loop:
 	VMULPD   Y0, Y0, Y4              // r2
 	VMULPD   Y12, Y0, Y5
 	VADDPD   Y11, Y5, Y5             // p01 = P0 + r·P1
-	VMULPD   Y14, Y0, Y6
+	VMULPD   lgP3<>(SB), Y0, Y6
 	VADDPD   Y13, Y6, Y6             // P2 + r·P3
 	VMULPD   lgP4<>(SB), Y4, Y0
 	VADDPD   Y0, Y6, Y6              // p24 = (P2 + r·P3) + r2·P4
@@ -206,16 +272,29 @@ logs2loop:
 	VADDPD   Y4, Y7, Y7              // tail + r2·p
 	VADDPD   Y7, Y2, Y2              // hi + (tail + r2·p)
 	VMOVUPD  Y2, (DX)(BX*8)
+	CMPB     addSum+56(FP), $0
+	JEQ      logs2next
+	// sum += y[0]; sum += y[1]; … in lane order.
+	VADDSD       X2, X14, X14
+	VPERMILPD    $1, X2, X3
+	VADDSD       X3, X14, X14
+	VEXTRACTF128 $1, Y2, X4
+	VADDSD       X4, X14, X14
+	VPERMILPD    $1, X4, X3
+	VADDSD       X3, X14, X14
+
+logs2next:
 	ADDQ     $4, BX
 	JMP      logs2loop
 
 logs2done:
-	MOVQ BX, ret+48(FP)
+	MOVQ   BX, n+64(FP)
+	VMOVSD X14, s+72(FP)
 	VZEROUPPER
 	RET
 
 // func expsAVX512(dst, x []float64) int
-TEXT ·expsAVX512(SB), NOSPLIT, $0-56
+TEXT ·expsAVX512(SB), NOSPLIT, $64-56
 	MOVQ dst_base+0(FP), DX
 	MOVQ x_base+24(FP), SI
 	MOVQ x_len+32(FP), CX
@@ -252,13 +331,27 @@ exps512loop:
 	VMULPD    Z21, Z2, Z3
 	VSUBPD    Z3, Z0, Z0            // r
 	VPANDQ    Z26, Z1, Z4
-	VPSLLQ    $1, Z4, Z4            // j·2: entries are 16 bytes
+	VPSLLQ    $4, Z4, Z4            // 16·j: the byte offset of entry j
+	VMOVDQU     Y4, (SP)            // as two 256-bit stores: a 512-bit one
+	VEXTRACTI64X4 $1, Z4, 32(SP)    // does not forward to the loads below
 	VPANDQ    Z27, Z1, Z1
 	VPSLLQ    $45, Z1, Z1           // (k>>7)<<52
-	KXNORB    K1, K1, K1
-	VGATHERQPD (DI)(Z4*8), K1, Z5   // hi
-	KXNORB    K2, K2, K2
-	VGATHERQPD 8(DI)(Z4*8), K2, Z6  // tail
+	LOAD8OFFSETS
+	// Entries 0, 2, 4, 6 into Z5 and 1, 3, 5, 7 into Z6, 128 bits each
+	// (hi, tail): the unpacks leave hi and tail in lane order.
+	VMOVUPD     (DI)(R8*1), X5
+	VINSERTF128 $1, (DI)(R10*1), Y5, Y5
+	VMOVUPD     (DI)(R12*1), X7
+	VINSERTF128 $1, (DI)(R15*1), Y7, Y7
+	VINSERTF64X4 $1, Y7, Z5, Z5
+	VMOVUPD     (DI)(R9*1), X6
+	VINSERTF128 $1, (DI)(R11*1), Y6, Y6
+	VMOVUPD     (DI)(R13*1), X7
+	VINSERTF128 $1, (DI)(AX*1), Y7, Y7
+	VINSERTF64X4 $1, Y7, Z6, Z6
+	VUNPCKHPD   Z6, Z5, Z7
+	VUNPCKLPD   Z6, Z5, Z5          // hi
+	VMOVAPD     Z7, Z6              // tail
 	VPADDQ    Z1, Z5, Z5            // s
 	VMULPD    Z0, Z0, Z7            // r2
 	VMULPD    Z23, Z0, Z8
@@ -282,7 +375,7 @@ exps512done:
 	RET
 
 // func expsAVX2(dst, x []float64) int
-TEXT ·expsAVX2(SB), NOSPLIT, $0-56
+TEXT ·expsAVX2(SB), NOSPLIT, $32-56
 	MOVQ dst_base+0(FP), DX
 	MOVQ x_base+24(FP), SI
 	MOVQ x_len+32(FP), CX
@@ -314,13 +407,19 @@ exps2loop:
 	VMULPD   Y13, Y2, Y3
 	VSUBPD   Y3, Y0, Y0              // r
 	VPAND    ex127<>(SB), Y1, Y4
-	VPSLLQ   $1, Y4, Y4              // j·2: entries are 16 bytes
+	VPSLLQ   $4, Y4, Y4              // 16·j: the byte offset of entry j
+	VMOVDQU  Y4, (SP)
 	VPAND    exNot127<>(SB), Y1, Y1
 	VPSLLQ   $45, Y1, Y1             // (k>>7)<<52
-	VPCMPEQQ Y3, Y3, Y3
-	VGATHERQPD Y3, (DI)(Y4*8), Y5    // hi
-	VPCMPEQQ Y3, Y3, Y3
-	VGATHERQPD Y3, 8(DI)(Y4*8), Y6   // tail
+	LOAD4OFFSETS
+	// Entries 0, 2 into Y5 and 1, 3 into Y6, 128 bits each (hi, tail).
+	VMOVUPD     (DI)(R8*1), X5
+	VINSERTF128 $1, (DI)(R10*1), Y5, Y5
+	VMOVUPD     (DI)(R9*1), X6
+	VINSERTF128 $1, (DI)(R11*1), Y6, Y6
+	VUNPCKHPD   Y6, Y5, Y3
+	VUNPCKLPD   Y6, Y5, Y5           // hi
+	VMOVAPD     Y3, Y6               // tail
 	VPADDQ   Y1, Y5, Y5              // s
 	VMULPD   Y0, Y0, Y7              // r2
 	VMULPD   Y14, Y0, Y2

@@ -2,10 +2,13 @@
 
 package fitters
 
-// logsInto writes fastLog(x[i]) into dst[i] (len(dst) = len(x)): without
-// vector kernels (another processor, or the purego build tag), the pure-Go
-// loop.
-func logsInto(dst, x []float64) { logsGeneric(dst, x) }
+// logsInto writes fastLog(x[i]) into dst[i] (len(dst) = len(x); dst may be
+// x): without vector kernels (another processor, or the purego build tag),
+// the pure-Go loop.
+func logsInto(dst, x []float64) { logsSumGeneric(dst, x) }
+
+// logsSumInto is logsInto that also returns Σ dst[i], summed in order.
+func logsSumInto(dst, x []float64) float64 { return logsSumGeneric(dst, x) }
 
 // expsInto writes fastExp(x[i]) into dst[i] (len(dst) = len(x)): the
 // pure-Go loop.

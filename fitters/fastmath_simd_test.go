@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
+	"regexp"
+	"strconv"
 	"testing"
 )
 
@@ -62,16 +64,22 @@ var expSpecials = []float64{
 }
 
 // checkLogs compares fastLogs over x (into a fresh buffer and in place)
-// with fastLog value by value and with the in-order sum of fastLog.
+// and logsInto (the logs without the sum) with fastLog value by value and
+// with the in-order sum of fastLog.
 func checkLogs(t *testing.T, x []float64) {
 	t.Helper()
 	dst := make([]float64, len(x))
 	sum := fastLogs(dst, x)
+	only := make([]float64, len(x))
+	logsInto(only, x)
 	var want float64
 	for i, v := range x {
 		y := fastLog(v)
 		if !sameFloatBits(dst[i], y) {
 			t.Fatalf("fastLogs[%d] = %v (%#016x), fastLog(%v) = %v (%#016x)", i, dst[i], math.Float64bits(dst[i]), v, y, math.Float64bits(y))
+		}
+		if !sameFloatBits(only[i], y) {
+			t.Fatalf("logsInto[%d] = %v, fastLog(%v) = %v", i, only[i], v, y)
 		}
 		want += y
 	}
@@ -335,4 +343,46 @@ func FuzzFastExpsBits(f *testing.F) {
 		x := floatsOf(data)
 		eachKernel(t, func(t *testing.T) { checkExps(t, x) })
 	})
+}
+
+// TestFastmathAsmConstants: each constant the assembly kernels spell out
+// in hex (fastmath_amd64.s) has the bits of the Go constant it copies.
+func TestFastmathAsmConstants(t *testing.T) {
+	src, err := os.ReadFile("fastmath_amd64.s")
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string]uint64{
+		"lgMinNorm": 0x0010000000000000, "lgSpan": 0x7ff0000000000000 - 0x0010000000000000,
+		"lgSpanFlip": (0x7ff0000000000000 - 0x0010000000000000 - 1) ^ 1<<63, "lgSign": 1 << 63,
+		"lgOff": logOff, "lgExpMask": 0xfff << 52, "lgLow9": ^uint64(0x1ff),
+		"lgKBias": 1 << 62, "lgMagic": math.Float64bits(0x1p52), "lgMagicK": math.Float64bits(0x1p52 + 1024),
+		"lgOne": math.Float64bits(1), "lgLn2Hi": math.Float64bits(ln2Hi), "lgLn2Lo": math.Float64bits(ln2Lo),
+		"lgP0": math.Float64bits(logP0), "lgP1": math.Float64bits(logP1), "lgP2": math.Float64bits(logP2),
+		"lgP3": math.Float64bits(logP3), "lgP4": math.Float64bits(logP4),
+		"exAbs": 1<<63 - 1, "exBound": 0x4085f00000000000, "exBoundM1": 0x4085f00000000000 - 1,
+		"exInvLn2N": math.Float64bits(invLn2N), "exShift": math.Float64bits(expShift),
+		"exLn2NHi": math.Float64bits(ln2NHi), "exLn2NLo": math.Float64bits(ln2NLo),
+		"exC2": math.Float64bits(expC2), "exC3": math.Float64bits(expC3), "exC4": math.Float64bits(expC4),
+		"exC5": math.Float64bits(expC5), "ex127": 127, "exNot127": ^uint64(127),
+	}
+	if math.Float64frombits(want["exBound"]) != 702 {
+		t.Fatalf("exBound is not 702")
+	}
+	got := map[string]uint64{}
+	for _, m := range regexp.MustCompile(`(?m)^CONST4\((\w+), \$0x([0-9a-f]{16})\)`).FindAllStringSubmatch(string(src), -1) {
+		v, err := strconv.ParseUint(m[2], 16, 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got[m[1]] = v
+	}
+	if len(got) != len(want) {
+		t.Errorf("%d constants in fastmath_amd64.s, %d expected", len(got), len(want))
+	}
+	for name, w := range want {
+		if g, ok := got[name]; !ok || g != w {
+			t.Errorf("%s = %#016x in fastmath_amd64.s, want %#016x", name, g, w)
+		}
+	}
 }
