@@ -102,7 +102,7 @@ func (f exponentialFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		// ≥ 0, not all 0) come out of the pass that sums the values: no
 		// sign bit set (−0 and negative NaNs go the general way) and a
 		// positive finite sum (no NaN).
-		total, bits, _ := sumBits4(d.Exact)
+		total, bits := sumOr4(d.Exact)
 		if r := float64(len(d.Exact)); bits>>63 == 0 && total > 0 && !math.IsInf(total, 1) {
 			fit := newFitOpt(f, d, opt)
 			rate := r / total

@@ -366,15 +366,12 @@ func widen(lo, hi, a, b, c, d float64) (float64, float64) {
 	return lo, hi
 }
 
-// sumBits4 returns Σ x in sum4's order (the same bits) with two integer
-// tallies off the floating-point chains: or, the OR of every value's bit
-// pattern (its sign bit is set when some value is negative or −0), and
-// differ, whether some value's bit pattern differs from x[0]'s (false for
-// all-equal data; ±0 and NaN payloads count as different). len(x) ≥ 1.
-func sumBits4(x []float64) (sum float64, or uint64, differ bool) {
-	b0 := math.Float64bits(x[0])
+// sumOr4 returns Σ x in sum4's order (the same bits) and, off the
+// floating-point chains, the OR of every value's bit pattern: its sign bit
+// is set when some value is negative, −0 or a NaN with the sign bit.
+// len(x) ≥ 1.
+func sumOr4(x []float64) (sum float64, or uint64) {
 	var s0, s1, s2, s3 float64
-	var d uint64
 	i := 0
 	for ; i+4 <= len(x); i += 4 {
 		v := x[i : i+4 : i+4]
@@ -383,29 +380,29 @@ func sumBits4(x []float64) (sum float64, or uint64, differ bool) {
 		s1 += b
 		s2 += c
 		s3 += e
-		ba, bb, bc, be := math.Float64bits(a), math.Float64bits(b), math.Float64bits(c), math.Float64bits(e)
-		or |= (ba | bb) | (bc | be)
-		d |= ((ba ^ b0) | (bb ^ b0)) | ((bc ^ b0) | (be ^ b0))
+		or |= (math.Float64bits(a) | math.Float64bits(b)) | (math.Float64bits(c) | math.Float64bits(e))
 	}
 	for ; i < len(x); i++ {
 		s0 += x[i]
-		b := math.Float64bits(x[i])
-		or |= b
-		d |= b ^ b0
+		or |= math.Float64bits(x[i])
 	}
-	return (s0 + s1) + (s2 + s3), or, d != 0
+	return (s0 + s1) + (s2 + s3), or
 }
 
 // meanSDQuick is spreadOf's mean and ML standard deviation without the
-// extremes: Σ x and whether the values differ from one pass (sumBits4),
-// then sumSqDev4 and the correction of the mean — the same bits as
-// spreadOf wherever both apply. ok is false, leaving the data to spreadOf,
-// for all-equal data, non-finite sums, and where Σ(x − x̄)² is infinite or
+// extremes: Σ x (sum4), then sumSqDev4 and the correction of the mean —
+// the same bits as spreadOf wherever both apply. ok is false, leaving the
+// data to spreadOf, for non-finite sums, where Σ(x − x̄)² is infinite or
 // below 2⁻⁹⁰⁰ (so no squared deviation overflowed, and the ones that
-// underflowed carry less than n·2⁻¹⁰⁷⁴ — nothing relative to the sum).
+// underflowed carry less than n·2⁻¹⁰⁷⁴ — nothing relative to the sum),
+// where the variance is not positive, and for all-equal data. Those need
+// no pass of their own: with every value v, the computed mean is within
+// (n/4 + 2)u|x̄| of v (sum4's error, u = 2⁻⁵³), so the computed variance
+// is below ((n + 8)u·x̄)²; only a variance that small is followed by a
+// scan for two different values (allEqual).
 func meanSDQuick(x []float64) (mean, sd float64, ok bool) {
-	s, _, differ := sumBits4(x)
-	if !differ || math.IsInf(s, 0) || math.IsNaN(s) {
+	s := sum4(x)
+	if math.IsInf(s, 0) || math.IsNaN(s) {
 		return 0, 0, false
 	}
 	n := float64(len(x))
@@ -415,9 +412,18 @@ func meanSDQuick(x []float64) (mean, sd float64, ok bool) {
 		return 0, 0, false
 	}
 	variance := (ss - c*c/n) / n
-	m += c / n
-	if variance < 0 {
-		variance = 0
+	if tiny := (n + 8) * 0x1p-53 * m; !(variance > 0) || (variance <= tiny*tiny && allEqual(x)) {
+		return 0, 0, false
 	}
-	return m, math.Sqrt(variance), true
+	return m + c/n, math.Sqrt(variance), true
+}
+
+// allEqual reports whether every value of x equals x[0].
+func allEqual(x []float64) bool {
+	for _, v := range x {
+		if v != x[0] {
+			return false
+		}
+	}
+	return true
 }

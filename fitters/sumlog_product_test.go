@@ -289,8 +289,9 @@ func TestInvgaussOnePassMatchesReference(t *testing.T) {
 // TestMeanSDQuickSameBits checks that normal's quick route (meanSDQuick)
 // gives spreadOf's mean and standard deviation bit for bit on mle.json's
 // normal datasets (whose mpmath maxima TestReferenceMLE checks the fit
-// against) and on random data, and refuses all-equal data and data whose
-// squared deviations overflow.
+// against), on random data and on values one ulp apart, and refuses
+// all-equal data (100003 copies of 0.1 too, whose sum rounds) and data
+// whose squared deviations overflow or underflow.
 func TestMeanSDQuickSameBits(t *testing.T) {
 	sets := [][]float64{{1, 2}, {3, 3, 3, 3, 3, 4}}
 	for _, ref := range loadMLERecords(t, "normal") {
@@ -304,6 +305,12 @@ func TestMeanSDQuickSameBits(t *testing.T) {
 		}
 		sets = append(sets, x)
 	}
+	near := make([]float64, 1001) // two values one ulp apart: a tiny but positive spread
+	for i := range near {
+		near[i] = 1
+	}
+	near[500] = math.Nextafter(1, 2)
+	sets = append(sets, near)
 	for _, x := range sets {
 		m, s, ok := meanSDQuick(x)
 		_, _, m0, s0 := spreadOf(x)
@@ -311,9 +318,13 @@ func TestMeanSDQuickSameBits(t *testing.T) {
 			t.Errorf("n=%d: quick (%v, %v, %v), spreadOf (%v, %v)", len(x), m, s, ok, m0, s0)
 		}
 	}
-	for _, x := range [][]float64{{7, 7, 7}, {0x1p600, -0x1p600}, {1, math.NaN()}, {math.Inf(1), 1}, {0x1p-1000, 0x1p-999}} {
+	eq := make([]float64, 100003)
+	for i := range eq {
+		eq[i] = 0.1
+	}
+	for _, x := range [][]float64{{7, 7, 7}, eq, {0x1p600, -0x1p600}, {1, math.NaN()}, {math.Inf(1), 1}, {0x1p-1000, 0x1p-999}} {
 		if _, _, ok := meanSDQuick(x); ok {
-			t.Errorf("took %v", x)
+			t.Errorf("took %d values %v, …", len(x), x[:min(len(x), 3)])
 		}
 	}
 }
