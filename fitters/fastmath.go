@@ -162,6 +162,22 @@ func fastLog1p(u float64) float64 {
 	return hi + (tail + float64(r2*p))
 }
 
+// fastLog1ps writes ln(1 + u[i]) into dst[i] (len(dst) ≥ len(u); dst may be
+// u), each exactly fastLog1p(u[i]) (TestFastLog1psKernelsBits): through
+// the vector kernel the processor has (fastmath_amd64.s) or log1psGeneric.
+func fastLog1ps(dst, u []float64) {
+	log1psInto(dst[:len(u)], u)
+}
+
+// log1psGeneric writes fastLog1p(u[i]) into dst[i] (len(dst) = len(u); dst
+// may be u): the pure-Go kernel.
+func log1psGeneric(dst, u []float64) {
+	dst = dst[:len(u)]
+	for i, v := range u {
+		dst[i] = fastLog1p(v)
+	}
+}
+
 // Constants of fastLog: ln 2 = ln2Hi + ln2Lo with ln2Hi a multiple of 2⁻⁴²
 // (make_log_table.py), logOff the bits of 0.6875, and the coefficients of
 // P(r) (make_log_table.py's Chebyshev fit).

@@ -111,6 +111,10 @@ func expsInto(dst, x []float64) {
 	vectorInto(dst, x, expsAVX512, expsAVX2, expsGeneric)
 }
 
+// log1psInto writes fastLog1p(u[i]) into dst[i] (len(dst) = len(u); dst
+// may be u).
+func log1psInto(dst, u []float64) { log1psGeneric(dst, u) }
+
 // vectorInto runs the kernel of fastmathKernel over x; where it stops (a
 // vector with a special value, or the tail shorter than a vector) the
 // generic loop takes one vector's width of values, and the kernel resumes

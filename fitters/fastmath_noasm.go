@@ -14,6 +14,10 @@ func logsSumInto(dst, x []float64) float64 { return logsSumGeneric(dst, x) }
 // pure-Go loop.
 func expsInto(dst, x []float64) { expsGeneric(dst, x) }
 
+// log1psInto writes fastLog1p(u[i]) into dst[i] (len(dst) = len(u)): the
+// pure-Go loop.
+func log1psInto(dst, u []float64) { log1psGeneric(dst, u) }
+
 // mathKernel names a set of kernels for fastLogs and fastExps: here only
 // the pure-Go loops.
 type mathKernel int

@@ -117,6 +117,94 @@ func checkExps(t *testing.T, x []float64) {
 	}
 }
 
+// checkLog1ps compares fastLog1ps over u (into a fresh buffer and in
+// place) with fastLog1p value by value.
+func checkLog1ps(t *testing.T, u []float64) {
+	t.Helper()
+	dst := make([]float64, len(u))
+	fastLog1ps(dst, u)
+	for i, v := range u {
+		if y := fastLog1p(v); !sameFloatBits(dst[i], y) {
+			t.Fatalf("fastLog1ps[%d] = %v (%#016x), fastLog1p(%v) = %v (%#016x)", i, dst[i], math.Float64bits(dst[i]), v, y, math.Float64bits(y))
+		}
+	}
+	in := append([]float64(nil), u...)
+	fastLog1ps(in, in)
+	for i := range in {
+		if !sameFloatBits(in[i], dst[i]) {
+			t.Fatalf("in-place fastLog1ps[%d] = %v, want %v", i, in[i], dst[i])
+		}
+	}
+}
+
+// log1pSpecials are the inputs fastLog1p treats apart (|u| < 2⁻⁵⁴,
+// |u| ≥ 2⁵³, u ≤ −1, NaN) and the values at the edges of its branches.
+var log1pSpecials = []float64{
+	0, math.Copysign(0, -1), 5e-324, -5e-324, 0x1p-54, -0x1p-54, math.Nextafter(0x1p-54, 0),
+	math.Nextafter(-0x1p-54, 0), 0x1p53, -0x1p53, math.Nextafter(0x1p53, 0), math.Nextafter(-0x1p53, 0),
+	-1, math.Nextafter(-1, 0), math.Nextafter(-1, -2), -2, math.Inf(1), math.Inf(-1), math.NaN(),
+	math.Float64frombits(0x7ff0000000000001), math.MaxFloat64, -math.MaxFloat64,
+	-0x1p-9, math.Nextafter(-0x1p-9, 0), math.Nextafter(-0x1p-9, -1), 0x1p-8, math.Nextafter(0x1p-8, 0),
+	math.Nextafter(0x1p-8, 1), 1, -0.5, 0.5, -0.3125, 0.375,
+}
+
+// log1pRangeInputs are ±2^e·(1 + f) with e uniform over the range where
+// fastLog1p computes (2⁻⁵⁴ ≤ |u| < 2⁵³), those at or below −1 replaced
+// by values just above −1.
+func log1pRangeInputs(r *rand.Rand, n int) []float64 {
+	x := make([]float64, n)
+	for i := range x {
+		v := math.Ldexp(1+r.Float64(), 52-r.IntN(107))
+		if r.IntN(2) == 0 {
+			v = -v
+		}
+		if v <= -1 {
+			v = -1 + math.Ldexp(r.Float64(), -r.IntN(53))
+		}
+		x[i] = v
+	}
+	return x
+}
+
+// TestFastLog1psKernelsBits: fastLog1ps under every kernel set gives
+// fastLog1p's bits on random bit patterns, values over its whole range,
+// log1pTestInputs (near −1, near powers of two, both branches), values
+// near 1 and at the log table's boundaries minus 1, each also with
+// specials sprinkled in, and every special in every position for the
+// lengths 0..67.
+func TestFastLog1psKernelsBits(t *testing.T) {
+	n := simdSweep()
+	eachKernel(t, func(t *testing.T) {
+		r := rand.New(rand.NewPCG(27, 1))
+		shift := func(x []float64) []float64 {
+			for i := range x {
+				x[i]--
+			}
+			return x
+		}
+		for _, u := range [][]float64{
+			randomBits(r, n), log1pRangeInputs(r, n), log1pTestInputs(28, n),
+			shift(nearOneInputs(r, n)), shift(logBoundaryInputs(r, n)), shift(logTestInputs(29, n)),
+			sprinkle(r, log1pRangeInputs(r, n), log1pSpecials),
+			sprinkle(r, log1pTestInputs(30, n), log1pSpecials),
+		} {
+			checkLog1ps(t, u)
+		}
+		for m := 0; m <= 67; m++ {
+			checkLog1ps(t, log1pRangeInputs(r, m))
+		}
+		for m := 1; m <= 67; m += 11 {
+			for pos := 0; pos < m; pos++ {
+				for _, s := range log1pSpecials {
+					u := log1pTestInputs(uint64(31+pos), m)
+					u[pos] = s
+					checkLog1ps(t, u)
+				}
+			}
+		}
+	})
+}
+
 // randomBits are n uniformly random bit patterns: every sign, exponent
 // (NaN and Inf included, about one in 2048) and significand.
 func randomBits(r *rand.Rand, n int) []float64 {
@@ -332,6 +420,16 @@ func FuzzFastLogsBits(f *testing.F) {
 	f.Fuzz(func(t *testing.T, data []byte) {
 		x := floatsOf(data)
 		eachKernel(t, func(t *testing.T) { checkLogs(t, x) })
+	})
+}
+
+// FuzzFastLog1psBits: fastLog1ps of any slice has fastLog1p's bits under
+// every kernel set.
+func FuzzFastLog1psBits(f *testing.F) {
+	fuzzSeeds(f, log1pSpecials)
+	f.Fuzz(func(t *testing.T, data []byte) {
+		u := floatsOf(data)
+		eachKernel(t, func(t *testing.T) { checkLog1ps(t, u) })
 	})
 }
 

@@ -797,6 +797,15 @@ func BenchmarkFastLog1p(b *testing.B) {
 				}
 				fastLogSink = s
 			})
+			reportPerElement(b, len(x))
+		})
+	}
+	dst := make([]float64, len(x))
+	for _, k := range availableKernels() {
+		b.Run("fastLog1ps/"+k.String()+"/n=1000", func(b *testing.B) {
+			defer useKernel(k)()
+			benchBest(b, func() { fastLog1ps(dst, x) })
+			reportPerElement(b, len(x))
 		})
 	}
 }
