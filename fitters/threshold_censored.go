@@ -29,7 +29,7 @@ type thresholdTermSums struct {
 	p newton3Point
 }
 
-// grad returns ∇z at z and v for σ.
+// thresholdGradZ returns ∇z at z and v for σ.
 func thresholdGradZ(z, v, sigma float64) [3]float64 {
 	return [3]float64{-1 / sigma, -z, v / sigma}
 }
@@ -45,7 +45,7 @@ func (s *thresholdTermSums) addCurvature(c, z, v, sigma float64) {
 	s.p.h[2][2] += c * (v - v*v) * is
 }
 
-// addOuter adds c·(a bᵀ + b aᵀ)/2·2 when cross, c·a aᵀ otherwise.
+// addOuter adds c·a bᵀ to the Hessian.
 func (s *thresholdTermSums) addOuter(c float64, a, b [3]float64) {
 	for i := 0; i < 3; i++ {
 		for j := 0; j < 3; j++ {

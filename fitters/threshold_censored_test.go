@@ -76,16 +76,20 @@ func benchSampleData(dist Dist, n int) *Data {
 // TestThresholdCensoredNewtonAgreesWithBFGS compares the censored Newton
 // route of the weibull3 and the lognormal3 with their generic route (BFGS
 // from four starts run separately, the largest interior local maximum) on
-// seeded censored datasets: log-likelihood never below BFGS's by more than
-// 1e-9 relative, estimates within estTol relative. The route may hand a
+// seeded censored datasets (80 each, or 400 with FITSEAL_LONG=1):
+// log-likelihood never below BFGS's by more than 1e-9 relative, estimates
+// within 1e-3 relative. The Newton's logL is at or above BFGS's on every
+// dataset (up to 2e-12 relative above); the estimates agree within 1e-6
+// except where BFGS stops short along a flat ridge (heavy suspensions at
+// one time or only three exact values: the threshold, μ and σ nearly
+// confounded): 1.7e-4 for one weibull3 dataset of 80, up to 5.7e-4 for
+// three lognormal3 datasets of 400. TestThreeParameterCensoredReference
+// pins the route to mpmath maxima within 1e-7. The route may hand a
 // dataset to the BFGS runs (declined: iterates that ran to the sample
 // minimum or off to γ → −∞, or crawled along a flat ridge for 100
-// iterations), at most a fifth of them: measured 15 of 80 for the weibull3
-// and 8 of 80 for the lognormal3, all but two with only three exact values.
-// The weibull3's estTol is 5e-4: on one dataset with only three exact
-// values BFGS stops 1.7e-4 short along a flat ridge, with a log-likelihood
-// 1.5e-12 below the Newton's certified maximum; elsewhere both agree
-// within 1e-6.
+// iterations), at most a fifth of them: measured 15 of 80 (65 of 400) for
+// the weibull3 and 8 of 80 (48 of 400) for the lognormal3, nearly all with
+// only three exact values.
 func TestThresholdCensoredNewtonAgreesWithBFGS(t *testing.T) {
 	declines := func(_ *Data, fit *Fit) bool {
 		return strings.Contains(fit.Method, "the censored Newton route did not converge first")
@@ -94,8 +98,8 @@ func TestThresholdCensoredNewtonAgreesWithBFGS(t *testing.T) {
 		newtonAgreementCase
 		estTol float64
 	}{
-		{newtonAgreementCase{name: "weibull3", truths: [][]float64{{2.5, 20, 10}, {1.5, 3, -2}}, scenarios: censoredScenarios, declines: declines}, 5e-4},
-		{newtonAgreementCase{name: "lognormal3", truths: [][]float64{{2, 0.4, 5}, {0, 0.8, 100}}, scenarios: censoredScenarios, declines: declines}, 1e-5},
+		{newtonAgreementCase{name: "weibull3", truths: [][]float64{{2.5, 20, 10}, {1.5, 3, -2}}, scenarios: censoredScenarios, declines: declines}, 1e-3},
+		{newtonAgreementCase{name: "lognormal3", truths: [][]float64{{2, 0.4, 5}, {0, 0.8, 100}}, scenarios: censoredScenarios, declines: declines}, 1e-3},
 	} {
 		seeds := agreementSeeds()
 		compared, declined := agreeWithGeneric(t, c.newtonAgreementCase, seeds, c.estTol)
