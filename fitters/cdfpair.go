@@ -278,6 +278,7 @@ func (d Gamma) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
 	}
 	c := gammaPrefactorConst(a)
 	w := tailsPool.Get().(*tailsScratch)
+	w.series.reset(a)
 	for lo := 0; lo < len(x); lo += CDFTailsBlock {
 		hi := min(lo+CDFTailsBlock, len(x))
 		gammaBlock(d, c, w, x[lo:hi], cdf[lo:hi], logCDF[lo:hi], logSurvival[lo:hi])

@@ -29,6 +29,7 @@ type tailsScratch struct {
 	hazard      [3][CDFTailsBlock]float64
 	log1m       [CDFTailsBlock]float64
 	skip, upper [CDFTailsBlock]bool
+	series      gammaSeriesTerms
 }
 
 var tailsPool = sync.Pool{New: func() any { return new(tailsScratch) }}
@@ -326,7 +327,8 @@ func logLogisticBlock(d LogLogistic, w *tailsScratch, x, cdf, logCDF, logSurviva
 }
 
 // gammaBlock is Gamma.CDFTailsBatch over a block, for shapes up to
-// incGammaMaxShape, with c = gammaPrefactorConst(a): the prefactor's
+// incGammaMaxShape, with c = gammaPrefactorConst(a) and w.series reset
+// for a: the prefactor's
 // logarithm pre = ln(y^a e^(−y)/Γ(a)), y = βx (gammaPrefactorFast, its
 // ln y by one logsInto below a = 30), e^pre by one expsInto, the series or
 // the continued fraction point by point (incGammaTailsPre), the logarithms
@@ -376,7 +378,7 @@ func gammaBlock(d Gamma, c float64, w *tailsScratch, x, cdf, logCDF, logSurvival
 		}
 		yi := y[i]
 		if yi < seriesBelow {
-			s := gammaSeries(a, yi)
+			s := w.series.series(yi) // gammaSeries(a, yi)
 			if ePre[i]*s <= 0.9 {
 				g[i] = s
 				continue

@@ -59,22 +59,69 @@ func incGammaTailsPre(a, x, pre float64) (cdf, logCDF, logSurvival float64, ok b
 }
 
 // gammaSeries returns s = Σ_n x^n/(a(a+1)…(a+n)), the series of
-// P(a, x) = x^a e^(−x)/Γ(a) · s, two terms per step: the term chain is one
-// multiplication per two terms, the divisions are independent.
+// P(a, x) = x^a e^(−x)/Γ(a) · s, two terms per step: with a1 = a + 2n + 1
+// and ap = a + 2n + 2 (by repeated addition), t1 = term·(x·(1/a1)) and
+// term·(x²·(1/(a1·ap))) the next two terms. The term chain is one
+// multiplication per two terms; the reciprocals depend on a alone, so that
+// a batch takes them from a table (gammaSeriesTerms) and multiplies
+// instead of dividing twice per step, with the same bits.
 func gammaSeries(a, x float64) float64 {
 	sum, term := 1.0, 1.0
 	ap, x2 := a, x*x
-	for n := 0; n < 500; n++ {
+	for n := 0; n < gammaSeriesMaxSteps; n++ {
 		a1 := ap + 1
 		ap += 2
-		t1 := term * (x / a1)
-		term *= x2 / (a1 * ap)
+		r1, r2 := 1/a1, 1/(a1*ap)
+		t1 := term * (x * r1)
+		term *= x2 * r2
 		sum += t1 + term
 		if term < sum*0x1p-54 {
 			break
 		}
 	}
 	return sum / a
+}
+
+// gammaSeriesMaxSteps bounds the steps of gammaSeries (1000 terms; the
+// series needs O(√a) of them below a + 1 + √a/2, a ≤ incGammaMaxShape).
+const gammaSeriesMaxSteps = 500
+
+// gammaSeriesTerms holds gammaSeries' reciprocals 1/a1 and 1/(a1·ap) of
+// one shape a, step by step, filled as steps are first needed.
+type gammaSeriesTerms struct {
+	a, ap  float64 // the shape, and ap after the last step filled
+	n      int     // steps filled
+	r1, r2 [gammaSeriesMaxSteps]float64
+}
+
+// reset empties t for the shape a.
+func (t *gammaSeriesTerms) reset(a float64) { t.a, t.ap, t.n = a, a, 0 }
+
+// fill adds step t.n.
+func (t *gammaSeriesTerms) fill() {
+	a1 := t.ap + 1
+	t.ap += 2
+	t.r1[t.n], t.r2[t.n] = 1/a1, 1/(a1*t.ap)
+	t.n++
+}
+
+// series is gammaSeries(t.a, x), the same operations with the
+// reciprocals from the table.
+func (t *gammaSeriesTerms) series(x float64) float64 {
+	sum, term := 1.0, 1.0
+	x2 := x * x
+	for n := 0; n < gammaSeriesMaxSteps; n++ {
+		if n == t.n {
+			t.fill()
+		}
+		t1 := term * (x * t.r1[n])
+		term *= x2 * t.r2[n]
+		sum += t1 + term
+		if term < sum*0x1p-54 {
+			break
+		}
+	}
+	return sum / t.a
 }
 
 // log1mSmall returns ln(1 − p) for 0 ≤ p ≤ 0.9, as math.Log1p(−p) does
