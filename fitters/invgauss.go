@@ -203,10 +203,10 @@ func invgaussFast(x []float64) (mean, shape, ll float64, ok bool) {
 //
 //	1/λ̂ = mean(1/x) − 1/x̄
 //
-// cancels at most a factor F = mean(1/x)·λ̂ ≤ 256 (F ≈ 1 + λ/μ for data
+// cancels at most a factor F = mean(1/x)·λ̂ ≤ 64 (F ≈ 1 + λ/μ for data
 // drawn from the family; all-equal data give F = ∞ and fail it). Σ x is
 // within 8u relative (u = 2⁻⁵³), Σ 1/x within 16u, so 1/λ̂ is within
-// 27F·u ≤ 2⁻⁴⁰ relative; data with a larger λ/μ (tightly clustered
+// 27F·u < 2⁻⁴² relative; data with a larger λ/μ (tightly clustered
 // values) go to invgaussFast's sum of non-negative terms. At the optimum
 // ll = n(½ ln λ̂ − ln√(2π)) − 1.5 Σ ln x − n/2.
 func invgaussOnePass(x []float64) (mean, shape, ll float64, ok bool) {
@@ -218,7 +218,7 @@ func invgaussOnePass(x []float64) (mean, shape, ll float64, ok bool) {
 	m := ps.sum / n
 	mr := ps.recip / n
 	inv := mr - 1/m // 1/λ̂
-	if !(inv > 0) || mr > 256*inv {
+	if !(inv > 0) || mr > 64*inv {
 		return 0, 0, 0, false
 	}
 	shape = 1 / inv

@@ -328,3 +328,75 @@ func TestMeanSDQuickSameBits(t *testing.T) {
 		}
 	}
 }
+
+// TestOnePassAgreesAcrossShapes: the one-pass gamma and invgauss routes
+// against the routes about x̄ (gammaMLE, invgaussFast's non-negative
+// terms) on seeded samples over shapes from 0.05 to 1000 (gamma) and λ/μ
+// from 0.01 to 500 (invgauss), n from 2 to 5000: wherever the one-pass
+// route takes the data, the estimates agree within its documented
+// accuracy (2⁻⁴⁰ relative for gamma's s, 2⁻⁴² for invgauss's 1/λ̂) and
+// the log-likelihoods within n times that plus 1e-13 relative (ℓ moves by
+// about n/2 times the relative change of the shape). The route must take
+// every gamma sample with shape ≤ 50 and every invgauss sample with
+// λ/μ ≤ 10 (n ≥ 10); the test logs the largest changes.
+func TestOnePassAgreesAcrossShapes(t *testing.T) {
+	r := rand.New(rand.NewPCG(21, 4))
+	var worstK, worstG, taken int
+	var wk, wll, wg, wgll float64
+	for trial := 0; trial < 400; trial++ {
+		n := []int{2, 3, 10, 47, 100, 1000, 5000}[trial%7]
+		shape := []float64{0.05, 0.4, 2.5, 12, 50, 300, 1000}[trial%7*3%7]
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = Gamma{Shape: shape, Rate: 0.8}.Rand(r)
+		}
+		k1, b1, l1, c1, ok := gammaFast(x, Options{})
+		if !ok {
+			if shape <= 50 && n >= 10 {
+				t.Errorf("gamma shape %v n=%d: one-pass route declined (%s)", shape, n, c1.Reason)
+			}
+			continue
+		}
+		taken++
+		k0, b0, l0, _ := gammaMLE(x, Options{})
+		dk := math.Max(relTo(k1, k0), relTo(b1, b0))
+		dl := math.Abs(l1-l0) / math.Max(1, math.Abs(l0))
+		if dk > wk {
+			wk, worstK = dk, trial
+		}
+		wll = math.Max(wll, dl)
+		if dk > 0x1p-40 || math.Abs(l1-l0) > float64(n)*0x1p-40+1e-13*math.Abs(l0) {
+			t.Errorf("gamma shape %v n=%d: one pass (%v, %v, %v), about x̄ (%v, %v, %v)", shape, n, k1, b1, l1, k0, b0, l0)
+		}
+	}
+	for trial := 0; trial < 400; trial++ {
+		n := []int{2, 3, 10, 47, 100, 1000, 5000}[trial%7]
+		phi := []float64{0.01, 0.3, 2.25, 10, 50, 200, 500}[trial%7*3%7]
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = InvGauss{Mean: 4, Shape: 4 * phi}.Rand(r)
+		}
+		m1, s1, l1, ok := invgaussOnePass(x)
+		if !ok {
+			if phi <= 10 && n >= 10 {
+				t.Errorf("invgauss λ/μ %v n=%d: one-pass route declined", phi, n)
+			}
+			continue
+		}
+		m0, s0, l0, ok0 := invgaussFast(x)
+		if !ok0 {
+			continue
+		}
+		dg := math.Max(relTo(m1, m0), relTo(s1, s0))
+		dl := math.Abs(l1-l0) / math.Max(1, math.Abs(l0))
+		if dg > wg {
+			wg, worstG = dg, trial
+		}
+		wgll = math.Max(wgll, dl)
+		if dg > 0x1p-42 || math.Abs(l1-l0) > float64(n)*0x1p-42+1e-13*math.Abs(l0) {
+			t.Errorf("invgauss λ/μ %v n=%d: one pass (%v, %v, %v), two passes (%v, %v, %v)", phi, n, m1, s1, l1, m0, s0, l0)
+		}
+	}
+	t.Logf("gamma: %d of 400 by one pass; largest relative change of the estimates %.3g (trial %d), logL %.3g; invgauss: estimates %.3g (trial %d), logL %.3g",
+		taken, wk, worstK, wll, wg, worstG, wgll)
+}
