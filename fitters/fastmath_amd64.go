@@ -51,10 +51,10 @@ func (k mathKernel) String() string {
 	return [...]string{"go", "avx2", "avx512"}[k]
 }
 
-// The assembly kernels (fastmath_amd64.s) write fastLog or fastExp of
-// x[0:n] into dst[0:n] (len(dst) ≥ len(x)) and return n: len(x) rounded
-// down to the vector width (8 or 4), or the start of the first vector that
-// holds a value the scalar function treats specially. The log kernels
+// The assembly kernels (fastmath_amd64.s) write fastLog, fastExp or
+// fastLog1p of x[0:n] into dst[0:n] (len(dst) ≥ len(x)) and return n:
+// len(x) rounded down to the vector width (8 or 4), or the start of the
+// first vector that holds a value the scalar function treats specially. The log kernels
 // return s = sum + dst[0] + dst[1] + … + dst[n−1] too, added in that
 // order, if addSum is true (s = sum otherwise).
 
@@ -69,6 +69,12 @@ func expsAVX512(dst, x []float64) int
 
 //go:noescape
 func expsAVX2(dst, x []float64) int
+
+//go:noescape
+func log1psAVX512(dst, u []float64) int
+
+//go:noescape
+func log1psAVX2(dst, u []float64) int
 
 // logsInto writes fastLog(x[i]) into dst[i] (len(dst) = len(x); dst may be
 // x).
@@ -113,7 +119,9 @@ func expsInto(dst, x []float64) {
 
 // log1psInto writes fastLog1p(u[i]) into dst[i] (len(dst) = len(u); dst
 // may be u).
-func log1psInto(dst, u []float64) { log1psGeneric(dst, u) }
+func log1psInto(dst, u []float64) {
+	vectorInto(dst, u, log1psAVX512, log1psAVX2, log1psGeneric)
+}
 
 // vectorInto runs the kernel of fastmathKernel over x; where it stops (a
 // vector with a special value, or the tail shorter than a vector) the

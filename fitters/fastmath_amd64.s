@@ -58,6 +58,18 @@ CONST4(exC5, $0x3f81111111111111)
 CONST4(ex127, $0x000000000000007f)
 CONST4(exNot127, $0xffffffffffffff80)
 
+// fastLog1p (with the fastLog and fastExp constants above)
+CONST4(l1Tiny, $0x3c90000000000000)        // bits of 2^-54
+CONST4(l1Span, $0x06b0000000000000)        // bits of 2^53 − bits of 2^-54
+CONST4(l1SpanFlip, $0x86afffffffffffff)    // (span − 1) with the sign bit flipped
+CONST4(l1NegOne, $0xbff0000000000000)      // bits of −1
+CONST4(l1NegOneFlip, $0x3fefffffffffffff)  // (bits of −1) − 1 with the sign bit flipped
+CONST4(l1PolyLo, $0xbf60000000000000)      // −2^-9
+CONST4(l1PolyHi, $0x3f70000000000000)      // 2^-8
+CONST4(l1RowMask, $0x0000000000001fe0)     // 255·32
+CONST4(l1Bias1023, $0x00000000000003ff)
+CONST4(l1Bias2047, $0x00000000000007ff)
+
 // LOAD8OFFSETS loads the eight byte offsets a kernel stored at (SP) into
 // R8-R13, R15 and AX (lanes 0-7); LOAD4OFFSETS the first four.
 #define LOAD4OFFSETS \
@@ -438,6 +450,249 @@ exps2loop:
 	JMP      exps2loop
 
 exps2done:
+	MOVQ BX, ret+48(FP)
+	VZEROUPPER
+	RET
+
+// func log1psAVX512(dst, u []float64) int
+TEXT ·log1psAVX512(SB), NOSPLIT, $64-56
+	MOVQ dst_base+0(FP), DX
+	MOVQ u_base+24(FP), SI
+	MOVQ u_len+32(FP), CX
+	LEAQ ·logTableRows(SB), DI
+	ANDQ $-8, CX
+	XORQ BX, BX
+	VPBROADCASTQ l1PolyLo<>(SB), Z12
+	VPBROADCASTQ l1PolyHi<>(SB), Z13
+	VPBROADCASTQ l1Bias1023<>(SB), Z14
+	VPBROADCASTQ exAbs<>(SB), Z16
+	VPBROADCASTQ l1Tiny<>(SB), Z17
+	VPBROADCASTQ l1Span<>(SB), Z18
+	VPBROADCASTQ l1NegOne<>(SB), Z19
+	VPBROADCASTQ lgOne<>(SB), Z20
+	VPBROADCASTQ lgOff<>(SB), Z21
+	VPBROADCASTQ l1RowMask<>(SB), Z22
+	VPBROADCASTQ lgExpMask<>(SB), Z23
+	VPBROADCASTQ lgLow9<>(SB), Z24
+	VPBROADCASTQ lgLn2Hi<>(SB), Z25
+	VPBROADCASTQ lgLn2Lo<>(SB), Z26
+	VPBROADCASTQ lgP0<>(SB), Z27
+	VPBROADCASTQ lgP1<>(SB), Z28
+	VPBROADCASTQ lgP2<>(SB), Z29
+	VPBROADCASTQ lgP3<>(SB), Z30
+	VPBROADCASTQ lgP4<>(SB), Z31
+
+log1ps512loop:
+	CMPQ BX, CX
+	JGE  log1ps512done
+	VMOVUPD   (SI)(BX*8), Z0       // u
+	VPANDQ    Z16, Z0, Z1
+	VPSUBQ    Z17, Z1, Z1
+	VPCMPUQ   $5, Z18, Z1, K1      // |u| < 2^-54, |u| ≥ 2^53 or NaN
+	VPCMPUQ   $5, Z19, Z0, K2      // u ≤ −1
+	KORB      K1, K2, K1
+	KORTESTB  K1, K1
+	JNZ       log1ps512done
+	VCMPPD    $13, Z12, Z0, K2     // u ≥ −2^-9
+	VCMPPD    $1, Z13, Z0, K2, K2  // and u < 2^-8: the polynomial alone
+
+	// u + u²P(u) (the lanes of K2)
+	VMULPD    Z0, Z0, Z2           // u2
+	VMULPD    Z28, Z0, Z3
+	VADDPD    Z27, Z3, Z3          // p01 = P0 + u·P1
+	VMULPD    Z30, Z0, Z4
+	VADDPD    Z29, Z4, Z4          // P2 + u·P3
+	VMULPD    Z31, Z2, Z5
+	VADDPD    Z5, Z4, Z4           // p24
+	VMULPD    Z4, Z2, Z4
+	VADDPD    Z4, Z3, Z3           // p01 + u2·p24
+	VMULPD    Z3, Z2, Z3
+	VADDPD    Z3, Z0, Z11          // u + u2·(…)
+
+	// ln y + e/y, y = 1 + u (the other lanes)
+	VADDPD    Z20, Z0, Z1          // y = 1 + u
+	VSUBPD    Z20, Z1, Z2          // b = y − 1
+	VSUBPD    Z2, Z1, Z3
+	VSUBPD    Z3, Z20, Z3          // 1 − (y − b)
+	VSUBPD    Z2, Z0, Z4           // u − b
+	VADDPD    Z4, Z3, Z10          // e = (1 − (y − b)) + (u − b)
+	VPSUBQ    Z21, Z1, Z2          // tmp = bits(y) − logOff
+	VPSRLQ    $39, Z2, Z3
+	VPANDQ    Z22, Z3, Z3          // 32·index: the byte offset of its row
+	VMOVDQU   Y3, (SP)             // as two 256-bit stores: a 512-bit one
+	VEXTRACTI64X4 $1, Z3, 32(SP)   // does not forward to the loads below
+	VPSRAQ    $52, Z2, Z3          // k
+	VPSUBQ    Z3, Z14, Z9
+	VPSLLQ    $52, Z9, Z9          // 2^-k
+	VCVTQQ2PD Z3, Z3               // kd
+	VPANDQ    Z23, Z2, Z2
+	VPSUBQ    Z2, Z1, Z1           // zb
+	VPANDQ    Z24, Z1, Z2          // zh
+	VSUBPD    Z2, Z1, Z1           // zl = zb − zh
+	LOAD8OFFSETS
+	VMOVUPD      (DI)(R8*1), Y4
+	VINSERTF64X4 $1, (DI)(R10*1), Z4, Z4
+	VMOVUPD      (DI)(R9*1), Y5
+	VINSERTF64X4 $1, (DI)(R11*1), Z5, Z5
+	VMOVUPD      (DI)(R12*1), Y6
+	VINSERTF64X4 $1, (DI)(R15*1), Z6, Z6
+	VMOVUPD      (DI)(R13*1), Y7
+	VINSERTF64X4 $1, (DI)(AX*1), Z7, Z7
+	VUNPCKLPD    Z5, Z4, Z0
+	VUNPCKHPD    Z5, Z4, Z8
+	VUNPCKLPD    Z7, Z6, Z4
+	VUNPCKHPD    Z7, Z6, Z5
+	VSHUFF64X2   $0x88, Z4, Z0, Z6    // 1/c
+	VSHUFF64X2   $0xdd, Z4, Z0, Z7    // (ln c)lo
+	VSHUFF64X2   $0x88, Z5, Z8, Z4    // (ln c)hi
+	VMULPD    Z6, Z2, Z2
+	VSUBPD    Z20, Z2, Z2          // zh·(1/c) − 1
+	VMULPD    Z6, Z1, Z1
+	VADDPD    Z1, Z2, Z2           // r
+	VMULPD    Z9, Z6, Z9           // (1/c)·2^-k
+	VSUBPD    Z2, Z20, Z6
+	VMULPD    Z6, Z9, Z9           // inv = (1/c)·2^-k·(1 − r)
+	VMULPD    Z25, Z3, Z1
+	VADDPD    Z4, Z1, Z1           // w = kd·ln2Hi + (ln c)hi
+	VADDPD    Z2, Z1, Z0           // hi = w + r
+	VSUBPD    Z0, Z1, Z1
+	VADDPD    Z2, Z1, Z1           // lo = (w − hi) + r
+	VMULPD    Z2, Z2, Z4           // r2
+	VMULPD    Z28, Z2, Z5
+	VADDPD    Z27, Z5, Z5          // p01
+	VMULPD    Z30, Z2, Z8
+	VADDPD    Z29, Z8, Z8          // P2 + r·P3
+	VMULPD    Z31, Z4, Z6
+	VADDPD    Z6, Z8, Z8           // p24
+	VMULPD    Z8, Z4, Z8
+	VADDPD    Z8, Z5, Z5           // p = p01 + r2·p24
+	VMULPD    Z26, Z3, Z3
+	VADDPD    Z3, Z7, Z7           // (ln c)lo + kd·ln2Lo
+	VADDPD    Z1, Z7, Z7           // … + lo
+	VMULPD    Z9, Z10, Z10         // e·inv
+	VADDPD    Z10, Z7, Z7          // tail
+	VMULPD    Z5, Z4, Z4
+	VADDPD    Z4, Z7, Z7           // tail + r2·p
+	VADDPD    Z7, Z0, Z0           // hi + (tail + r2·p)
+	VBLENDMPD Z11, Z0, K2, Z0      // the polynomial's lanes from Z11
+	VMOVUPD   Z0, (DX)(BX*8)
+	ADDQ      $8, BX
+	JMP       log1ps512loop
+
+log1ps512done:
+	MOVQ BX, ret+48(FP)
+	VZEROUPPER
+	RET
+
+// func log1psAVX2(dst, u []float64) int
+TEXT ·log1psAVX2(SB), NOSPLIT, $32-56
+	MOVQ dst_base+0(FP), DX
+	MOVQ u_base+24(FP), SI
+	MOVQ u_len+32(FP), CX
+	LEAQ ·logTableRows(SB), DI
+	ANDQ $-4, CX
+	XORQ BX, BX
+	VMOVDQU lgOne<>(SB), Y9
+
+log1ps2loop:
+	CMPQ BX, CX
+	JGE  log1ps2done
+	VMOVUPD  (SI)(BX*8), Y0           // u
+	VPAND    exAbs<>(SB), Y0, Y1
+	VPSUBQ   l1Tiny<>(SB), Y1, Y1
+	VPXOR    lgSign<>(SB), Y1, Y1
+	VPCMPGTQ l1SpanFlip<>(SB), Y1, Y1  // |u| < 2^-54, |u| ≥ 2^53 or NaN
+	VPXOR    lgSign<>(SB), Y0, Y2
+	VPCMPGTQ l1NegOneFlip<>(SB), Y2, Y2 // u ≤ −1
+	VPOR     Y2, Y1, Y1
+	VPTEST   Y1, Y1
+	JNZ      log1ps2done
+
+	// u + u²P(u)
+	VMULPD   Y0, Y0, Y1               // u2
+	VMULPD   lgP1<>(SB), Y0, Y2
+	VADDPD   lgP0<>(SB), Y2, Y2       // p01
+	VMULPD   lgP3<>(SB), Y0, Y3
+	VADDPD   lgP2<>(SB), Y3, Y3       // P2 + u·P3
+	VMULPD   lgP4<>(SB), Y1, Y4
+	VADDPD   Y4, Y3, Y3               // p24
+	VMULPD   Y3, Y1, Y3
+	VADDPD   Y3, Y2, Y2               // p01 + u2·p24
+	VMULPD   Y2, Y1, Y2
+	VADDPD   Y2, Y0, Y13              // u + u2·(…)
+
+	// ln y + e/y, y = 1 + u
+	VADDPD   Y9, Y0, Y1               // y = 1 + u
+	VSUBPD   Y9, Y1, Y2               // b = y − 1
+	VSUBPD   Y2, Y1, Y3
+	VSUBPD   Y3, Y9, Y3               // 1 − (y − b)
+	VSUBPD   Y2, Y0, Y4               // u − b
+	VADDPD   Y4, Y3, Y12              // e
+	VPSUBQ   lgOff<>(SB), Y1, Y2      // tmp = bits(y) − logOff
+	VPSRLQ   $39, Y2, Y3
+	VPAND    l1RowMask<>(SB), Y3, Y3  // 32·index: the byte offset of its row
+	VMOVDQU  Y3, (SP)
+	VPADDQ   lgKBias<>(SB), Y2, Y3
+	VPSRLQ   $52, Y3, Y3              // k + 1024
+	VMOVDQU  l1Bias2047<>(SB), Y4
+	VPSUBQ   Y3, Y4, Y4               // 1023 − k
+	VPSLLQ   $52, Y4, Y11             // 2^-k
+	VPOR     lgMagic<>(SB), Y3, Y3
+	VSUBPD   lgMagicK<>(SB), Y3, Y3   // kd, exact
+	VPAND    lgExpMask<>(SB), Y2, Y2
+	VPSUBQ   Y2, Y1, Y1               // zb
+	VPAND    lgLow9<>(SB), Y1, Y2     // zh
+	VSUBPD   Y2, Y1, Y1               // zl
+	LOAD4OFFSETS
+	VMOVUPD     (DI)(R8*1), X4
+	VINSERTF128 $1, (DI)(R10*1), Y4, Y4
+	VMOVUPD     (DI)(R9*1), X5
+	VINSERTF128 $1, (DI)(R11*1), Y5, Y5
+	VUNPCKLPD   Y5, Y4, Y6            // 1/c
+	VUNPCKHPD   Y5, Y4, Y7            // (ln c)hi
+	VMOVUPD     16(DI)(R8*1), X4
+	VINSERTF128 $1, 16(DI)(R10*1), Y4, Y4
+	VMOVUPD     16(DI)(R9*1), X5
+	VINSERTF128 $1, 16(DI)(R11*1), Y5, Y5
+	VUNPCKLPD   Y5, Y4, Y8            // (ln c)lo
+	VMULPD   Y6, Y11, Y11             // (1/c)·2^-k
+	VMULPD   Y6, Y2, Y2
+	VSUBPD   Y9, Y2, Y2               // zh·(1/c) − 1
+	VMULPD   Y6, Y1, Y1
+	VADDPD   Y1, Y2, Y2               // r
+	VSUBPD   Y2, Y9, Y6
+	VMULPD   Y6, Y11, Y11             // inv
+	VMULPD   lgLn2Hi<>(SB), Y3, Y1
+	VADDPD   Y7, Y1, Y1               // w
+	VADDPD   Y2, Y1, Y4               // hi
+	VSUBPD   Y4, Y1, Y1
+	VADDPD   Y2, Y1, Y1               // lo
+	VMULPD   Y2, Y2, Y5               // r2
+	VMULPD   lgP1<>(SB), Y2, Y6
+	VADDPD   lgP0<>(SB), Y6, Y6       // p01
+	VMULPD   lgP3<>(SB), Y2, Y7
+	VADDPD   lgP2<>(SB), Y7, Y7       // P2 + r·P3
+	VMULPD   lgP4<>(SB), Y5, Y10
+	VADDPD   Y10, Y7, Y7              // p24
+	VMULPD   Y7, Y5, Y7
+	VADDPD   Y7, Y6, Y6               // p
+	VMULPD   lgLn2Lo<>(SB), Y3, Y3
+	VADDPD   Y3, Y8, Y8               // (ln c)lo + kd·ln2Lo
+	VADDPD   Y1, Y8, Y8               // … + lo
+	VMULPD   Y11, Y12, Y12            // e·inv
+	VADDPD   Y12, Y8, Y8              // tail
+	VMULPD   Y6, Y5, Y5
+	VADDPD   Y5, Y8, Y8               // tail + r2·p
+	VADDPD   Y8, Y4, Y4               // hi + (tail + r2·p)
+	VCMPPD   $13, l1PolyLo<>(SB), Y0, Y1 // u ≥ −2^-9
+	VCMPPD   $1, l1PolyHi<>(SB), Y0, Y2  // u < 2^-8
+	VPAND    Y2, Y1, Y1
+	VBLENDVPD Y1, Y13, Y4, Y4         // the polynomial's lanes from Y13
+	VMOVUPD  Y4, (DX)(BX*8)
+	ADDQ     $4, BX
+	JMP      log1ps2loop
+
+log1ps2done:
 	MOVQ BX, ret+48(FP)
 	VZEROUPPER
 	RET

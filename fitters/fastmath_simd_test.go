@@ -463,6 +463,11 @@ func TestFastmathAsmConstants(t *testing.T) {
 		"exLn2NHi": math.Float64bits(ln2NHi), "exLn2NLo": math.Float64bits(ln2NLo),
 		"exC2": math.Float64bits(expC2), "exC3": math.Float64bits(expC3), "exC4": math.Float64bits(expC4),
 		"exC5": math.Float64bits(expC5), "ex127": 127, "exNot127": ^uint64(127),
+		"l1Tiny": math.Float64bits(0x1p-54), "l1Span": math.Float64bits(0x1p53) - math.Float64bits(0x1p-54),
+		"l1SpanFlip": (math.Float64bits(0x1p53) - math.Float64bits(0x1p-54) - 1) ^ 1<<63,
+		"l1NegOne":   math.Float64bits(-1), "l1NegOneFlip": (math.Float64bits(-1) - 1) ^ 1<<63,
+		"l1PolyLo": math.Float64bits(-0x1p-9), "l1PolyHi": math.Float64bits(0x1p-8),
+		"l1RowMask": 255 << 5, "l1Bias1023": 1023, "l1Bias2047": 2047,
 	}
 	if math.Float64frombits(want["exBound"]) != 702 {
 		t.Fatalf("exBound is not 702")
