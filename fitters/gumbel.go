@@ -151,14 +151,10 @@ func gumbelMLE(x []float64, opt Options) (location, scale, ll float64, conv Conv
 				wb[i] = v * ib
 			}
 			fastExps(wb, wb)
-			for i, v := range eb {
-				w := wb[i]
-				sw += w
-				c := v - me
-				wc := w * c
-				swc += wc
-				swcc += wc * c
-			}
+			a, b, c := blockTiltedSums(eb, wb, me)
+			sw += a
+			swc += b
+			swcc += c
 		}
 		mc := swc / sw
 		dgLast = (swcc/sw-mc*mc)/(b*b) + 1
@@ -227,4 +223,38 @@ func (f gumbelFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	toNatural := func(t []float64) []float64 { return []float64{m0 + s0*t[0], s0 * math.Exp(t[1])} }
 	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (location, log scale)")
 	return fit, nil
+}
+
+// blockTiltedSums returns Σw, Σwc and Σwc² over a block, c = e − me, in
+// four interleaved partial sums each (the additions of one sum overlap
+// instead of waiting on each other), added as ((s₀+s₁)+(s₂+s₃)).
+func blockTiltedSums(e, w []float64, me float64) (sw, swc, swcc float64) {
+	var a0, a1, a2, a3, b0, b1, b2, b3, c0, c1, c2, c3 float64
+	w = w[:len(e)]
+	i := 0
+	for ; i+4 <= len(e); i += 4 {
+		ev, wv := e[i:i+4:i+4], w[i:i+4:i+4]
+		d0, d1, d2, d3 := ev[0]-me, ev[1]-me, ev[2]-me, ev[3]-me
+		q0, q1, q2, q3 := wv[0]*d0, wv[1]*d1, wv[2]*d2, wv[3]*d3
+		a0 += wv[0]
+		a1 += wv[1]
+		a2 += wv[2]
+		a3 += wv[3]
+		b0 += q0
+		b1 += q1
+		b2 += q2
+		b3 += q3
+		c0 += q0 * d0
+		c1 += q1 * d1
+		c2 += q2 * d2
+		c3 += q3 * d3
+	}
+	for ; i < len(e); i++ {
+		d := e[i] - me
+		q := w[i] * d
+		a0 += w[i]
+		b0 += q
+		c0 += q * d
+	}
+	return (a0 + a1) + (a2 + a3), (b0 + b1) + (b2 + b3), (c0 + c1) + (c2 + c3)
 }
