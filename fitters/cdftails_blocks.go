@@ -28,6 +28,8 @@ type tailsScratch struct {
 	v           [6][CDFTailsBlock]float64
 	hazard      [3][CDFTailsBlock]float64
 	log1m       [CDFTailsBlock]float64
+	ratio       [2][CDFTailsBlock]float64
+	class       [CDFTailsBlock]uint8
 	skip, upper [CDFTailsBlock]bool
 	series      gammaSeriesTerms
 }
@@ -91,6 +93,45 @@ func spanOf(lo, hi, i int) (int, int) {
 		return i, i + 1
 	}
 	return min(lo, i), max(hi, i+1)
+}
+
+// lnRatios sets dst[i] = lnRatioFast(x[i], s) for len(x) ≤ CDFTailsBlock
+// (dst may not be x): the quotients r = x/s first; ln(1 + (x − s)/s) of
+// those in (½, 2) by one log1psInto and ln r of those in (1e−300, 1e300)
+// by one logsInto, each over the span of indices that holds its kind (in
+// a sorted block, a run of neighbours); ln x − ln s for the rest.
+func lnRatios(w *tailsScratch, dst, x []float64, s float64) {
+	n := len(x)
+	r, u, class := &w.ratio[0], &w.ratio[1], &w.class
+	const near, ordinary, extreme = 0, 1, 2
+	mlo, mhi, olo, ohi := 0, 0, 0, 0
+	for i, v := range x {
+		ri := v / s
+		r[i], u[i] = ri, 0
+		switch {
+		case ri > 0.5 && ri < 2:
+			u[i] = (v - s) / s
+			class[i] = near
+			mlo, mhi = spanOf(mlo, mhi, i)
+		case ri > 1e-300 && ri < 1e300:
+			class[i] = ordinary
+			olo, ohi = spanOf(olo, ohi, i)
+		default:
+			class[i] = extreme
+		}
+	}
+	log1psInto(u[mlo:mhi], u[mlo:mhi])
+	logsInto(r[olo:ohi], r[olo:ohi])
+	for i := range n {
+		switch class[i] {
+		case near:
+			dst[i] = u[i]
+		case ordinary:
+			dst[i] = r[i]
+		default:
+			dst[i] = fastLog(x[i]) - fastLog(s)
+		}
+	}
 }
 
 // log1mSmalls sets dst[i] = log1mSmall(p[i]) for p[i] ≤ 0.9 (len(dst) =
@@ -174,19 +215,19 @@ func hazardBlock(w *tailsScratch, t, lt []float64, cdf, logCDF, logSurvival []fl
 	}
 }
 
-// weibullBlock is Weibull.CDFTails over a block: k ln(x/λ) point by point
-// (lnRatioFast), t = e^(k ln(x/λ)) in one expsInto, then hazardBlock
+// weibullBlock is Weibull.CDFTails over a block: k ln(x/λ) (lnRatios), t = e^(k ln(x/λ)) in one expsInto, then hazardBlock
 // (logHazardTails).
 func weibullBlock(d Weibull, w *tailsScratch, x, cdf, logCDF, logSurvival []float64) {
 	n := len(x)
 	lt, t, skip := &w.v[0], &w.v[1], &w.skip
+	lnRatios(w, lt[:n], x, d.Scale)
 	for i, v := range x {
 		skip[i] = false
 		if !(v > 0) {
 			lt[i] = 0
 			continue
 		}
-		lt[i] = d.Shape * lnRatioFast(v, d.Scale)
+		lt[i] *= d.Shape
 	}
 	expsInto(t[:n], lt[:n])
 	for i, v := range x {
@@ -309,13 +350,15 @@ func logisticDistBlock(d Logistic, w *tailsScratch, x, cdf, logCDF, logSurvival 
 }
 
 // logLogisticBlock is LogLogistic.CDFTails over a block: z = β ln(x/α)
-// point by point (lnRatioFast), then logisticBlock.
+// (lnRatios), then logisticBlock.
 func logLogisticBlock(d LogLogistic, w *tailsScratch, x, cdf, logCDF, logSurvival []float64) {
 	z := &w.v[0]
+	lnRatios(w, z[:len(x)], x, d.Scale)
 	for i, v := range x {
-		z[i] = 0
 		if v > 0 {
-			z[i] = d.Shape * lnRatioFast(v, d.Scale)
+			z[i] *= d.Shape
+		} else {
+			z[i] = 0
 		}
 	}
 	logisticBlock(w, z[:len(x)], cdf, logCDF, logSurvival)
