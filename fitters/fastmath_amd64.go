@@ -4,7 +4,7 @@ package fitters
 
 import "golang.org/x/sys/cpu"
 
-// mathKernel names a set of kernels for fastLogs and fastExps.
+// mathKernel names a set of kernels for fastLogs, fastExps and fastLog1ps.
 type mathKernel int
 
 const (
@@ -13,9 +13,9 @@ const (
 	kernelAVX512                   // 8 lanes, fastmath_amd64.s
 )
 
-// fastmathKernel is the kernel set logsInto and expsInto use: the widest
-// the processor (and its operating system) supports. Tests switch it
-// through useKernel.
+// fastmathKernel is the kernel set logsInto, expsInto and log1psInto use:
+// the widest the processor (and its operating system) supports. Tests
+// switch it through useKernel.
 var fastmathKernel = bestKernel()
 
 // bestKernel is AVX-512 with F and DQ (VCVTQQ2PD, KXNORB), else AVX2, else
@@ -39,8 +39,9 @@ func availableKernels() []mathKernel {
 	return ks
 }
 
-// useKernel makes logsInto and expsInto use k and returns the function that
-// restores the previous choice (tests only; not safe while others run).
+// useKernel makes the batch functions use k and returns the function that
+// restores the previous choice (tests and benchmarks only; not safe while
+// other goroutines call them).
 func useKernel(k mathKernel) (restore func()) {
 	old := fastmathKernel
 	fastmathKernel = k
@@ -54,9 +55,9 @@ func (k mathKernel) String() string {
 // The assembly kernels (fastmath_amd64.s) write fastLog, fastExp or
 // fastLog1p of x[0:n] into dst[0:n] (len(dst) ≥ len(x)) and return n:
 // len(x) rounded down to the vector width (8 or 4), or the start of the
-// first vector that holds a value the scalar function treats specially. The log kernels
-// return s = sum + dst[0] + dst[1] + … + dst[n−1] too, added in that
-// order, if addSum is true (s = sum otherwise).
+// first vector that holds a value the scalar function treats specially.
+// The log kernels return s = sum + dst[0] + dst[1] + … + dst[n−1] too,
+// added in that order, if addSum is true (s = sum otherwise).
 
 //go:noescape
 func logsAVX512(dst, x []float64, sum float64, addSum bool) (n int, s float64)

@@ -18,8 +18,8 @@ func expsInto(dst, x []float64) { expsGeneric(dst, x) }
 // pure-Go loop.
 func log1psInto(dst, u []float64) { log1psGeneric(dst, u) }
 
-// mathKernel names a set of kernels for fastLogs and fastExps: here only
-// the pure-Go loops.
+// mathKernel names a set of kernels for fastLogs, fastExps and fastLog1ps:
+// here only the pure-Go loops.
 type mathKernel int
 
 const kernelGo mathKernel = 0
