@@ -32,14 +32,10 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 	// The other families of the batch workload: their CDFTails by a
 	// direct call, which the compiler may inline.
 	case Normal:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case LogNormal:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case Exponential:
 		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
@@ -64,14 +60,10 @@ func CDFTailsBatch(d Dist, x, cdf, logCDF, logSurvival []float64) {
 		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case *Normal:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case *LogNormal:
-		for i, v := range x {
-			cdf[i], logCDF[i], logSurvival[i] = d.CDFTails(v)
-		}
+		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)
 		return
 	case *Exponential:
 		d.CDFTailsBatch(x, cdf, logCDF, logSurvival)

@@ -461,3 +461,94 @@ func gammaBlock(d Gamma, c float64, w *tailsScratch, x, cdf, logCDF, logSurvival
 		}
 	}
 }
+
+// CDFTailsBatch is CDFTails over x in blocks of stages: normalBlock.
+func (d Normal) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
+	w := tailsPool.Get().(*tailsScratch)
+	for lo := 0; lo < len(x); lo += CDFTailsBlock {
+		hi := min(lo+CDFTailsBlock, len(x))
+		z := w.v[0][:hi-lo]
+		for i, v := range x[lo:hi] {
+			z[i] = (v - d.Mu) / d.Sigma
+		}
+		normalBlock(w, z, cdf[lo:hi], logCDF[lo:hi], logSurvival[lo:hi])
+	}
+	tailsPool.Put(w)
+}
+
+// CDFTailsBatch is CDFTails over x in blocks of stages: the logarithms of
+// x by one logsInto, then normalBlock.
+func (d LogNormal) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
+	w := tailsPool.Get().(*tailsScratch)
+	for lo := 0; lo < len(x); lo += CDFTailsBlock {
+		hi := min(lo+CDFTailsBlock, len(x))
+		z := w.v[0][:hi-lo]
+		logsInto(z, x[lo:hi])
+		for i := range z {
+			z[i] = (z[i] - d.Mu) / d.Sigma
+		}
+		f, lf, ls := cdf[lo:hi], logCDF[lo:hi], logSurvival[lo:hi]
+		normalBlock(w, z, f, lf, ls)
+		for i, v := range x[lo:hi] {
+			if !(v > 0) {
+				f[i], lf[i], ls[i] = belowSupport()
+			}
+		}
+	}
+	tailsPool.Put(w)
+}
+
+// normalBlock is normalTails over a block of z (in w.v[0] or elsewhere,
+// not in w.v[1…3]): the smaller tail q = erfc(|z|/√2)/2 point by point,
+// ln q by one logsInto over the points that have it from erfc (|z| < 37;
+// beyond, normalSmallTail's continued fraction), and the other tail's
+// logarithm by log1mSmalls.
+func normalBlock(w *tailsScratch, z, cdf, logCDF, logSurvival []float64) {
+	n := len(z)
+	q, lq, l := &w.v[1], &w.v[2], &w.v[3]
+	class := &w.class
+	const viaErfc, far, notANumber = 0, 1, 2
+	lo, hi := 0, 0
+	for i, zi := range z {
+		t := zi
+		if zi <= 0 {
+			t = -zi
+		}
+		switch {
+		case math.IsNaN(zi):
+			class[i], q[i] = notANumber, 0
+		case t < 37:
+			class[i] = viaErfc
+			q[i] = 0.5 * math.Erfc(t/sqrt2)
+			lo, hi = spanOf(lo, hi, i)
+		default:
+			class[i] = far
+			lq[i] = logNormalCDF(-t)
+			q[i] = fastExp(lq[i])
+		}
+	}
+	for i := lo; i < hi; i++ {
+		if class[i] == viaErfc {
+			l[i] = q[i]
+		} else {
+			l[i] = 1 // a valid argument whose result is not used
+		}
+	}
+	logsInto(l[lo:hi], l[lo:hi])
+	for i := lo; i < hi; i++ {
+		if class[i] == viaErfc {
+			lq[i] = l[i]
+		}
+	}
+	log1mSmalls(w, l[:n], q[:n])
+	for i, zi := range z {
+		switch {
+		case class[i] == notANumber:
+			cdf[i], logCDF[i], logSurvival[i] = zi, zi, zi
+		case zi <= 0:
+			cdf[i], logCDF[i], logSurvival[i] = q[i], lq[i], l[i]
+		default:
+			cdf[i], logCDF[i], logSurvival[i] = 1-q[i], l[i], lq[i]
+		}
+	}
+}
