@@ -131,7 +131,8 @@ const (
 // derivatives, from one exponential per value: with e = e^(−|z|),
 // q = 1/(1 + e), t = sign(z)(1 − e)q = tanh(z/2) and h = eq² = f₀(z),
 // g′ = −t, g″ = −2h and g‴ = 2ht. Σ ln(1 + e) is summed as the log of
-// products of up to 512 factors (as sumLogSmall), not as a log per value.
+// products of up to 512 factors (as sumLogSmall, in four interleaved
+// products: productOnePlus), not as a log per value.
 // work holds the exponentials of one block of v: its length is a whole
 // multiple of logProductChunk, or at least len(v).
 func logisticSums(v, work []float64, a, b float64) locScalePoint {
@@ -151,7 +152,7 @@ func logisticSums(v, work []float64, a, b float64) locScalePoint {
 		for start := 0; start < len(vb); start += logProductChunk {
 			end := min(start+logProductChunk, len(vb))
 			es := wb[start:end]
-			p := 1.0
+			slog += math.Log(productOnePlus(es))
 			for i, x := range vb[start:end] {
 				e := es[i]
 				z := b*x - a
@@ -171,9 +172,7 @@ func logisticSums(v, work []float64, a, b float64) locScalePoint {
 				sux += hx * t
 				suxx += hxx * t
 				suxxx += hxx * x * t
-				p *= y
 			}
-			slog += math.Log(p)
 		}
 	}
 	n := float64(len(v))
@@ -274,4 +273,24 @@ func (f logisticFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	toNatural := func(t []float64) []float64 { return []float64{m0 + s0*t[0], s0 * math.Exp(t[1])} }
 	fitByMinimize(fit, f, d, opt, toNatural, starts, "BFGS on (location, log scale)")
 	return fit, nil
+}
+
+// productOnePlus returns Π(1 + eᵢ) for eᵢ ∈ [0, 1] (at most
+// logProductChunk factors, so the product stays below 2^512), in four
+// interleaved partial products, ((p₀p₁)(p₂p₃)): the multiplications of
+// one product overlap instead of waiting on each other.
+func productOnePlus(e []float64) float64 {
+	p0, p1, p2, p3 := 1.0, 1.0, 1.0, 1.0
+	i := 0
+	for ; i+4 <= len(e); i += 4 {
+		v := e[i : i+4 : i+4]
+		p0 *= 1 + v[0]
+		p1 *= 1 + v[1]
+		p2 *= 1 + v[2]
+		p3 *= 1 + v[3]
+	}
+	for ; i < len(e); i++ {
+		p0 *= 1 + e[i]
+	}
+	return (p0 * p1) * (p2 * p3)
 }
