@@ -120,3 +120,58 @@ func libExp(x float64) float64 {
 	// |x| ≤ 700: 2^k is a normal number.
 	return float64(y * math.Float64frombits(uint64(int64(k)+1023)<<52))
 }
+
+// libExp2 is libExp at x and at y, the two evaluations written side by
+// side (each is one long chain of dependent operations; two independent
+// chains interleaved keep the processor busy in each other's waits).
+func libExp2(x, y float64) (float64, float64) {
+	const (
+		log2e = 1.4426950408889634073599246810018920
+		ln2U  = 0.69314718055966295651160180568695068359375
+		ln2L  = 0.28235290563031577122588448175013436025525412068e-12
+		c2    = 0.5
+		c3    = 1.6666666666666666667e-1
+		c4    = 4.1666666666666666667e-2
+		c5    = 8.3333333333333333333e-3
+		c6    = 1.3888888888888888889e-3
+		c7    = 1.9841269841269841270e-4
+		c8    = 2.4801587301587301587e-5
+	)
+	if !(math.Abs(x) <= 700) || !(math.Abs(y) <= 700) || !libUseFMA {
+		return libExp(x), libExp(y)
+	}
+	k := math.RoundToEven(float64(log2e * x))
+	l := math.RoundToEven(float64(log2e * y))
+	u := math.FMA(-k, ln2U, x)
+	v := math.FMA(-l, ln2U, y)
+	u = math.FMA(-k, ln2L, u)
+	v = math.FMA(-l, ln2L, v)
+	u = float64(u * 0.0625)
+	v = float64(v * 0.0625)
+	p := math.FMA(c8, u, c7)
+	q := math.FMA(c8, v, c7)
+	p = math.FMA(p, u, c6)
+	q = math.FMA(q, v, c6)
+	p = math.FMA(p, u, c5)
+	q = math.FMA(q, v, c5)
+	p = math.FMA(p, u, c4)
+	q = math.FMA(q, v, c4)
+	p = math.FMA(p, u, c3)
+	q = math.FMA(q, v, c3)
+	p = math.FMA(p, u, c2)
+	q = math.FMA(q, v, c2)
+	p = math.FMA(p, u, 1)
+	q = math.FMA(q, v, 1)
+	u = float64(u * p)
+	v = float64(v * q)
+	u = float64(u * (u + 2))
+	v = float64(v * (v + 2))
+	u = float64(u * (u + 2))
+	v = float64(v * (v + 2))
+	u = float64(u * (u + 2))
+	v = float64(v * (v + 2))
+	u = math.FMA(u, u+2, 1)
+	v = math.FMA(v, v+2, 1)
+	return float64(u * math.Float64frombits(uint64(int64(k)+1023)<<52)),
+		float64(v * math.Float64frombits(uint64(int64(l)+1023)<<52))
+}

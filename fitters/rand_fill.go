@@ -58,8 +58,24 @@ func (d Weibull) fill(r *rand.Rand, dst []float64) bool {
 	for i := range dst {
 		dst[i] = r.ExpFloat64()
 	}
-	for i, e := range dst {
-		dst[i] = d.Scale * p.pow(e)
+	i := 0
+	if p.yf != 0 {
+		// Two powers at a time where both are ordinary: their
+		// exponentials side by side (libExp2).
+		for ; i+1 < len(dst); i += 2 {
+			x, y := dst[i], dst[i+1]
+			if !p.ordinary(x) || !p.ordinary(y) {
+				dst[i] = d.Scale * p.pow(x)
+				dst[i+1] = d.Scale * p.pow(y)
+				continue
+			}
+			ex, ey := libExp2(p.yf*libLog(x), p.yf*libLog(y))
+			dst[i] = d.Scale * p.finish(x, ex)
+			dst[i+1] = d.Scale * p.finish(y, ey)
+		}
+	}
+	for ; i < len(dst); i++ {
+		dst[i] = d.Scale * p.pow(dst[i])
 	}
 	return true
 }
@@ -87,15 +103,27 @@ func newPowFixed(y float64) (powFixed, bool) {
 
 // pow is math.Pow(x, p.y), for any x.
 func (p powFixed) pow(x float64) float64 {
-	const smallestNormal = 0x1p-1022
-	if !(x >= smallestNormal) || x == 1 || x > math.MaxFloat64 {
+	if !p.ordinary(x) {
 		return math.Pow(x, p.y) // 0, subnormal, 1, negative, infinite or NaN
 	}
 	a1 := 1.0
-	ae := 0
 	if p.yf != 0 {
 		a1 = libExp(p.yf * libLog(x)) // math.Exp and math.Log, inlined
 	}
+	return p.finish(x, a1)
+}
+
+// ordinary says x is none of math.Pow's special cases for x: a normal
+// number > 0 other than 1 (pow takes its general steps).
+func (powFixed) ordinary(x float64) bool {
+	const smallestNormal = 0x1p-1022
+	return x >= smallestNormal && x != 1 && x <= math.MaxFloat64
+}
+
+// finish is pow(x) for an ordinary x given a1 = e^(yf·ln x) (1 where
+// yf = 0): a1 times x^yi by repeated squaring, as math.Pow.
+func (p powFixed) finish(x, a1 float64) float64 {
+	ae := 0
 	if p.yi == 0 {
 		return a1 // math.Ldexp(a1, 0) is a1 itself
 	}
