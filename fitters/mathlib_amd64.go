@@ -175,3 +175,50 @@ func libExp2(x, y float64) (float64, float64) {
 	return float64(u * math.Float64frombits(uint64(int64(k)+1023)<<52)),
 		float64(v * math.Float64frombits(uint64(int64(l)+1023)<<52))
 }
+
+// libLog2 is libLog at x and at y, written side by side as libExp2.
+func libLog2(x, y float64) (float64, float64) {
+	const (
+		hSqrt2 = 7.07106781186547524401e-01
+		ln2Hi  = 6.93147180369123816490e-01
+		ln2Lo  = 1.90821492927058770002e-10
+		l1     = 6.666666666666735130e-01
+		l2     = 3.999999999940941908e-01
+		l3     = 2.857142874366239149e-01
+		l4     = 2.222219843214978396e-01
+		l5     = 1.818357216161805012e-01
+		l6     = 1.531383769920937332e-01
+		l7     = 1.479819860511658591e-01
+	)
+	bx, by := math.Float64bits(x), math.Float64bits(y)
+	if bx&^(1<<63) == 0 || int64(bx) < 0 || bx >= 0x7ff0000000000000 ||
+		by&^(1<<63) == 0 || int64(by) < 0 || by >= 0x7ff0000000000000 {
+		return libLog(x), libLog(y)
+	}
+	fx := math.Float64frombits(bx&0x000fffffffffffff | 0x3fe0000000000000)
+	fy := math.Float64frombits(by&0x000fffffffffffff | 0x3fe0000000000000)
+	kx := float64(int32(bx>>52&0x7ff) - 0x3fe)
+	ky := float64(int32(by>>52&0x7ff) - 0x3fe)
+	if !(hSqrt2 < fx) {
+		kx--
+		fx *= 2
+	}
+	if !(hSqrt2 < fy) {
+		ky--
+		fy *= 2
+	}
+	fx--
+	fy--
+	sx, sy := fx/(2+fx), fy/(2+fy)
+	sx2, sy2 := float64(sx*sx), float64(sy*sy)
+	sx4, sy4 := float64(sx2*sx2), float64(sy2*sy2)
+	tx1 := float64(sx2 * (l1 + float64(sx4*(l3+float64(sx4*(l5+float64(sx4*l7)))))))
+	ty1 := float64(sy2 * (l1 + float64(sy4*(l3+float64(sy4*(l5+float64(sy4*l7)))))))
+	tx2 := float64(sx4 * (l2 + float64(sx4*(l4+float64(sx4*l6)))))
+	ty2 := float64(sy4 * (l2 + float64(sy4*(l4+float64(sy4*l6)))))
+	rx, ry := tx1+tx2, ty1+ty2
+	hx := float64(float64(0.5*fx) * fx)
+	hy := float64(float64(0.5*fy) * fy)
+	return float64(kx*ln2Hi) - ((hx - (float64(sx*(hx+rx)) + float64(kx*ln2Lo))) - fx),
+		float64(ky*ln2Hi) - ((hy - (float64(sy*(hy+ry)) + float64(ky*ln2Lo))) - fy)
+}

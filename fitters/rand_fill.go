@@ -60,8 +60,8 @@ func (d Weibull) fill(r *rand.Rand, dst []float64) bool {
 	}
 	i := 0
 	if p.yf != 0 {
-		// Two powers at a time where both are ordinary: their
-		// exponentials side by side (libExp2).
+		// Two powers at a time where both are ordinary: their logarithms
+		// and exponentials side by side (libLog2, libExp2).
 		for ; i+1 < len(dst); i += 2 {
 			x, y := dst[i], dst[i+1]
 			if !p.ordinary(x) || !p.ordinary(y) {
@@ -69,7 +69,8 @@ func (d Weibull) fill(r *rand.Rand, dst []float64) bool {
 				dst[i+1] = d.Scale * p.pow(y)
 				continue
 			}
-			ex, ey := libExp2(p.yf*libLog(x), p.yf*libLog(y))
+			lx, ly := libLog2(x, y)
+			ex, ey := libExp2(p.yf*lx, p.yf*ly)
 			dst[i] = d.Scale * p.finish(x, ex)
 			dst[i+1] = d.Scale * p.finish(y, ey)
 		}
