@@ -87,21 +87,12 @@ func censoredNewton2(eval newton2Eval, t0, t1, tol float64, maxIter int) newton2
 		d0 := (a11*p.g0 - a01*p.g1) / det
 		d1 := (a00*p.g1 - a01*p.g0) / det
 		decrement := p.g0*d0 + p.g1*d1
-		scale := math.Max(1, math.Abs(p.ll))
-		if pd && decrement <= eps*scale {
-			res.converged = true
+		done, fullStep, converged, reason := newtonStopTest(pd, decrement, p.ll, eps, &quiet)
+		if done {
+			res.converged, res.reason = converged, reason
 			break
 		}
-		if pd && decrement <= 1e-12*scale {
-			quiet++
-			if quiet > 5 {
-				if decrement <= 1e-16*scale {
-					res.converged = true
-				} else {
-					res.reason = fmt.Sprintf("the Newton decrement stalled at %.3g (rounding of the log-likelihood)", decrement)
-				}
-				break
-			}
+		if fullStep {
 			np := eval(t0+d0, t1+d1)
 			res.evaluations++
 			if !finite(np.ll) {
@@ -311,4 +302,30 @@ func positiveMoments(d *Data) (mean, variance, meanInv float64) {
 	}
 	mean = sum / n
 	return mean, math.Max(0, sumSq/n-mean*mean), sumInv / n
+}
+
+// newtonStopTest is the stopping rule of the modified Newton methods
+// (censoredNewton2, censoredNewton3) at an iterate with log-likelihood ll,
+// Newton decrement λ² = ∇ℓᵀ(−H)⁻¹∇ℓ and pd telling whether −H itself was
+// positive definite: done, converged, when λ² ≤ eps·max(1, |ℓ|) with pd
+// (a certified local maximum); near it, once λ² ≤ 10⁻¹²·max(1, |ℓ|),
+// fullStep asks for a full step without the increase test (rounding hides
+// the last gains), at most five times (counted in quiet), after which it
+// is done, converged only if λ² ≤ 10⁻¹⁶·max(1, |ℓ|), else with the reason.
+func newtonStopTest(pd bool, decrement, ll, eps float64, quiet *int) (done, fullStep, converged bool, reason string) {
+	scale := math.Max(1, math.Abs(ll))
+	switch {
+	case !pd || decrement > 1e-12*scale && decrement > eps*scale:
+		return false, false, false, ""
+	case decrement <= eps*scale:
+		return true, false, true, ""
+	}
+	*quiet++
+	if *quiet <= 5 {
+		return false, true, false, ""
+	}
+	if decrement <= 1e-16*scale {
+		return true, false, true, ""
+	}
+	return true, false, false, fmt.Sprintf("the Newton decrement stalled at %.3g (rounding of the log-likelihood)", decrement)
 }

@@ -161,21 +161,12 @@ func censoredNewton3(eval func(theta [3]float64) newton3Point, theta [3]float64,
 			res.reason = "no positive definite modification of the Hessian"
 			break
 		}
-		scale := math.Max(1, math.Abs(p.ll))
-		if pd && decrement <= eps*scale {
-			res.converged = true
+		done, fullStep, converged, reason := newtonStopTest(pd, decrement, p.ll, eps, &quiet)
+		if done {
+			res.converged, res.reason = converged, reason
 			break
 		}
-		if pd && decrement <= 1e-12*scale {
-			quiet++
-			if quiet > 5 {
-				if decrement <= 1e-16*scale {
-					res.converged = true
-				} else {
-					res.reason = fmt.Sprintf("the Newton decrement stalled at %.3g (rounding of the log-likelihood)", decrement)
-				}
-				break
-			}
+		if fullStep {
 			next := addScaled(theta, d, 1)
 			np := eval(next)
 			res.evaluations++
