@@ -17,6 +17,16 @@ type stdLocScale struct {
 	exactTerms func(p *locScalePoint, exact []float64, a, b float64)
 }
 
+// logIntervalProb is ln(F₀(zu) − F₀(zl)) for zl < zu, by the survival
+// form S₀(zl) − S₀(zu) where F₀(zl) > 1/2 so that the difference never
+// cancels (logIntervalProb in loglik.go gives the rule for any Dist).
+func (s stdLocScale) logIntervalProb(zl, zu float64) float64 {
+	if lcl := s.logCDF(zl); lcl <= -math.Ln2 {
+		return logDiffExp(s.logCDF(zu), lcl)
+	}
+	return logDiffExp(s.logSurv(zl), s.logSurv(zu))
+}
+
 var (
 	// stdNormal: g = −z²/2 − ln√(2π); tails through erfc and, far out, the
 	// Mills ratio (logNormalCDF).
@@ -301,12 +311,7 @@ func censoredLocScalePoint(std stdLocScale, cs *censoredSample, a, b float64) lo
 	for i, ul := range cs.lower {
 		uu, w := cs.upper[i], cs.inCount[i]
 		zl, zu := b*ul-a, b*uu-a
-		var lp float64
-		if lcl := std.logCDF(zl); lcl > -math.Ln2 {
-			lp = logDiffExp(std.logSurv(zl), std.logSurv(zu))
-		} else {
-			lp = logDiffExp(std.logCDF(zu), lcl)
-		}
+		lp := std.logIntervalProb(zl, zu)
 		gl, dl, _ := std.logDensity(zl)
 		gu, du, _ := std.logDensity(zu)
 		wl, wu := math.Exp(gl-lp), math.Exp(gu-lp)

@@ -173,12 +173,7 @@ func thresholdCensoredPoint(ts *thresholdLocScale, s *thresholdSample, mu, t, ta
 			acc.add(cnt, lf, r, r*(dg-r), zu, vu, sigma)
 			continue
 		}
-		var lp float64
-		if lcl := std.logCDF(zl); lcl > -math.Ln2 {
-			lp = logDiffExp(std.logSurv(zl), std.logSurv(zu))
-		} else {
-			lp = logDiffExp(std.logCDF(zu), lcl)
-		}
+		lp := std.logIntervalProb(zl, zu)
 		gl, dl, _ := std.logDensity(zl)
 		gu, du, _ := std.logDensity(zu)
 		wl, wu := math.Exp(gl-lp), math.Exp(gu-lp)
