@@ -85,6 +85,9 @@ func tLogLowerTail(z, nu float64) float64 {
 	if z == 0 {
 		return -math.Ln2
 	}
+	if math.Abs(z) < 1e150 {
+		r2 = z * z / nu // two roundings, not the three of (z/√ν)²
+	}
 	q := math.Log1p(r2)
 	if math.IsInf(r2, 1) {
 		q = 2 * math.Log(math.Abs(r))

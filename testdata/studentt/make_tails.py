@@ -16,8 +16,16 @@ the other tail is log1p(-F). Values are written as decimal strings with 25
 significant digits (some are below the float64 range, e.g. ln S = -1e-348).
 
 Run: /usr/bin/python3 testdata/studentt/make_tails.py > testdata/studentt/tails.json
+     /usr/bin/python3 testdata/studentt/make_tails.py random > testdata/studentt/tails_random.json
+The second adds 160 points off the grid (fixed seed): nu log-uniform on
+[1, 1e20] (half of them on [20, 2000], around the switches of the Go code),
+|z| log-uniform on [1e-3, 1e4], z = 0 excluded, random sign.
 """
 import json
+import math
+import random
+import sys
+
 import mpmath as mp
 
 mp.mp.dps = 60
@@ -38,8 +46,8 @@ def lower_beta(z, nu):
         if y < mp.mpf("0.3") / max(a, 1):  # central: 1 - I_y(1/2, a) is well conditioned
             return (1 - mp.betainc(b, a, 0, y, regularized=True)) / 2
         return mp.betainc(a, b, 0, x, regularized=True) / 2
-    except mp.libmp.NoConvergence:
-        return None  # hypergeometric series too slow for huge nu/2
+    except (mp.libmp.NoConvergence, ValueError):
+        return None  # hypergeometric series too slow (huge nu/2), or hypercomb gave up
 
 
 def lower_quad(z, nu, method="tanh-sinh"):
@@ -61,33 +69,46 @@ def lower_quad(z, nu, method="tanh-sinh"):
     return c * mp.exp(-h0) * mp.quad(f, pts, maxdegree=12, method=method)
 
 
+def grid():
+    for dfs in DFS:
+        for zs in ZS:
+            yield dfs, zs, [1] if zs == "0" else [-1, 1]
+
+
+def random_points():
+    rng = random.Random(20261202)
+    for i in range(160):
+        lo, hi = (20, 2000) if i % 2 else (1, 1e20)
+        nu = 10 ** rng.uniform(math.log10(lo), math.log10(hi))
+        z = 10 ** rng.uniform(-3, 4)
+        yield repr(float(nu)), repr(float(z)), [rng.choice([-1, 1])]
+
+
 def main():
     rows = []
-    for dfs in DFS:
+    for dfs, zs, signs in (random_points() if sys.argv[1:] == ["random"] else grid()):
         nu = mp.mpf(dfs)
-        for zs in ZS:
-            z = mp.mpf(zs)
-            Fm = lower_beta(-z, nu)
-            if z != 0:
-                Fq = lower_quad(-z, nu)
-                if Fm is None:  # second, independent quadrature rule instead
-                    Fm = lower_quad(-z, nu, "gauss-legendre")
-                rel = abs(Fq - Fm) / Fm
-                if rel > mp.mpf("1e-30"):
-                    raise SystemExit(f"df={dfs} z={zs}: betainc {Fm} quad {Fq} rel {rel}")
-            lnFm = mp.log(Fm)           # ln F(-z) = ln S(z)
-            lnFp = mp.log1p(-Fm)        # ln F(z)  = ln S(-z)
-            for sign in ([1] if z == 0 else [-1, 1]):
-                zz = sign * z
-                lncdf, lnsf = (lnFm, lnFp) if sign < 0 else (lnFp, lnFm)
-                rows.append({
-                    "df": dfs,
-                    "z": ("-" if sign < 0 else "") + zs,
-                    "logcdf": mp.nstr(lncdf, 25, strip_zeros=False, min_fixed=-1, max_fixed=-1),
-                    "logsf": mp.nstr(lnsf, 25, strip_zeros=False, min_fixed=-1, max_fixed=-1),
-                })
+        z = mp.mpf(zs)
+        Fm = lower_beta(-z, nu)
+        if z != 0:
+            Fq = lower_quad(-z, nu)
+            if Fm is None:  # second, independent quadrature rule instead
+                Fm = lower_quad(-z, nu, "gauss-legendre")
+            rel = abs(Fq - Fm) / Fm
+            if rel > mp.mpf("1e-30"):
+                raise SystemExit(f"df={dfs} z={zs}: betainc {Fm} quad {Fq} rel {rel}")
+        lnFm = mp.log(Fm)           # ln F(-z) = ln S(z)
+        lnFp = mp.log1p(-Fm)        # ln F(z)  = ln S(-z)
+        for sign in signs:
+            lncdf, lnsf = (lnFm, lnFp) if sign < 0 else (lnFp, lnFm)
+            rows.append({
+                "df": dfs,
+                "z": ("-" if sign < 0 else "") + zs,
+                "logcdf": mp.nstr(lncdf, 25, strip_zeros=False, min_fixed=-1, max_fixed=-1),
+                "logsf": mp.nstr(lnsf, 25, strip_zeros=False, min_fixed=-1, max_fixed=-1),
+            })
     json.dump({"source": "mpmath " + mp.__version__ + ", 60 digits, betainc checked against quadrature of the density",
-               "rows": rows}, __import__("sys").stdout, indent=1)
+               "rows": rows}, sys.stdout, indent=1)
     print()
 
 
