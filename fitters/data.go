@@ -64,12 +64,26 @@ func (d *Data) SortedExact() []float64 {
 	}
 	v := &sortedView{of: &d.Exact[0], n: len(d.Exact), x: d.Exact}
 	if !slices.IsSorted(d.Exact) {
-		v.x = make([]float64, len(d.Exact))
-		var s FloatSorter
-		s.SortInto(v.x, d.Exact) // slices.Sort's order in O(n) (sortfloat.go)
+		v.x = sortedCopy(d.Exact)
 	}
 	d.sorted.Store(v)
 	return v.x
+}
+
+// sortedCopy returns x's values in ascending order (slices.Sort's order):
+// by FloatSorter (O(n)) up to 2¹⁶ values, whose 8n bytes of scratch are
+// then small; by slices.Sort in place on the copy above that, so that a
+// large dataset is never held three times over while it is sorted.
+func sortedCopy(x []float64) []float64 {
+	if len(x) > 1<<16 {
+		y := slices.Clone(x)
+		slices.Sort(y)
+		return y
+	}
+	y := make([]float64, len(x))
+	var s FloatSorter
+	s.SortInto(y, x)
+	return y
 }
 
 // sortedView returns the stored view when it was made from the current Exact.
