@@ -12,7 +12,7 @@ import (
 // and the censored values, distinct ones tallied.
 type betaCensoredSample struct {
 	n, s1, s2   float64
-	left, right smallTally
+	left, right tally
 	lower       []float64
 	upper       []float64
 	inCount     []float64

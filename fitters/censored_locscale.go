@@ -152,26 +152,6 @@ type censoredSample struct {
 	inCount      []float64
 }
 
-// tally holds distinct values in order of first appearance with their
-// counts (the order keeps every sum deterministic).
-type tally struct {
-	u, n  []float64
-	index map[float64]int
-}
-
-func (t *tally) add(u float64) {
-	if i, ok := t.index[u]; ok {
-		t.n[i]++
-		return
-	}
-	if t.index == nil {
-		t.index = make(map[float64]int)
-	}
-	t.index[u] = len(t.u)
-	t.u = append(t.u, u)
-	t.n = append(t.n, 1)
-}
-
 // standardizeCensored maps every value of d to u = (y − c)/s, y = x or
 // y = ln(x/ref) with ln ref = c (so data clustered far from 1 keep their
 // spread). On the log scale a bound ≤ 0 is −∞ (an open lower end, or a

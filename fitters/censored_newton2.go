@@ -146,7 +146,7 @@ func censoredNewtonFallback(fit *Fit, reason string) {
 // below 0 is a non-detect at its upper end, one open above a suspension at
 // its lower end; a suspension at or below 0 adds ln S = 0 and is dropped).
 type censoredPositive struct {
-	left, right  smallTally
+	left, right  tally
 	lower, upper []float64
 	inCount      []float64
 }
@@ -229,16 +229,17 @@ func (m *intervalNumbers) number(l, u float64, next int) (j int, fresh bool) {
 	return next, true
 }
 
-// smallTally holds distinct values in order of first appearance with their
-// counts, as tally does, but looks a value up by a linear scan while there
-// are at most 16 distinct ones (field data have a few detection limits and
-// suspension times: no hashing per value), by a map beyond.
-type smallTally struct {
+// tally holds distinct values in order of first appearance with their
+// counts (the order keeps every sum deterministic). It looks a value up by
+// a linear scan while there are at most 16 distinct ones (field data have
+// a few detection limits and suspension times: no hashing per value), by a
+// map beyond.
+type tally struct {
 	u, n  []float64
 	index map[float64]int
 }
 
-func (t *smallTally) add(u float64) {
+func (t *tally) add(u float64) {
 	if t.index == nil {
 		for i := len(t.u) - 1; i >= 0; i-- {
 			if t.u[i] == u {

@@ -288,7 +288,7 @@ func (s *shapeTermSums) point(sc float64) newton3Point {
 type locScaleShapeSample struct {
 	exact        []float64
 	c, s         float64
-	left, right  smallTally
+	left, right  tally
 	lower, upper []float64
 	inCount      []float64
 }

@@ -241,11 +241,11 @@ func TestGammaCensoredPointDerivatives(t *testing.T) {
 	}
 }
 
-// TestSmallTally checks that smallTally keeps distinct values in order of
+// TestSmallTally checks that tally keeps distinct values in order of
 // first appearance with their counts, before and after it switches to a
 // map at 17 distinct values.
 func TestSmallTally(t *testing.T) {
-	var st smallTally
+	var st tally
 	want := map[float64]float64{}
 	var order []float64
 	for i := 0; i < 200; i++ {

@@ -15,7 +15,7 @@ type paretoCensoredSample struct {
 	bound, lnBound float64
 	n, sumL        float64 // number of exact values, Σ ln(x/U) over them
 	atBound        bool    // U is an exact value and no non-detect or interval ends there
-	left, right    smallTally
+	left, right    tally
 	lnLeft, lnRght []float64 // ln(x/U) of the tallied values
 	lower, width   []float64 // intervals: ln(l/U) and ln(u/l), l > 0
 	inCount        []float64
