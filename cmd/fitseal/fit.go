@@ -89,6 +89,7 @@ func runFit(ctx context.Context, o fitOptions, stdout, stderr io.Writer) error {
 		return inputError(err)
 	}
 	limitMemoryForFile(o.File)
+	adviseHugeHeapFor(heapPerInputByte, o.File)
 	res, err := runner.Run(ctx, p, runner.RunOptions{Workers: o.Workers, RankOnly: true})
 	if err != nil {
 		if errors.Is(err, context.Canceled) {

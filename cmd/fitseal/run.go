@@ -123,6 +123,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		opt.Progress = stderr
 	}
 	limitMemoryForProject(p)
+	adviseHugeHeapFor(heapPerInputByte, projectDataPaths(p)...)
 	res, err := runner.Run(ctx, p, opt)
 	if err != nil {
 		if errors.Is(err, context.Canceled) {

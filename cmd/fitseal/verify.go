@@ -67,6 +67,9 @@ func runVerify(ctx context.Context, o verifyOptions, stdout, _ io.Writer) error 
 		}
 		pinned = k
 	}
+	if !o.NoRerun {
+		adviseHugeHeapFor(heapPerBundleByte, o.Bundle)
+	}
 	bag, err := openBundle(o.Bundle)
 	if err != nil {
 		return err
