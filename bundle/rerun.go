@@ -11,6 +11,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"golang.org/x/crypto/ssh"
 
@@ -217,32 +218,52 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 		names = append(names, n)
 	}
 	sort.Strings(names)
+	// compareAll compares the result files on up to workers goroutines and
+	// gathers what they found in the order of names.
 	compareAll := func(agree Agree, skipText func(string) bool) (diffs []Difference, counts map[string]int, formatErrs map[string]error) {
-		counts, formatErrs = map[string]int{}, map[string]error{}
-		for _, n := range names {
-			member := PayloadDir + "/results/" + n
+		type found struct {
+			diffs []Difference
+			count int
+			err   error
+		}
+		each := make([]found, len(names))
+		sem := make(chan struct{}, workers)
+		var wg sync.WaitGroup
+		for i, n := range names {
 			recorded, ok := payload["results/"+n]
 			if !ok {
 				continue
 			}
-			var d []Difference
-			var count int
-			var err error
-			if strings.HasSuffix(n, ".json") {
-				d, count, err = compareJSON(member, recorded, files[n], agree, skipText)
-			} else {
+			member := PayloadDir + "/results/" + n
+			wg.Add(1)
+			sem <- struct{}{}
+			go func() {
+				defer func() { <-sem; wg.Done() }()
+				f := &each[i]
+				if strings.HasSuffix(n, ".json") {
+					f.diffs, f.count, f.err = compareJSON(member, recorded, files[n], agree, skipText)
+					return
+				}
 				var skipColumn func(string) bool
 				if skipText != nil && n == runner.FitsFile {
 					skipColumn = func(column string) bool { return column == "method" }
 				}
-				d, count, err = compareCSV(member, recorded, files[n], agree, skipColumn)
-			}
-			if err != nil {
-				formatErrs[member] = err
+				f.diffs, f.count, f.err = compareCSV(member, recorded, files[n], agree, skipColumn)
+			}()
+		}
+		wg.Wait()
+		counts, formatErrs = map[string]int{}, map[string]error{}
+		for i, n := range names {
+			if _, ok := payload["results/"+n]; !ok {
 				continue
 			}
-			counts[member] = count
-			diffs = append(diffs, d...)
+			member := PayloadDir + "/results/" + n
+			if each[i].err != nil {
+				formatErrs[member] = each[i].err
+				continue
+			}
+			counts[member] = each[i].count
+			diffs = append(diffs, each[i].diffs...)
 		}
 		return diffs, counts, formatErrs
 	}
