@@ -31,6 +31,7 @@ type tailsScratch struct {
 	ratio       [2][CDFTailsBlock]float64
 	class       [CDFTailsBlock]uint8
 	skip, upper [CDFTailsBlock]bool
+	index       [CDFTailsBlock]int32 // points taking one route (gammaBlock)
 	series      gammaSeriesTerms
 }
 
@@ -413,27 +414,55 @@ func gammaBlock(d Gamma, c float64, w *tailsScratch, x, cdf, logCDF, logSurvival
 		}
 	}
 	expsInto(ePre[:n], pre[:n])
+	// The series (gammaSeries(a, y)) of every point below seriesBelow and
+	// then the continued fraction of every point that takes it, each two
+	// points at a time (series2, gammaContinuedFraction2: the same bits as
+	// one at a time).
 	seriesBelow := a + 1 + 0.5*math.Sqrt(a)
+	list := &w.index
+	m := 0
 	for i := range n {
 		g[i] = 1 // a valid argument for logsInto where unused
+		if !skip[i] && y[i] < seriesBelow {
+			list[m] = int32(i)
+			m++
+		}
+	}
+	for k := 0; k+1 < m; k += 2 {
+		i, j := list[k], list[k+1]
+		g[i], g[j] = w.series.series2(y[i], y[j])
+	}
+	if m%2 == 1 {
+		i := list[m-1]
+		g[i] = w.series.series(y[i])
+	}
+	m = 0
+	for i := range n {
 		if skip[i] {
 			continue
 		}
-		yi := y[i]
-		if yi < seriesBelow {
-			s := w.series.series(yi) // gammaSeries(a, yi)
-			if ePre[i]*s <= 0.9 {
-				g[i] = s
+		if yi := y[i]; yi < seriesBelow {
+			if ePre[i]*g[i] <= 0.9 {
 				continue
 			}
 			if yi < a+1 {
 				cdf[i], logCDF[i], logSurvival[i] = gammaTailsGonum(a, yi)
 				skip[i] = true
+				g[i] = 1
 				continue
 			}
 		}
-		g[i] = gammaContinuedFraction(a, yi)
+		list[m] = int32(i)
+		m++
 		upper[i] = true
+	}
+	for k := 0; k+1 < m; k += 2 {
+		i, j := list[k], list[k+1]
+		g[i], g[j] = gammaContinuedFraction2(a, y[i], y[j])
+	}
+	if m%2 == 1 {
+		i := list[m-1]
+		g[i] = gammaContinuedFraction(a, y[i])
 	}
 	logsInto(lg[:n], g[:n])
 	for i := range n {

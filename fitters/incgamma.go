@@ -108,9 +108,12 @@ func (t *gammaSeriesTerms) fill() {
 // series is gammaSeries(t.a, x), the same operations with the
 // reciprocals from the table.
 func (t *gammaSeriesTerms) series(x float64) float64 {
-	sum, term := 1.0, 1.0
-	x2 := x * x
-	for n := 0; n < gammaSeriesMaxSteps; n++ {
+	return t.seriesFrom(x, x*x, 1, 1, 0) / t.a
+}
+
+// seriesFrom runs series' steps from step n with the running sum and term.
+func (t *gammaSeriesTerms) seriesFrom(x, x2, sum, term float64, n int) float64 {
+	for ; n < gammaSeriesMaxSteps; n++ {
 		if n == t.n {
 			t.fill()
 		}
@@ -121,7 +124,40 @@ func (t *gammaSeriesTerms) series(x float64) float64 {
 			break
 		}
 	}
-	return sum / t.a
+	return sum
+}
+
+// series2 is (series(xa), series(xb)): the two sums step by step side by
+// side, each with series' own operations and stopping rule, so each gets
+// series' bits; the one that runs longer finishes alone. Two independent
+// chains of multiplications and additions keep the processor's pipelines
+// full where one chain waits on each result.
+func (t *gammaSeriesTerms) series2(xa, xb float64) (float64, float64) {
+	suma, terma, sumb, termb := 1.0, 1.0, 1.0, 1.0
+	xa2, xb2 := xa*xa, xb*xb
+	for n := 0; n < gammaSeriesMaxSteps; n++ {
+		if n == t.n {
+			t.fill()
+		}
+		r1, r2 := t.r1[n], t.r2[n]
+		t1a := terma * (xa * r1)
+		t1b := termb * (xb * r1)
+		terma *= xa2 * r2
+		termb *= xb2 * r2
+		suma += t1a + terma
+		sumb += t1b + termb
+		doneA, doneB := terma < suma*0x1p-54, termb < sumb*0x1p-54
+		if doneA || doneB {
+			if !doneA {
+				suma = t.seriesFrom(xa, xa2, suma, terma, n+1)
+			}
+			if !doneB {
+				sumb = t.seriesFrom(xb, xb2, sumb, termb, n+1)
+			}
+			break
+		}
+	}
+	return suma / t.a, sumb / t.a
 }
 
 // log1mSmall returns ln(1 − p) for 0 ≤ p ≤ 0.9, as math.Log1p(−p) does
@@ -208,10 +244,14 @@ func gammaPrefactorFast(a, x, c float64) float64 {
 // convergence are off it.
 func gammaContinuedFraction(a, x float64) float64 {
 	b := x + 1 - a
-	pa, pb := 1.0, 0.0 // A_(n−2), B_(n−2)
-	ca, cb := b, 1.0   // A_(n−1), B_(n−1)
-	h := 1 / b
-	for i := 1.0; i < 1000; i++ {
+	return gammaCFFrom(a, 1, b, 1, 0, b, 1, 1/b)
+}
+
+// gammaCFFrom runs gammaContinuedFraction's steps from step i with its
+// state: b_(i−1), the convergents A_(i−2), B_(i−2), A_(i−1), B_(i−1) and
+// the last quotient h.
+func gammaCFFrom(a, i, b, pa, pb, ca, cb, h float64) float64 {
+	for ; i < 1000; i++ {
 		an := -i * (i - a)
 		b += 2
 		pa, ca = ca, b*ca+an*pa
@@ -226,4 +266,43 @@ func gammaContinuedFraction(a, x float64) float64 {
 		h = hn
 	}
 	return h
+}
+
+// gammaContinuedFraction2 is (gammaContinuedFraction(a, xa),
+// gammaContinuedFraction(a, xb)) with the two recurrences side by side
+// (see series2): each with the single one's operations and stopping rule,
+// the longer one finished alone.
+func gammaContinuedFraction2(a, xa, xb float64) (float64, float64) {
+	ba, bb := xa+1-a, xb+1-a
+	paA, pbA, caA, cbA, hA := 1.0, 0.0, ba, 1.0, 1/ba
+	paB, pbB, caB, cbB, hB := 1.0, 0.0, bb, 1.0, 1/bb
+	for i := 1.0; i < 1000; i++ {
+		an := -i * (i - a)
+		ba += 2
+		bb += 2
+		paA, caA = caA, ba*caA+an*paA
+		paB, caB = caB, bb*caB+an*paB
+		pbA, cbA = cbA, ba*cbA+an*pbA
+		pbB, cbB = cbB, bb*cbB+an*pbB
+		if caA > 0x1p500 {
+			paA, caA, pbA, cbA = paA*0x1p-500, caA*0x1p-500, pbA*0x1p-500, cbA*0x1p-500
+		}
+		if caB > 0x1p500 {
+			paB, caB, pbB, cbB = paB*0x1p-500, caB*0x1p-500, pbB*0x1p-500, cbB*0x1p-500
+		}
+		hnA, hnB := cbA/caA, cbB/caB
+		doneA, doneB := math.Abs(hnA-hA) <= 0x1p-53*hnA, math.Abs(hnB-hB) <= 0x1p-53*hnB
+		if doneA || doneB {
+			switch {
+			case doneA && doneB:
+				return hnA, hnB
+			case doneA:
+				return hnA, gammaCFFrom(a, i+1, bb, paB, pbB, caB, cbB, hnB)
+			default:
+				return gammaCFFrom(a, i+1, ba, paA, pbA, caA, cbA, hnA), hnB
+			}
+		}
+		hA, hB = hnA, hnB
+	}
+	return hA, hB
 }
