@@ -54,32 +54,27 @@ func (d Weibull) fill(r *rand.Rand, dst []float64) bool {
 		return false
 	}
 	// The exponential variates first, in order (the generator's stream is
-	// the same), then the powers, independent of one another.
+	// the same), then the powers, independent of one another, a block at a
+	// time through the vector kernels.
 	for i := range dst {
 		dst[i] = r.ExpFloat64()
 	}
-	i := 0
-	if p.yf != 0 {
-		// Two powers at a time where both are ordinary: their logarithms
-		// and exponentials side by side (libLog2, libExp2).
-		for ; i+1 < len(dst); i += 2 {
-			x, y := dst[i], dst[i+1]
-			if !p.ordinary(x) || !p.ordinary(y) {
-				dst[i] = d.Scale * p.pow(x)
-				dst[i+1] = d.Scale * p.pow(y)
-				continue
-			}
-			lx, ly := libLog2(x, y)
-			ex, ey := libExp2(p.yf*lx, p.yf*ly)
-			dst[i] = d.Scale * p.finish(x, ex)
-			dst[i+1] = d.Scale * p.finish(y, ey)
+	var scratch [powBlock]float64
+	for len(dst) > 0 {
+		n := min(len(dst), powBlock)
+		block := dst[:n]
+		p.powsInto(block, block, scratch[:n])
+		for i, v := range block {
+			block[i] = d.Scale * v
 		}
-	}
-	for ; i < len(dst); i++ {
-		dst[i] = d.Scale * p.pow(dst[i])
+		dst = dst[n:]
 	}
 	return true
 }
+
+// powBlock is the number of powers powsInto's callers work out at a time,
+// with scratch arrays of that many values on the stack.
+const powBlock = 256
 
 // powFixed evaluates math.Pow(x, y) for one exponent y > 0.
 type powFixed struct {
@@ -112,6 +107,33 @@ func (p powFixed) pow(x float64) float64 {
 		a1 = libExp(p.yf * libLog(x)) // math.Exp and math.Log, inlined
 	}
 	return p.finish(x, a1)
+}
+
+// powsInto sets dst[i] = math.Pow(xs[i], p.y), bit for bit, for every i,
+// with tmp (len(tmp) ≥ len(xs)) as scratch; dst may be xs. The factors
+// e^(yf·ln x) come from the vector kernels libLogs and libExps (the same
+// bits as libLog and libExp one at a time); values that are not ordinary
+// go to math.Pow.
+func (p powFixed) powsInto(dst, xs, tmp []float64) {
+	dst, tmp = dst[:len(xs)], tmp[:len(xs)]
+	if p.yf == 0 {
+		for i, x := range xs {
+			dst[i] = p.pow(x)
+		}
+		return
+	}
+	libLogs(tmp, xs)
+	for i, l := range tmp {
+		tmp[i] = p.yf * l
+	}
+	libExps(tmp, tmp)
+	for i, x := range xs {
+		if p.ordinary(x) {
+			dst[i] = p.finish(x, tmp[i])
+		} else {
+			dst[i] = math.Pow(x, p.y)
+		}
+	}
 }
 
 // ordinary says x is none of math.Pow's special cases for x: a normal
@@ -216,20 +238,45 @@ func (d Gamma) fill(r *rand.Rand, dst []float64) bool {
 			d0 += 1.0
 		}
 		c := 1 / (3 * math.Sqrt(d0))
-		for i := range dst {
-			m := 1.0
-			if a < 1 {
-				m = math.Pow(r.Float64(), 1/a)
+		if a >= 1 {
+			for i := range dst {
+				v := gammaMarsagliaTsang(r, d0, c)
+				dst[i] = d0 * v / b // m·d·v/b with m = 1 (1·d is d exactly)
 			}
-			dst[i] = gammaMarsagliaTsang(r, m, d0, c, b)
+			break
+		}
+		// m = u^(1/a) multiplies only the loop's result: every u and every
+		// v is drawn first, in Rand's order (u_i, then the loop's draws for
+		// value i, then u_{i+1} …), a block at a time, then the powers
+		// together through the vector kernels.
+		p, ok := newPowFixed(1 / a)
+		var us, vs, scratch [powBlock]float64
+		for len(dst) > 0 {
+			n := min(len(dst), powBlock)
+			for i := range n {
+				us[i] = r.Float64()
+				vs[i] = gammaMarsagliaTsang(r, d0, c)
+			}
+			if ok {
+				p.powsInto(us[:n], us[:n], scratch[:n])
+			} else {
+				for i, u := range us[:n] {
+					us[i] = math.Pow(u, 1/a)
+				}
+			}
+			for i, m := range us[:n] {
+				dst[i] = m * d0 * vs[i] / b
+			}
+			dst = dst[n:]
 		}
 	}
 	return true
 }
 
 // gammaMarsagliaTsang is the rejection loop of distuv.Gamma.Rand for shape
-// ≥ 0.2, with d and c given.
-func gammaMarsagliaTsang(r *rand.Rand, m, d, c, b float64) float64 {
+// ≥ 0.2, with d and c given; it returns the accepted v, of which Rand
+// returns m·d·v/b.
+func gammaMarsagliaTsang(r *rand.Rand, d, c float64) float64 {
 	for {
 		x := r.NormFloat64()
 		v := 1 + x*c
@@ -239,10 +286,10 @@ func gammaMarsagliaTsang(r *rand.Rand, m, d, c, b float64) float64 {
 		v = v * v * v
 		u := r.Float64()
 		if u < 1.0-0.0331*(x*x)*(x*x) {
-			return m * d * v / b
+			return v
 		}
 		if math.Log(u) < 0.5*x*x+d*(1-v+math.Log(v)) {
-			return m * d * v / b
+			return v
 		}
 	}
 }
@@ -281,7 +328,7 @@ var fillsMatchRand = sync.OnceValue(func() bool {
 		Dist
 		fill(r *rand.Rand, dst []float64) bool
 	}{Weibull{1.8, 120}, Weibull{0.4, 2}, Weibull{7, 1e-3},
-		Gamma{2.5, 0.4}, Gamma{0.5, 3}, Gamma{0.1, 1}, Gamma{1, 2}, LogNormal{1, 0.7}}
+		Gamma{2.5, 0.4}, Gamma{0.5, 3}, Gamma{0.7, 2}, Gamma{0.1, 1}, Gamma{1, 2}, LogNormal{1, 0.7}}
 	var got [64]float64
 	for i, d := range dists {
 		r1 := rand.New(rand.NewPCG(uint64(i), 99))
