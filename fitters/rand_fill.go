@@ -154,7 +154,7 @@ func (p powFixed) finish(x, a1 float64) float64 {
 	b := math.Float64bits(x)
 	x1 := math.Float64frombits(b&^(0x7ff<<52) | 1022<<52)
 	xe := int(b>>52&0x7ff) - 1022
-	for i := p.yi; i != 0; i >>= 1 {
+	for i := p.yi; ; {
 		if xe < -1<<12 || 1<<12 < xe {
 			ae += xe
 			break
@@ -163,12 +163,19 @@ func (p powFixed) finish(x, a1 float64) float64 {
 			a1 *= x1
 			ae += xe
 		}
+		if i >>= 1; i == 0 {
+			break // math.Pow squares x1 once more, for nothing
+		}
+		// x1 *= x1, then, where x1 < ½, x1 += x1 and xe--: the square of
+		// a number in [½, 1) lies in [¼, 1), so x1 < ½ exactly where its
+		// exponent field is 1021, and the doubling (exact) adds 1 to that
+		// field; without a branch that would be mispredicted half the time.
 		x1 *= x1
 		xe <<= 1
-		if x1 < .5 {
-			x1 += x1
-			xe--
-		}
+		sb := math.Float64bits(x1)
+		below := 1022 - int(sb>>52) // 1 where x1 < ½, else 0
+		x1 = math.Float64frombits(sb + uint64(below)<<52)
+		xe -= below
 	}
 	// math.Ldexp(a1, ae), as a product by 2^ae where a1, 2^ae and the
 	// result are normal numbers (a product by a power of two is then exact).
