@@ -111,7 +111,8 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 	}
 	workers = min(workers, max(1, len(plan.Tasks)))
 	results := make([]taskResult, len(plan.Tasks))
-	var next, done, drawn atomic.Int64
+	idle := newIdleHelp(len(plan.Tasks))
+	var done, drawn atomic.Int64
 	var failOnce sync.Once
 	var failure error
 	parent := ctx
@@ -127,11 +128,14 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 		go func() {
 			defer wg.Done()
 			for ctx.Err() == nil {
-				i := int(next.Add(1)) - 1
-				if i >= len(plan.Tasks) {
+				i, ok := idle.take()
+				if !ok {
+					idle.helpUntilDone()
 					return
 				}
-				if err := runTask(p, plan, i, bootWorkers, opt.RankOnly, &drawn, &results[i]); err != nil {
+				err := runTask(p, plan, i, bootWorkers, opt.RankOnly, &drawn, idle.share, &results[i])
+				idle.done()
+				if err != nil {
 					failOnce.Do(func() { failure = err })
 					cancel()
 					return
@@ -168,7 +172,7 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 // runTask fits one family; a panic inside a family is turned into an error
 // that names the task, so one broken family does not take the process down
 // silently.
-func runTask(p *Project, plan *Plan, i, bootWorkers int, rankOnly bool, drawn *atomic.Int64, out *taskResult) (err error) {
+func runTask(p *Project, plan *Plan, i, bootWorkers int, rankOnly bool, drawn *atomic.Int64, share func(func() bool), out *taskResult) (err error) {
 	t := plan.Tasks[i]
 	a := plan.Analyses[t.Analysis]
 	defer func() {
@@ -192,7 +196,7 @@ func runTask(p *Project, plan *Plan, i, bootWorkers int, rankOnly bool, drawn *a
 	}
 	out.fit, out.err = fam.Fit(d, opt)
 	if !rankOnly && out.err == nil && out.fit != nil && out.fit.Converged {
-		out.inf, out.infErr = inferFit(p, a, fam, out.fit, opt, bootWorkers, drawn)
+		out.inf, out.infErr = inferFit(p, a, fam, out.fit, opt, bootWorkers, drawn, share)
 	}
 	return nil
 }

@@ -36,9 +36,10 @@ func stream(p *Project, analysis, family string) infer.Stream {
 // converged fit: one parametric bootstrap of B = settings.bootstrap
 // replicates (when the data are complete) serves both the bootstrap
 // intervals and the p-values; the observed information is computed once.
-// bootWorkers is the parallelism of the bootstrap and drawn counts its
-// replicates for the progress line (neither changes a number).
-func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.Fit, opt fitters.Options, bootWorkers int, drawn *atomic.Int64) (*inference, error) {
+// bootWorkers is the parallelism of the bootstrap, drawn counts its
+// replicates for the progress line, and share offers idle workers'
+// help to it (infer.BootstrapOptions.Share; none changes a number).
+func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.Fit, opt fitters.Options, bootWorkers int, drawn *atomic.Int64, share func(func() bool)) (*inference, error) {
 	d := &pa.Group.Data
 	s := p.Settings
 	out := &inference{}
@@ -50,7 +51,7 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 	// only: a bootstrap for goodness of fit alone does not compute it.
 	settings := infer.Settings{Level: s.Confidence, Bootstrap: infer.BootstrapOptions{
 		Replicates: s.Bootstrap, Workers: bootWorkers, Stream: stream(p, pa.Name, fam.Name()), Fit: opt, Drawn: drawn,
-		Information: method == infer.MethodBootstrap}}
+		Share: share, Information: method == infer.MethodBootstrap}}
 	if info, err := infer.ObservedInformation(fam, fit, d); err == nil {
 		settings.Information = info
 	}

@@ -37,6 +37,14 @@ type BootstrapOptions struct {
 	// Drawn, when not nil, is incremented as each replicate starts, for a
 	// progress display; it never changes a result.
 	Drawn *atomic.Int64
+	// Share, when not nil, is called once as the replicates start with a
+	// function by which any other goroutine may help: help runs replicates
+	// of this bootstrap until none is left to start, and reports whether
+	// it found one to run (false: this bootstrap needs no more help; it
+	// may already have returned). A runner whose workers have no tasks
+	// left lends them so; each replicate still fills only its own slot,
+	// so the result does not depend on who ran it.
+	Share func(help func() bool)
 }
 
 // ErrBootstrapNotApplicable is matched by the error Bootstrap returns for
@@ -171,95 +179,124 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 	n := len(d.Exact)
 
 	var next atomic.Int64
+	// work runs replicates until none is left to start; it reports whether
+	// it ran one. Each call has its own generator and buffers.
+	work := func() (ran bool) {
+		pcg := rand.NewPCG(0, 0)
+		rng := rand.New(pcg)
+		seeds := stream.seeder()
+		sample := make([]float64, n)
+		sorted := make([]float64, n)
+		var sorter fitters.FloatSorter
+		sim := &fitters.Data{Trials: d.Trials}
+		var c cells
+		comps := make([]component, 0, 8)
+		var edf [3]float64
+		var rec fitters.FitRecord // each refit's result, valid until the next
+		member := fitters.NewMember(fam)
+		for {
+			r := int(next.Add(1) - 1)
+			if r >= B {
+				return ran
+			}
+			ran = true
+			if opt.Drawn != nil {
+				opt.Drawn.Add(1)
+			}
+			seeds.reseed(pcg, r)
+			if groups == nil {
+				fitters.FillRand(dist, rng, sample) // Rand's values, in order
+			} else {
+				for i := range sample {
+					sample[i] = simDists[groups.index[i]].dist.Rand(rng)
+				}
+			}
+			if !opt.NoStatistics {
+				sorter.SortInto(sorted, sample) // slices.Sort's result, in O(n)
+			}
+			sim.Exact = sample
+			refit, err := fitters.FitInto(fam, sim, fitOpt, &rec)
+			switch {
+			case err != nil:
+				reasons[r] = err.Error()
+				continue
+			case !refit.Converged:
+				reasons[r] = "refit did not converge: " + refit.Reason
+				continue
+			}
+			rd, err := member.New(refit.Estimates) // fam.New's model, in place
+			if err != nil {
+				reasons[r] = err.Error()
+				continue
+			}
+			row := est[r*k : (r+1)*k]
+			copy(row, refit.Estimates)
+			rep.Estimates[r] = row
+			if opt.Information {
+				// sim.Exact is still replicate r's sample: the refit's
+				// information is taken on the data it was fitted to.
+				info, err := ObservedInformation(fam, refit, sim)
+				switch {
+				case err != nil:
+					noCov[r] = err.Error()
+				case !slices.Equal(info.Free, free):
+					noCov[r] = "the refit's free parameters are not the fit's (opt.Fit fixes more)"
+				case info.Covariance == nil && len(free) > 0:
+					noCov[r] = "no covariance"
+				default:
+					rep.Covariances[r] = info.Covariance
+				}
+			}
+			if opt.NoStatistics {
+				continue
+			}
+			srow := stats[r*len(names) : (r+1)*len(names)]
+			if fam.Kind() == fitters.Discrete {
+				if groups != nil {
+					comps, _ = groups.components(rd, comps)
+				} else {
+					comps = append(comps[:0], component{rd, float64(n)})
+				}
+				srow[0], _ = chiSquareCounts(comps, sorted, &c)
+			} else {
+				edfStatistics(rd, sorted, &edf)
+				copy(srow, edf[:])
+			}
+			rep.Statistics[r] = srow
+		}
+	}
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			pcg := rand.NewPCG(0, 0)
-			rng := rand.New(pcg)
-			seeds := stream.seeder()
-			sample := make([]float64, n)
-			sorted := make([]float64, n)
-			var sorter fitters.FloatSorter
-			sim := &fitters.Data{Trials: d.Trials}
-			var c cells
-			comps := make([]component, 0, 8)
-			var edf [3]float64
-			var rec fitters.FitRecord // each refit's result, valid until the next
-			member := fitters.NewMember(fam)
-			for {
-				r := int(next.Add(1) - 1)
-				if r >= B {
-					return
-				}
-				if opt.Drawn != nil {
-					opt.Drawn.Add(1)
-				}
-				seeds.reseed(pcg, r)
-				if groups == nil {
-					fitters.FillRand(dist, rng, sample) // Rand's values, in order
-				} else {
-					for i := range sample {
-						sample[i] = simDists[groups.index[i]].dist.Rand(rng)
-					}
-				}
-				if !opt.NoStatistics {
-					sorter.SortInto(sorted, sample) // slices.Sort's result, in O(n)
-				}
-				sim.Exact = sample
-				refit, err := fitters.FitInto(fam, sim, fitOpt, &rec)
-				switch {
-				case err != nil:
-					reasons[r] = err.Error()
-					continue
-				case !refit.Converged:
-					reasons[r] = "refit did not converge: " + refit.Reason
-					continue
-				}
-				rd, err := member.New(refit.Estimates) // fam.New's model, in place
-				if err != nil {
-					reasons[r] = err.Error()
-					continue
-				}
-				row := est[r*k : (r+1)*k]
-				copy(row, refit.Estimates)
-				rep.Estimates[r] = row
-				if opt.Information {
-					// sim.Exact is still replicate r's sample: the refit's
-					// information is taken on the data it was fitted to.
-					info, err := ObservedInformation(fam, refit, sim)
-					switch {
-					case err != nil:
-						noCov[r] = err.Error()
-					case !slices.Equal(info.Free, free):
-						noCov[r] = "the refit's free parameters are not the fit's (opt.Fit fixes more)"
-					case info.Covariance == nil && len(free) > 0:
-						noCov[r] = "no covariance"
-					default:
-						rep.Covariances[r] = info.Covariance
-					}
-				}
-				if opt.NoStatistics {
-					continue
-				}
-				srow := stats[r*len(names) : (r+1)*len(names)]
-				if fam.Kind() == fitters.Discrete {
-					if groups != nil {
-						comps, _ = groups.components(rd, comps)
-					} else {
-						comps = append(comps[:0], component{rd, float64(n)})
-					}
-					srow[0], _ = chiSquareCounts(comps, sorted, &c)
-				} else {
-					edfStatistics(rd, sorted, &edf)
-					copy(srow, edf[:])
-				}
-				rep.Statistics[r] = srow
-			}
+			work()
 		}()
 	}
+	// Helpers join under helpMu until the bootstrap closes; once its own
+	// workers are done every replicate has been started, and it waits for
+	// the helpers still running one.
+	var helpMu sync.Mutex
+	var helpers sync.WaitGroup
+	closed := false
+	if opt.Share != nil {
+		opt.Share(func() bool {
+			helpMu.Lock()
+			if closed || next.Load() >= int64(B) {
+				helpMu.Unlock()
+				return false
+			}
+			helpers.Add(1)
+			helpMu.Unlock()
+			defer helpers.Done()
+			return work()
+		})
+	}
 	wg.Wait()
+	helpMu.Lock()
+	closed = true
+	helpMu.Unlock()
+	helpers.Wait()
 	for r, why := range reasons {
 		if why != "" {
 			if rep.Failed == 0 {
