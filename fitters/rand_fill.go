@@ -127,6 +127,26 @@ func (p powFixed) powsInto(dst, xs, tmp []float64) {
 		tmp[i] = p.yf * l
 	}
 	libExps(tmp, tmp)
+	if p.yi == 1 {
+		// finish with yi = 1 written out: Frexp(x) = x1·2^xe, then
+		// fl(a1·x1)·2^xe, a product by a power of two, where fl(a1·x1)
+		// and the result are normal numbers; other cases as below.
+		for i, x := range xs {
+			if !p.ordinary(x) {
+				dst[i] = math.Pow(x, p.y)
+				continue
+			}
+			b := math.Float64bits(x)
+			a := tmp[i] * math.Float64frombits(b&^(0x7ff<<52)|1022<<52)
+			ea, xe := int(math.Float64bits(a)>>52&0x7ff), int(b>>52)-1022
+			if ea != 0 && ea != 0x7ff && xe <= 1023 && ea+xe >= 1 && ea+xe <= 0x7fe {
+				dst[i] = a * math.Float64frombits(uint64(xe+1023)<<52)
+				continue
+			}
+			dst[i] = p.finish(x, tmp[i])
+		}
+		return
+	}
 	for i, x := range xs {
 		if p.ordinary(x) {
 			dst[i] = p.finish(x, tmp[i])
