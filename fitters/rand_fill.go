@@ -38,6 +38,8 @@ func FillRand(d Dist, r *rand.Rand, dst []float64) {
 // e^(yf·ln x) times x^yi by repeated squaring of Frexp(x) (Go's math/pow.go).
 // powFixed repeats those steps, operation for operation, so the results are
 // identical (TestRandFillMatchesRand); the special cases go to math.Pow.
+// The factors e^(yf·ln x) are taken 256 at a time by the vector kernels
+// libLogs and libExps, which give math.Log's and math.Exp's bits.
 func (d Weibull) RandFill(r *rand.Rand, dst []float64) {
 	if !fillsMatchRand() || !d.fill(r, dst) {
 		for i := range dst {
