@@ -133,8 +133,8 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 					idle.helpUntilDone()
 					return
 				}
-				err := runTask(p, plan, i, bootWorkers, opt.RankOnly, &drawn, idle.share, &results[i])
-				idle.done()
+				err := runTask(p, plan, i, bootWorkers, opt.RankOnly, &drawn, idle.shareFor(i), &results[i])
+				idle.done(i)
 				if err != nil {
 					failOnce.Do(func() { failure = err })
 					cancel()

@@ -17,8 +17,11 @@ type idleHelp struct {
 	running int // tasks started and not finished
 }
 
-// helpOffer is one bootstrap's help function.
-type helpOffer struct{ help func() bool }
+// helpOffer is one bootstrap's help function and the task it runs in.
+type helpOffer struct {
+	help func() bool
+	task int
+}
 
 func newIdleHelp(tasks int) *idleHelp {
 	h := &idleHelp{tasks: tasks}
@@ -40,20 +43,33 @@ func (h *idleHelp) take() (int, bool) {
 	return i, true
 }
 
-// done marks a task finished.
-func (h *idleHelp) done() {
+// done marks task i finished and drops the offers of its bootstraps that
+// no worker took: they are spent, and each holds its bootstrap's
+// replicates, which would otherwise stay in memory to the end of the run.
+func (h *idleHelp) done(i int) {
 	h.mu.Lock()
 	h.running--
+	kept := h.offers[:0]
+	for _, o := range h.offers {
+		if o.task != i {
+			kept = append(kept, o)
+		}
+	}
+	clear(h.offers[len(kept):])
+	h.offers = kept
 	h.mu.Unlock()
 	h.wake.Broadcast()
 }
 
-// share is the Share option of every bootstrap: it offers help.
-func (h *idleHelp) share(help func() bool) {
-	h.mu.Lock()
-	h.offers = append(h.offers, &helpOffer{help: help})
-	h.mu.Unlock()
-	h.wake.Broadcast()
+// shareFor is the Share option of the bootstraps of task i: it offers
+// their help.
+func (h *idleHelp) shareFor(i int) func(help func() bool) {
+	return func(help func() bool) {
+		h.mu.Lock()
+		h.offers = append(h.offers, &helpOffer{help: help, task: i})
+		h.mu.Unlock()
+		h.wake.Broadcast()
+	}
 }
 
 // helpUntilDone runs offered help, the newest offer first (the bootstrap
