@@ -25,10 +25,11 @@ const thpModeFile = "/sys/kernel/mm/transparent_hugepage/enabled"
 // madvise(MADV_HUGEPAGE) marks it, and once the allocation is collected
 // the region serves every later allocation. Nothing is touched, so nothing
 // is resident until used. It changes no result; it does nothing in modes
-// "always" (already huge) and "never", and FITSEAL_HUGEPAGES=0 turns it
-// off. It reports whether the advice was given.
+// "always" (already huge) and "never" or under strict overcommit
+// accounting, and FITSEAL_HUGEPAGES=0 turns it off. It reports whether the
+// advice was given.
 func adviseHugeHeap(n int64) bool {
-	if n <= 0 || thpMode() != "madvise" {
+	if n <= 0 || thpMode() != "madvise" || strictOvercommit() {
 		return false
 	}
 	region := make([]byte, n)
@@ -36,6 +37,18 @@ func adviseHugeHeap(n int64) bool {
 	region = nil
 	runtime.GC()
 	return err == nil
+}
+
+// overcommitFile holds the kernel's overcommit policy: 2 counts every
+// mapping against a commit limit, where the region's allocation could fail
+// (and a failed heap mapping ends a Go program).
+const overcommitFile = "/proc/sys/vm/overcommit_memory"
+
+// strictOvercommit reports whether the kernel does strict accounting
+// (policy 2), where adviseHugeHeap does nothing.
+func strictOvercommit() bool {
+	b, err := os.ReadFile(overcommitFile)
+	return err == nil && bytes.Equal(bytes.TrimSpace(b), []byte("2"))
 }
 
 // thpMode is the selected transparent huge page mode ("always", "madvise",
