@@ -13,6 +13,8 @@ import (
 	"runtime/debug"
 	"sort"
 	"strings"
+	"sync"
+	"sync/atomic"
 	"time"
 	"unsafe"
 
@@ -491,9 +493,24 @@ func renderOn(workers int, res *runner.Results, id report.Identity) (map[string]
 	r := report.FromResults(res, id)
 	if p.Report.Figures || p.Report.PDF {
 		slugs := report.Slugs(r.Analyses)
-		for i := range r.Analyses {
-			figs, err := report.RenderFigures(slugs[i], report.FigureInputFor(res, i))
-			if err != nil {
+		// The analyses' figures are drawn on the workers (RenderFigures is
+		// safe to call at once) and gathered in analysis order.
+		all := make([][]report.RenderedFigure, len(r.Analyses))
+		errs := make([]error, len(r.Analyses))
+		var next atomic.Int64
+		var wg sync.WaitGroup
+		for w := 0; w < min(workers, len(r.Analyses)); w++ {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for i := int(next.Add(1) - 1); i < len(r.Analyses); i = int(next.Add(1) - 1) {
+					all[i], errs[i] = report.RenderFigures(slugs[i], report.FigureInputFor(res, i))
+				}
+			}()
+		}
+		wg.Wait()
+		for i, figs := range all {
+			if err := errs[i]; err != nil {
 				return nil, fmt.Errorf("figures of %s: %w", r.Analyses[i].Name, err)
 			}
 			for _, f := range figs {
