@@ -252,3 +252,63 @@ func TestRunRequireCleanGit(t *testing.T) {
 		t.Errorf("git provenance %+v", rec.Git)
 	}
 }
+
+// TestRunRecordsGitWhileFitting: without require_clean_git the git state
+// is read while the fits run; run.json still records the commit, the
+// branch and each input's state, and a modified input makes it dirty.
+func TestRunRecordsGitWhileFitting(t *testing.T) {
+	gitBin, err := exec.LookPath("git")
+	if err != nil {
+		t.Skip("git not installed")
+	}
+	project, key := bearingsProject(t)
+	dir := filepath.Dir(project)
+	os.WriteFile(filepath.Join(dir, ".gitignore"), []byte("key\nkey.pub\n*.tar.gz\n"), 0o644)
+	git := func(args ...string) {
+		t.Helper()
+		cmd := exec.Command(gitBin, append([]string{"-C", dir, "-c", "user.name=fitseal test", "-c", "user.email=test@example.org", "-c", "commit.gpgsign=false"}, args...)...)
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("git %v: %v\n%s", args, err, out)
+		}
+	}
+	git("init", "-q", "-b", "main")
+	git("add", ".")
+	git("commit", "-q", "-m", "project and data")
+	record := func(out string) *bundle.RunRecord {
+		t.Helper()
+		mustCLI(t, 0, "run", "-q", "--key", key, "-o", out, project)
+		bag, err := bundle.Open(out)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rec, err := bundle.ParseRunRecord(bag.RunJSON())
+		if err != nil {
+			t.Fatal(err)
+		}
+		return rec
+	}
+	states := func(rec *bundle.RunRecord) map[string]string {
+		m := map[string]string{}
+		for _, f := range rec.Git.Files {
+			m[f.Path] = f.State
+		}
+		return m
+	}
+	rec := record(filepath.Join(dir, "clean.tar.gz"))
+	if !rec.Git.Repository || len(rec.Git.Commit) != 40 || rec.Git.Branch != "main" || rec.Git.Dirty {
+		t.Errorf("clean repository: git provenance %+v", rec.Git)
+	}
+	if s := states(rec)["data/bearings.csv"]; s != bundle.GitCommitted {
+		t.Errorf("clean repository: data/bearings.csv is %q, want %q", s, bundle.GitCommitted)
+	}
+	f, err := os.OpenFile(filepath.Join(dir, "data", "bearings.csv"), os.O_APPEND|os.O_WRONLY, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.WriteString("\n")
+	f.Close()
+	rec = record(filepath.Join(dir, "dirty.tar.gz"))
+	if !rec.Git.Dirty || states(rec)["data/bearings.csv"] != bundle.GitModified {
+		t.Errorf("modified input: dirty %v, data/bearings.csv %q", rec.Git.Dirty, states(rec)["data/bearings.csv"])
+	}
+}
