@@ -4,8 +4,12 @@ BIN := bin/fitseal
 
 .PHONY: build test bench demo check-long vet fmt clean
 
+# A static binary (no cgo: fitseal needs no C library): it runs on any Linux
+# of its architecture and starts about 4 ms sooner than one linked against
+# the system's C library (no dynamic loader; 29 against 33 ms for
+# `fitseal families` here, docs/PERFORMANCE.md).
 build:
-	$(GO) build -o $(BIN) ./cmd/fitseal
+	CGO_ENABLED=0 $(GO) build -o $(BIN) ./cmd/fitseal
 
 # The whole fast suite (under 10 minutes on 2 cores); CI runs exactly this.
 test:
