@@ -490,7 +490,7 @@ func renderOn(workers int, res *runner.Results, id report.Identity) (map[string]
 	}
 	p := res.Project
 	out := map[string][]byte{}
-	r := report.FromResults(res, id)
+	r := report.FromResultsOn(workers, res, id)
 	if p.Report.Figures || p.Report.PDF {
 		slugs := report.Slugs(r.Analyses)
 		// The analyses' figures are drawn on the workers (RenderFigures is

@@ -6,6 +6,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"sort"
+	"sync"
+	"sync/atomic"
 
 	"fitseal/fitters"
 	"fitseal/runner"
@@ -15,16 +17,33 @@ import (
 // of the plan, in plan order, without figures (add them with
 // [FigureInputFor] and [RenderFigures]). id is the bundle's identity, which
 // the results do not know.
-func FromResults(res *runner.Results, id Identity) *Report {
+func FromResults(res *runner.Results, id Identity) *Report { return FromResultsOn(1, res, id) }
+
+// FromResultsOn is [FromResults] with the analyses filled on up to workers
+// goroutines, each writing its own; the Report does not depend on workers.
+func FromResultsOn(workers int, res *runner.Results, id Identity) *Report {
 	p := res.Project
 	r := &Report{
 		Name: p.Name, Description: p.Description, Identity: id,
 		Settings: Settings{Seed: p.Settings.Seed, Criterion: p.Settings.Criterion, Confidence: p.Settings.Confidence,
 			Intervals: p.Settings.Intervals, Bootstrap: p.Settings.Bootstrap},
 	}
-	for _, ar := range res.Analyses {
-		r.Analyses = append(r.Analyses, analysisOf(p, ar))
+	if len(res.Analyses) == 0 {
+		return r
 	}
+	r.Analyses = make([]Analysis, len(res.Analyses))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < min(max(1, workers), len(res.Analyses)); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := int(next.Add(1) - 1); i < len(res.Analyses); i = int(next.Add(1) - 1) {
+				r.Analyses[i] = analysisOf(p, res.Analyses[i])
+			}
+		}()
+	}
+	wg.Wait()
 	return r
 }
 
