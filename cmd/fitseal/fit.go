@@ -50,7 +50,7 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	fs.StringVar(&d.TrialsColumn, "trials-column", "", "column of each count's number of trials (binomial-type data)")
 	fs.StringVar(&d.Delimiter, "delimiter", ",", "field separator, one character")
 	fs.StringVar(&o.Missing, "missing", ",NA", "comma-separated cell values skipped as missing (the empty cell is written as nothing)")
-	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once (default: all cores)")
+	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once, and the most cores used (default: all cores)")
 	quiet := fs.Bool("q", false, "accepted for symmetry with other commands (fit draws no progress)")
 	pos, err := parseInterleaved(fs, args)
 	if err != nil {
@@ -84,6 +84,7 @@ func splitList(s string) []string {
 
 // runFit fits and prints the ranking table.
 func runFit(ctx context.Context, o fitOptions, stdout, stderr io.Writer) error {
+	defer useCores(o.Workers)()
 	p, err := runner.QuickProject(o.Spec)
 	if err != nil {
 		return inputError(err)

@@ -43,7 +43,7 @@ func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	fs := newFlagSet("run", "[PROJECT]", "Load PROJECT (default ./fitseal.toml), fit every analysis × candidate family,\nrank them and seal inputs, results, tables, figures and the PDF summary into a\nsigned bundle: PATH.tar.gz (or .tgz) is an archive, any other PATH a bag folder.", stderr)
 	fs.StringVar(&o.Output, "o", "", "output `PATH` (default bundles/NAME-YYYYMMDDTHHMMSSZ.tar.gz beside the project file)")
 	fs.StringVar(&o.Key, "key", "", "signing key `FILE` (default $FITSEAL_KEY, else $XDG_CONFIG_HOME/fitseal/id_ed25519, created if missing)")
-	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once (default: all cores); never changes a result")
+	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once, and the most cores used (default: all cores); never changes a result")
 	fs.BoolVar(&o.Quiet, "q", false, "no progress line")
 	fs.BoolVar(&o.Force, "force", false, "replace an existing output")
 	fs.StringVar(&o.Shard, "shard", "", "run only shard `I/N` (0-based) of the plan and write a signed partial bundle for 'fitseal merge';\n'auto' takes I and N from Slurm, a Kubernetes Indexed Job or GNU parallel (docs/SHARDS.md)")
@@ -68,6 +68,7 @@ func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 // runRun loads, fits, seals and writes; nothing is written unless
 // everything succeeded.
 func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
+	defer useCores(o.Workers)()
 	shard, err := parseShardFlag(o.Shard, os.Getenv)
 	if err != nil {
 		return usageError{err}

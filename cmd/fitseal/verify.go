@@ -34,7 +34,7 @@ func cmdVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	fs := newFlagSet("verify", "BUNDLE", "Check BUNDLE (a .tar.gz archive or a bag folder): archive safety, BagIt\ncompleteness, every SHA-256, Payload-Oxum and the SSH signature; then re-run\nthe analysis from the bundled inputs with the recorded settings and compare\nevery number of every result file. Exit 0: all is well; 1: a check failed;\n2: the check could not start.", stderr)
 	fs.StringVar(&o.Key, "key", "", "pin the signer: the signature must be made with the public key in `PUB`\n(an OpenSSH .pub file, an authorized_keys or allowed_signers line)")
 	fs.BoolVar(&o.NoRerun, "no-rerun", false, "stop after integrity and signature")
-	fs.IntVar(&o.Workers, "j", 0, "number of fits re-run at once (default: all cores); never changes a result")
+	fs.IntVar(&o.Workers, "j", 0, "number of fits re-run at once, and the most cores used (default: all cores); never changes a result")
 	fs.Bool("q", false, "no progress output")
 	fs.StringVar(&o.Shard, "shard", "", "re-run only slice `I/N` (0-based; or auto) of the plan, the slices chosen as run --shard\nchooses shards; slice 0 also compares tables, figures and PDF. Every slice 0…N−1\nexiting 0 means the whole bundle is verified")
 	pos, err := parseInterleaved(fs, args)
@@ -55,6 +55,7 @@ func cmdVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 }
 
 func runVerify(ctx context.Context, o verifyOptions, stdout, _ io.Writer) error {
+	defer useCores(o.Workers)()
 	slice, err := parseShardFlag(o.Shard, os.Getenv)
 	if err != nil {
 		return usageError{err}
