@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"os"
 	"runtime"
+	"strconv"
 	"syscall"
 )
 
@@ -29,8 +30,8 @@ const thpModeFile = "/sys/kernel/mm/transparent_hugepage/enabled"
 // accounting, and FITSEAL_HUGEPAGES=0 turns it off. It reports whether the
 // advice was given.
 func adviseHugeHeap(n int64) bool {
-	if n <= 0 || thpMode() != "madvise" || strictOvercommit() {
-		return false
+	if n <= 0 || strconv.IntSize < 64 || thpMode() != "madvise" || strictOvercommit() {
+		return false // a 32-bit process has no address space to spare
 	}
 	region := make([]byte, n)
 	err := syscall.Madvise(region, syscall.MADV_HUGEPAGE)
