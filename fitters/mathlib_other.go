@@ -9,9 +9,3 @@ func libLog(x float64) float64 { return math.Log(x) }
 
 // libExp is math.Exp (see mathlib_amd64.go).
 func libExp(x float64) float64 { return math.Exp(x) }
-
-// libExp2 is libExp at x and at y.
-func libExp2(x, y float64) (float64, float64) { return math.Exp(x), math.Exp(y) }
-
-// libLog2 is libLog at x and at y.
-func libLog2(x, y float64) (float64, float64) { return math.Log(x), math.Log(y) }
