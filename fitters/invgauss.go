@@ -228,14 +228,11 @@ func invgaussOnePass(x []float64) (mean, shape, ll float64, ok bool) {
 
 func (f invgaussFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	if d.IsComplete() && len(opt.Fixed) == 0 && len(d.Exact) >= 2 {
-		if m, s, ll, ok := invgaussOnePass(d.Exact); ok {
-			fit := newFitOpt(f, d, opt)
-			fit.Estimates[0], fit.Estimates[1] = m, s
-			fit.LogLik = ll
-			fit.Convergence = closedForm()
-			return fit, nil
+		m, s, ll, ok := invgaussOnePass(d.Exact)
+		if !ok {
+			m, s, ll, ok = invgaussFast(d.Exact)
 		}
-		if m, s, ll, ok := invgaussFast(d.Exact); ok {
+		if ok {
 			fit := newFitOpt(f, d, opt)
 			fit.Estimates[0], fit.Estimates[1] = m, s
 			fit.LogLik = ll
