@@ -37,6 +37,12 @@ type tailsScratch struct {
 
 var tailsPool = sync.Pool{New: func() any { return new(tailsScratch) }}
 
+// The CDFTailsBatch methods below each write out the loop over blocks: a
+// shared helper taking the block routine as a function value makes x and
+// the outputs escape, and with them the callers' arrays on the stack
+// (edfStatistics: one allocation more per bootstrap replicate,
+// TestBootstrapLoopAllocatesNothing).
+
 // CDFTailsBatch is CDFTails over x (any length) in blocks of stages:
 // weibullBlock.
 func (d Weibull) CDFTailsBatch(x, cdf, logCDF, logSurvival []float64) {
@@ -375,10 +381,10 @@ func logLogisticBlock(d LogLogistic, w *tailsScratch, x, cdf, logCDF, logSurviva
 // for a: the prefactor's
 // logarithm pre = ln(y^a e^(−y)/Γ(a)), y = βx (gammaPrefactorFast, its
 // ln y by one logsInto below a = 30), e^pre by one expsInto, the series or
-// the continued fraction point by point (incGammaTailsPre), the logarithms
-// of their values by one logsInto, and the other tail's logarithm by
-// log1mSmalls. Points where incGammaTailsPre declines go to
-// gammaTailsGonum, as in CDFTails.
+// the continued fraction where incGammaTailsPre takes it, two points at a
+// time (series2, gammaContinuedFraction2), the logarithms of their values
+// by one logsInto, and the other tail's logarithm by log1mSmalls. Points
+// where incGammaTailsPre declines go to gammaTailsGonum, as in CDFTails.
 func gammaBlock(d Gamma, c float64, w *tailsScratch, x, cdf, logCDF, logSurvival []float64) {
 	n := len(x)
 	a := d.Shape
