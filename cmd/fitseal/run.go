@@ -12,6 +12,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 
 	"golang.org/x/term"
@@ -103,15 +104,16 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	// The git state is read while the fits run unless the run depends on
 	// it (require_clean_git): on a repository of some hundred files the
 	// worktree's status alone takes 30–40 ms, on a large one much more.
-	gitDone := make(chan gitRead, 1)
-	readGit := func() {
+	gitState := sync.OnceValues(func() (bundle.GitInfo, error) {
 		info, err := bundle.GitProvenance(p.File, gitInputs(p, inputs))
-		gitDone <- gitRead{info, err}
-	}
-	var git bundle.GitInfo
+		if err != nil {
+			return info, fmt.Errorf("reading git provenance: %w", err)
+		}
+		return info, nil
+	})
 	if p.Settings.RequireCleanGit {
-		readGit()
-		if git, err = (<-gitDone).get(); err != nil {
+		git, err := gitState()
+		if err != nil {
 			return err
 		}
 		if !git.Repository {
@@ -121,7 +123,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 			return usageError{fmt.Errorf("require_clean_git = true, but these inputs are not committed unmodified: %s; commit them (git add, git commit) and run again", strings.Join(u, ", "))}
 		}
 	} else {
-		go readGit()
+		go gitState()
 	}
 	signer, _, err := bundle.ResolveKey(o.Key, os.Getenv, stderr)
 	if err != nil {
@@ -143,10 +145,9 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		}
 		return inputError(err)
 	}
-	if !p.Settings.RequireCleanGit {
-		if git, err = (<-gitDone).get(); err != nil {
-			return err
-		}
+	git, err := gitState()
+	if err != nil {
+		return err
 	}
 	contents, err := bundle.Seal(res, bundle.SealOptions{
 		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Shard: shard, Workers: opt.Workers,
@@ -175,20 +176,6 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	}
 	fmt.Fprintf(stdout, "bundle: %s\n", out)
 	return nil
-}
-
-// gitRead is the outcome of reading the git provenance.
-type gitRead struct {
-	info bundle.GitInfo
-	err  error
-}
-
-// get returns the provenance, or the error that reading it gave.
-func (g gitRead) get() (bundle.GitInfo, error) {
-	if g.err != nil {
-		return bundle.GitInfo{}, fmt.Errorf("reading git provenance: %w", g.err)
-	}
-	return g.info, nil
 }
 
 // gitInputs are the files whose git state run.json records, relative to the
