@@ -8,8 +8,9 @@ import (
 	"sort"
 	"strconv"
 	"strings"
-	"sync"
 	"time"
+
+	"fitseal/runner"
 )
 
 // The members of a bag outside its payload folder (SPEC.md, "The bundle").
@@ -113,28 +114,10 @@ func sha256All(workers int, files map[string][]byte, paths []string, known map[s
 			todo = append(todo, i)
 		}
 	}
-	if workers <= 1 || len(todo) < 2 {
-		for _, i := range todo {
-			sums[i] = sha256Hex(files[paths[i]])
-		}
-		return sums
-	}
-	next := make(chan int, len(todo))
-	for _, i := range todo {
-		next <- i
-	}
-	close(next)
-	var wg sync.WaitGroup
-	for w := 0; w < min(workers, len(todo)); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				sums[i] = sha256Hex(files[paths[i]])
-			}
-		}()
-	}
-	wg.Wait()
+	runner.ForEach(workers, len(todo), func(k int) {
+		i := todo[k]
+		sums[i] = sha256Hex(files[paths[i]])
+	})
 	return sums
 }
 

@@ -11,7 +11,6 @@ import (
 	"sort"
 	"strconv"
 	"strings"
-	"sync"
 
 	"golang.org/x/crypto/ssh"
 
@@ -227,31 +226,24 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 			err   error
 		}
 		each := make([]found, len(names))
-		sem := make(chan struct{}, workers)
-		var wg sync.WaitGroup
-		for i, n := range names {
+		runner.ForEach(workers, len(names), func(i int) {
+			n := names[i]
 			recorded, ok := payload["results/"+n]
 			if !ok {
-				continue
+				return
 			}
 			member := PayloadDir + "/results/" + n
-			wg.Add(1)
-			sem <- struct{}{}
-			go func() {
-				defer func() { <-sem; wg.Done() }()
-				f := &each[i]
-				if strings.HasSuffix(n, ".json") {
-					f.diffs, f.count, f.err = compareJSON(member, recorded, files[n], agree, skipText)
-					return
-				}
-				var skipColumn func(string) bool
-				if skipText != nil && n == runner.FitsFile {
-					skipColumn = func(column string) bool { return column == "method" }
-				}
-				f.diffs, f.count, f.err = compareCSV(member, recorded, files[n], agree, skipColumn)
-			}()
-		}
-		wg.Wait()
+			f := &each[i]
+			if strings.HasSuffix(n, ".json") {
+				f.diffs, f.count, f.err = compareJSON(member, recorded, files[n], agree, skipText)
+				return
+			}
+			var skipColumn func(string) bool
+			if skipText != nil && n == runner.FitsFile {
+				skipColumn = func(column string) bool { return column == "method" }
+			}
+			f.diffs, f.count, f.err = compareCSV(member, recorded, files[n], agree, skipColumn)
+		})
 		counts, formatErrs = map[string]int{}, map[string]error{}
 		for i, n := range names {
 			if _, ok := payload["results/"+n]; !ok {

@@ -13,8 +13,6 @@ import (
 	"runtime/debug"
 	"sort"
 	"strings"
-	"sync"
-	"sync/atomic"
 	"time"
 	"unsafe"
 
@@ -497,18 +495,9 @@ func renderOn(workers int, res *runner.Results, id report.Identity) (map[string]
 		// safe to call at once) and gathered in analysis order.
 		all := make([][]report.RenderedFigure, len(r.Analyses))
 		errs := make([]error, len(r.Analyses))
-		var next atomic.Int64
-		var wg sync.WaitGroup
-		for w := 0; w < min(workers, len(r.Analyses)); w++ {
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				for i := int(next.Add(1) - 1); i < len(r.Analyses); i = int(next.Add(1) - 1) {
-					all[i], errs[i] = report.RenderFigures(slugs[i], report.FigureInputFor(res, i))
-				}
-			}()
-		}
-		wg.Wait()
+		runner.ForEach(workers, len(r.Analyses), func(i int) {
+			all[i], errs[i] = report.RenderFigures(slugs[i], report.FigureInputFor(res, i))
+		})
 		for i, figs := range all {
 			if err := errs[i]; err != nil {
 				return nil, fmt.Errorf("figures of %s: %w", r.Analyses[i].Name, err)

@@ -3,7 +3,6 @@ package runner
 import (
 	"math"
 	"strconv"
-	"sync"
 )
 
 // Result file names, as they appear under the bundle's data/results/.
@@ -46,22 +45,7 @@ func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
 	names := []string{ResultsFile, FitsFile, ParametersFile, DerivedFile, GOFFile}
 	write := []func() []byte{r.resultsJSON, r.fitsCSV, r.parametersCSV, r.derivedCSV, r.gofCSV}
 	data := make([][]byte, len(names))
-	next := make(chan int, len(names))
-	for i := range names {
-		next <- i
-	}
-	close(next)
-	var wg sync.WaitGroup
-	for w := 0; w < min(max(1, workers), len(names)); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				data[i] = write[i]()
-			}
-		}()
-	}
-	wg.Wait()
+	ForEach(workers, len(names), func(i int) { data[i] = write[i]() })
 	out := make(map[string][]byte, len(names))
 	for i, name := range names {
 		out[name] = data[i]

@@ -3,8 +3,6 @@ package runner
 import (
 	"fmt"
 	"math"
-	"sync"
-	"sync/atomic"
 
 	"fitseal/fitters"
 	"fitseal/fitters/infer"
@@ -96,22 +94,9 @@ func assemble(p *Project, plan *Plan, tasks []taskResult, workers int) (*Results
 	analyses := make([]*AnalysisResult, len(plan.Analyses))
 	seeds := make([][]Seed, len(plan.Analyses))
 	errs := make([]error, len(plan.Analyses))
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < max(1, min(workers, len(plan.Analyses))); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1)) - 1
-				if i >= len(plan.Analyses) {
-					return
-				}
-				analyses[i], seeds[i], errs[i] = assembleAnalysis(p, plan.Analyses[i], tasks[first[i]:first[i+1]])
-			}
-		}()
-	}
-	wg.Wait()
+	ForEach(workers, len(plan.Analyses), func(i int) {
+		analyses[i], seeds[i], errs[i] = assembleAnalysis(p, plan.Analyses[i], tasks[first[i]:first[i+1]])
+	})
 	res := &Results{Project: p, Analyses: analyses}
 	for i := range plan.Analyses {
 		if errs[i] != nil {

@@ -6,8 +6,6 @@ import (
 	"math"
 	"math/rand/v2"
 	"sort"
-	"sync"
-	"sync/atomic"
 
 	"fitseal/fitters"
 	"fitseal/runner"
@@ -32,18 +30,7 @@ func FromResultsOn(workers int, res *runner.Results, id Identity) *Report {
 		return r
 	}
 	r.Analyses = make([]Analysis, len(res.Analyses))
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for w := 0; w < min(max(1, workers), len(res.Analyses)); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := int(next.Add(1) - 1); i < len(res.Analyses); i = int(next.Add(1) - 1) {
-				r.Analyses[i] = analysisOf(p, res.Analyses[i])
-			}
-		}()
-	}
-	wg.Wait()
+	runner.ForEach(workers, len(res.Analyses), func(i int) { r.Analyses[i] = analysisOf(p, res.Analyses[i]) })
 	return r
 }
 

@@ -6,8 +6,8 @@ import (
 	"runtime"
 	"slices"
 	"strings"
-	"sync"
 
+	"fitseal/runner"
 	"fitseal/templates"
 )
 
@@ -50,22 +50,9 @@ func RenderTablesOn(workers int, tmpls []*templates.TableTemplate, analyses []An
 	// the bytes do not depend on the number of cores.
 	files := make([][]File, len(analyses))
 	errs := make([]error, len(analyses))
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for w := 0; w < min(max(1, workers), len(analyses)); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				files[i], errs[i] = renderAnalysis(use, builtin, analyses[i], slugs[i])
-			}
-		}()
-	}
-	for i := range analyses {
-		next <- i
-	}
-	close(next)
-	wg.Wait()
+	runner.ForEach(workers, len(analyses), func(i int) {
+		files[i], errs[i] = renderAnalysis(use, builtin, analyses[i], slugs[i])
+	})
 	var out []File
 	for i := range analyses {
 		if errs[i] != nil {
