@@ -11,11 +11,8 @@ import (
 // Σ ln x and Σ ln(1 − x) (running products, one logarithm per few values)
 // and the censored values, distinct ones tallied.
 type betaCensoredSample struct {
-	n, s1, s2   float64
-	left, right tally
-	lower       []float64
-	upper       []float64
-	inCount     []float64
+	n, s1, s2 float64
+	censoredTallies
 }
 
 // newBetaCensoredSample gathers d's statistics; false when an observation
@@ -45,7 +42,6 @@ func newBetaCensoredSample(d *Data) (betaCensoredSample, bool) {
 		}
 		s.right.add(x)
 	}
-	var pairs intervalNumbers
 	for i, l := range d.Lower {
 		u := d.Upper[i]
 		switch {
@@ -58,13 +54,7 @@ func newBetaCensoredSample(d *Data) (betaCensoredSample, bool) {
 		case u >= 1:
 			s.right.add(l)
 		default:
-			if j, fresh := pairs.number(l, u, len(s.lower)); !fresh {
-				s.inCount[j]++
-				continue
-			}
-			s.lower = append(s.lower, l)
-			s.upper = append(s.upper, u)
-			s.inCount = append(s.inCount, 1)
+			s.addInterval(l, u)
 		}
 	}
 	return s, true

@@ -144,12 +144,10 @@ func identityFrom(p []float64) (float64, float64) { return p[0], p[1] }
 // limits (a few detection limits, suspensions at the end of a test), so
 // each censored term is evaluated once per distinct value.
 type censoredSample struct {
-	exact        []float64
-	sumY         float64 // Σ (y − centre) over the exact values
-	lnRef        float64 // on the log scale, the centre: y − centre = ln(x/e^centre)
-	left, right  tally
-	lower, upper []float64
-	inCount      []float64
+	exact []float64
+	sumY  float64 // Σ (y − centre) over the exact values
+	lnRef float64 // on the log scale, the centre: y − centre = ln(x/e^centre)
+	censoredTallies
 }
 
 // standardizeCensored maps every value of d to u = (y − c)/s, y = x or
@@ -204,7 +202,6 @@ func standardizeCensored(d *Data, logScale bool, c, s float64) (censoredSample, 
 		}
 		cs.right.add(u)
 	}
-	var pairs intervalNumbers
 	for i := range d.Lower {
 		l, u := to(d.Lower[i]), to(d.Upper[i])
 		switch {
@@ -217,13 +214,7 @@ func standardizeCensored(d *Data, logScale bool, c, s float64) (censoredSample, 
 		case math.IsInf(u, 1):
 			cs.right.add(l)
 		default:
-			if j, fresh := pairs.number(l, u, len(cs.lower)); !fresh {
-				cs.inCount[j]++
-				continue
-			}
-			cs.lower = append(cs.lower, l)
-			cs.upper = append(cs.upper, u)
-			cs.inCount = append(cs.inCount, 1)
+			cs.addInterval(l, u)
 		}
 	}
 	return cs, true

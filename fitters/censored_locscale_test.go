@@ -213,10 +213,12 @@ func TestCensoredLocScaleAgreesWithGeneric(t *testing.T) {
 // tails included (z up to ±8).
 func TestCensoredLocScaleDerivatives(t *testing.T) {
 	cs := censoredSample{
-		exact:   []float64{-1.2, 0.3, 0.9, 2.5},
-		lower:   []float64{-3, 0.2, 2},
-		upper:   []float64{-2.5, 0.7, 7},
-		inCount: []float64{1, 3, 1},
+		exact: []float64{-1.2, 0.3, 0.9, 2.5},
+		censoredTallies: censoredTallies{
+			lower:   []float64{-3, 0.2, 2},
+			upper:   []float64{-2.5, 0.7, 7},
+			inCount: []float64{1, 3, 1},
+		},
 	}
 	for _, u := range []float64{-8, -0.5, -0.5} {
 		cs.left.add(u)

@@ -146,9 +146,7 @@ func censoredNewtonFallback(fit *Fit, reason string) {
 // below 0 is a non-detect at its upper end, one open above a suspension at
 // its lower end; a suspension at or below 0 adds ln S = 0 and is dropped).
 type censoredPositive struct {
-	left, right  tally
-	lower, upper []float64
-	inCount      []float64
+	censoredTallies
 }
 
 // add tallies d's censored values scaled by ic = 1/c. It reports false when
@@ -170,7 +168,7 @@ func (s *censoredPositive) add(d *Data, ic float64) bool {
 			s.right.add(to(x))
 		}
 	}
-	var pairs intervalNumbers
+	first := len(s.lower)
 	for i, l := range d.Lower {
 		u := d.Upper[i]
 		switch {
@@ -183,14 +181,12 @@ func (s *censoredPositive) add(d *Data, ic float64) bool {
 		case math.IsInf(u, 1):
 			s.right.add(to(l))
 		default:
-			if j, fresh := pairs.number(l, u, len(s.lower)); !fresh {
-				s.inCount[j]++
-				continue
-			}
-			s.lower = append(s.lower, to(l))
-			s.upper = append(s.upper, to(u))
-			s.inCount = append(s.inCount, 1)
+			s.addInterval(l, u)
 		}
+	}
+	// The intervals are told apart as given and kept scaled.
+	for i := first; i < len(s.lower); i++ {
+		s.lower[i], s.upper[i] = to(s.lower[i]), to(s.upper[i])
 	}
 	return true
 }
@@ -227,6 +223,28 @@ func (m *intervalNumbers) number(l, u float64, next int) (j int, fresh bool) {
 	}
 	(*m)[k] = next
 	return next, true
+}
+
+// censoredTallies holds a sample's censored values as the Newton routes
+// sum them: non-detect limits (left) and suspension times (right) by
+// distinct value, two-sided intervals (lower[j], upper[j]] by distinct pair
+// with their counts, each in order of first appearance.
+type censoredTallies struct {
+	left, right  tally
+	lower, upper []float64
+	inCount      []float64
+	pairs        intervalNumbers
+}
+
+// addInterval counts the interval (l, u].
+func (c *censoredTallies) addInterval(l, u float64) {
+	if j, fresh := c.pairs.number(l, u, len(c.lower)); !fresh {
+		c.inCount[j]++
+		return
+	}
+	c.lower = append(c.lower, l)
+	c.upper = append(c.upper, u)
+	c.inCount = append(c.inCount, 1)
 }
 
 // tally holds distinct values in order of first appearance with their

@@ -286,11 +286,9 @@ func (s *shapeTermSums) point(sc float64) newton3Point {
 // upper end, one open above a suspension at its lower end), together with
 // the centre C and unit S of θ's location and scale (μ = C + S·a, σ = S·e^t).
 type locScaleShapeSample struct {
-	exact        []float64
-	c, s         float64
-	left, right  tally
-	lower, upper []float64
-	inCount      []float64
+	exact []float64
+	c, s  float64
+	censoredTallies
 }
 
 // newLocScaleShapeSample tallies d's censored values. It reports false when
@@ -315,7 +313,6 @@ func newLocScaleShapeSample(d *Data, c, s float64) (locScaleShapeSample, bool) {
 		}
 		cs.right.add(x)
 	}
-	var pairs intervalNumbers
 	for i, l := range d.Lower {
 		u := d.Upper[i]
 		switch {
@@ -328,13 +325,7 @@ func newLocScaleShapeSample(d *Data, c, s float64) (locScaleShapeSample, bool) {
 		case math.IsInf(u, 1):
 			cs.right.add(l)
 		default:
-			if j, fresh := pairs.number(l, u, len(cs.lower)); !fresh {
-				cs.inCount[j]++
-				continue
-			}
-			cs.lower = append(cs.lower, l)
-			cs.upper = append(cs.upper, u)
-			cs.inCount = append(cs.inCount, 1)
+			cs.addInterval(l, u)
 		}
 	}
 	return cs, true
