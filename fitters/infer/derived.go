@@ -306,6 +306,7 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 		}
 	}
 	warm := scales[j].To(est[j])
+	slope := math.NaN() // dh/dt at the last root, the next solve's first secant
 	return &profiler{
 		fam: fam, data: d, u0: u0,
 		theta: append([]float64(nil), est...),
@@ -315,11 +316,11 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 				theta[j] = scales[j].From(t)
 				return sc.To(g(theta)) - v
 			}
-			tj, ok := solveNear(h, warm, stepJ)
+			tj, s, ok := solveNear(h, warm, stepJ, slope)
 			if !ok {
 				return false
 			}
-			warm = tj
+			warm, slope = tj, s
 			theta[j] = scales[j].From(tj)
 			return finite(theta) && regular(fam, theta)
 		},
@@ -342,16 +343,26 @@ func solveFor(family string) []string {
 	return []string{"location", "mu", "scale", "sigma", "rate"}
 }
 
-// solveNear finds a root of h near t0: it widens a search around t0 by
-// doubling steps on both sides until h changes sign (at most 60 times), then
-// refines the bracket by regula falsi.
-func solveNear(h func(float64) float64, t0, step float64) (float64, bool) {
+// solveNear finds a root of h near t0 and returns it with the slope of h
+// there (NaN when unknown), given step, the scale of t's uncertainty, and
+// slope, h's slope at the previous root (NaN for none).
+//
+// It first takes secant steps (secantNear): a quantile on its scale is
+// linear in a location, or in the log of a scale, so from the previous
+// root's slope the first step lands on the root and the second confirms
+// it. Should they fail, it widens a search around t0 by doubling steps on
+// both sides until h changes sign (at most 60 times), then refines the
+// bracket by regula falsi to 1e-14·max(1, |t|).
+func solveNear(h func(float64) float64, t0, step, slope float64) (float64, float64, bool) {
 	h0 := h(t0)
 	if h0 == 0 {
-		return t0, true
+		return t0, slope, true
 	}
 	if math.IsNaN(h0) || math.IsInf(h0, 0) {
-		return math.NaN(), false
+		return math.NaN(), math.NaN(), false
+	}
+	if t, s, ok := secantNear(h, t0, h0, step, slope); ok {
+		return t, s, true
 	}
 	downOK, upOK := true, true
 	for k := 0; k < 60 && (downOK || upOK); k++ {
@@ -371,17 +382,55 @@ func solveNear(h func(float64) float64, t0, step float64) (float64, bool) {
 				continue
 			}
 			if (ht > 0) != (h0 > 0) {
-				a, b := t0+dir*delta/2, t
-				if k == 0 {
-					a = t0
+				a, ha := t0, h0
+				if k > 0 {
+					a = t0 + dir*delta/2
+					if ha = h(a); (ha > 0) == (ht > 0) {
+						a, ha = t0, h0
+					}
 				}
-				ha := h(a)
-				if (ha > 0) == (ht > 0) {
-					a, ha = t0, h0
-				}
-				return findRoot(h, a, b, ha, ht, 1e-14, 0, 300)
+				r, ok := findRoot(h, a, t, ha, ht, 1e-14, 0, 300)
+				return r, math.NaN(), ok
 			}
 		}
 	}
-	return math.NaN(), false
+	return math.NaN(), math.NaN(), false
+}
+
+// secantTries bounds the secant steps of secantNear (a variable so that a
+// test can compare the intervals found with none).
+var secantTries = 8
+
+// secantNear takes secant steps from t0 (h0 = h(t0) ≠ 0): the first along
+// slope when it is finite and nonzero, else a trial step of step/16 towards
+// the root, should h rise with t. It returns the root and h's slope there
+// once a step is at most 1e-14·max(1, |t|) — the same resolution as
+// solveNear's bracket — and fails (ok false) on a value that is not finite,
+// a flat secant, a root farther than 8 steps from t0 or no convergence in
+// secantTries evaluations; solveNear then brackets the root instead.
+func secantNear(h func(float64) float64, t0, h0, step, slope float64) (float64, float64, bool) {
+	ta, ha := t0, h0
+	tb := t0 - math.Copysign(step/16, h0)
+	if slope != 0 && !math.IsNaN(slope) && !math.IsInf(slope, 0) {
+		tb = t0 - h0/slope
+	}
+	for range secantTries {
+		if math.IsNaN(tb) || math.Abs(tb-t0) > 8*step {
+			break
+		}
+		hb := h(tb)
+		if math.IsNaN(hb) || math.IsInf(hb, 0) || hb == ha {
+			break
+		}
+		s := (hb - ha) / (tb - ta)
+		if hb == 0 {
+			return tb, s, true
+		}
+		tc := tb - hb/s
+		if math.Abs(tc-tb) <= 1e-14*math.Max(1, math.Abs(tc)) {
+			return tc, s, true
+		}
+		ta, ha, tb = tb, hb, tc
+	}
+	return math.NaN(), math.NaN(), false
 }
