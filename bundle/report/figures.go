@@ -3,6 +3,7 @@ package report
 import (
 	"bytes"
 	"fmt"
+	"image"
 	"image/color"
 	"image/png"
 	"math"
@@ -10,6 +11,7 @@ import (
 	"strconv"
 	"sync"
 
+	"git.sr.ht/~sbinet/gg"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/plotter"
@@ -195,14 +197,32 @@ func encode(p *plot.Plot) (svg, png []byte, err error) {
 	if _, err := sc.WriteTo(&sb); err != nil {
 		return nil, nil, err
 	}
-	ic := vgimg.NewWith(vgimg.UseWH(figureWidth, figureHeight), vgimg.UseDPI(figureDPI), vgimg.UseBackgroundColor(color.White))
+	img := rasters.Get().(*image.RGBA)
+	defer rasters.Put(img)
+	// The canvas is the whole pixel grid; NewWith paints it white first.
+	// With UseWH instead, vgimg would allocate the image and gg copy it.
+	ctx := gg.NewContextForRGBA(img)
+	ctx.SetLineCapButt()
+	ctx.InvertY()
+	ic := vgimg.NewWith(vgimg.UseImageWithContext(img, ctx), vgimg.UseDPI(figureDPI))
 	p.Draw(draw.New(ic))
 	var pb bytes.Buffer
-	if err := pngEncoder.Encode(&pb, ic.Image()); err != nil {
+	if err := pngEncoder.Encode(&pb, img); err != nil {
 		return nil, nil, err
 	}
 	return sb.Bytes(), pb.Bytes(), nil
 }
+
+// rasters lends the PNG figures their pixels: an RGBA image of
+// figureWidth × figureHeight at figureDPI, rounded to whole pixels
+// (720 × 518), whose 1.5 MB would otherwise be allocated, cleared and, by
+// gg, copied once more for every figure. The PNG's layout spans exactly
+// those pixels (5 × 3.597 in, the SVG's 5 × 3.6 in less the 0.4 pixel
+// that rounding used to cut from the top).
+var rasters = sync.Pool{New: func() any {
+	px := func(l vg.Length) int { return int(float64(l/vg.Inch)*figureDPI + 0.5) }
+	return image.NewRGBA(image.Rect(0, 0, px(figureWidth), px(figureHeight)))
+}}
 
 // pngEncoder writes the figures' PNGs at zlib's fastest level: on the
 // demo's figures (720 × 518 pixels) 30–50 % less time than the default
