@@ -1,6 +1,7 @@
 package infer
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -58,27 +59,31 @@ func TestSolveNear(t *testing.T) {
 // change the profile-likelihood intervals of derived quantities only within
 // the solvers' tolerances: with secantTries = 0 every constraint is solved
 // by the bracketing search alone, as before the secant steps, and the
-// bounds of every quantity of ten families at n = 12 and 50 agree to 1e-9
-// relative, with the same notes. (Measured: 2e-11 at most.)
+// bounds agree to 1e-9 relative, with the same notes and methods. Cases:
+// ten families on their own draws at n = 12 and 50, every registered family
+// on familyTestData (the discrete families' quantiles have no profile), and
+// right- and interval-censored samples: 247 closed intervals. (Measured:
+// 2e-11 apart at most.)
 func TestDerivedProfileSecantMatchesBracketing(t *testing.T) {
 	if testing.Short() {
-		t.Skip("profiles 280 intervals")
+		t.Skip("profiles some 500 intervals twice")
 	}
 	type query struct {
 		q   Quantity
 		arg float64
 	}
-	intervals := func(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, qs []query) []DerivedValue {
-		var out []DerivedValue
-		for _, q := range qs {
-			v, err := Derived(fam, fit, d, q.q, q.arg, MethodProfile, Settings{Level: 0.95})
-			if err != nil {
-				t.Fatal(err)
-			}
-			out = append(out, v)
-		}
-		return out
+	type dataset struct {
+		name string
+		fam  fitters.Family
+		d    *fitters.Data
+		opt  fitters.Options
+		qs   []query
 	}
+	standard := func(x0, x1 float64) []query {
+		return []query{{Quantile, 0.01}, {Quantile, 0.1}, {Quantile, 0.5}, {Quantile, 0.9},
+			{ReturnLevel, 100}, {Exceedance, x0}, {Exceedance, x1}}
+	}
+	var cases []dataset
 	for _, c := range []struct {
 		family string
 		params []float64
@@ -99,28 +104,72 @@ func TestDerivedProfileSecantMatchesBracketing(t *testing.T) {
 			for i := range x {
 				x[i] = dist.Rand(r)
 			}
-			d := fitters.Complete(x)
-			fit := fitOf(t, fam, d)
-			qs := []query{{Quantile, 0.01}, {Quantile, 0.1}, {Quantile, 0.5}, {Quantile, 0.9},
-				{ReturnLevel, 100}, {Exceedance, x[0]}, {Exceedance, 1.5 * x[1]}}
-			secant := intervals(fam, fit, d, qs)
-			saved := secantTries
-			secantTries = 0
-			bracket := intervals(fam, fit, d, qs)
-			secantTries = saved
-			for i, q := range qs {
-				a, b := secant[i], bracket[i]
-				if a.Note != b.Note || a.Method != b.Method || a.LowerOpen != b.LowerOpen || a.UpperOpen != b.UpperOpen {
-					t.Errorf("%s n=%d %s %v: secant %+v, bracketing %+v", c.family, n, q.q, q.arg, a, b)
-					continue
-				}
-				for _, pair := range [][2]float64{{a.Lower, b.Lower}, {a.Upper, b.Upper}} {
-					if math.IsNaN(pair[0]) != math.IsNaN(pair[1]) || math.Abs(pair[0]-pair[1]) > 1e-9*math.Abs(pair[1]) {
-						t.Errorf("%s n=%d %s %v: bounds [%v, %v] with secant steps, [%v, %v] bracketing", c.family, n, q.q, q.arg, a.Lower, a.Upper, b.Lower, b.Upper)
-						break
+			cases = append(cases, dataset{fmt.Sprintf("%s n=%d", c.family, n), fam, fitters.Complete(x), fitters.Options{}, standard(x[0], 1.5*x[1])})
+			if n == 50 && c.family != "normal" && c.family != "logistic" && c.family != "gumbel" && c.family != "gev" {
+				// Suspensions above the 80th draw's value, and the
+				// first ten values known only to a bin of width 20 %.
+				cut := x[40]
+				var cd fitters.Data
+				for i, v := range x {
+					switch {
+					case i < 10:
+						cd.Lower = append(cd.Lower, 0.9*v)
+						cd.Upper = append(cd.Upper, 1.1*v)
+					case v > cut:
+						cd.Right = append(cd.Right, cut)
+					default:
+						cd.Exact = append(cd.Exact, v)
 					}
 				}
+				cases = append(cases, dataset{c.family + " censored", fam, &cd, fitters.Options{}, standard(x[0], 1.5*x[1])})
 			}
 		}
 	}
+	for _, fam := range fitters.Families() {
+		d, opt := familyTestData(fam)
+		arg := 0.5 * ballBearings[22]
+		if fam.Name() == "beta" {
+			arg = 0.5
+		}
+		cases = append(cases, dataset{fam.Name() + " familyTestData", fam, d, opt,
+			[]query{{Quantile, 0.1}, {Quantile, 0.5}, {ReturnLevel, 100}, {Exceedance, arg}}})
+	}
+	compared := 0
+	for _, c := range cases {
+		fit, err := c.fam.Fit(c.d, c.opt)
+		if err != nil || !fit.Converged {
+			t.Logf("%s: not fitted (%v)", c.name, err)
+			continue
+		}
+		for _, q := range c.qs {
+			a, err := Derived(c.fam, fit, c.d, q.q, q.arg, MethodProfile, Settings{Level: 0.95})
+			if err != nil {
+				t.Fatal(err)
+			}
+			saved := secantTries
+			secantTries = 0
+			b, err := Derived(c.fam, fit, c.d, q.q, q.arg, MethodProfile, Settings{Level: 0.95})
+			secantTries = saved
+			if err != nil {
+				t.Fatal(err)
+			}
+			if a.Note != b.Note || a.Method != b.Method || a.LowerOpen != b.LowerOpen || a.UpperOpen != b.UpperOpen {
+				t.Errorf("%s %s %v: secant %+v, bracketing %+v", c.name, q.q, q.arg, a, b)
+				continue
+			}
+			for _, pair := range [][2]float64{{a.Lower, b.Lower}, {a.Upper, b.Upper}} {
+				if math.IsNaN(pair[0]) != math.IsNaN(pair[1]) || math.Abs(pair[0]-pair[1]) > 1e-9*math.Abs(pair[1]) {
+					t.Errorf("%s %s %v: bounds [%v, %v] with secant steps, [%v, %v] bracketing", c.name, q.q, q.arg, a.Lower, a.Upper, b.Lower, b.Upper)
+					break
+				}
+			}
+			if !math.IsNaN(a.Lower) {
+				compared++
+			}
+		}
+	}
+	if compared < 240 {
+		t.Errorf("only %d intervals compared; the cases give 247", compared)
+	}
+	t.Logf("%d intervals compared", compared)
 }
