@@ -62,11 +62,12 @@ func ProfileCurve(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, i int, 
 		}
 	}
 	params := append([]float64(nil), fit.Estimates...)
+	famLogLik := fitters.LogLikFunc(fam, d)
 	loglik := func(u []float64) float64 {
 		for k, j := range free {
 			params[j] = scales[j].From(u[k])
 		}
-		return fam.LogLik(params, d)
+		return famLogLik(params)
 	}
 	start := make([]float64, len(free))
 	for k, j := range free {
@@ -92,7 +93,7 @@ func ProfileCurve(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, i int, 
 			params[i] = s.From(t)
 			values[k] = params[i]
 			if len(free) == 0 {
-				lls[k] = fam.LogLik(params, d)
+				lls[k] = famLogLik(params)
 				continue
 			}
 			u, ll := maximise(loglik, warm)

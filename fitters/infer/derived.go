@@ -204,7 +204,14 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 			out.Note = "no free parameters"
 			break
 		}
-		p, j := quantityProfiler(fam, fit, d, g, sc, grad, info)
+		var gap func(theta []float64, x float64) float64
+		if numericQuantile[fam.Name()] && q != Exceedance {
+			gap = tailGap(fam, 1-1/arg)
+			if q == Quantile {
+				gap = tailGap(fam, arg)
+			}
+		}
+		p, j := quantityProfiler(fam, fit, d, g, gap, sc, grad, info)
 		vhat := sc.To(out.Estimate)
 		step := seT
 		if !(step > 0) || math.IsInf(step, 0) {
@@ -255,9 +262,37 @@ func quantityGradient(g func([]float64) float64, sc Scale, est []float64, free [
 	return grad
 }
 
+// numericQuantile lists the continuous families whose Quantile inverts
+// the CDF numerically (some dozens of CDF evaluations): their quantiles'
+// profiles solve the constraint through the CDF instead (tailGap).
+var numericQuantile = map[string]bool{"gamma": true, "invgauss": true, "beta": true, "studentt": true}
+
+// tailGap returns the constraint "the p-quantile is x" of a continuous
+// family through its CDF: ln F(x) − ln p below p = ½, ln(1 − p) − ln S(x)
+// from it on (the smaller tail keeps its digits), zero exactly where the
+// p-quantile is x, positive where it lies below x. It costs one CDF
+// evaluation where the quantile costs a numerical inversion.
+func tailGap(fam fitters.Family, p float64) func(theta []float64, x float64) float64 {
+	lp, lq := math.Log(p), math.Log1p(-p)
+	return func(theta []float64, x float64) float64 {
+		dist, err := fam.New(theta)
+		if err != nil {
+			return math.NaN()
+		}
+		if p < 0.5 {
+			return dist.LogCDF(x) - lp
+		}
+		return lq - dist.LogSurvival(x)
+	}
+}
+
 // quantityProfiler builds the profiler of a derived quantity and returns
-// the index of the parameter it solves for.
-func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g func([]float64) float64, sc Scale, grad []float64, info *Information) (*profiler, int) {
+// the index of the parameter it solves for. At each point the parameter
+// solved for meets the constraint ψ(θ) = v on the quantity's scale; with
+// gap (a quantile of a family in numericQuantile), gap(θ, x) = 0 at the
+// quantity's value x first, and ψ(θ) = v only where that search fails (x
+// beyond the support for some θ near the root, say).
+func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g func([]float64) float64, gap func([]float64, float64) float64, sc Scale, grad []float64, info *Information) (*profiler, int) {
 	est := fit.Estimates
 	scales := scalesOf(fam, est)
 	free := freeIndices(fit)
@@ -306,21 +341,36 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 		}
 	}
 	warm := scales[j].To(est[j])
-	slope := math.NaN() // dh/dt at the last root, the next solve's first secant
+	slope := math.NaN()    // dh/dt at the last root, the next solve's first secant
+	gapSlope := math.NaN() // the same for gap
 	return &profiler{
-		fam: fam, data: d, u0: u0,
+		fam: fam, data: d, u0: u0, loglik: fitters.LogLikFunc(fam, d),
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
 			fromScales(theta, u, u0, est, others, scales)
-			h := func(t float64) float64 {
-				theta[j] = scales[j].From(t)
-				return sc.To(g(theta)) - v
+			var tj, s float64
+			ok := false
+			if gap != nil {
+				x := sc.From(v)
+				hx := func(t float64) float64 {
+					theta[j] = scales[j].From(t)
+					return gap(theta, x)
+				}
+				if tj, s, ok = solveNear(hx, warm, stepJ, gapSlope); ok {
+					gapSlope = s
+				}
 			}
-			tj, s, ok := solveNear(h, warm, stepJ, slope)
 			if !ok {
-				return false
+				h := func(t float64) float64 {
+					theta[j] = scales[j].From(t)
+					return sc.To(g(theta)) - v
+				}
+				if tj, s, ok = solveNear(h, warm, stepJ, slope); !ok {
+					return false
+				}
+				slope = s
 			}
-			warm, slope = tj, s
+			warm = tj
 			theta[j] = scales[j].From(tj)
 			return finite(theta) && regular(fam, theta)
 		},

@@ -15,12 +15,13 @@ import (
 // transformed scales; build turns (v, u) into a full θ, or reports that no
 // valid θ has these coordinates (the edge of the parameter space).
 type profiler struct {
-	fam   fitters.Family
-	data  *fitters.Data
-	build func(v float64, u, theta []float64) bool
-	u0    []float64 // nuisance coordinates at the MLE
-	theta []float64 // scratch
-	evals int
+	fam    fitters.Family
+	data   *fitters.Data
+	loglik func(theta []float64) float64 // fam.LogLik on data (fitters.LogLikFunc)
+	build  func(v float64, u, theta []float64) bool
+	u0     []float64 // nuisance coordinates at the MLE
+	theta  []float64 // scratch
+	evals  int
 }
 
 // at returns ℓp(v), maximising from warm. edge is true when θ is invalid
@@ -37,7 +38,7 @@ func (p *profiler) at(v float64, warm []float64) (ll float64, u []float64, edge,
 			return math.Inf(-1)
 		}
 		valid = true
-		return p.fam.LogLik(p.theta, p.data)
+		return p.loglik(p.theta)
 	}
 	u, ll, ok = maximize(f, p.feasible(f, warm))
 	if !ok && valid {
@@ -201,7 +202,7 @@ func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, sc
 		u0[a] = scales[j].To(est[j])
 	}
 	return &profiler{
-		fam: fam, data: d, u0: u0,
+		fam: fam, data: d, u0: u0, loglik: fitters.LogLikFunc(fam, d),
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
 			theta[i] = scales[i].From(v)

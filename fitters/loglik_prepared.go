@@ -1,0 +1,372 @@
+package fitters
+
+import "math"
+
+// LogLikFunc returns θ ↦ fam.LogLik(θ, d), for evaluating one dataset's
+// log-likelihood many times (a profile likelihood maximises over the other
+// parameters at each of some dozen points, a few hundred evaluations per
+// interval). For the families below the terms that depend on the data
+// alone are computed once, here, so that an evaluation of the exact
+// values' part costs a few operations, or one exponential per value,
+// instead of logarithms and exponentials per value:
+//
+//   - exponential, gamma (shape < 30), normal, lognormal, inverse Gaussian:
+//     Σ x, Σ ln x, and sums of squares about the sample mean (of x or of
+//     ln x) or, for the inverse Gaussian, Σ (x − x̄)²/x, Σ (x − x̄)/x and
+//     Σ 1/x, from which every evaluation is O(1);
+//   - weibull, gumbel: ln x (or x) cached, one exponential per value;
+//   - logistic, loglogistic: x (or ln x) cached and standardised, and
+//     logisticSums' pass (one exponential per value, one logarithm per
+//     512 values).
+//
+// Logarithms are taken about a reference value (logsAbout, lnRatio) and
+// squares about the sample mean, so data clustered far from zero keep
+// their digits as in LogLik. Censored observations are added as LogLik
+// adds them. The values agree with LogLik to rounding
+// (TestLogLikFuncMatchesLogLik). Other families, data with values outside a
+// family's support, and more than 2²⁰ exact values for the cached forms
+// (whose copies would cost memory in proportion to n) get LogLik itself.
+// The returned function is for one goroutine at a time.
+func LogLikFunc(fam Family, d *Data) func(p []float64) float64 {
+	inner := fam
+	if c, ok := fam.(checkedFamily); ok {
+		inner = c.Family
+	}
+	if pf, ok := inner.(logLikPreparer); ok && len(d.Exact) > 0 && d.Trials == nil {
+		if f := pf.prepareLogLik(d); f != nil {
+			return f
+		}
+	}
+	return func(p []float64) float64 { return fam.LogLik(p, d) }
+}
+
+// logLikPreparer is a family with a faster LogLik for repeated evaluation
+// on one dataset; prepareLogLik returns nil where the data need LogLik.
+type logLikPreparer interface {
+	prepareLogLik(d *Data) func(p []float64) float64
+}
+
+// maxCachedValues bounds the data that LogLikFunc copies (8 MB of float64).
+const maxCachedValues = 1 << 20
+
+// positiveFinite reports whether every value is > 0 and finite.
+func positiveFinite(x []float64) bool {
+	for _, v := range x {
+		if !(v > 0) || math.IsInf(v, 1) {
+			return false
+		}
+	}
+	return true
+}
+
+// centredSquares returns the mean of v and Σ (vᵢ − mean)², by two passes
+// with the compensating correction (Chan, Golub & LeVeque, 1983).
+func centredSquares(v []float64) (mean, ss float64) {
+	n := float64(len(v))
+	for _, x := range v {
+		mean += x
+	}
+	mean /= n
+	var s, c float64
+	for _, x := range v {
+		d := x - mean
+		s += d * d
+		c += d
+	}
+	return mean, s - c*c/n
+}
+
+func (f exponentialFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	var s float64
+	for _, x := range d.Exact {
+		if !(x >= 0) {
+			return nil
+		}
+		s += x
+	}
+	if math.IsInf(s, 1) {
+		return nil
+	}
+	n := float64(len(d.Exact))
+	// Σ ln f(x) = n ln λ − λ Σx
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		e := dist.(Exponential)
+		return n*math.Log(e.Rate) - e.Rate*s + censoredLogLik(e, d, false)
+	}
+}
+
+func (f gammaFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	if !positiveFinite(d.Exact) {
+		return nil
+	}
+	var slx, sx float64
+	for _, x := range d.Exact {
+		slx += math.Log(x)
+		sx += x
+	}
+	if math.IsInf(sx, 1) {
+		return nil
+	}
+	n := float64(len(d.Exact))
+	// Σ ln f(x) = n(k ln β − ln Γ(k)) + (k−1) Σ ln x − β Σ x; for k ≥ 30
+	// LogLik's form that keeps the digits of the large terms.
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		g := dist.(Gamma)
+		if g.Shape >= 30 {
+			return gammaLogLikLargeShape(g, d)
+		}
+		lg, _ := math.Lgamma(g.Shape)
+		ll := n*(g.Shape*math.Log(g.Rate)-lg) + (g.Shape-1)*slx - g.Rate*sx
+		return ll + censoredLogLik(g, d, false)
+	}
+}
+
+func (f normalFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	// About r = x₀, a value of the data: xᵢ − r and μ − r are exact for
+	// data clustered far from zero, where the sample mean would not be.
+	r := d.Exact[0]
+	dx := make([]float64, len(d.Exact))
+	for i, x := range d.Exact {
+		dx[i] = x - r
+	}
+	dm, ss := centredSquares(dx)
+	if math.IsNaN(ss) || math.IsInf(ss, 0) || math.IsInf(dm, 0) {
+		return nil
+	}
+	sd := math.Sqrt(ss / float64(len(dx)))
+	n := float64(len(d.Exact))
+	// Σ zᵢ² = n((sd/σ)² + ((d̄ − (μ − r))/σ)²), zᵢ = (xᵢ − μ)/σ, dᵢ = xᵢ − r,
+	// sd the ML standard deviation: each ratio is formed before squaring.
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		nd := dist.(Normal)
+		a, b := sd/nd.Sigma, (dm-(nd.Mu-r))/nd.Sigma
+		ll := -n*(math.Log(nd.Sigma)+lnSqrt2Pi) - 0.5*n*(a*a+b*b)
+		return ll + censoredLogLik(nd, d, false)
+	}
+}
+
+func (f lognormalFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	if !positiveFinite(d.Exact) {
+		return nil
+	}
+	y := make([]float64, len(d.Exact))
+	ref := d.Exact[0]
+	lnRef, sy := logsAboutInto(y, d.Exact, ref)
+	my, ss := centredSquares(y)
+	n := float64(len(d.Exact))
+	slx := n*lnRef + sy
+	// ln xᵢ − μ = yᵢ − c, yᵢ = ln(xᵢ/ref), c = μ − ln ref = ln(e^μ/ref);
+	// Σ (ln xᵢ − μ)² = Σ (yᵢ − ȳ)² + n(ȳ − c)².
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		ln := dist.(LogNormal)
+		c := ln.Mu - lnRef
+		if em := math.Exp(ln.Mu); em > 0 && !math.IsInf(em, 1) {
+			c = lnRatio(em, ref)
+		}
+		dm := my - c
+		ll := -slx - n*(math.Log(ln.Sigma)+lnSqrt2Pi) - 0.5*(ss+n*dm*dm)/(ln.Sigma*ln.Sigma)
+		return ll + censoredLogLik(ln, d, false)
+	}
+}
+
+func (f invgaussFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	if !positiveFinite(d.Exact) {
+		return nil
+	}
+	m, _ := meanSD(d.Exact)
+	var slx, a, b, c float64
+	for _, x := range d.Exact {
+		slx += math.Log(x)
+		dx := x - m
+		a += dx * (dx / x)
+		b += dx / x
+		c += 1 / x
+	}
+	if math.IsInf(a, 0) || math.IsInf(c, 0) || math.IsNaN(a+b+c) {
+		return nil
+	}
+	n := float64(len(d.Exact))
+	// Σ (x−μ)²/x = A + 2δB + δ²C with δ = x̄ − μ, A = Σ (x−x̄)²/x,
+	// B = Σ (x−x̄)/x, C = Σ 1/x; Σ ln f = n(ln λ/2 − ln√(2π)) − 1.5 Σ ln x
+	// − λ Σ (x−μ)²/x / (2μ²).
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		g := dist.(InvGauss)
+		dl := m - g.Mean
+		sq := (a + dl*(2*b+dl*c)) / g.Mean / g.Mean
+		ll := n*(0.5*math.Log(g.Shape)-lnSqrt2Pi) - 1.5*slx - 0.5*g.Shape*sq
+		return ll + censoredLogLik(g, d, false)
+	}
+}
+
+// expSumBlock is the length of the exponentials' buffer of the cached
+// forms, whole multiples of logProductChunk (32 KiB).
+const expSumBlock = 8 * logProductChunk
+
+func (f weibullFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	if len(d.Exact) > maxCachedValues || !positiveFinite(d.Exact) {
+		return nil
+	}
+	y := make([]float64, len(d.Exact))
+	ref := d.Exact[0]
+	_, sy := logsAboutInto(y, d.Exact, ref)
+	work := make([]float64, min(len(y), expSumBlock))
+	n := float64(len(d.Exact))
+	// ln(xᵢ/λ) = yᵢ − c, c = ln(λ/ref): Σ ln f = n ln(k/λ) + (k−1)(Σy − nc)
+	// − Σ e^(k(yᵢ − c)).
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		w := dist.(Weibull)
+		c := lnRatio(w.Scale, ref)
+		k := w.Shape
+		var se float64
+		for start := 0; start < len(y); start += len(work) {
+			yb := y[start:min(start+len(work), len(y))]
+			wb := work[:len(yb)]
+			for i, v := range yb {
+				wb[i] = k * (v - c)
+			}
+			fastExps(wb, wb)
+			for _, e := range wb {
+				se += e
+			}
+		}
+		ll := n*(math.Log(k)-math.Log(w.Scale)) + (k-1)*(sy-n*c) - se
+		return ll + censoredLogLik(w, d, false)
+	}
+}
+
+func (f gumbelFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	if len(d.Exact) > maxCachedValues {
+		return nil
+	}
+	m, sd := meanSD(d.Exact)
+	if !(sd > 0) || math.IsInf(sd, 0) || math.IsInf(m, 0) || math.IsNaN(m) {
+		return nil
+	}
+	v := make([]float64, len(d.Exact))
+	var sv float64
+	for i, x := range d.Exact {
+		v[i] = (x - m) / sd
+		sv += v[i]
+	}
+	work := make([]float64, min(len(v), expSumBlock))
+	n := float64(len(d.Exact))
+	// zᵢ = (xᵢ − μ)/β = r·vᵢ − t with r = sd/β, t = (μ − x̄)/β:
+	// Σ ln f = −n ln β − (r Σv − n t) − Σ e^(t − r vᵢ).
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		g := dist.(Gumbel)
+		r, t := sd/g.Scale, (g.Location-m)/g.Scale
+		var se float64
+		for start := 0; start < len(v); start += len(work) {
+			vb := v[start:min(start+len(work), len(v))]
+			wb := work[:len(vb)]
+			for i, x := range vb {
+				wb[i] = t - r*x
+			}
+			fastExps(wb, wb)
+			for _, e := range wb {
+				se += e
+			}
+		}
+		ll := -n*math.Log(g.Scale) - (r*sv - n*t) - se
+		return ll + censoredLogLik(g, d, false)
+	}
+}
+
+// logisticPrepared is Σ g(zᵢ) − n ln s for zᵢ = (xᵢ − μ)/s over the
+// standardised values v = (x − x̄)/sd: logisticSums at b = sd/s,
+// a = (μ − x̄)/s gives n ln b + Σ g(b·v − a).
+type logisticPrepared struct {
+	v, work []float64
+	m, sd   float64
+}
+
+func newLogisticPrepared(x []float64) *logisticPrepared {
+	m, sd := meanSD(x)
+	if !(sd > 0) || math.IsInf(sd, 0) || math.IsInf(m, 0) || math.IsNaN(m) {
+		return nil
+	}
+	v := make([]float64, len(x))
+	for i, xi := range x {
+		v[i] = (xi - m) / sd
+	}
+	return &logisticPrepared{v: v, work: make([]float64, min(len(v), expSumBlock)), m: m, sd: sd}
+}
+
+// logLik is the exact values' Σ ln f for location mu and scale s.
+func (l *logisticPrepared) logLik(mu, s float64) float64 {
+	b := l.sd / s
+	pt := logisticSums(l.v, l.work, (mu-l.m)/s, b)
+	n := float64(len(l.v))
+	return pt.ll - n*math.Log(b) - n*math.Log(s)
+}
+
+func (f logisticFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	if len(d.Exact) > maxCachedValues {
+		return nil
+	}
+	lp := newLogisticPrepared(d.Exact)
+	if lp == nil {
+		return nil
+	}
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		l := dist.(Logistic)
+		return lp.logLik(l.Location, l.Scale) + censoredLogLik(l, d, false)
+	}
+}
+
+func (f loglogisticFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	if len(d.Exact) > maxCachedValues || !positiveFinite(d.Exact) {
+		return nil
+	}
+	ref := d.Exact[0]
+	y := make([]float64, len(d.Exact))
+	lnRef, sy := logsAboutInto(y, d.Exact, ref)
+	lp := newLogisticPrepared(y)
+	if lp == nil {
+		return nil
+	}
+	n := float64(len(d.Exact))
+	slx := n*lnRef + sy
+	// With y = ln(x/ref), ln x is logistic with location ln(α/ref) + ln ref
+	// and scale 1/β: Σ ln f(x) = Σ ln f_logistic(yᵢ; ln(α/ref), 1/β) − Σ ln x.
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		l := dist.(LogLogistic)
+		return lp.logLik(lnRatio(l.Scale, ref), 1/l.Shape) - slx + censoredLogLik(l, d, false)
+	}
+}
