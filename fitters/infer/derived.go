@@ -288,10 +288,12 @@ func tailGap(fam fitters.Family, p float64) func(theta []float64, x float64) flo
 
 // quantityProfiler builds the profiler of a derived quantity and returns
 // the index of the parameter it solves for. At each point the parameter
-// solved for meets the constraint ψ(θ) = v on the quantity's scale; with
-// gap (a quantile of a family in numericQuantile), gap(θ, x) = 0 at the
-// quantity's value x first, and ψ(θ) = v only where that search fails (x
-// beyond the support for some θ near the root, say).
+// solved for meets the constraint ψ(θ) = v on the quantity's scale, or,
+// given gap (a quantile of a family in numericQuantile), the equivalent
+// gap(θ, x) = 0 at the quantity's value x = sc.From(v): the two change
+// sign together, so the searches find the same root, or fail together
+// where none is in reach (an inverse Gaussian's quantile is bounded in its
+// mean, say).
 func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g func([]float64) float64, gap func([]float64, float64) float64, sc Scale, grad []float64, info *Information) (*profiler, int) {
 	est := fit.Estimates
 	scales := scalesOf(fam, est)
@@ -348,27 +350,34 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
 			fromScales(theta, u, u0, est, others, scales)
-			var tj, s float64
-			ok := false
+			var tj float64
 			if gap != nil {
 				x := sc.From(v)
 				hx := func(t float64) float64 {
 					theta[j] = scales[j].From(t)
-					return gap(theta, x)
+					r := gap(theta, x)
+					if math.IsInf(r, 0) {
+						// A tail that underflows still says on which side
+						// of x the quantile lies.
+						r = math.Copysign(math.MaxFloat64, r)
+					}
+					return r
 				}
-				if tj, s, ok = solveNear(hx, warm, stepJ, gapSlope); ok {
-					gapSlope = s
+				t, s, ok := solveNear(hx, warm, stepJ, gapSlope)
+				if !ok {
+					return false
 				}
-			}
-			if !ok {
+				tj, gapSlope = t, s
+			} else {
 				h := func(t float64) float64 {
 					theta[j] = scales[j].From(t)
 					return sc.To(g(theta)) - v
 				}
-				if tj, s, ok = solveNear(h, warm, stepJ, slope); !ok {
+				t, s, ok := solveNear(h, warm, stepJ, slope)
+				if !ok {
 					return false
 				}
-				slope = s
+				tj, slope = t, s
 			}
 			warm = tj
 			theta[j] = scales[j].From(tj)
