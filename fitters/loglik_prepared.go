@@ -16,8 +16,8 @@ import "math"
 //     Σ 1/x, from which every evaluation is O(1);
 //   - weibull, gumbel: ln x (or x) cached, one exponential per value;
 //   - logistic, loglogistic: x (or ln x) cached and standardised, and
-//     logisticSums' pass (one exponential per value, one logarithm per
-//     512 values).
+//     logisticSums' ℓ (one exponential per value, one logarithm per 512
+//     values; logisticLogLikSum).
 //
 // Logarithms are taken about a reference value (logsAbout, lnRatio) and
 // squares about the sample mean, so data clustered far from zero keep
@@ -322,10 +322,31 @@ func newLogisticPrepared(x []float64) *logisticPrepared {
 
 // logLik is the exact values' Σ ln f for location mu and scale s.
 func (l *logisticPrepared) logLik(mu, s float64) float64 {
-	b := l.sd / s
-	pt := logisticSums(l.v, l.work, (mu-l.m)/s, b)
-	n := float64(len(l.v))
-	return pt.ll - n*math.Log(b) - n*math.Log(s)
+	return logisticLogLikSum(l.v, l.work, (mu-l.m)/s, l.sd/s) - float64(len(l.v))*math.Log(l.sd)
+}
+
+// logisticLogLikSum is logisticSums' ℓ alone, n ln b + Σ g(z), z = b·v − a,
+// g(z) = −|z| − 2 ln(1 + e^(−|z|)), summed in the same order from the same
+// exponentials and products (so with the same bits), without the
+// derivatives' sums and the division per value they need.
+func logisticLogLikSum(v, work []float64, a, b float64) float64 {
+	var saz, slog float64
+	for block := 0; block < len(v); block += len(work) {
+		vb := v[block:min(block+len(work), len(v))]
+		wb := work[:len(vb)]
+		for i, x := range vb {
+			wb[i] = -math.Abs(b*x - a)
+		}
+		fastExps(wb, wb)
+		for start := 0; start < len(vb); start += logProductChunk {
+			end := min(start+logProductChunk, len(vb))
+			slog += math.Log(productOnePlus(wb[start:end]))
+			for _, x := range vb[start:end] {
+				saz += math.Abs(b*x - a)
+			}
+		}
+	}
+	return float64(len(v))*math.Log(b) - saz - 2*slog
 }
 
 func (f logisticFamily) prepareLogLik(d *Data) func(p []float64) float64 {

@@ -126,3 +126,23 @@ func TestLogLikFuncFallsBack(t *testing.T) {
 		}
 	}
 }
+
+// TestLogisticLogLikSumMatchesLogisticSums checks the ℓ-only pass against
+// logisticSums' ℓ bit for bit, over lengths around the block and product
+// sizes.
+func TestLogisticLogLikSumMatchesLogisticSums(t *testing.T) {
+	r := rand.New(rand.NewPCG(2, 3))
+	for _, n := range []int{1, 7, logProductChunk - 1, logProductChunk, 3*logProductChunk + 5, expSumBlock + 17} {
+		v := make([]float64, n)
+		for i := range v {
+			v[i] = 3 * r.NormFloat64()
+		}
+		work := make([]float64, min(n, expSumBlock))
+		for _, ab := range [][2]float64{{0, 1}, {0.3, 1.7}, {-2, 0.2}, {40, 9}} {
+			want := logisticSums(v, work, ab[0], ab[1]).ll
+			if got := logisticLogLikSum(v, work, ab[0], ab[1]); got != want {
+				t.Errorf("n=%d a=%v b=%v: %v, logisticSums %v", n, ab[0], ab[1], got, want)
+			}
+		}
+	}
+}
