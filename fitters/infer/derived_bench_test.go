@@ -1,18 +1,17 @@
 package infer
 
 import (
+	"fmt"
 	"math/rand/v2"
 	"testing"
 
 	"fitseal/fitters"
 )
 
-// BenchmarkDerivedProfile times profile-likelihood intervals of derived
-// quantities as a project asks for them (three percentiles and a 100-year
-// return level) on n = 50 observations drawn from the family itself with
-// a fixed seed (a workload, not a reference). evals/op counts ψ(θ)
-// evaluations: the quantile (or survival) function is the costly part for
-// families without a closed-form quantile.
+// BenchmarkDerivedProfile times profile-likelihood intervals as a project
+// asks for them with the default settings: every parameter's, then three
+// percentiles and a 100-year return level, on n observations drawn from
+// the family itself with a fixed seed (a workload, not a reference).
 func BenchmarkDerivedProfile(b *testing.B) {
 	for _, c := range []struct {
 		family string
@@ -22,34 +21,43 @@ func BenchmarkDerivedProfile(b *testing.B) {
 		{"weibull", []float64{1.8, 120}},
 		{"lognormal", []float64{1, 0.5}},
 		{"gumbel", []float64{10, 2}},
+		{"loglogistic", []float64{3, 2}},
+		{"invgauss", []float64{2, 3}},
 		{"gev", []float64{10, 2, 0.1}},
 	} {
-		b.Run(c.family, func(b *testing.B) {
-			fam := family(b, c.family)
-			dist, err := fam.New(c.params)
-			if err != nil {
-				b.Fatal(err)
-			}
-			r := rand.New(rand.NewPCG(3, 4))
-			x := make([]float64, 50)
-			for i := range x {
-				x[i] = dist.Rand(r)
-			}
-			d := fitters.Complete(x)
-			fit := fitOf(b, fam, d)
-			queries := []struct {
-				q   Quantity
-				arg float64
-			}{{Quantile, 0.1}, {Quantile, 0.5}, {Quantile, 0.9}, {ReturnLevel, 100}}
-			b.ResetTimer()
-			for i := 0; i < b.N; i++ {
-				for _, q := range queries {
-					v, err := Derived(fam, fit, d, q.q, q.arg, MethodProfile, Settings{Level: 0.95})
-					if err != nil || v.Lower != v.Lower || v.Upper != v.Upper {
-						b.Fatalf("%s %v: %v %+v", c.family, q, err, v)
+		for _, n := range []int{50, 1000} {
+			b.Run(fmt.Sprintf("%s/n=%d", c.family, n), func(b *testing.B) {
+				fam := family(b, c.family)
+				dist, err := fam.New(c.params)
+				if err != nil {
+					b.Fatal(err)
+				}
+				r := rand.New(rand.NewPCG(3, 4))
+				x := make([]float64, n)
+				for i := range x {
+					x[i] = dist.Rand(r)
+				}
+				d := fitters.Complete(x)
+				fit := fitOf(b, fam, d)
+				queries := []struct {
+					q   Quantity
+					arg float64
+				}{{Quantile, 0.1}, {Quantile, 0.5}, {Quantile, 0.9}, {ReturnLevel, 100}}
+				s := Settings{Level: 0.95}
+				b.ResetTimer()
+				for i := 0; i < b.N; i++ {
+					rows, err := Intervals(fam, fit, d, MethodProfile, s)
+					if err != nil || len(rows) != len(c.params) {
+						b.Fatalf("%s: %v %+v", c.family, err, rows)
+					}
+					for _, q := range queries {
+						v, err := Derived(fam, fit, d, q.q, q.arg, MethodProfile, s)
+						if err != nil || v.Lower != v.Lower || v.Upper != v.Upper {
+							b.Fatalf("%s %v: %v %+v", c.family, q, err, v)
+						}
 					}
 				}
-			}
-		})
+			})
+		}
 	}
 }
