@@ -86,7 +86,7 @@ func minimize(p problem, starts [][]float64, opt Options) optimum {
 			},
 			MajorIterations: opt.maxIterations(),
 		}
-		res, err := optimize.Minimize(prob, append([]float64(nil), x0...), settings, &optimize.BFGS{})
+		res, err := MinimizeBFGS(prob, append([]float64(nil), x0...), settings)
 		if res == nil {
 			continue
 		}

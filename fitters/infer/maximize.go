@@ -4,12 +4,15 @@ import (
 	"errors"
 	"math"
 
+	"fitseal/fitters"
+
 	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/optimize"
 )
 
 // maximize returns the maximum of f (a log-likelihood on unconstrained
-// nuisance coordinates u) found by BFGS (gonum/optimize) from u0, with a
+// nuisance coordinates u) found by BFGS (gonum/optimize, run on this
+// goroutine by fitters.MinimizeBFGS) from u0, with a
 // central finite-difference gradient, and a Nelder–Mead polish when BFGS
 // stops short. ok reports whether the optimiser met its convergence test
 // (a gradient below 1e-7·max(1, |f|), or f stable to 1e-12 relative).
@@ -50,7 +53,7 @@ func maximize(f func(u []float64) float64, u0 []float64) (u []float64, value flo
 		MajorIterations: 500,
 	}
 	best, bestF := append([]float64(nil), u0...), -f0
-	res, err := optimize.Minimize(optimize.Problem{Func: neg, Grad: grad}, append([]float64(nil), u0...), settings, &optimize.BFGS{})
+	res, err := fitters.MinimizeBFGS(optimize.Problem{Func: neg, Grad: grad}, append([]float64(nil), u0...), settings)
 	if res != nil && res.F <= bestF {
 		best, bestF = res.X, res.F
 	}
