@@ -49,6 +49,19 @@ type logLikPreparer interface {
 // maxCachedValues bounds the data that LogLikFunc copies (8 MB of float64).
 const maxCachedValues = 1 << 20
 
+// preparedLogLik is θ ↦ exact(dist) plus the censored observations' terms,
+// dist = f.New(θ) of type D; −Inf where θ is not valid.
+func preparedLogLik[D Dist](f Family, d *Data, exact func(D) float64) func(p []float64) float64 {
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		x := dist.(D)
+		return exact(x) + censoredLogLik(x, d, false)
+	}
+}
+
 // positiveFinite reports whether every value is > 0 and finite.
 func positiveFinite(x []float64) bool {
 	for _, v := range x {
@@ -89,14 +102,7 @@ func (f exponentialFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	}
 	n := float64(len(d.Exact))
 	// Σ ln f(x) = n ln λ − λ Σx
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		e := dist.(Exponential)
-		return n*math.Log(e.Rate) - e.Rate*s + censoredLogLik(e, d, false)
-	}
+	return preparedLogLik(f, d, func(e Exponential) float64 { return n*math.Log(e.Rate) - e.Rate*s })
 }
 
 func (f gammaFamily) prepareLogLik(d *Data) func(p []float64) float64 {
@@ -145,16 +151,10 @@ func (f normalFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	n := float64(len(d.Exact))
 	// Σ zᵢ² = n((sd/σ)² + ((d̄ − (μ − r))/σ)²), zᵢ = (xᵢ − μ)/σ, dᵢ = xᵢ − r,
 	// sd the ML standard deviation: each ratio is formed before squaring.
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		nd := dist.(Normal)
+	return preparedLogLik(f, d, func(nd Normal) float64 {
 		a, b := sd/nd.Sigma, (dm-(nd.Mu-r))/nd.Sigma
-		ll := -n*(math.Log(nd.Sigma)+lnSqrt2Pi) - 0.5*n*(a*a+b*b)
-		return ll + censoredLogLik(nd, d, false)
-	}
+		return -n*(math.Log(nd.Sigma)+lnSqrt2Pi) - 0.5*n*(a*a+b*b)
+	})
 }
 
 func (f lognormalFamily) prepareLogLik(d *Data) func(p []float64) float64 {
@@ -169,20 +169,14 @@ func (f lognormalFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	slx := n*lnRef + sy
 	// ln xᵢ − μ = yᵢ − c, yᵢ = ln(xᵢ/ref), c = μ − ln ref = ln(e^μ/ref);
 	// Σ (ln xᵢ − μ)² = Σ (yᵢ − ȳ)² + n(ȳ − c)².
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		ln := dist.(LogNormal)
+	return preparedLogLik(f, d, func(ln LogNormal) float64 {
 		c := ln.Mu - lnRef
 		if em := math.Exp(ln.Mu); em > 0 && !math.IsInf(em, 1) {
 			c = lnRatio(em, ref)
 		}
 		dm := my - c
-		ll := -slx - n*(math.Log(ln.Sigma)+lnSqrt2Pi) - 0.5*(ss+n*dm*dm)/(ln.Sigma*ln.Sigma)
-		return ll + censoredLogLik(ln, d, false)
-	}
+		return -slx - n*(math.Log(ln.Sigma)+lnSqrt2Pi) - 0.5*(ss+n*dm*dm)/(ln.Sigma*ln.Sigma)
+	})
 }
 
 func (f invgaussFamily) prepareLogLik(d *Data) func(p []float64) float64 {
@@ -205,17 +199,11 @@ func (f invgaussFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	// Σ (x−μ)²/x = A + 2δB + δ²C with δ = x̄ − μ, A = Σ (x−x̄)²/x,
 	// B = Σ (x−x̄)/x, C = Σ 1/x; Σ ln f = n(ln λ/2 − ln√(2π)) − 1.5 Σ ln x
 	// − λ Σ (x−μ)²/x / (2μ²).
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		g := dist.(InvGauss)
+	return preparedLogLik(f, d, func(g InvGauss) float64 {
 		dl := m - g.Mean
 		sq := (a + dl*(2*b+dl*c)) / g.Mean / g.Mean
-		ll := n*(0.5*math.Log(g.Shape)-lnSqrt2Pi) - 1.5*slx - 0.5*g.Shape*sq
-		return ll + censoredLogLik(g, d, false)
-	}
+		return n*(0.5*math.Log(g.Shape)-lnSqrt2Pi) - 1.5*slx - 0.5*g.Shape*sq
+	})
 }
 
 // expSumBlock is the length of the exponentials' buffer of the cached
@@ -233,12 +221,7 @@ func (f weibullFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	n := float64(len(d.Exact))
 	// ln(xᵢ/λ) = yᵢ − c, c = ln(λ/ref): Σ ln f = n ln(k/λ) + (k−1)(Σy − nc)
 	// − Σ e^(k(yᵢ − c)).
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		w := dist.(Weibull)
+	return preparedLogLik(f, d, func(w Weibull) float64 {
 		c := lnRatio(w.Scale, ref)
 		k := w.Shape
 		var se float64
@@ -253,9 +236,8 @@ func (f weibullFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 				se += e
 			}
 		}
-		ll := n*(math.Log(k)-math.Log(w.Scale)) + (k-1)*(sy-n*c) - se
-		return ll + censoredLogLik(w, d, false)
-	}
+		return n*(math.Log(k)-math.Log(w.Scale)) + (k-1)*(sy-n*c) - se
+	})
 }
 
 func (f gumbelFamily) prepareLogLik(d *Data) func(p []float64) float64 {
@@ -276,12 +258,7 @@ func (f gumbelFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	n := float64(len(d.Exact))
 	// zᵢ = (xᵢ − μ)/β = r·vᵢ − t with r = sd/β, t = (μ − x̄)/β:
 	// Σ ln f = −n ln β − (r Σv − n t) − Σ e^(t − r vᵢ).
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		g := dist.(Gumbel)
+	return preparedLogLik(f, d, func(g Gumbel) float64 {
 		r, t := sd/g.Scale, (g.Location-m)/g.Scale
 		var se float64
 		for start := 0; start < len(v); start += len(work) {
@@ -295,9 +272,8 @@ func (f gumbelFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 				se += e
 			}
 		}
-		ll := -n*math.Log(g.Scale) - (r*sv - n*t) - se
-		return ll + censoredLogLik(g, d, false)
-	}
+		return -n*math.Log(g.Scale) - (r*sv - n*t) - se
+	})
 }
 
 // logisticPrepared is Σ g(zᵢ) − n ln s for zᵢ = (xᵢ − μ)/s over the
@@ -357,14 +333,7 @@ func (f logisticFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	if lp == nil {
 		return nil
 	}
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		l := dist.(Logistic)
-		return lp.logLik(l.Location, l.Scale) + censoredLogLik(l, d, false)
-	}
+	return preparedLogLik(f, d, func(l Logistic) float64 { return lp.logLik(l.Location, l.Scale) })
 }
 
 func (f loglogisticFamily) prepareLogLik(d *Data) func(p []float64) float64 {
@@ -382,12 +351,7 @@ func (f loglogisticFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	slx := n*lnRef + sy
 	// With y = ln(x/ref), ln x is logistic with location ln(α/ref) + ln ref
 	// and scale 1/β: Σ ln f(x) = Σ ln f_logistic(yᵢ; ln(α/ref), 1/β) − Σ ln x.
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		l := dist.(LogLogistic)
-		return lp.logLik(lnRatio(l.Scale, ref), 1/l.Shape) - slx + censoredLogLik(l, d, false)
-	}
+	return preparedLogLik(f, d, func(l LogLogistic) float64 {
+		return lp.logLik(lnRatio(l.Scale, ref), 1/l.Shape) - slx
+	})
 }
