@@ -465,8 +465,9 @@ var secantTries = 8
 // the root, should h rise with t. It returns the root and h's slope there
 // once a step is at most 1e-14·max(1, |t|) — the same resolution as
 // solveNear's bracket — and fails (ok false) on a value that is not finite,
-// a flat secant, a root farther than 8 steps from t0 or no convergence in
-// secantTries evaluations; solveNear then brackets the root instead.
+// a flat or infinite secant, a root farther than 8 steps from t0 or no
+// convergence in secantTries evaluations; solveNear then brackets the root
+// instead.
 func secantNear(h func(float64) float64, t0, h0, step, slope float64) (float64, float64, bool) {
 	ta, ha := t0, h0
 	tb := t0 - math.Copysign(step/16, h0)
@@ -482,6 +483,9 @@ func secantNear(h func(float64) float64, t0, h0, step, slope float64) (float64, 
 			break
 		}
 		s := (hb - ha) / (tb - ta)
+		if math.IsInf(s, 0) {
+			break // values near ±MaxFloat64 on both sides: no usable slope
+		}
 		if hb == 0 {
 			return tb, s, true
 		}

@@ -30,6 +30,15 @@ func TestSolveNear(t *testing.T) {
 		// A secant from t0 = 0 along a slope of 1e-6 leaves the 8-step reach,
 		// so the search brackets [−0.5, 0] or [0, 0.5] and refines it.
 		{"secant too far", func(t float64) float64 { return math.Atan(t - 0.3) }, 0, 0.5, 1e-6, 0.3, 80, true},
+		// ±MaxFloat64 on either side of a jump at 0.01 (tailGap's clamped
+		// tails): the secant across it has an infinite slope and must not
+		// stop there; the bracket closes in on the jump.
+		{"clamped tails", func(t float64) float64 {
+			if t > 0.01 {
+				return math.MaxFloat64
+			}
+			return -math.MaxFloat64
+		}, 0, 0.5, math.NaN(), 0.01, 200, true},
 		// NaN right of 0.6: a secant aimed there fails, the bracket does not.
 		{"undefined beyond", func(t float64) float64 {
 			if t > 0.6 {
