@@ -1,6 +1,9 @@
 package fitters
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // LogLikFunc returns θ ↦ fam.LogLik(θ, d), for evaluating one dataset's
 // log-likelihood many times (a profile likelihood maximises over the other
@@ -14,7 +17,9 @@ import "math"
 //     Σ x, Σ ln x, and sums of squares about the sample mean (of x or of
 //     ln x) or, for the inverse Gaussian, Σ (x − x̄)²/x, Σ (x − x̄)/x and
 //     Σ 1/x, from which every evaluation is O(1);
-//   - weibull, gumbel: ln x (or x) cached, one exponential per value;
+//   - weibull, gumbel: ln x (or x) cached, one exponential per value (for
+//     the weibull the right-censored values too, whose ln S is −(x/λ)^k;
+//     the exponential's are in its Σ x);
 //   - logistic, loglogistic: x (or ln x) cached and standardised, and
 //     logisticSums' ℓ (one exponential per value, one logarithm per 512
 //     values; logisticLogLikSum).
@@ -23,7 +28,9 @@ import "math"
 // squares about the sample mean, so data clustered far from zero keep
 // their digits as in LogLik. Censored observations are added as LogLik
 // adds them. The values agree with LogLik to rounding
-// (TestLogLikFuncMatchesLogLik). Other families, data with values outside a
+// (TestLogLikFuncMatchesLogLik). Left- and right-censored values, when
+// there are many, go through the families' batch tail routines
+// (censoredPart). Other families, data with values outside a
 // family's support, and more than 2²⁰ exact values for the cached forms
 // (whose copies would cost memory in proportion to n) get LogLik itself.
 // The returned function is for one goroutine at a time.
@@ -52,14 +59,75 @@ const maxCachedValues = 1 << 20
 // preparedLogLik is θ ↦ exact(dist) plus the censored observations' terms,
 // dist = f.New(θ) of type D; −Inf where θ is not valid.
 func preparedLogLik[D Dist](f Family, d *Data, exact func(D) float64) func(p []float64) float64 {
+	cens := newCensoredPart(d)
 	return func(p []float64) float64 {
 		dist, err := f.New(p)
 		if err != nil {
 			return math.Inf(-1)
 		}
 		x := dist.(D)
-		return exact(x) + censoredLogLik(x, d, false)
+		return exact(x) + cens.logLik(x)
 	}
+}
+
+// censoredBatchMin is the number of left- or right-censored values from
+// which censoredPart sums their terms through CDFTailsBatch.
+const censoredBatchMin = 16
+
+// censoredPart is censoredLogLik(dist, d, false) for repeated evaluation:
+// with censoredBatchMin or more left- or right-censored values, their
+// ln F and ln S come a block at a time from CDFTailsBatch (the families'
+// batch routines, as accurate as CDFTails) over sorted copies of them;
+// interval-censored values term by term as in censoredLogLik.
+type censoredPart struct {
+	d               *Data
+	left, right     []float64 // sorted copies, nil when batching does not pay
+	cdf, lcdf, lsur []float64
+}
+
+func newCensoredPart(d *Data) *censoredPart {
+	c := &censoredPart{d: d}
+	if len(d.Left)+len(d.Right) < censoredBatchMin || len(d.Left)+len(d.Right) > maxCachedValues {
+		return c
+	}
+	c.left = append([]float64(nil), d.Left...)
+	c.right = append([]float64(nil), d.Right...)
+	slices.Sort(c.left)
+	slices.Sort(c.right)
+	m := min(max(len(c.left), len(c.right)), CDFTailsBlock)
+	c.cdf, c.lcdf, c.lsur = make([]float64, m), make([]float64, m), make([]float64, m)
+	return c
+}
+
+// logLik is Σ ln F(left) + Σ ln S(right) + Σ ln(F(u) − F(l)); −Inf for NaN.
+func (c *censoredPart) logLik(dist Dist) float64 {
+	if c.left == nil && c.right == nil {
+		return censoredLogLik(dist, c.d, false)
+	}
+	var s float64
+	for _, side := range [2]struct {
+		x    []float64
+		left bool
+	}{{c.left, true}, {c.right, false}} {
+		for start := 0; start < len(side.x); start += len(c.cdf) {
+			xb := side.x[start:min(start+len(c.cdf), len(side.x))]
+			CDFTailsBatch(dist, xb, c.cdf, c.lcdf, c.lsur)
+			terms := c.lsur[:len(xb)]
+			if side.left {
+				terms = c.lcdf[:len(xb)]
+			}
+			for _, v := range terms {
+				s += v
+			}
+		}
+	}
+	for i := range c.d.Lower {
+		s += logIntervalProb(dist, c.d.Lower[i], c.d.Upper[i])
+	}
+	if math.IsNaN(s) {
+		return math.Inf(-1)
+	}
+	return s
 }
 
 // positiveFinite reports whether every value is > 0 and finite.
@@ -100,9 +168,27 @@ func (f exponentialFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	if math.IsInf(s, 1) {
 		return nil
 	}
+	var sr float64
+	for _, x := range d.Right {
+		if !(x >= 0) {
+			return nil
+		}
+		sr += x
+	}
+	if math.IsInf(s+sr, 1) {
+		return nil
+	}
 	n := float64(len(d.Exact))
-	// Σ ln f(x) = n ln λ − λ Σx
-	return preparedLogLik(f, d, func(e Exponential) float64 { return n*math.Log(e.Rate) - e.Rate*s })
+	cens := newCensoredPart(&Data{Left: d.Left, Lower: d.Lower, Upper: d.Upper})
+	// Σ ln f(exact) + Σ ln S(right) = n ln λ − λ(Σ exact + Σ right)
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		e := dist.(Exponential)
+		return n*math.Log(e.Rate) - e.Rate*(s+sr) + cens.logLik(e)
+	}
 }
 
 func (f gammaFamily) prepareLogLik(d *Data) func(p []float64) float64 {
@@ -118,6 +204,7 @@ func (f gammaFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 		return nil
 	}
 	n := float64(len(d.Exact))
+	cens := newCensoredPart(d)
 	// Σ ln f(x) = n(k ln β − ln Γ(k)) + (k−1) Σ ln x − β Σ x; for k ≥ 30
 	// LogLik's form that keeps the digits of the large terms.
 	return func(p []float64) float64 {
@@ -131,7 +218,7 @@ func (f gammaFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 		}
 		lg, _ := math.Lgamma(g.Shape)
 		ll := n*(g.Shape*math.Log(g.Rate)-lg) + (g.Shape-1)*slx - g.Rate*sx
-		return ll + censoredLogLik(g, d, false)
+		return ll + cens.logLik(g)
 	}
 }
 
@@ -211,17 +298,29 @@ func (f invgaussFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 const expSumBlock = 8 * logProductChunk
 
 func (f weibullFamily) prepareLogLik(d *Data) func(p []float64) float64 {
-	if len(d.Exact) > maxCachedValues || !positiveFinite(d.Exact) {
+	nAll := len(d.Exact) + len(d.Right)
+	if nAll > maxCachedValues || !positiveFinite(d.Exact) || !positiveFinite(d.Right) {
 		return nil
 	}
-	y := make([]float64, len(d.Exact))
+	// The logs of the exact values, then of the right-censored ones, whose
+	// ln S = −(x/λ)^k is the exact values' last term alone.
+	y := make([]float64, nAll)
 	ref := d.Exact[0]
-	_, sy := logsAboutInto(y, d.Exact, ref)
-	work := make([]float64, min(len(y), expSumBlock))
+	_, sy := logsAboutInto(y[:len(d.Exact)], d.Exact, ref)
+	if len(d.Right) > 0 {
+		logsAboutInto(y[len(d.Exact):], d.Right, ref)
+	}
+	work := make([]float64, min(nAll, expSumBlock))
 	n := float64(len(d.Exact))
-	// ln(xᵢ/λ) = yᵢ − c, c = ln(λ/ref): Σ ln f = n ln(k/λ) + (k−1)(Σy − nc)
-	// − Σ e^(k(yᵢ − c)).
-	return preparedLogLik(f, d, func(w Weibull) float64 {
+	cens := newCensoredPart(&Data{Left: d.Left, Lower: d.Lower, Upper: d.Upper})
+	// ln(xᵢ/λ) = yᵢ − c, c = ln(λ/ref): Σ ln f(exact) + Σ ln S(right)
+	// = n ln(k/λ) + (k−1)(Σ_exact y − nc) − Σ_(exact, right) e^(k(yᵢ − c)).
+	return func(p []float64) float64 {
+		dist, err := f.New(p)
+		if err != nil {
+			return math.Inf(-1)
+		}
+		w := dist.(Weibull)
 		c := lnRatio(w.Scale, ref)
 		k := w.Shape
 		var se float64
@@ -236,8 +335,8 @@ func (f weibullFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 				se += e
 			}
 		}
-		return n*(math.Log(k)-math.Log(w.Scale)) + (k-1)*(sy-n*c) - se
-	})
+		return n*(math.Log(k)-math.Log(w.Scale)) + (k-1)*(sy-n*c) - se + cens.logLik(w)
+	}
 }
 
 func (f gumbelFamily) prepareLogLik(d *Data) func(p []float64) float64 {

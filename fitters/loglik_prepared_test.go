@@ -10,8 +10,9 @@ import (
 // TestLogLikFuncMatchesLogLik checks LogLikFunc's prepared forms against
 // LogLik, the per-value sum, on draws from each family (n = 7 and 1000),
 // on data clustered far from zero (1e7 ± 0.1, where the forms must keep
-// the digits of the spread), and with left-, right- and interval-censored
-// values added: at the MLE and at points up to several standard errors
+// the digits of the spread), with left-, right- and interval-censored
+// values added, and (n = 1000) with half the values left- or
+// right-censored, whose terms come from the batch tail routines: at the MLE and at points up to several standard errors
 // away on each side (the range a profile likelihood visits), and at
 // invalid parameters (−Inf from both). Agreement: 1e-12 relative, or
 // 1e-10·n where the log-likelihood is near zero.
@@ -59,7 +60,21 @@ func TestLogLikFuncMatchesLogLik(t *testing.T) {
 			if x[n-1] < 0 {
 				cens.Lower[0], cens.Upper[0] = 1.1*x[n-1], 0.9*x[n-1]
 			}
-			for _, ds := range []dataset{{"complete", Complete(x)}, {"censored", cens}} {
+			// Heavily censored: 40 % suspended at a random fraction of their
+			// value (right-censored), 10 % known only to lie below twice it
+			// (left-censored): the batched tails of censoredPart.
+			heavy := &Data{}
+			for i, v := range x {
+				switch {
+				case i%10 < 4:
+					heavy.Right = append(heavy.Right, v-math.Abs(v)*r.Float64()*0.5)
+				case i%10 == 4:
+					heavy.Left = append(heavy.Left, v+math.Abs(v))
+				default:
+					heavy.Exact = append(heavy.Exact, v)
+				}
+			}
+			for _, ds := range []dataset{{"complete", Complete(x)}, {"censored", cens}, {"heavily censored", heavy}} {
 				name := fmt.Sprintf("%s%v/n=%d/%s", c.family, c.params, n, ds.name)
 				fit, err := fam.Fit(ds.d, Options{})
 				if err != nil || !fit.Converged {
