@@ -61,3 +61,50 @@ func BenchmarkDerivedProfile(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkDerivedProfileCensored is BenchmarkDerivedProfile on 1000 units
+// of which every other one is suspended at a random fraction of its life
+// (right-censored), as a field-return dataset would be (a workload, not a
+// reference).
+func BenchmarkDerivedProfileCensored(b *testing.B) {
+	for _, c := range []struct {
+		family string
+		params []float64
+	}{
+		{"weibull", []float64{1.8, 120}},
+		{"lognormal", []float64{4, 0.5}},
+		{"gamma", []float64{2.5, 0.05}},
+	} {
+		b.Run(c.family, func(b *testing.B) {
+			fam := family(b, c.family)
+			dist, err := fam.New(c.params)
+			if err != nil {
+				b.Fatal(err)
+			}
+			r := rand.New(rand.NewPCG(3, 4))
+			d := &fitters.Data{}
+			for i := 0; i < 1000; i++ {
+				x := dist.Rand(r)
+				if i%2 == 0 {
+					d.Right = append(d.Right, x*r.Float64())
+				} else {
+					d.Exact = append(d.Exact, x)
+				}
+			}
+			fit := fitOf(b, fam, d)
+			s := Settings{Level: 0.95}
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				if _, err := Intervals(fam, fit, d, MethodProfile, s); err != nil {
+					b.Fatal(err)
+				}
+				for _, p := range []float64{0.1, 0.5, 0.9} {
+					v, err := Derived(fam, fit, d, Quantile, p, MethodProfile, s)
+					if err != nil || v.Lower != v.Lower || v.Upper != v.Upper {
+						b.Fatalf("%s %v: %v %+v", c.family, p, err, v)
+					}
+				}
+			}
+		})
+	}
+}
