@@ -17,7 +17,7 @@ import (
 //     Σ x, Σ ln x, and sums of squares about the sample mean (of x or of
 //     ln x) or, for the inverse Gaussian, Σ (x − x̄)²/x, Σ (x − x̄)/x and
 //     Σ 1/x, from which every evaluation is O(1);
-//   - weibull, gumbel: ln x (or x) cached, one exponential per value (for
+//   - weibull, gumbel, gev: ln x (or x) cached, one exponential per value (for
 //     the weibull the right-censored values too, whose ln S is −(x/λ)^k;
 //     the exponential's are in its Σ x);
 //   - logistic, loglogistic: x (or ln x) cached and standardised, and
@@ -453,4 +453,59 @@ func (f loglogisticFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	return preparedLogLik(f, d, func(l LogLogistic) float64 {
 		return lp.logLik(lnRatio(l.Scale, ref), 1/l.Shape) - slx
 	})
+}
+
+func (f gevFamily) prepareLogLik(d *Data) func(p []float64) float64 {
+	if len(d.Exact) > maxCachedValues {
+		return nil
+	}
+	// The values about r = x₀ (exact for data clustered far from zero), so
+	// that z = (x − μ)/σ = (x − r)/σ − (μ − r)/σ.
+	r := d.Exact[0]
+	v := make([]float64, len(d.Exact))
+	for i, x := range d.Exact {
+		if v[i] = x - r; math.IsNaN(v[i]) || math.IsInf(v[i], 0) {
+			return nil
+		}
+	}
+	work := make([]float64, min(len(v), expSumBlock))
+	n := float64(len(v))
+	// With y = ln(1 + ξz)/ξ (z at ξ = 0; boxLog's series near it):
+	// Σ ln f = −n ln σ − (1 + ξ) Σ y − Σ e^(−y); −Inf where 1 + ξz ≤ 0.
+	return preparedLogLik(f, d, func(g GEV) float64 {
+		a, t, xi := 1/g.Scale, (g.Location-r)/g.Scale, g.Shape
+		var sy, se float64
+		for start := 0; start < len(v); start += len(work) {
+			vb := v[start:min(start+len(work), len(v))]
+			wb := work[:len(vb)]
+			for i, x := range vb {
+				z := x*a - t
+				if !(1+xi*z > 0) {
+					return math.Inf(-1)
+				}
+				y := boxLogY(xi, z)
+				sy += y
+				wb[i] = -y
+			}
+			fastExps(wb, wb)
+			for _, e := range wb {
+				se += e
+			}
+		}
+		return -n*math.Log(g.Scale) - (1+xi)*sy - se
+	})
+}
+
+// boxLogY is boxLog's y alone: ln(1 + ξz)/ξ, by the same series where
+// |ξz| < 0.01.
+func boxLogY(xi, z float64) float64 {
+	u := xi * z
+	if math.Abs(u) < 0.01 {
+		var s float64
+		for j := 11; j >= 0; j-- {
+			s = s*(-u) + 1/float64(j+1)
+		}
+		return z * s
+	}
+	return math.Log1p(u) / xi
 }

@@ -43,6 +43,10 @@ func TestLogLikFuncMatchesLogLik(t *testing.T) {
 		{"logistic", []float64{1e7, 0.05}, 0},
 		{"loglogistic", []float64{3, 2}, 0},
 		{"loglogistic", []float64{1e7, 3e7}, 0},
+		{"gev", []float64{10, 2, 0.1}, 0},
+		{"gev", []float64{10, 2, -0.25}, 0},
+		{"gev", []float64{10, 2, 1e-9}, 0},
+		{"gev", []float64{1e7, 0.1, 0.05}, 0},
 	} {
 		fam, _ := Lookup(c.family)
 		dist, err := fam.New(c.params)
@@ -94,7 +98,7 @@ func TestLogLikFuncMatchesLogLik(t *testing.T) {
 								spread = 0.05
 							}
 							if c.family == "lognormal" && i == 0 || c.family == "normal" && i == 0 ||
-								c.family == "gumbel" && i == 0 || c.family == "logistic" && i == 0 {
+								c.family == "gumbel" && i == 0 || c.family == "logistic" && i == 0 || c.family == "gev" && i == 0 {
 								p[i] += (2*r.Float64() - 1) * spread * 3 * fit.Estimates[1]
 							} else {
 								p[i] *= 1 + (2*r.Float64()-1)*spread
@@ -120,7 +124,7 @@ func TestLogLikFuncMatchesLogLik(t *testing.T) {
 
 // TestLogLikFuncFallsBack checks that data a prepared form cannot take,
 // and families without one, get LogLik itself: a zero for the positive
-// families, a value outside the support, and gev.
+// families, a value outside the support, and gpd.
 func TestLogLikFuncFallsBack(t *testing.T) {
 	for _, c := range []struct {
 		family string
@@ -131,7 +135,7 @@ func TestLogLikFuncFallsBack(t *testing.T) {
 		{"weibull", []float64{0, 1, 2, 3}, []float64{1, 2}},
 		{"lognormal", []float64{-1, 1, 2, 3}, []float64{0, 1}},
 		{"exponential", []float64{-1, 1, 2}, []float64{1}},
-		{"gev", []float64{1, 2, 3, 5}, []float64{2, 1, 0.1}},
+		{"gpd", []float64{1, 2, 3, 5}, []float64{0, 1, 0.1}},
 	} {
 		fam, _ := Lookup(c.family)
 		d := Complete(c.x)

