@@ -140,21 +140,21 @@ func positiveFinite(x []float64) bool {
 	return true
 }
 
-// centredSquares returns the mean of v and Σ (vᵢ − mean)², by two passes
-// with the compensating correction (Chan, Golub & LeVeque, 1983).
-func centredSquares(v []float64) (mean, ss float64) {
-	n := float64(len(v))
-	for _, x := range v {
-		mean += x
+// centredSquares returns the mean of vᵢ = value(i), i < n, and
+// Σ (vᵢ − mean)², by two passes with the compensating correction (Chan,
+// Golub & LeVeque, 1983), taking each value twice instead of storing it.
+func centredSquares(n int, value func(i int) float64) (mean, ss float64) {
+	for i := range n {
+		mean += value(i)
 	}
-	mean /= n
+	mean /= float64(n)
 	var s, c float64
-	for _, x := range v {
-		d := x - mean
+	for i := range n {
+		d := value(i) - mean
 		s += d * d
 		c += d
 	}
-	return mean, s - c*c/n
+	return mean, s - c*c/float64(n)
 }
 
 func (f exponentialFamily) prepareLogLik(d *Data) func(p []float64) float64 {
@@ -226,15 +226,11 @@ func (f normalFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	// About r = x₀, a value of the data: xᵢ − r and μ − r are exact for
 	// data clustered far from zero, where the sample mean would not be.
 	r := d.Exact[0]
-	dx := make([]float64, len(d.Exact))
-	for i, x := range d.Exact {
-		dx[i] = x - r
-	}
-	dm, ss := centredSquares(dx)
+	dm, ss := centredSquares(len(d.Exact), func(i int) float64 { return d.Exact[i] - r })
 	if math.IsNaN(ss) || math.IsInf(ss, 0) || math.IsInf(dm, 0) {
 		return nil
 	}
-	sd := math.Sqrt(ss / float64(len(dx)))
+	sd := math.Sqrt(ss / float64(len(d.Exact)))
 	n := float64(len(d.Exact))
 	// Σ zᵢ² = n((sd/σ)² + ((d̄ − (μ − r))/σ)²), zᵢ = (xᵢ − μ)/σ, dᵢ = xᵢ − r,
 	// sd the ML standard deviation: each ratio is formed before squaring.
@@ -248,12 +244,11 @@ func (f lognormalFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	if !positiveFinite(d.Exact) {
 		return nil
 	}
-	y := make([]float64, len(d.Exact))
 	ref := d.Exact[0]
-	lnRef, sy := logsAboutInto(y, d.Exact, ref)
-	my, ss := centredSquares(y)
+	lnRef := math.Log(ref)
+	my, ss := centredSquares(len(d.Exact), func(i int) float64 { return logAbout(d.Exact[i], ref, lnRef) })
 	n := float64(len(d.Exact))
-	slx := n*lnRef + sy
+	slx := n*lnRef + n*my
 	// ln xᵢ − μ = yᵢ − c, yᵢ = ln(xᵢ/ref), c = μ − ln ref = ln(e^μ/ref);
 	// Σ (ln xᵢ − μ)² = Σ (yᵢ − ȳ)² + n(ȳ − c)².
 	return preparedLogLik(f, d, func(ln LogNormal) float64 {

@@ -165,3 +165,18 @@ func TestLogisticLogLikSumMatchesLogisticSums(t *testing.T) {
 		}
 	}
 }
+
+// TestLogAboutMatchesLogsAbout checks logAbout, one value at a time,
+// against logsAboutInto's loop, bit for bit, on both sides of its switch
+// between log1p and log.
+func TestLogAboutMatchesLogsAbout(t *testing.T) {
+	x := []float64{1e-300, 0.2, 0.5, 0.50000001, 0.9, 1, 1.1, 1.49999999, 1.5, 3, 1e300}
+	y := make([]float64, len(x))
+	ref := 1.0
+	lnRef, _ := logsAboutInto(y, x, ref)
+	for i, v := range x {
+		if got := logAbout(v, ref, lnRef); math.Float64bits(got) != math.Float64bits(y[i]) {
+			t.Errorf("logAbout(%v) = %v, logsAboutInto %v", v, got, y[i])
+		}
+	}
+}
