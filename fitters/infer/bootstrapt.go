@@ -142,8 +142,9 @@ func noCovarianceWhy(rep *Replicates, r int) string {
 // bootstrapDerived fills out's bootstrap interval of the quantity g on
 // scale sc from the replicates: bootstrap-t with the delta-method standard
 // error seT of the estimate and, per replicate, the delta-method standard
-// error from its own covariance; percentiles of g when that cannot be done.
-func bootstrapDerived(out *DerivedValue, rep *Replicates, g func([]float64) float64, sc Scale, free []int, seT float64, infoErr error, discreteQuantile bool, level float64) {
+// error from its own covariance (its gradient from gradientAt, as Derived
+// takes it); percentiles of g when that cannot be done.
+func bootstrapDerived(out *DerivedValue, rep *Replicates, g func([]float64) float64, gradientAt func(theta []float64, psi float64, info *Information) []float64, sc Scale, free []int, seT float64, infoErr error, discreteQuantile bool, level float64) {
 	why := ""
 	switch {
 	case discreteQuantile:
@@ -179,7 +180,7 @@ func bootstrapDerived(out *DerivedValue, rep *Replicates, g func([]float64) floa
 			for a, i := range free {
 				steps.StdErrors[i] = math.Sqrt(cov.At(a, a))
 			}
-			grad := quantityGradient(g, sc, e, free, steps)
+			grad := gradientAt(e, psi, steps)
 			var v float64
 			for a := range free {
 				for b := range free {

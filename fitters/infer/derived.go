@@ -162,11 +162,25 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 
 	// The delta method's gradient and standard error, used by Wald, for the
 	// profile's step and the choice of the parameter solved for.
+	// gradientAt is ∂t/∂θ at θ where the quantity is psi: through the CDF
+	// for a quantile that is itself a numerical inversion.
+	gradientAt := func(theta []float64, psi float64, info *Information) []float64 {
+		if numericQuantile[fam.Name()] && q != Exceedance {
+			prob := arg
+			if q == ReturnLevel {
+				prob = 1 - 1/arg
+			}
+			if gr := quantileGradient(fam, prob, psi, sc, theta, free, info); gr != nil {
+				return gr
+			}
+		}
+		return quantityGradient(g, sc, theta, free, info)
+	}
 	var grad []float64
 	seT := nan
 	info, infoErr := s.information(fam, fit, d)
 	if !discreteQuantile {
-		grad = quantityGradient(g, sc, fit.Estimates, free, info)
+		grad = gradientAt(fit.Estimates, out.Estimate, info)
 		if infoErr == nil && info != nil && info.Covariance != nil {
 			var v float64
 			for a := range free {
@@ -229,15 +243,14 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 			out.Note = err.Error()
 			break
 		}
-		bootstrapDerived(&out, rep, g, sc, free, seT, infoErr, discreteQuantile, level)
+		bootstrapDerived(&out, rep, g, gradientAt, sc, free, seT, infoErr, discreteQuantile, level)
 	}
 	return out, nil
 }
 
-// quantityGradient returns ∂t/∂θ over the free parameters, t = sc.To(g(θ)),
-// by central differences with steps of 1e-4 standard errors (or 1e-6·|θ|
-// without an information matrix).
-func quantityGradient(g func([]float64) float64, sc Scale, est []float64, free []int, info *Information) []float64 {
+// gradientSteps are quantityGradient's steps: 1e-4 standard errors, or
+// 1e-6·|θ| without an information matrix.
+func gradientSteps(est []float64, free []int, info *Information) []float64 {
 	step := make([]float64, len(free))
 	for a, i := range free {
 		step[a] = 1e-6 * math.Max(math.Abs(est[i]), 1e-3)
@@ -247,6 +260,13 @@ func quantityGradient(g func([]float64) float64, sc Scale, est []float64, free [
 			}
 		}
 	}
+	return step
+}
+
+// quantityGradient returns ∂t/∂θ over the free parameters, t = sc.To(g(θ)),
+// by central differences with gradientSteps.
+func quantityGradient(g func([]float64) float64, sc Scale, est []float64, free []int, info *Information) []float64 {
+	step := gradientSteps(est, free, info)
 	theta := append([]float64(nil), est...)
 	f := func(u []float64) float64 {
 		for a, i := range free {
@@ -258,6 +278,55 @@ func quantityGradient(g func([]float64) float64, sc Scale, est []float64, free [
 	fd.Gradient(grad, f, make([]float64, len(free)), &fd.Settings{Formula: fd.Central, Step: 1})
 	for a := range grad {
 		grad[a] /= step[a]
+	}
+	return grad
+}
+
+// quantileGradient is quantityGradient for q = ψ(θ), the p-quantile of a
+// family in numericQuantile, by implicit differentiation of F(q(θ); θ) = p:
+// ∂q/∂θ = −(∂F/∂θ)/f(q), with ∂F/∂θ = p·∂ln F/∂θ below p = ½ and
+// −(1 − p)·∂ln S/∂θ from it on, ln F or ln S at the fixed q by central
+// differences with gradientSteps; ∂t/∂θ = (∂q/∂θ)/sc.Deriv(q). It costs
+// two tail evaluations per parameter where quantityGradient inverts the
+// CDF twice per parameter. nil where a value is not finite (the caller
+// then uses quantityGradient).
+func quantileGradient(fam fitters.Family, p, q float64, sc Scale, est []float64, free []int, info *Information) []float64 {
+	dist, err := fam.New(est)
+	if err != nil {
+		return nil
+	}
+	density := math.Exp(dist.LogPDF(q))
+	dtdq := 1 / sc.Deriv(q)
+	if !(density > 0) || math.IsInf(density, 0) || math.IsNaN(dtdq) || math.IsInf(dtdq, 0) {
+		return nil
+	}
+	tail := func(theta []float64) float64 {
+		d, err := fam.New(theta)
+		if err != nil {
+			return math.NaN()
+		}
+		if p < 0.5 {
+			return d.LogCDF(q)
+		}
+		return d.LogSurvival(q)
+	}
+	weight := -p // ∂q/∂θ = weight·∂(ln F or ln S)/∂θ / f(q)
+	if p >= 0.5 {
+		weight = 1 - p
+	}
+	step := gradientSteps(est, free, info)
+	theta := append([]float64(nil), est...)
+	grad := make([]float64, len(free))
+	for a, i := range free {
+		theta[i] = est[i] + step[a]
+		up := tail(theta)
+		theta[i] = est[i] - step[a]
+		down := tail(theta)
+		theta[i] = est[i]
+		grad[a] = weight * (up - down) / (2 * step[a]) / density * dtdq
+		if math.IsNaN(grad[a]) || math.IsInf(grad[a], 0) {
+			return nil
+		}
 	}
 	return grad
 }
