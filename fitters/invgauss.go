@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"strings"
+
+	"gonum.org/v1/gonum/mathext"
 )
 
 // InvGauss is the inverse Gaussian distribution with Mean μ > 0 and Shape
@@ -73,7 +75,21 @@ func (d InvGauss) LogSurvival(x float64) float64 {
 
 // Quantile solves F(x) = p on ln F (p ≤ 1/2) or on ln S (p > 1/2)
 // (positiveQuantile), so both tails keep their digits.
-func (d InvGauss) Quantile(p float64) float64 { return positiveQuantile(d, p, d.Mean) }
+func (d InvGauss) Quantile(p float64) float64 {
+	return positiveQuantile(d, p, d.lognormalQuantile(p))
+}
+
+// lognormalQuantile is the p-quantile of the lognormal with the inverse
+// Gaussian's mean and variance (σ² = ln(1 + μ/λ)), Quantile's first guess;
+// the mean where that is not finite.
+func (d InvGauss) lognormalQuantile(p float64) float64 {
+	s2 := math.Log1p(d.Mean / d.Shape)
+	x := d.Mean * math.Exp(math.Sqrt(s2)*mathext.NormalQuantile(p)-s2/2)
+	if !(x > 0) || math.IsInf(x, 0) {
+		return d.Mean
+	}
+	return x
+}
 
 // Rand draws by the transformation with multiple roots of Michael, Schucany
 // & Haas (1976): with y = χ²₁, the two roots of λ(x−μ)²/(μ²x) = y are
