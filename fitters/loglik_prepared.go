@@ -56,8 +56,9 @@ type logLikPreparer interface {
 // maxCachedValues bounds the data that LogLikFunc copies (8 MB of float64).
 const maxCachedValues = 1 << 20
 
-// preparedLogLik is θ ↦ exact(dist) plus the censored observations' terms,
-// dist = f.New(θ) of type D; −Inf where θ is not valid.
+// preparedLogLik is θ ↦ exact(dist) plus the terms of the censored
+// observations of d (its exact values are exact's), dist = f.New(θ) of
+// type D; −Inf where θ is not valid.
 func preparedLogLik[D Dist](f Family, d *Data, exact func(D) float64) func(p []float64) float64 {
 	cens := newCensoredPart(d)
 	return func(p []float64) float64 {
@@ -179,16 +180,10 @@ func (f exponentialFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 		return nil
 	}
 	n := float64(len(d.Exact))
-	cens := newCensoredPart(&Data{Left: d.Left, Lower: d.Lower, Upper: d.Upper})
-	// Σ ln f(exact) + Σ ln S(right) = n ln λ − λ(Σ exact + Σ right)
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		e := dist.(Exponential)
-		return n*math.Log(e.Rate) - e.Rate*(s+sr) + cens.logLik(e)
-	}
+	// Σ ln f(exact) + Σ ln S(right) = n ln λ − λ(Σ exact + Σ right); the
+	// rest of the censored terms as usual.
+	rest := &Data{Left: d.Left, Lower: d.Lower, Upper: d.Upper}
+	return preparedLogLik(f, rest, func(e Exponential) float64 { return n*math.Log(e.Rate) - e.Rate*(s+sr) })
 }
 
 func (f gammaFamily) prepareLogLik(d *Data) func(p []float64) float64 {
@@ -307,15 +302,11 @@ func (f weibullFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 	}
 	work := make([]float64, min(nAll, expSumBlock))
 	n := float64(len(d.Exact))
-	cens := newCensoredPart(&Data{Left: d.Left, Lower: d.Lower, Upper: d.Upper})
 	// ln(xᵢ/λ) = yᵢ − c, c = ln(λ/ref): Σ ln f(exact) + Σ ln S(right)
-	// = n ln(k/λ) + (k−1)(Σ_exact y − nc) − Σ_(exact, right) e^(k(yᵢ − c)).
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		w := dist.(Weibull)
+	// = n ln(k/λ) + (k−1)(Σ_exact y − nc) − Σ_(exact, right) e^(k(yᵢ − c));
+	// the rest of the censored terms as usual.
+	rest := &Data{Left: d.Left, Lower: d.Lower, Upper: d.Upper}
+	return preparedLogLik(f, rest, func(w Weibull) float64 {
 		c := lnRatio(w.Scale, ref)
 		k := w.Shape
 		var se float64
@@ -330,8 +321,8 @@ func (f weibullFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 				se += e
 			}
 		}
-		return n*(math.Log(k)-math.Log(w.Scale)) + (k-1)*(sy-n*c) - se + cens.logLik(w)
-	}
+		return n*(math.Log(k)-math.Log(w.Scale)) + (k-1)*(sy-n*c) - se
+	})
 }
 
 func (f gumbelFamily) prepareLogLik(d *Data) func(p []float64) float64 {
