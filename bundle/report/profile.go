@@ -3,6 +3,7 @@ package report
 import (
 	"math"
 
+	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/optimize"
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -21,9 +22,9 @@ const ProfilePoints = 31
 // (log for positive parameters, logit for probabilities; see
 // [infer.ScaleOf]), over the interval [lower, upper] widened by a third of
 // its length on each side, or over the estimate ± 3 standard errors when
-// the interval is not finite. The other parameters are maximised by
-// Nelder–Mead from the previous point's optimum (warm starts walking out
-// from the estimate). The cut-off is ℓ(θ̂) − χ²₁(level)/2, so a
+// the interval is not finite. The other parameters are maximised by BFGS,
+// or Nelder–Mead where that fails (maximise), from the previous point's
+// optimum (warm starts walking out from the estimate). The cut-off is ℓ(θ̂) − χ²₁(level)/2, so a
 // profile-likelihood interval is where the curve stays above it (Venzon &
 // Moolgavkar 1988). ok is false when no curve could be traced.
 func ProfileCurve(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, i int, lower, upper, stdErr, level float64) (Profile, bool) {
@@ -112,8 +113,12 @@ func ProfileCurve(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, i int, 
 	return pr, len(pr.Values) >= 2
 }
 
-// maximise maximises f from x0 by Nelder–Mead; it returns the best point
-// and value found (−Inf when every value was outside the support).
+// maximise maximises f from x0 and returns the best point and value found
+// (−Inf when every value was outside the support): by BFGS with
+// central-difference gradients (fitters.MinimizeBFGS, on this goroutine)
+// when it converges to a finite value, else by Nelder–Mead, which copes
+// with the edge of a support where the value jumps to −Inf (a barrier of
+// MaxFloat64 on the minimised side).
 func maximise(f func([]float64) float64, x0 []float64) ([]float64, float64) {
 	p := optimize.Problem{Func: func(u []float64) float64 {
 		v := f(u)
@@ -122,6 +127,21 @@ func maximise(f func([]float64) float64, x0 []float64) ([]float64, float64) {
 		}
 		return -v
 	}}
+	if f0 := p.Func(x0); f0 < math.MaxFloat64 {
+		scale := math.Max(1, math.Abs(f0))
+		grad := func(g, x []float64) {
+			fd.Gradient(g, p.Func, x, &fd.Settings{Formula: fd.Central, Step: 1e-6})
+		}
+		res, err := fitters.MinimizeBFGS(optimize.Problem{Func: p.Func, Grad: grad}, append([]float64(nil), x0...), &optimize.Settings{
+			GradientThreshold: 1e-7 * scale,
+			Converger:         &optimize.FunctionConverge{Absolute: 1e-10 * scale, Relative: 1e-10, Iterations: 20},
+			MajorIterations:   500,
+		})
+		if err == nil && res.F < f0+1e-12*scale && res.F < math.MaxFloat64 &&
+			(res.Status == optimize.GradientThreshold || res.Status == optimize.FunctionConvergence) {
+			return res.X, -res.F
+		}
+	}
 	res, err := optimize.Minimize(p, x0, &optimize.Settings{
 		MajorIterations: 2000,
 		Converger:       &optimize.FunctionConverge{Absolute: 1e-10, Relative: 1e-10, Iterations: 50},

@@ -8,7 +8,8 @@ import (
 	"fitseal/fitters"
 )
 
-// TestProfileCurveNormal checks the traced profile against its closed form
+// TestProfileCurveNormal checks the traced profile against its closed form,
+// to 1e-9 relative,
 // for the normal family with complete data (e.g. Pawitan 2001, §3.4):
 //
 //	ℓp(μ) = −n/2 · ln(2π σ̂²(μ)) − n/2,  σ̂²(μ) = mean (x − μ)²
@@ -51,7 +52,7 @@ func TestProfileCurveNormal(t *testing.T) {
 			t.Fatalf("parameter %d: %d points, ok %v", i, len(pr.Values), ok)
 		}
 		for k, v := range pr.Values {
-			if want := form(v); math.Abs(pr.LogLik[k]-want) > 1e-6*math.Abs(want) {
+			if want := form(v); math.Abs(pr.LogLik[k]-want) > 1e-9*math.Abs(want) {
 				t.Errorf("%s at %g: profile %.10g, closed form %.10g", pr.Parameter, v, pr.LogLik[k], want)
 			}
 		}
