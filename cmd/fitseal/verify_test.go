@@ -219,13 +219,7 @@ func TestRunRequireCleanGit(t *testing.T) {
 	// require_clean_git goes in [settings]: insert it after the table header.
 	os.WriteFile(project, bytes.Replace(src, []byte("[settings]\n"), []byte("[settings]\nrequire_clean_git = true\n"), 1), 0o644)
 	os.WriteFile(filepath.Join(dir, ".gitignore"), []byte("key\nkey.pub\n*.tar.gz\n"), 0o644)
-	git := func(args ...string) {
-		t.Helper()
-		cmd := exec.Command(gitBin, append([]string{"-C", dir, "-c", "user.name=fitseal test", "-c", "user.email=test@example.org", "-c", "commit.gpgsign=false"}, args...)...)
-		if out, err := cmd.CombinedOutput(); err != nil {
-			t.Fatalf("git %v: %v\n%s", args, err, out)
-		}
-	}
+	git := gitIn(t, gitBin, dir)
 	git("init", "-q", "-b", "main")
 	git("add", "fitseal.toml", ".gitignore")
 	git("commit", "-q", "-m", "project")
@@ -240,14 +234,7 @@ func TestRunRequireCleanGit(t *testing.T) {
 	git("add", "data/bearings.csv")
 	git("commit", "-q", "-m", "data")
 	mustCLI(t, 0, "run", "-q", "--key", key, "-o", out, project)
-	bag, err := bundle.Open(out)
-	if err != nil {
-		t.Fatal(err)
-	}
-	rec, err := bundle.ParseRunRecord(bag.RunJSON())
-	if err != nil {
-		t.Fatal(err)
-	}
+	rec := runRecordOf(t, out)
 	if !rec.Git.Repository || len(rec.Git.Commit) != 40 || rec.Git.Branch != "main" || rec.Git.Dirty {
 		t.Errorf("git provenance %+v", rec.Git)
 	}
@@ -264,28 +251,14 @@ func TestRunRecordsGitWhileFitting(t *testing.T) {
 	project, key := bearingsProject(t)
 	dir := filepath.Dir(project)
 	os.WriteFile(filepath.Join(dir, ".gitignore"), []byte("key\nkey.pub\n*.tar.gz\n"), 0o644)
-	git := func(args ...string) {
-		t.Helper()
-		cmd := exec.Command(gitBin, append([]string{"-C", dir, "-c", "user.name=fitseal test", "-c", "user.email=test@example.org", "-c", "commit.gpgsign=false"}, args...)...)
-		if out, err := cmd.CombinedOutput(); err != nil {
-			t.Fatalf("git %v: %v\n%s", args, err, out)
-		}
-	}
+	git := gitIn(t, gitBin, dir)
 	git("init", "-q", "-b", "main")
 	git("add", ".")
 	git("commit", "-q", "-m", "project and data")
 	record := func(out string) *bundle.RunRecord {
 		t.Helper()
 		mustCLI(t, 0, "run", "-q", "--key", key, "-o", out, project)
-		bag, err := bundle.Open(out)
-		if err != nil {
-			t.Fatal(err)
-		}
-		rec, err := bundle.ParseRunRecord(bag.RunJSON())
-		if err != nil {
-			t.Fatal(err)
-		}
-		return rec
+		return runRecordOf(t, out)
 	}
 	states := func(rec *bundle.RunRecord) map[string]string {
 		m := map[string]string{}
@@ -311,4 +284,30 @@ func TestRunRecordsGitWhileFitting(t *testing.T) {
 	if !rec.Git.Dirty || states(rec)["data/bearings.csv"] != bundle.GitModified {
 		t.Errorf("modified input: dirty %v, data/bearings.csv %q", rec.Git.Dirty, states(rec)["data/bearings.csv"])
 	}
+}
+
+// gitIn returns a runner of git commands in dir, with a test identity and
+// no commit signing; a failing command fails the test.
+func gitIn(t *testing.T, gitBin, dir string) func(args ...string) {
+	return func(args ...string) {
+		t.Helper()
+		cmd := exec.Command(gitBin, append([]string{"-C", dir, "-c", "user.name=fitseal test", "-c", "user.email=test@example.org", "-c", "commit.gpgsign=false"}, args...)...)
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("git %v: %v\n%s", args, err, out)
+		}
+	}
+}
+
+// runRecordOf opens the bundle at path and parses its run.json.
+func runRecordOf(t *testing.T, path string) *bundle.RunRecord {
+	t.Helper()
+	bag, err := bundle.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rec, err := bundle.ParseRunRecord(bag.RunJSON())
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rec
 }
