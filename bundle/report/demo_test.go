@@ -13,9 +13,9 @@ import (
 	"fitseal/templates"
 )
 
-// demoOutputs runs the `fitseal init` demo through the runner and renders
-// everything a bundle holds: tables, figures, the PDF.
-func demoOutputs(t *testing.T, workers int) (*Report, []File, []RenderedFigure, []byte) {
+// demoResults writes the `fitseal init` demo into a temporary folder and
+// runs it on the given number of workers.
+func demoResults(t *testing.T, workers int) *runner.Results {
 	t.Helper()
 	dir := t.TempDir()
 	if _, err := templates.WriteScaffold(dir); err != nil {
@@ -29,6 +29,14 @@ func demoOutputs(t *testing.T, workers int) (*Report, []File, []RenderedFigure, 
 	if err != nil {
 		t.Fatal(err)
 	}
+	return res
+}
+
+// demoOutputs runs the `fitseal init` demo through the runner and renders
+// everything a bundle holds: tables, figures, the PDF.
+func demoOutputs(t *testing.T, workers int) (*Report, []File, []RenderedFigure, []byte) {
+	t.Helper()
+	res := demoResults(t, workers)
 	r := FromResults(res, Identity{Created: testCreated, ToolVersion: "test", TagManifestSHA256: strings.Repeat("0", 64)})
 	slugs := Slugs(r.Analyses)
 	var figs []RenderedFigure

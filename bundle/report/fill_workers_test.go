@@ -2,14 +2,11 @@ package report
 
 import (
 	"bytes"
-	"context"
 	"fmt"
-	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
 
-	"fitseal/runner"
 	"fitseal/templates"
 )
 
@@ -19,18 +16,7 @@ import (
 // discrete and extreme-value analyses). (reflect.DeepEqual cannot judge:
 // the report holds NaN for missing numbers.)
 func TestFromResultsOnWorkersIsTheSame(t *testing.T) {
-	dir := t.TempDir()
-	if _, err := templates.WriteScaffold(dir); err != nil {
-		t.Fatal(err)
-	}
-	p, err := runner.Load(filepath.Join(dir, "fitseal.toml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	res, err := runner.Run(context.Background(), p, runner.RunOptions{Workers: 2})
-	if err != nil {
-		t.Fatal(err)
-	}
+	res := demoResults(t, 2)
 	tmpls, err := templates.LoadTables("")
 	if err != nil {
 		t.Fatal(err)
