@@ -111,20 +111,27 @@ func (f gammaFamily) LogLik(p []float64, d *Data) float64 {
 // Stirling's series (Abramowitz & Stegun 6.1.41). For a large shape the
 // plain sum cancels terms of size k ln x; this form keeps the digits.
 func gammaLogLikLargeShape(g Gamma, d *Data) float64 {
-	k := g.Shape
-	c := gammaStirlingC(k)
-	m := k / g.Rate // the mean: u = (x − m)/m has only the quotient's rounding
-	var s1, slx float64
+	var slx float64
 	for _, x := range d.Exact {
 		if !(x > 0) {
 			return math.Inf(-1)
 		}
-		u := (x - m) / m
-		s1 += log1pmx(u)
 		slx += math.Log(x)
 	}
-	ll := float64(len(d.Exact))*c + k*s1 - slx
-	return ll + censoredLogLik(g, d, false)
+	return gammaExactLargeShape(g, d.Exact, slx) + censoredLogLik(g, d, false)
+}
+
+// gammaExactLargeShape is gammaLogLikLargeShape's sum over the exact values
+// x (all > 0) given slx = Σ ln x, which LogLikFunc takes once.
+func gammaExactLargeShape(g Gamma, x []float64, slx float64) float64 {
+	k := g.Shape
+	c := gammaStirlingC(k)
+	m := k / g.Rate // the mean: u = (x − m)/m has only the quotient's rounding
+	var s1 float64
+	for _, v := range x {
+		s1 += log1pmx((v - m) / m)
+	}
+	return float64(len(x))*c + k*s1 - slx
 }
 
 // gammaStirlingC returns c(k) = k ln k − k − ln Γ(k), from Stirling's series

@@ -199,22 +199,15 @@ func (f gammaFamily) prepareLogLik(d *Data) func(p []float64) float64 {
 		return nil
 	}
 	n := float64(len(d.Exact))
-	cens := newCensoredPart(d)
 	// Σ ln f(x) = n(k ln β − ln Γ(k)) + (k−1) Σ ln x − β Σ x; for k ≥ 30
 	// LogLik's form that keeps the digits of the large terms.
-	return func(p []float64) float64 {
-		dist, err := f.New(p)
-		if err != nil {
-			return math.Inf(-1)
-		}
-		g := dist.(Gamma)
+	return preparedLogLik(f, d, func(g Gamma) float64 {
 		if g.Shape >= 30 {
-			return gammaLogLikLargeShape(g, d)
+			return gammaExactLargeShape(g, d.Exact, slx)
 		}
 		lg, _ := math.Lgamma(g.Shape)
-		ll := n*(g.Shape*math.Log(g.Rate)-lg) + (g.Shape-1)*slx - g.Rate*sx
-		return ll + cens.logLik(g)
-	}
+		return n*(g.Shape*math.Log(g.Rate)-lg) + (g.Shape-1)*slx - g.Rate*sx
+	})
 }
 
 func (f normalFamily) prepareLogLik(d *Data) func(p []float64) float64 {

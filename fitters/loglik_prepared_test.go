@@ -29,6 +29,7 @@ func TestLogLikFuncMatchesLogLik(t *testing.T) {
 		{"exponential", []float64{0.5}, 0},
 		{"gamma", []float64{2.5, 0.4}, 0},
 		{"gamma", []float64{0.3, 2}, 0},
+		{"gamma", []float64{60, 2}, 0}, // shape ≥ 30: the large-shape form
 		{"normal", []float64{3, 2}, 0},
 		{"normal", []float64{1e7, 0.1}, 0},
 		{"lognormal", []float64{1, 0.5}, 0},
