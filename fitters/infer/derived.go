@@ -35,20 +35,31 @@ type DerivedValue struct {
 	Note                 string
 }
 
+// probability is the lower-tail probability of the quantile that q at
+// arg is: arg for a quantile, 1 − 1/T for the return level of period T;
+// NaN for an exceedance probability.
+func (q Quantity) probability(arg float64) float64 {
+	switch q {
+	case Quantile:
+		return arg
+	case ReturnLevel:
+		return 1 - 1/arg
+	}
+	return math.NaN()
+}
+
 // quantityFunc returns ψ(θ) for q at arg, checking arg.
 func quantityFunc(fam fitters.Family, q Quantity, arg float64) (func(theta []float64) float64, error) {
-	var p float64
+	p := q.probability(arg)
 	switch q {
 	case Quantile:
 		if !(arg > 0 && arg < 1) {
 			return nil, fmt.Errorf("quantile probability must lie strictly between 0 and 1, got %v", arg)
 		}
-		p = arg
 	case ReturnLevel:
 		if !(arg > 1) || math.IsInf(arg, 1) {
 			return nil, fmt.Errorf("return period must be a finite number above 1, got %v", arg)
 		}
-		p = 1 - 1/arg
 	case Exceedance:
 		if math.IsNaN(arg) || math.IsInf(arg, 0) {
 			return nil, fmt.Errorf("exceedance threshold must be a finite number, got %v", arg)
@@ -162,14 +173,13 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 
 	// The delta method's gradient and standard error, used by Wald, for the
 	// profile's step and the choice of the parameter solved for.
-	// gradientAt is ∂t/∂θ at θ where the quantity is psi: through the CDF
-	// for a quantile that is itself a numerical inversion.
+	// A quantile that is itself a numerical inversion is differentiated
+	// and profiled through the CDF at its probability.
+	viaCDF := numericQuantile[fam.Name()] && q != Exceedance
+	prob := q.probability(arg)
+	// gradientAt is ∂t/∂θ at θ where the quantity is psi.
 	gradientAt := func(theta []float64, psi float64, info *Information) []float64 {
-		if numericQuantile[fam.Name()] && q != Exceedance {
-			prob := arg
-			if q == ReturnLevel {
-				prob = 1 - 1/arg
-			}
+		if viaCDF {
 			if gr := quantileGradient(fam, prob, psi, sc, theta, free, info); gr != nil {
 				return gr
 			}
@@ -219,11 +229,8 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 			break
 		}
 		var gap func(theta []float64, x float64) float64
-		if numericQuantile[fam.Name()] && q != Exceedance {
-			gap = tailGap(fam, 1-1/arg)
-			if q == Quantile {
-				gap = tailGap(fam, arg)
-			}
+		if viaCDF {
+			gap = tailGap(fam, prob)
 		}
 		p, j := quantityProfiler(fam, fit, d, g, gap, sc, grad, info)
 		vhat := sc.To(out.Estimate)
