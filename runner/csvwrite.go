@@ -17,12 +17,14 @@ type csvTable struct {
 	rowStart bool
 }
 
-func newCSVTable(header []string, size int) *csvTable {
+func newCSVTable(header []string, withHeader bool, size int) *csvTable {
 	t := &csvTable{b: make([]byte, 0, size), rowStart: true}
-	for _, h := range header {
-		t.text(h)
+	if withHeader {
+		for _, h := range header {
+			t.text(h)
+		}
+		t.end()
 	}
-	t.end()
 	return t
 }
 

@@ -182,7 +182,7 @@ func BenchmarkResultsJSON(b *testing.B) {
 	b.Run("hand", func(b *testing.B) {
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
-			b.SetBytes(int64(len(res.resultsJSON())))
+			b.SetBytes(int64(len(res.resultsJSON(res.Analyses, true, true))))
 		}
 	})
 	b.Run("encoding-json-indent", func(b *testing.B) {

@@ -38,45 +38,114 @@ func FormatFloat(x float64) string {
 // bytes to store; the same results give the same bytes.
 func (r *Results) Files() (map[string][]byte, error) { return r.FilesOn(1) }
 
+// resultFile renders one result file from a run of consecutive analyses:
+// first adds what precedes the first analysis's rows (the CSV header, the
+// head of results.json), last what follows the final one; the parts of a
+// split list, joined in order, are the file rendered whole.
+type resultFile struct {
+	name string
+	part func(r *Results, as []*AnalysisResult, first, last bool) []byte
+}
+
+// resultFiles are the result files, largest first (results.json is about
+// twice the four tables together), so that its parts are handed out first.
+var resultFiles = []resultFile{
+	{ResultsFile, (*Results).resultsJSON},
+	{FitsFile, (*Results).fitsCSV},
+	{ParametersFile, (*Results).parametersCSV},
+	{GOFFile, (*Results).gofCSV},
+	{DerivedFile, (*Results).derivedCSV},
+}
+
+// partsPerWorker is how many parts each result file is split into per
+// worker: enough that no worker is left with a large file alone at the end.
+const partsPerWorker = 4
+
 // FilesOn is [Results.Files] with the files written on at most workers
-// goroutines at once (results.json on one while the tables are written on
-// the others); the bytes do not depend on workers.
+// goroutines at once: with more than one, each file is rendered in parts of
+// consecutive analyses (results.json's first) and the parts are joined, so
+// that results.json, half of the bytes, does not end on one core while the
+// others wait. The bytes do not depend on workers.
 func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
-	names := []string{ResultsFile, FitsFile, ParametersFile, DerivedFile, GOFFile}
-	write := []func() []byte{r.resultsJSON, r.fitsCSV, r.parametersCSV, r.derivedCSV, r.gofCSV}
-	data := make([][]byte, len(names))
-	ForEach(workers, len(names), func(i int) { data[i] = write[i]() })
-	out := make(map[string][]byte, len(names))
-	for i, name := range names {
-		out[name] = data[i]
+	parts := 1
+	if workers > 1 {
+		parts = max(1, min(len(r.Analyses), partsPerWorker*workers))
+	}
+	n := len(r.Analyses)
+	pieces := make([][]byte, len(resultFiles)*parts)
+	ForEach(workers, len(pieces), func(t int) {
+		f, k := t/parts, t%parts
+		pieces[t] = resultFiles[f].part(r, r.Analyses[k*n/parts:(k+1)*n/parts], k == 0, k == parts-1)
+	})
+	joined := make([][]byte, len(resultFiles))
+	ForEach(workers, len(resultFiles), func(f int) { joined[f] = joinParts(pieces[f*parts : (f+1)*parts]) })
+	out := make(map[string][]byte, len(resultFiles))
+	for f, rf := range resultFiles {
+		out[rf.name] = joined[f]
 	}
 	return out, nil
 }
 
-// resultsJSON is results.json (layout: document_json.go).
-func (r *Results) resultsJSON() []byte {
-	doc := r.document()
+// joinParts is the parts one after another, in a buffer of their exact
+// size; a single part is returned as it is.
+func joinParts(parts [][]byte) []byte {
+	if len(parts) == 1 {
+		return parts[0]
+	}
+	size := 0
+	for _, p := range parts {
+		size += len(p)
+	}
+	b := make([]byte, 0, size)
+	for _, p := range parts {
+		b = append(b, p...)
+	}
+	return b
+}
+
+// resultsJSON is results.json (layout: document_json.go) for the analyses
+// as (a part: see resultFile), as appendDocument writes the whole document.
+func (r *Results) resultsJSON(as []*AnalysisResult, first, last bool) []byte {
 	// A little over the size, so that the buffer grows once at most: the
 	// 1000-analysis bench (9 families, 3 GOF rows each) takes about 925
 	// bytes per fit with its parameters and 110 per GOF row; twice the
 	// size would be zeroed for nothing when the heap's memory is reused.
-	size := 4096
-	for _, d := range doc.Datasets {
-		size += 100 * len(d.Groups)
+	size := 16
+	var head docRoot
+	if first {
+		head = r.documentHead()
+		size += 4096
+		for _, d := range head.Datasets {
+			size += 100 * len(d.Groups)
+		}
 	}
-	for _, a := range doc.Analyses {
-		size += 500 + len(a.Name) + 1100*len(a.Fits) + 300*len(a.Derived) + 160*len(a.GOF)
+	for _, a := range as {
+		size += 500 + len(a.Name) + 1100*len(a.Comparison.Rows) + 300*len(a.Derived) + 160*len(a.GOF)
 	}
-	return appendDocument(make([]byte, 0, size), &doc)
+	b := make([]byte, 0, size)
+	if first {
+		b = append(appendDocumentHead(b, &head), '[')
+	}
+	for i, a := range as {
+		if !first || i > 0 {
+			b = append(b, ',')
+		}
+		da := docAnalysisOf(a)
+		b = appendAnalysis(append(b, '\n'), &da)
+	}
+	if last {
+		b = append(b, "]}\n"...)
+	}
+	return b
 }
 
-func (r *Results) fitsCSV() []byte {
+func (r *Results) fitsCSV(as []*AnalysisResult, first, _ bool) []byte {
 	rows := 0
-	for _, a := range r.Analyses {
+	for _, a := range as {
 		rows += len(a.Comparison.Rows)
 	}
-	t := newCSVTable(FitsHeader, 256*rows+512)
-	for _, a := range r.Analyses {
+	t := newCSVTable(FitsHeader, first, 256*rows+512)
+	for _, a := range as {
 		d := &a.Group.Data
 		for _, row := range a.Comparison.Rows {
 			f := row.Fit
@@ -129,15 +198,15 @@ func (r *Results) fitsCSV() []byte {
 	return t.b
 }
 
-func (r *Results) parametersCSV() []byte {
+func (r *Results) parametersCSV(as []*AnalysisResult, first, _ bool) []byte {
 	rows := 0
-	for _, a := range r.Analyses {
+	for _, a := range as {
 		for _, ps := range a.Parameters {
 			rows += len(ps)
 		}
 	}
-	t := newCSVTable(ParametersHeader, 160*rows+512)
-	for _, a := range r.Analyses {
+	t := newCSVTable(ParametersHeader, first, 160*rows+512)
+	for _, a := range as {
 		for i, ps := range a.Parameters {
 			fam := a.Comparison.Rows[i].Family
 			for _, p := range ps {
@@ -157,13 +226,13 @@ func (r *Results) parametersCSV() []byte {
 	return t.b
 }
 
-func (r *Results) derivedCSV() []byte {
+func (r *Results) derivedCSV(as []*AnalysisResult, first, _ bool) []byte {
 	rows := 0
-	for _, a := range r.Analyses {
+	for _, a := range as {
 		rows += len(a.Derived)
 	}
-	t := newCSVTable(DerivedHeader, 160*rows+512)
-	for _, a := range r.Analyses {
+	t := newCSVTable(DerivedHeader, first, 160*rows+512)
+	for _, a := range as {
 		for _, d := range a.Derived {
 			t.text(a.Name)
 			t.text(d.Family)
@@ -179,13 +248,13 @@ func (r *Results) derivedCSV() []byte {
 	return t.b
 }
 
-func (r *Results) gofCSV() []byte {
+func (r *Results) gofCSV(as []*AnalysisResult, first, _ bool) []byte {
 	rows := 0
-	for _, a := range r.Analyses {
+	for _, a := range as {
 		rows += len(a.GOF)
 	}
-	t := newCSVTable(GOFHeader, 100*rows+512)
-	for _, a := range r.Analyses {
+	t := newCSVTable(GOFHeader, first, 100*rows+512)
+	for _, a := range as {
 		for _, g := range a.GOF {
 			t.text(a.Name)
 			t.text(g.Family)

@@ -152,3 +152,45 @@ func referenceGOFRows(r *Results) [][]string {
 	}
 	return rows
 }
+
+// With several workers each result file is rendered in parts of consecutive
+// analyses and joined (FilesOn): the bytes must be the file rendered whole,
+// for any worker count, for fewer analyses than parts, for one and for none;
+// and results.json must still be appendDocument's encoding of the document.
+func TestFilesOnPartsJoinToTheWholeFile(t *testing.T) {
+	path := splitProject(t, 7, 25, `"weibull", "lognormal", "exponential"`, "bootstrap = 0", true)
+	p, err := Load(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	full, err := Run(context.Background(), p, RunOptions{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, keep := range []int{7, 1, 0} {
+		res := *full
+		res.Analyses = full.Analyses[:keep]
+		whole, err := res.FilesOn(1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		doc := res.document()
+		if want := appendDocument(nil, &doc); !bytes.Equal(whole[ResultsFile], want) {
+			t.Fatalf("%d analyses: results.json differs from appendDocument's", keep)
+		}
+		if len(whole) != len(resultFiles) {
+			t.Fatalf("%d analyses: %d files, want %d", keep, len(whole), len(resultFiles))
+		}
+		for _, workers := range []int{2, 3, 5, 64} {
+			got, err := res.FilesOn(workers)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for name, b := range whole {
+				if !bytes.Equal(got[name], b) {
+					t.Errorf("%d analyses, %d workers: %s differs from the file rendered whole", keep, workers, name)
+				}
+			}
+		}
+	}
+}
