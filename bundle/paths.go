@@ -28,10 +28,8 @@ func checkMemberPath(p string) error {
 			return fmt.Errorf("path %q contains a control character", p)
 		}
 	}
-	for _, el := range strings.Split(p, "/") {
-		if el == ".." {
-			return fmt.Errorf("path %q escapes its folder (\"..\")", p)
-		}
+	if p == ".." || strings.HasPrefix(p, "../") || strings.HasSuffix(p, "/..") || strings.Contains(p, "/../") {
+		return fmt.Errorf("path %q escapes its folder (\"..\")", p)
 	}
 	if path.Clean(p) != p || p == "." {
 		return fmt.Errorf("path %q is not in clean form", p)

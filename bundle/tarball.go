@@ -5,8 +5,8 @@ import (
 	"bytes"
 	"fmt"
 	"io"
-	"path"
-	"sort"
+	"slices"
+	"strings"
 	"time"
 )
 
@@ -81,59 +81,11 @@ const (
 // The gzip members are compressed on at most workers goroutines (0: every
 // core); the bytes do not depend on workers.
 func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, workers int) error {
-	if err := checkBagName(bagName); err != nil {
-		return err
-	}
 	mtime = time.Unix(mtime.Unix(), 0).UTC()
-	type entry struct {
-		name string // full path without trailing slash
-		dir  bool
-		file member
-	}
-	seen := map[string]bool{} // path → is a folder
-	folded := map[string]string{}
-	var entries []entry
-	add := func(e entry) error {
-		if _, ok := seen[e.name]; ok {
-			return fmt.Errorf("duplicate member %q", e.name)
-		}
-		if other, ok := folded[foldKey(e.name)]; ok {
-			return fmt.Errorf("members %q and %q differ only in letter case", other, e.name)
-		}
-		seen[e.name] = e.dir
-		folded[foldKey(e.name)] = e.name
-		entries = append(entries, e)
-		return nil
-	}
-	if err := add(entry{name: bagName, dir: true}); err != nil {
+	entries, err := tarEntries(bagName, files)
+	if err != nil {
 		return err
 	}
-	for _, f := range files {
-		if err := checkMemberPath(f.Path); err != nil {
-			return err
-		}
-		full := bagName + "/" + f.Path
-		if err := add(entry{name: full, file: f}); err != nil {
-			return err
-		}
-	}
-	// Parent folders, added after the files so that a file named like a
-	// folder is reported as a duplicate rather than silently merged.
-	for _, f := range files {
-		for d := path.Dir(f.Path); d != "."; d = path.Dir(d) {
-			full := bagName + "/" + d
-			if isDir, ok := seen[full]; ok {
-				if !isDir {
-					return fmt.Errorf("member %q is both a file and a folder", full)
-				}
-				continue
-			}
-			if err := add(entry{name: full, dir: true}); err != nil {
-				return err
-			}
-		}
-	}
-	sort.Slice(entries, func(i, j int) bool { return entries[i].name < entries[j].name })
 
 	// Gzip members of 1 MiB of tar each, compressed on up to workers cores
 	// (gzip_parallel.go); the bytes do not depend on the number of cores.
@@ -167,6 +119,72 @@ func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, wo
 		return err
 	}
 	return zw.Close()
+}
+
+// tarEntry is one entry of a bundle's tar: a folder or a file.
+type tarEntry struct {
+	name string // full path without trailing slash
+	dir  bool
+	file member
+}
+
+// tarEntries lists the tar entries of a bag named bagName holding files: the
+// top folder, every file, and every folder above a file, sorted by path. It
+// refuses a path that checkMemberPath refuses, two members with the same
+// path, two that differ only in letter case (foldKey), and a file whose path
+// is also a folder's.
+func tarEntries(bagName string, files []member) ([]tarEntry, error) {
+	if err := checkBagName(bagName); err != nil {
+		return nil, err
+	}
+	entries := make([]tarEntry, 0, len(files)+8)
+	entries = append(entries, tarEntry{name: bagName, dir: true})
+	for _, f := range files {
+		if err := checkMemberPath(f.Path); err != nil {
+			return nil, err
+		}
+		entries = append(entries, tarEntry{name: bagName + "/" + f.Path, file: f})
+	}
+	// Parent folders, found by walking up from each file until a folder
+	// already listed (whose own parents are then listed too); paths are
+	// clean, so a parent is the text before the last slash.
+	dirs := map[string]bool{}
+	for _, f := range files {
+		for p := f.Path; ; {
+			i := strings.LastIndexByte(p, '/')
+			if i < 0 {
+				break
+			}
+			p = p[:i]
+			if dirs[p] {
+				break
+			}
+			dirs[p] = true
+			entries = append(entries, tarEntry{name: bagName + "/" + p, dir: true})
+		}
+	}
+	slices.SortFunc(entries, func(a, b tarEntry) int { return strings.Compare(a.name, b.name) })
+	// Sorted, equal paths are neighbours; a file that is also a folder is
+	// a file entry next to a folder entry of the same path.
+	for i := 1; i < len(entries); i++ {
+		a, b := entries[i-1], entries[i]
+		if a.name != b.name {
+			continue
+		}
+		if a.dir != b.dir {
+			return nil, fmt.Errorf("member %q is both a file and a folder", a.name)
+		}
+		return nil, fmt.Errorf("duplicate member %q", a.name)
+	}
+	folded := make(map[string]string, len(entries))
+	for _, e := range entries {
+		k := foldKey(e.name)
+		if other, ok := folded[k]; ok {
+			return nil, fmt.Errorf("members %q and %q differ only in letter case", other, e.name)
+		}
+		folded[k] = e.name
+	}
+	return entries, nil
 }
 
 // tarGzBytes is writeTarGz into memory.
