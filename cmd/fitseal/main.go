@@ -56,7 +56,9 @@ func main() {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
 	stopProfile := startCPUProfile(os.Getenv, os.Stderr)
+	stopTrace := startTrace(os.Getenv, os.Stderr)
 	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr)
+	stopTrace()
 	stopProfile()
 	os.Exit(code)
 }
