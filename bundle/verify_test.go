@@ -284,4 +284,17 @@ func TestPrivateKeyNeverSealed(t *testing.T) {
 	if _, err := Members(c, testSigner(t)); err == nil || !strings.Contains(err.Error(), "run.json") {
 		t.Errorf("private key in run.json: %v", err)
 	}
+	// Keys in several files, scanned on the workers: the first in path
+	// order is named, whatever the number of workers.
+	for _, workers := range []int{1, 2, 8} {
+		c = testContents()
+		c.Workers = workers
+		c.Payload["inputs/z/key"] = private
+		c.Payload["inputs/b/key"] = private
+		c.Payload["results/key"] = private
+		_, err = Members(c, testSigner(t))
+		if err == nil || !strings.Contains(err.Error(), "data/inputs/b/key holds a private key") {
+			t.Errorf("%d workers, keys in three files: %v, want data/inputs/b/key named", workers, err)
+		}
+	}
 }
