@@ -396,20 +396,8 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 		if rec.Git.Files == nil {
 			rec.Git.Files = []GitFile{}
 		}
-		// json.MarshalIndent's bytes (it is Marshal, then Indent) and the
-		// final newline, indented into a buffer sized once: MarshalIndent
-		// and an indenting Encoder grow theirs from empty, copying the
-		// megabytes of a large run's record several times.
-		compact, err := json.Marshal(rec)
-		if err != nil {
-			runJSON <- marshalled{nil, err}
-			return
-		}
-		var buf bytes.Buffer
-		buf.Grow(3*len(compact) + 1)
-		err = json.Indent(&buf, compact, "", "  ")
-		buf.WriteByte('\n')
-		runJSON <- marshalled{buf.Bytes(), err}
+		data, err := encodeRunJSON(rec)
+		runJSON <- marshalled{data, err}
 	}()
 	render := func(res *runner.Results, id report.Identity) (map[string][]byte, error) {
 		return renderOn(opt.Workers, res, id)
@@ -450,6 +438,46 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 		Payload: payload, Files: disk, RunJSON: js.data, ToolVersion: opt.Tool.Version, Workers: opt.Workers,
 		sums: memo,
 	}, nil
+}
+
+// runJSONTail is how json.MarshalIndent ends a RunRecord whose record has
+// no seeds and no optimizers (they are its last two fields).
+const runJSONTail = "\"seeds\": null,\n  \"optimizers\": null\n}"
+
+// encodeRunJSON is run.json: json.MarshalIndent(rec, "", "  ") and a
+// newline. The record's two long lists are written by hand
+// (runner.Record.AppendIndentedLists) after encoding/json has written the
+// rest: json.Indent of a 9,000-fit run.json took 26 ms of the 35 its
+// encoding took, on the path to the bundle's first byte.
+func encodeRunJSON(rec RunRecord) ([]byte, error) {
+	if rec.Record == nil {
+		return marshalIndented(rec)
+	}
+	lists := rec.Record
+	head := *lists
+	head.Seeds, head.Optimizers = nil, nil
+	rec.Record = &head
+	b, err := json.MarshalIndent(rec, "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	if !bytes.HasSuffix(b, []byte(runJSONTail)) {
+		rec.Record = lists // a field after the lists: the slow way
+		return marshalIndented(rec)
+	}
+	out := make([]byte, 0, len(b)+360*len(lists.Optimizers)+330*len(lists.Seeds)+16)
+	out = append(out, b[:len(b)-len(runJSONTail)]...)
+	out = lists.AppendIndentedLists(out)
+	return append(out, "\n}\n"...), nil
+}
+
+// marshalIndented is json.MarshalIndent(v, "", "  ") and a newline.
+func marshalIndented(v any) ([]byte, error) {
+	b, err := json.MarshalIndent(v, "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	return append(b, '\n'), nil
 }
 
 // marshalled is a JSON encoding or its error.
