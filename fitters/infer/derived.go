@@ -386,6 +386,7 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 			}
 		}
 	}
+	preferred := bestA >= 0
 	if bestA < 0 {
 		best := -1.0
 		for a, i := range free {
@@ -421,6 +422,15 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 	warm := scales[j].To(est[j])
 	slope := math.NaN()    // dh/dt at the last root, the next solve's first secant
 	gapSlope := math.NaN() // the same for gap
+	// Solving for a parameter of the sensitivity rule, the constraint may
+	// have a second root (onBranch): keep to the branch through the MLE,
+	// where h = ψ − v rises with t as ψ rises with θⱼ (the scales are
+	// increasing) and gap falls.
+	rising := 0.0
+	if gr := grad[bestA]; !preferred && gr != 0 && !math.IsNaN(gr) && !math.IsInf(gr, 0) {
+		rising = math.Copysign(1, gr)
+	}
+	probe := 1e-3 * stepJ
 	return &profiler{
 		fam: fam, data: d, u0: u0, loglik: fitters.LogLikFunc(fam, d),
 		theta: append([]float64(nil), est...),
@@ -440,7 +450,7 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 					return r
 				}
 				t, s, ok := solveNear(hx, warm, stepJ, gapSlope)
-				if !ok {
+				if !ok || !onBranch(hx, t, probe, -rising) {
 					return false
 				}
 				tj, gapSlope = t, s
@@ -450,7 +460,7 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 					return sc.To(g(theta)) - v
 				}
 				t, s, ok := solveNear(h, warm, stepJ, slope)
-				if !ok {
+				if !ok || !onBranch(h, t, probe, rising) {
 					return false
 				}
 				tj, slope = t, s
@@ -460,6 +470,24 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 			return finite(theta) && regular(fam, theta)
 		},
 	}, j
+}
+
+// onBranch reports whether a root t of h lies on the branch of the
+// constraint through the MLE, where h rises with t for rising > 0 and
+// falls for rising < 0 (0: no check), judged from h at t ± d. A quantile
+// need not be monotone in the parameter solved for when no location or
+// scale-type parameter can be (solveFor): an inverse Gaussian's upper
+// quantile with its mean held rises as the shape falls, peaks, and falls
+// again, so "the 0.99-quantile is x" has a second root at a tiny shape, a
+// distribution the data rule out by thousands of log-likelihood units. A
+// profile that took that root would fall off a cliff and put a bound
+// there. (The secant's own slope is no guide: from a start already at the
+// root it is rounding noise.)
+func onBranch(h func(float64) float64, t, d, rising float64) bool {
+	if rising == 0 {
+		return true
+	}
+	return !((h(t+d)-h(t-d))*rising < 0)
 }
 
 // solveFor lists, in order of preference, the parameters a derived
