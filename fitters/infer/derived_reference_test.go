@@ -72,8 +72,8 @@ func TestDerivedProfileMatchesScipy(t *testing.T) {
 		}
 		checked++
 	}
-	if checked < 28 {
-		t.Errorf("%d intervals checked, the file holds 28", checked)
+	if checked < 32 {
+		t.Errorf("%d intervals checked, the file holds 32", checked)
 	}
 }
 

@@ -54,6 +54,25 @@ func (p *profiler) at(v float64, warm []float64) (ll float64, u []float64, edge,
 	return ll, u, false, ok || math.IsInf(ll, -1)
 }
 
+// atChecked is at with a second look where ℓp(v) comes out below the value
+// below: the maximisation is restarted from where it stopped and from the
+// MLE's nuisance values, and a maximum higher by more than 1e-6 taken
+// instead. A maximisation can stop at a lower local maximum (a GEV with
+// ξ < −½ has them where its endpoint meets the largest observation): that
+// would put a point inside the interval outside it, and the bound too near.
+func (p *profiler) atChecked(v float64, warm []float64, below float64) (ll float64, u []float64, edge, ok bool) {
+	ll, u, edge, ok = p.at(v, warm)
+	if edge || !(ll < below) || math.IsInf(ll, -1) {
+		return ll, u, edge, ok
+	}
+	for _, start := range [][]float64{u, p.u0} {
+		if l2, u2, e2, ok2 := p.at(v, start); !e2 && ok2 && l2 > ll+1e-6 {
+			ll, u, ok = l2, u2, ok2
+		}
+	}
+	return ll, u, edge, ok
+}
+
 // feasible returns a start with a finite log-likelihood for the inner
 // maximisation: warm itself, else the MLE's nuisance values, else warm
 // moved along one coordinate by ±½, ±1, ±2, ±4 or ±8 (on the transformed
@@ -104,6 +123,14 @@ func chiSquareCut(level float64) float64 {
 	return distuv.ChiSquared{K: 1}.Quantile(level) / 2
 }
 
+// maxCrossingGap is the largest |ℓp − cut-off| accepted at a bound found by
+// narrowing the bracket (a continuous profile is within some 1e-9 there).
+const maxCrossingGap = 1e-3
+
+// maxRestarts bounds how often one side's walk resumes beyond a jump of
+// the profile that a warm start from just inside removes.
+const maxRestarts = 4
+
 // maxDoublings bounds the outward walk of an interval search.
 const maxDoublings = 40
 
@@ -117,12 +144,16 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 	target := llhat - cut
 	side := func(dir float64, limit float64) profileBound {
 		prev, uprev, dprev := vhat, p.u0, cut
+		origin, restarts := vhat, 0 // where the doubling steps start from
 		for k := 0; k < maxDoublings; k++ {
-			v := vhat + dir*step*math.Ldexp(1, k)
+			v := origin + dir*step*math.Ldexp(1, k)
 			if math.Abs(v-vhat) > span {
 				break
 			}
-			ll, u, edge, ok := p.at(v, uprev)
+			// A step that lands far below the cut-off (a regular profile
+			// is some 6 below it two doublings past the crossing) may have
+			// stopped at a lower local maximum: look again.
+			ll, u, edge, ok := p.atChecked(v, uprev, target-4*cut)
 			if edge {
 				// Close in on the edge by bisection: the profile may still
 				// cross the cut-off between the last inside point and it.
@@ -160,22 +191,53 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 			}
 			if ll < target {
 				warm := uprev
+				last := 0.0 // g at the last point evaluated
 				g := func(x float64) float64 {
 					l, _, edge, ok := p.at(x, warm)
 					if edge {
-						return math.Inf(-1)
+						last = math.Inf(-1)
+						return last
 					}
 					if !ok && !(l >= target) {
 						return math.NaN()
 					}
-					return l - target
+					last = l - target
+					return last
 				}
 				root, found := findRoot(g, prev, v, dprev, ll-target, 1e-10, 1e-9, 200)
 				if !found {
 					return profileBound{Value: math.NaN(),
 						Note: fmt.Sprintf("root finding on the profile failed between %.6g and %.6g", from(prev), from(v))}
 				}
-				return profileBound{Value: from(root)}
+				// ℓp is continuous where the inner maximisations are right,
+				// so at a crossing the last value tried is within the
+				// bracket's 1e-10 of the cut-off (or the likelihood ends
+				// there: −Inf). A bracket that closed on a jump is no bound:
+				// the maximisation just beyond it started too far away and
+				// stopped at a lower maximum. Look again just beyond,
+				// starting from just inside; if the profile is still above
+				// the cut-off there, walk on from that point.
+				if math.Abs(last) <= maxCrossingGap || math.IsInf(last, -1) {
+					return profileBound{Value: from(root)}
+				}
+				if restarts < maxRestarts {
+					d := 1e-8 * math.Max(1, math.Abs(root))
+					if lIn, uIn, eIn, okIn := p.atChecked(root-dir*d, warm, target); okIn && !eIn && lIn >= target {
+						lOut, uOut, eOut, okOut := p.atChecked(root+dir*d, uIn, target)
+						if eOut {
+							return profileBound{Value: limit, Open: true,
+								Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(root))}
+						}
+						if okOut && lOut >= target {
+							restarts++
+							origin, prev, uprev, dprev = root+dir*d, root+dir*d, uOut, lOut-target
+							k = -1
+							continue
+						}
+					}
+				}
+				return profileBound{Value: math.NaN(),
+					Note: fmt.Sprintf("the profile log-likelihood jumps by %.3g near %.6g instead of crossing the cut-off: the maximisation over the other parameters is not continuous there", math.Abs(last), from(root))}
 			}
 			prev, uprev, dprev = v, u, ll-target
 		}
