@@ -347,13 +347,23 @@ var numericQuantile = map[string]bool{"gamma": true, "invgauss": true, "beta": t
 // family through its CDF: ln F(x) − ln p below p = ½, ln(1 − p) − ln S(x)
 // from it on (the smaller tail keeps its digits), zero exactly where the
 // p-quantile is x, positive where it lies below x. It costs one CDF
-// evaluation where the quantile costs a numerical inversion.
+// evaluation where the quantile costs a numerical inversion: the family's
+// CDFTails where it has one (the routine behind the EDF statistics, with
+// the inverse Gaussian's upper tail by the short quadrature: a fifth of
+// LogSurvival's cost there), else LogCDF or LogSurvival.
 func tailGap(fam fitters.Family, p float64) func(theta []float64, x float64) float64 {
 	lp, lq := math.Log(p), math.Log1p(-p)
 	return func(theta []float64, x float64) float64 {
 		dist, err := fam.New(theta)
 		if err != nil {
 			return math.NaN()
+		}
+		if t, ok := dist.(fitters.CDFTailer); ok {
+			_, lf, ls := t.CDFTails(x)
+			if p < 0.5 {
+				return lf - lp
+			}
+			return lq - ls
 		}
 		if p < 0.5 {
 			return dist.LogCDF(x) - lp
