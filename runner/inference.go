@@ -25,6 +25,24 @@ type inference struct {
 	// says why none was, when one was asked for.
 	replicates, failed int
 	note               string
+	// aboveFit is true when a profile found a log-likelihood above the
+	// fit's (infer's AboveFit on any interval).
+	aboveFit bool
+}
+
+// LocalMaximumNote is the note of a fit whose profile found a higher
+// log-likelihood than the fit's own.
+const LocalMaximumNote = "a profile found a higher log-likelihood than the fit's: the fit is a local maximum, so its log-likelihood, criterion, weight and intervals understate what the family can do; look at the profile plots and consider fixing a parameter"
+
+// joinNotes joins two notes with "; ", either may be empty.
+func joinNotes(a, b string) string {
+	switch {
+	case a == "":
+		return b
+	case b == "":
+		return a
+	}
+	return a + "; " + b
 }
 
 // stream is the identity of a fit's bootstrap stream.
@@ -81,6 +99,15 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 			return nil, fmt.Errorf("%s %v: %w", q.kind, q.arg, err)
 		}
 		out.derived = append(out.derived, v)
+	}
+	for _, r := range out.parameters {
+		out.aboveFit = out.aboveFit || r.AboveFit
+	}
+	for _, v := range out.derived {
+		out.aboveFit = out.aboveFit || v.AboveFit
+	}
+	if out.aboveFit {
+		out.note = joinNotes(out.note, LocalMaximumNote)
 	}
 	if out.gof, err = infer.CheckFitFrom(fam, fit, d, settings.Replicates); err != nil {
 		return nil, fmt.Errorf("goodness of fit: %w", err)

@@ -142,6 +142,9 @@ func assembleAnalysis(p *Project, pa *PlannedAnalysis, tasks []taskResult) (*Ana
 			ar.Inference[i] = "no intervals: " + tr.infErr.Error()
 		case tr.inf != nil:
 			ar.Inference[i] = tr.inf.note
+			if tr.inf.aboveFit {
+				cmp.Rows[i].Note = joinNotes(cmp.Rows[i].Note, LocalMaximumNote)
+			}
 		}
 		if row.Rank > 0 {
 			ar.Parameters[i] = parameterRows(row.Fit, tr.inf)

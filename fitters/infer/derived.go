@@ -33,6 +33,9 @@ type DerivedValue struct {
 	LowerOpen, UpperOpen bool
 	Method               string
 	Note                 string
+	// AboveFit is true when the profile found a log-likelihood above the
+	// fit's: the fit is a local maximum, not the maximum.
+	AboveFit bool
 }
 
 // probability is the lower-tail probability of the quantile that q at
@@ -244,6 +247,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 		out.Upper, out.UpperOpen = ub.Value, ub.Open
 		out.Method = fmt.Sprintf("profile likelihood (solved for %s)", fit.Parameters[j])
 		out.Note = joinNote(lowerNote(lb.Note), upperNote(ub.Note))
+		out.AboveFit = lb.AboveFit || ub.AboveFit
 	case MethodBootstrap:
 		rep, err := s.replicates(fam, fit, d)
 		if err != nil {

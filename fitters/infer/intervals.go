@@ -92,6 +92,9 @@ type ParameterInterval struct {
 	Method string
 	Fixed  bool
 	Note   string
+	// AboveFit is true when the profile found a log-likelihood above the
+	// fit's: the fit is a local maximum, not the maximum.
+	AboveFit bool
 }
 
 // Intervals returns one row per parameter of fit: the estimate, its
@@ -185,6 +188,7 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 			r.Lower, r.LowerOpen = lb.Value, lb.Open
 			r.Upper, r.UpperOpen = ub.Value, ub.Open
 			r.Note = joinNote(lowerNote(lb.Note), upperNote(ub.Note))
+			r.AboveFit = lb.AboveFit || ub.AboveFit
 		}
 	case MethodBootstrap:
 		rep, err := s.replicates(fam, fit, d)

@@ -115,6 +115,9 @@ type profileBound struct {
 	Open bool
 	// Note says why a side is open or uncertain.
 	Note string
+	// AboveFit is true when the walk found the profile above the fit's
+	// log-likelihood: the fit is not the maximum.
+	AboveFit bool
 }
 
 // chiSquareCut returns the cut-off of the profile-likelihood interval at
@@ -186,7 +189,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					Note: fmt.Sprintf("the maximisation over the other parameters failed near %.6g", from(v))}
 			}
 			if ll > llhat+1e-6*math.Max(1, math.Abs(llhat)) {
-				return profileBound{Value: math.NaN(),
+				return profileBound{Value: math.NaN(), AboveFit: true,
 					Note: fmt.Sprintf("the profile log-likelihood %.10g at %.6g exceeds the fit's %.10g: the fit is not the maximum", ll, from(v), llhat)}
 			}
 			if ll < target {
