@@ -35,9 +35,9 @@ func TestProfileBoundsAreCrossings(t *testing.T) {
 		t.Skip("profiles some 300 intervals")
 	}
 	long := os.Getenv("FITSEAL_LONG") != ""
-	reps := 1
+	reps, kinds := 1, 2
 	if long {
-		reps = 10
+		reps, kinds = 10, 4
 	}
 	queries := []auditQuery{{Quantile, 0.1}, {Quantile, 0.5}, {Quantile, 0.9}, {ReturnLevel, 100}}
 	checked, failed := map[string]int{}, map[string]int{}
@@ -61,16 +61,23 @@ func TestProfileBoundsAreCrossings(t *testing.T) {
 				for i := range x {
 					x[i] = dist.Rand(r)
 				}
-				for _, censored := range []bool{false, true} {
-					d := fitters.Complete(x)
-					if censored {
+				for _, censored := range []string{"complete", "right", "left", "interval"}[:kinds] {
+					var d *fitters.Data
+					switch censored {
+					case "complete":
+						d = fitters.Complete(x)
+					case "right":
 						d = topCensored(x, 0.8)
+					case "left":
+						d = bottomCensored(x, 0.2)
+					case "interval":
+						d = binned(x, 0.3)
 					}
 					fit, err := fam.Fit(d, opt)
 					if err != nil || !fit.Converged {
 						continue
 					}
-					label := fmt.Sprintf("%s sample %d n=%d censored=%v", fam.Name(), rep, n, censored)
+					label := fmt.Sprintf("%s sample %d n=%d %s", fam.Name(), rep, n, censored)
 					c, f := auditProfiles(t, fam, fit, d, queries, label, regularFamilies[fam.Name()])
 					checked[fam.Name()] += c
 					failed[fam.Name()] += f
@@ -97,6 +104,43 @@ func topCensored(x []float64, q float64) *fitters.Data {
 	for _, v := range x {
 		if v > cut {
 			d.Right = append(d.Right, cut)
+		} else {
+			d.Exact = append(d.Exact, v)
+		}
+	}
+	return d
+}
+
+// bottomCensored is x with its values below the q-quantile left-censored
+// there (non-detects at the smallest kept value).
+func bottomCensored(x []float64, q float64) *fitters.Data {
+	sorted := slices.Clone(x)
+	slices.Sort(sorted)
+	cut := sorted[int(q*float64(len(x)))]
+	d := &fitters.Data{}
+	for _, v := range x {
+		if v < cut {
+			d.Left = append(d.Left, cut)
+		} else {
+			d.Exact = append(d.Exact, v)
+		}
+	}
+	return d
+}
+
+// binned is x with a fraction frac of its values (every third or so, by
+// position) known only to a bin of ±10 % around them.
+func binned(x []float64, frac float64) *fitters.Data {
+	d := &fitters.Data{}
+	step := int(1/frac + 0.5)
+	for i, v := range x {
+		if i%step == 0 {
+			lo, hi := v-0.1*math.Abs(v), v+0.1*math.Abs(v)
+			if lo == hi {
+				lo, hi = v-0.1, v+0.1
+			}
+			d.Lower = append(d.Lower, lo)
+			d.Upper = append(d.Upper, hi)
 		} else {
 			d.Exact = append(d.Exact, v)
 		}
