@@ -13,26 +13,7 @@ import (
 // docs/PERFORMANCE.md; read it with `go tool pprof`). The returned stop
 // function ends the profile; it is a no-op when profiling is off.
 func startCPUProfile(getenv func(string) string, stderr io.Writer) (stop func()) {
-	path := getenv("FITSEAL_CPUPROFILE")
-	if path == "" {
-		return func() {}
-	}
-	f, err := os.Create(path)
-	if err != nil {
-		fmt.Fprintf(stderr, "fitseal: warning: FITSEAL_CPUPROFILE: %v; not profiling\n", err)
-		return func() {}
-	}
-	if err := pprof.StartCPUProfile(f); err != nil {
-		f.Close()
-		fmt.Fprintf(stderr, "fitseal: warning: FITSEAL_CPUPROFILE: %v; not profiling\n", err)
-		return func() {}
-	}
-	return func() {
-		pprof.StopCPUProfile()
-		if err := f.Close(); err != nil {
-			fmt.Fprintf(stderr, "fitseal: warning: FITSEAL_CPUPROFILE: %v\n", err)
-		}
-	}
+	return startRecording(getenv, stderr, "FITSEAL_CPUPROFILE", "profiling", pprof.StartCPUProfile, pprof.StopCPUProfile)
 }
 
 // startTrace writes an execution trace of the whole process to the file
@@ -40,24 +21,32 @@ func startCPUProfile(getenv func(string) string, stderr io.Writer) (stop func())
 // a core sits idle, which a CPU profile cannot; read it with `go tool trace`).
 // The returned stop function ends the trace; it is a no-op when tracing is off.
 func startTrace(getenv func(string) string, stderr io.Writer) (stop func()) {
-	path := getenv("FITSEAL_TRACE")
+	return startRecording(getenv, stderr, "FITSEAL_TRACE", "tracing", trace.Start, trace.Stop)
+}
+
+// startRecording starts a recording of the process (start, ended by end)
+// into the file named by the environment variable env, when it is set; a
+// file that cannot be made or a recording that cannot start is a warning,
+// never an error of the command ("not " + doing).
+func startRecording(getenv func(string) string, stderr io.Writer, env, doing string, start func(io.Writer) error, end func()) (stop func()) {
+	path := getenv(env)
 	if path == "" {
 		return func() {}
 	}
 	f, err := os.Create(path)
 	if err != nil {
-		fmt.Fprintf(stderr, "fitseal: warning: FITSEAL_TRACE: %v; not tracing\n", err)
+		fmt.Fprintf(stderr, "fitseal: warning: %s: %v; not %s\n", env, err, doing)
 		return func() {}
 	}
-	if err := trace.Start(f); err != nil {
+	if err := start(f); err != nil {
 		f.Close()
-		fmt.Fprintf(stderr, "fitseal: warning: FITSEAL_TRACE: %v; not tracing\n", err)
+		fmt.Fprintf(stderr, "fitseal: warning: %s: %v; not %s\n", env, err, doing)
 		return func() {}
 	}
 	return func() {
-		trace.Stop()
+		end()
 		if err := f.Close(); err != nil {
-			fmt.Fprintf(stderr, "fitseal: warning: FITSEAL_TRACE: %v\n", err)
+			fmt.Fprintf(stderr, "fitseal: warning: %s: %v\n", env, err)
 		}
 	}
 }

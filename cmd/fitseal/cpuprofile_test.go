@@ -2,89 +2,66 @@ package main
 
 import (
 	"bytes"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 )
 
-func TestStartCPUProfile(t *testing.T) {
+// FITSEAL_CPUPROFILE and FITSEAL_TRACE: unset, nothing; a writable path, a
+// file of the right kind; a missing folder, a warning and no file.
+func TestStartRecordings(t *testing.T) {
 	dir := t.TempDir()
-	path := filepath.Join(dir, "cpu.out")
-	tests := []struct {
-		name     string
-		env      string
-		wantFile bool
-		wantWarn string
+	for _, tool := range []struct {
+		env, doing string
+		start      func(func(string) string, io.Writer) func()
+		isKind     func([]byte) bool
 	}{
-		{"unset: no profile", "", false, ""},
-		{"writable path: a profile", path, true, ""},
-		{"missing folder: a warning, no profile", filepath.Join(dir, "no", "such", "cpu.out"), false, "not profiling"},
-	}
-	for _, tc := range tests {
-		t.Run(tc.name, func(t *testing.T) {
-			var stderr bytes.Buffer
-			stop := startCPUProfile(func(k string) string {
-				if k == "FITSEAL_CPUPROFILE" {
-					return tc.env
-				}
-				return ""
-			}, &stderr)
-			stop()
-			if tc.wantWarn != "" && !strings.Contains(stderr.String(), tc.wantWarn) {
-				t.Errorf("stderr = %q, want it to contain %q", stderr.String(), tc.wantWarn)
-			}
-			if !tc.wantFile {
-				return
-			}
-			b, err := os.ReadFile(tc.env)
-			if err != nil {
-				t.Fatal(err)
-			}
-			// A pprof profile is gzip-compressed protobuf: it starts with gzip's magic bytes.
-			if len(b) < 2 || b[0] != 0x1f || b[1] != 0x8b {
-				t.Errorf("profile is not a gzip'd pprof file (%d bytes)", len(b))
-			}
-		})
-	}
-}
-
-func TestStartTrace(t *testing.T) {
-	dir := t.TempDir()
-	path := filepath.Join(dir, "trace.out")
-	for _, tc := range []struct {
-		name     string
-		env      string
-		wantFile bool
-		wantWarn string
-	}{
-		{"unset: no trace", "", false, ""},
-		{"writable path: a trace", path, true, ""},
-		{"missing folder: a warning, no trace", filepath.Join(dir, "no", "such", "trace.out"), false, "not tracing"},
+		// A pprof profile is gzip-compressed protobuf: gzip's magic bytes.
+		{"FITSEAL_CPUPROFILE", "profiling", startCPUProfile, func(b []byte) bool { return len(b) >= 2 && b[0] == 0x1f && b[1] == 0x8b }},
+		// An execution trace starts with its header, "go 1.NN trace".
+		{"FITSEAL_TRACE", "tracing", startTrace, func(b []byte) bool {
+			return bytes.HasPrefix(b, []byte("go 1.")) && bytes.Contains(b[:min(len(b), 16)], []byte("trace"))
+		}},
 	} {
-		t.Run(tc.name, func(t *testing.T) {
-			var stderr bytes.Buffer
-			stop := startTrace(func(k string) string {
-				if k == "FITSEAL_TRACE" {
-					return tc.env
+		path := filepath.Join(dir, tool.env+".out")
+		for _, tc := range []struct {
+			name     string
+			env      string
+			wantFile bool
+			wantWarn string
+		}{
+			{"unset: nothing", "", false, ""},
+			{"writable path: a file", path, true, ""},
+			{"missing folder: a warning, no file", filepath.Join(dir, "no", "such", "x.out"), false, "not " + tool.doing},
+		} {
+			t.Run(tool.env+" "+tc.name, func(t *testing.T) {
+				var stderr bytes.Buffer
+				stop := tool.start(func(k string) string {
+					if k == tool.env {
+						return tc.env
+					}
+					return ""
+				}, &stderr)
+				stop()
+				if tc.wantWarn != "" && !strings.Contains(stderr.String(), tc.wantWarn) {
+					t.Errorf("stderr = %q, want it to contain %q", stderr.String(), tc.wantWarn)
 				}
-				return ""
-			}, &stderr)
-			stop()
-			if tc.wantWarn != "" && !strings.Contains(stderr.String(), tc.wantWarn) {
-				t.Errorf("stderr = %q, want it to contain %q", stderr.String(), tc.wantWarn)
-			}
-			if !tc.wantFile {
-				return
-			}
-			b, err := os.ReadFile(tc.env)
-			if err != nil {
-				t.Fatal(err)
-			}
-			// An execution trace starts with its header, "go 1.NN trace".
-			if !bytes.HasPrefix(b, []byte("go 1.")) || !bytes.Contains(b[:min(len(b), 16)], []byte("trace")) {
-				t.Errorf("not an execution trace: starts %q", b[:min(len(b), 16)])
-			}
-		})
+				if tc.wantWarn == "" && stderr.Len() > 0 {
+					t.Errorf("stderr = %q, want nothing", stderr.String())
+				}
+				if !tc.wantFile {
+					return
+				}
+				b, err := os.ReadFile(tc.env)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if !tool.isKind(b) {
+					t.Errorf("%s wrote no file of its kind: starts %q", tool.env, b[:min(len(b), 16)])
+				}
+			})
+		}
 	}
 }
