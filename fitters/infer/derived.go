@@ -178,7 +178,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 	// profile's step and the choice of the parameter solved for.
 	// A quantile that is itself a numerical inversion is differentiated
 	// and profiled through the CDF at its probability.
-	viaCDF := numericQuantile[fam.Name()] && q != Exceedance
+	viaCDF := solvedViaCDF(fam, q)
 	prob := q.probability(arg)
 	// gradientAt is ∂t/∂θ at θ where the quantity is psi.
 	gradientAt := func(theta []float64, psi float64, info *Information) []float64 {
@@ -231,11 +231,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 			out.Note = "no free parameters"
 			break
 		}
-		var gap func(theta []float64, x float64) float64
-		if viaCDF {
-			gap = tailGap(fam, prob)
-		}
-		p, j := quantityProfiler(fam, fit, d, g, gap, sc, grad, info)
+		p, j := quantityProfiler(fam, fit, d, g, quantityGap(fam, q, prob), sc, grad, info)
 		vhat := sc.To(out.Estimate)
 		step := seT
 		if !(step > 0) || math.IsInf(step, 0) {
@@ -374,6 +370,23 @@ func tailGap(fam fitters.Family, p float64) func(theta []float64, x float64) flo
 		}
 		return lq - dist.LogSurvival(x)
 	}
+}
+
+// quantityGap is the CDF form of q's constraint (tailGap) for a quantile
+// or return level of a family in numericQuantile, nil otherwise (the
+// constraint is then ψ(θ) = v itself).
+func quantityGap(fam fitters.Family, q Quantity, prob float64) func(theta []float64, x float64) float64 {
+	if solvedViaCDF(fam, q) {
+		return tailGap(fam, prob)
+	}
+	return nil
+}
+
+// solvedViaCDF reports whether q of fam is differentiated and profiled
+// through the CDF at its probability: a quantile or return level of a
+// family whose quantile is itself a numerical inversion.
+func solvedViaCDF(fam fitters.Family, q Quantity) bool {
+	return numericQuantile[fam.Name()] && q != Exceedance
 }
 
 // quantityProfiler builds the profiler of a derived quantity and returns
