@@ -73,6 +73,10 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 	if info, err := infer.ObservedInformation(fam, fit, d); err == nil {
 		settings.Information = info
 	}
+	if method == infer.MethodProfile {
+		// One prepared log-likelihood for all the fit's profiles.
+		settings.LogLik = fitters.LogLikFunc(fam, d)
+	}
 	if s.Bootstrap > 0 {
 		rep, err := infer.Bootstrap(fam, fit, d, settings.Bootstrap)
 		switch {

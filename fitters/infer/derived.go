@@ -231,7 +231,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 			out.Note = "no free parameters"
 			break
 		}
-		p, j := quantityProfiler(fam, fit, d, g, quantityGap(fam, q, prob), sc, grad, info)
+		p, j := quantityProfiler(fam, fit, d, s.logLik(fam, d), g, quantityGap(fam, q, prob), sc, grad, info)
 		vhat := sc.To(out.Estimate)
 		step := seT
 		if !(step > 0) || math.IsInf(step, 0) {
@@ -396,8 +396,8 @@ func solvedViaCDF(fam fitters.Family, q Quantity) bool {
 // gap(θ, x) = 0 at the quantity's value x = sc.From(v): the two change
 // sign together, so the searches find the same root, or fail together
 // where none is in reach (an inverse Gaussian's quantile is bounded in its
-// mean, say).
-func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g func([]float64) float64, gap func([]float64, float64) float64, sc Scale, grad []float64, info *Information) (*profiler, int) {
+// mean, say). loglik is fitters.LogLikFunc(fam, d).
+func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, loglik func([]float64) float64, g func([]float64) float64, gap func([]float64, float64) float64, sc Scale, grad []float64, info *Information) (*profiler, int) {
 	est := fit.Estimates
 	scales := scalesOf(fam, est)
 	free := freeIndices(fit)
@@ -459,7 +459,7 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, g f
 	}
 	probe := 1e-3 * stepJ
 	return &profiler{
-		fam: fam, data: d, u0: u0, loglik: fitters.LogLikFunc(fam, d),
+		fam: fam, data: d, u0: u0, loglik: loglik,
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
 			fromScales(theta, u, u0, est, others, scales)

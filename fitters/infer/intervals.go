@@ -43,6 +43,12 @@ type Settings struct {
 	// Replicates drawn without Information get percentile intervals.
 	Replicates *Replicates
 	Bootstrap  BootstrapOptions
+	// LogLik, when not nil, is fitters.LogLikFunc(fam, d) of this fit,
+	// prepared once by the caller and shared by all its profiles
+	// (preparing takes an O(n) pass; the profiles of one fit run one after
+	// another, so it need not be safe for concurrent use); otherwise each
+	// call prepares its own.
+	LogLik func(theta []float64) float64
 }
 
 func (s *Settings) level() (float64, error) {
@@ -53,6 +59,14 @@ func (s *Settings) level() (float64, error) {
 		return 0, fmt.Errorf("confidence level must lie strictly between 0 and 1, got %v", s.Level)
 	}
 	return s.Level, nil
+}
+
+// logLik is s.LogLik, prepared here (and kept in s) when nil.
+func (s *Settings) logLik(fam fitters.Family, d *fitters.Data) func(theta []float64) float64 {
+	if s.LogLik == nil {
+		s.LogLik = fitters.LogLikFunc(fam, d)
+	}
+	return s.LogLik
 }
 
 func (s *Settings) information(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (*Information, error) {
@@ -182,7 +196,7 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 			if se := r.StdError / math.Abs(sc.Deriv(fit.Estimates[i])); se > 0 && !math.IsInf(se, 0) {
 				step = se
 			}
-			p := parameterProfiler(fam, fit, d, scales, i)
+			p := parameterProfiler(fam, fit, d, s.logLik(fam, d), scales, i)
 			lo, hi := profileLimits(fam, i, sc)
 			lb, ub := p.interval(that, fit.LogLik, step, cut, spanOf(sc), sc.From, lo, hi)
 			r.Lower, r.LowerOpen = lb.Value, lb.Open

@@ -253,7 +253,8 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 }
 
 // parameterProfiler profiles free parameter i of fit.
-func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, scales []Scale, i int) *profiler {
+// loglik is fitters.LogLikFunc(fam, d).
+func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, loglik func([]float64) float64, scales []Scale, i int) *profiler {
 	free := freeIndices(fit)
 	var others []int
 	for _, j := range free {
@@ -267,7 +268,7 @@ func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, sc
 		u0[a] = scales[j].To(est[j])
 	}
 	return &profiler{
-		fam: fam, data: d, u0: u0, loglik: fitters.LogLikFunc(fam, d),
+		fam: fam, data: d, u0: u0, loglik: loglik,
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
 			theta[i] = scales[i].From(v)
