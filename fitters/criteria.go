@@ -131,7 +131,7 @@ func Compare(entries []Entry, criterion Criterion) (*Comparison, error) {
 					undefinedAICc = append(undefinedAICc, e.Family)
 				}
 				if f.Note != "" {
-					r.Note = joinNote(r.Note, f.Note)
+					r.Note = JoinNote(r.Note, f.Note)
 				}
 			} else {
 				reason := f.Reason
@@ -233,7 +233,8 @@ func SupportLabel(delta float64) string {
 	}
 }
 
-func joinNote(a, b string) string {
+// JoinNote joins two notes with "; ", either of which may be empty.
+func JoinNote(a, b string) string {
 	if a == "" {
 		return b
 	}

@@ -34,17 +34,6 @@ type inference struct {
 // log-likelihood than the fit's own.
 const LocalMaximumNote = "a profile found a higher log-likelihood than the fit's: the fit is a local maximum, so its log-likelihood, criterion, weight and intervals understate what the family can do; look at the profile plots and consider fixing a parameter"
 
-// joinNotes joins two notes with "; ", either may be empty.
-func joinNotes(a, b string) string {
-	switch {
-	case a == "":
-		return b
-	case b == "":
-		return a
-	}
-	return a + "; " + b
-}
-
 // stream is the identity of a fit's bootstrap stream.
 func stream(p *Project, analysis, family string) infer.Stream {
 	return infer.Stream{Master: p.Settings.Seed, Analysis: analysis, Family: family, Purpose: BootstrapPurpose}
@@ -111,7 +100,7 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 		out.aboveFit = out.aboveFit || v.AboveFit
 	}
 	if out.aboveFit {
-		out.note = joinNotes(out.note, LocalMaximumNote)
+		out.note = fitters.JoinNote(out.note, LocalMaximumNote)
 	}
 	if out.gof, err = infer.CheckFitFrom(fam, fit, d, settings.Replicates); err != nil {
 		return nil, fmt.Errorf("goodness of fit: %w", err)

@@ -143,7 +143,7 @@ func assembleAnalysis(p *Project, pa *PlannedAnalysis, tasks []taskResult) (*Ana
 		case tr.inf != nil:
 			ar.Inference[i] = tr.inf.note
 			if tr.inf.aboveFit {
-				cmp.Rows[i].Note = joinNotes(cmp.Rows[i].Note, LocalMaximumNote)
+				cmp.Rows[i].Note = fitters.JoinNote(cmp.Rows[i].Note, LocalMaximumNote)
 			}
 		}
 		if row.Rank > 0 {

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 
+	"fitseal/fitters"
+
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -56,7 +58,7 @@ func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (De
 		out.Note = fmt.Sprintf("left out for want of an estimate or standard error: %s; weights renormalised", strings.Join(left, ", "))
 	}
 	if len(used) == 0 {
-		out.Note = joinNote(out.Note, "no candidate to average")
+		out.Note = fitters.JoinNote(out.Note, "no candidate to average")
 		return out, nil
 	}
 	var mean float64
@@ -77,7 +79,7 @@ func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (De
 			out.Method = "model average: Akaike weights, unconditional se (Burnham & Anderson 2002 eq. 4.9), interval on the logit scale"
 		} else if out.Lower < 0 || out.Upper > 1 {
 			out.Lower, out.Upper = math.Max(out.Lower, 0), math.Min(out.Upper, 1)
-			out.Note = joinNote(out.Note, "normal interval clipped to [0, 1]")
+			out.Note = fitters.JoinNote(out.Note, "normal interval clipped to [0, 1]")
 		}
 	}
 	return out, nil

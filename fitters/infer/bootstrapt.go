@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+
+	"fitseal/fitters"
 )
 
 // studentized gathers the bootstrap-t pivots of one quantity,
@@ -88,7 +90,7 @@ func (st *studentized) note(requested int, short bool, level float64) string {
 	if st.left == 0 {
 		return n
 	}
-	return joinNote(n, fmt.Sprintf("%d of %d replicates gave no studentized value and are left out of the bootstrap-t quantiles (%s)", st.left, requested, st.firstLeft))
+	return fitters.JoinNote(n, fmt.Sprintf("%d of %d replicates gave no studentized value and are left out of the bootstrap-t quantiles (%s)", st.left, requested, st.firstLeft))
 }
 
 // result returns the bootstrap-t interval of a quantity with estimate tHat
@@ -99,14 +101,14 @@ func (st *studentized) result(rep *Replicates, tHat, se float64, sc Scale, level
 		return "", math.NaN(), math.NaN(), "no replicate gave a studentized value (" + st.firstLeft + ")", false
 	}
 	lo, hi, short := st.interval(tHat, se, sc, level)
-	return bootstrapTLabel(sc, len(st.t)), lo, hi, joinNote(failedNote(rep), st.note(rep.Requested, short, level)), true
+	return bootstrapTLabel(sc, len(st.t)), lo, hi, fitters.JoinNote(failedNote(rep), st.note(rep.Requested, short, level)), true
 }
 
 // percentileFallback returns the percentile interval of vals (sorted in
 // place), its ci_method text and a note saying why it replaces bootstrap-t.
 func percentileFallback(vals []float64, level float64, rep *Replicates, why string) (method string, lo, hi float64, note string) {
 	lo, hi = percentileInterval(vals, level)
-	return percentileLabel(len(vals)), lo, hi, joinNote(failedNote(rep), why+": percentile interval instead of bootstrap-t")
+	return percentileLabel(len(vals)), lo, hi, fitters.JoinNote(failedNote(rep), why+": percentile interval instead of bootstrap-t")
 }
 
 // bootstrapTLabel is the ci_method text of a bootstrap-t interval.
@@ -209,6 +211,6 @@ func bootstrapDerived(out *DerivedValue, rep *Replicates, g func([]float64) floa
 	}
 	out.Method, out.Lower, out.Upper, out.Note = percentileFallback(vals, level, rep, why)
 	if undefined > 0 {
-		out.Note = joinNote(out.Note, fmt.Sprintf("the quantity is undefined for %d replicates, left out", undefined))
+		out.Note = fitters.JoinNote(out.Note, fmt.Sprintf("the quantity is undefined for %d replicates, left out", undefined))
 	}
 }

@@ -242,7 +242,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 		out.Lower, out.LowerOpen = lb.Value, lb.Open
 		out.Upper, out.UpperOpen = ub.Value, ub.Open
 		out.Method = fmt.Sprintf("profile likelihood (solved for %s)", fit.Parameters[j])
-		out.Note = joinNote(lowerNote(lb.Note), upperNote(ub.Note))
+		out.Note = fitters.JoinNote(lowerNote(lb.Note), upperNote(ub.Note))
 		out.AboveFit = lb.AboveFit || ub.AboveFit
 	case MethodBootstrap:
 		rep, err := s.replicates(fam, fit, d)

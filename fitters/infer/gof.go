@@ -85,7 +85,7 @@ func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
 			s.Note = "the replicates were drawn without statistics (BootstrapOptions.NoStatistics): no p-value"
 		}
 		if rep.Failed > 0 {
-			s.Note = joinNote(s.Note, fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure))
+			s.Note = fitters.JoinNote(s.Note, fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure))
 		}
 	}
 	return g
@@ -135,14 +135,4 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 		g.Statistics = append(g.Statistics, st)
 	}
 	return g, nil
-}
-
-func joinNote(a, b string) string {
-	if a == "" {
-		return b
-	}
-	if b == "" {
-		return a
-	}
-	return a + "; " + b
 }

@@ -201,7 +201,7 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 			lb, ub := p.interval(that, fit.LogLik, step, cut, spanOf(sc), sc.From, lo, hi)
 			r.Lower, r.LowerOpen = lb.Value, lb.Open
 			r.Upper, r.UpperOpen = ub.Value, ub.Open
-			r.Note = joinNote(lowerNote(lb.Note), upperNote(ub.Note))
+			r.Note = fitters.JoinNote(lowerNote(lb.Note), upperNote(ub.Note))
 			r.AboveFit = lb.AboveFit || ub.AboveFit
 		}
 	case MethodBootstrap:
