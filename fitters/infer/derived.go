@@ -231,7 +231,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 			out.Note = "no free parameters"
 			break
 		}
-		p, j := quantityProfiler(fam, fit, d, s.logLik(fam, d), g, quantityGap(fam, q, prob), sc, grad, info)
+		p, j := quantityProfiler(fam, fit, s.logLik(fam, d), g, quantityGap(fam, q, prob), sc, grad, info)
 		vhat := sc.To(out.Estimate)
 		step := seT
 		if !(step > 0) || math.IsInf(step, 0) {
@@ -396,8 +396,8 @@ func solvedViaCDF(fam fitters.Family, q Quantity) bool {
 // gap(θ, x) = 0 at the quantity's value x = sc.From(v): the two change
 // sign together, so the searches find the same root, or fail together
 // where none is in reach (an inverse Gaussian's quantile is bounded in its
-// mean, say). loglik is fitters.LogLikFunc(fam, d).
-func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, loglik func([]float64) float64, g func([]float64) float64, gap func([]float64, float64) float64, sc Scale, grad []float64, info *Information) (*profiler, int) {
+// mean, say). loglik is fam's log-likelihood on the data (fitters.LogLikFunc).
+func quantityProfiler(fam fitters.Family, fit *fitters.Fit, loglik func([]float64) float64, g func([]float64) float64, gap func([]float64, float64) float64, sc Scale, grad []float64, info *Information) (*profiler, int) {
 	est := fit.Estimates
 	scales := scalesOf(fam, est)
 	free := freeIndices(fit)
@@ -447,8 +447,7 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, log
 		}
 	}
 	warm := scales[j].To(est[j])
-	slope := math.NaN()    // dh/dt at the last root, the next solve's first secant
-	gapSlope := math.NaN() // the same for gap
+	slope := math.NaN() // dh/dt at the last root, the next solve's first secant
 	// Solving for a parameter of the sensitivity rule, the constraint may
 	// have a second root (onBranch): keep to the branch through the MLE,
 	// where h = ψ − v rises with t as ψ rises with θⱼ (the scales are
@@ -457,16 +456,20 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, log
 	if gr := grad[bestA]; !preferred && gr != 0 && !math.IsNaN(gr) && !math.IsInf(gr, 0) {
 		rising = math.Copysign(1, gr)
 	}
+	if gap != nil {
+		rising = -rising
+	}
 	probe := 1e-3 * stepJ
 	return &profiler{
-		fam: fam, data: d, u0: u0, loglik: loglik,
+		fam: fam, u0: u0, loglik: loglik,
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
 			fromScales(theta, u, u0, est, others, scales)
-			var tj float64
+			// h is the constraint at v as a function of tⱼ.
+			var h func(t float64) float64
 			if gap != nil {
 				x := sc.From(v)
-				hx := func(t float64) float64 {
+				h = func(t float64) float64 {
 					theta[j] = scales[j].From(t)
 					r := gap(theta, x)
 					if math.IsInf(r, 0) {
@@ -476,23 +479,17 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, log
 					}
 					return r
 				}
-				t, s, ok := solveNear(hx, warm, stepJ, gapSlope)
-				if !ok || !onBranch(hx, t, probe, -rising) {
-					return false
-				}
-				tj, gapSlope = t, s
 			} else {
-				h := func(t float64) float64 {
+				h = func(t float64) float64 {
 					theta[j] = scales[j].From(t)
 					return sc.To(g(theta)) - v
 				}
-				t, s, ok := solveNear(h, warm, stepJ, slope)
-				if !ok || !onBranch(h, t, probe, rising) {
-					return false
-				}
-				tj, slope = t, s
 			}
-			warm = tj
+			tj, s, ok := solveNear(h, warm, stepJ, slope)
+			if !ok || !onBranch(h, tj, probe, rising) {
+				return false
+			}
+			warm, slope = tj, s
 			theta[j] = scales[j].From(tj)
 			return finite(theta) && regular(fam, theta)
 		},

@@ -196,7 +196,7 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 			if se := r.StdError / math.Abs(sc.Deriv(fit.Estimates[i])); se > 0 && !math.IsInf(se, 0) {
 				step = se
 			}
-			p := parameterProfiler(fam, fit, d, s.logLik(fam, d), scales, i)
+			p := parameterProfiler(fam, fit, s.logLik(fam, d), scales, i)
 			lo, hi := profileLimits(fam, i, sc)
 			lb, ub := p.interval(that, fit.LogLik, step, cut, spanOf(sc), sc.From, lo, hi)
 			r.Lower, r.LowerOpen = lb.Value, lb.Open

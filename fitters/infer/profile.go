@@ -16,8 +16,7 @@ import (
 // valid θ has these coordinates (the edge of the parameter space).
 type profiler struct {
 	fam    fitters.Family
-	data   *fitters.Data
-	loglik func(theta []float64) float64 // fam.LogLik on data (fitters.LogLikFunc)
+	loglik func(theta []float64) float64 // fam.LogLik on the data (fitters.LogLikFunc)
 	build  func(v float64, u, theta []float64) bool
 	u0     []float64 // nuisance coordinates at the MLE
 	theta  []float64 // scratch
@@ -146,6 +145,12 @@ const maxDoublings = 40
 func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(float64) float64, lo, hi float64) (lower, upper profileBound) {
 	target := llhat - cut
 	side := func(dir float64, limit float64) profileBound {
+		// openAtEdge is the side open at limit, the profile above the
+		// cut-off up to the edge of the parameter space at v.
+		openAtEdge := func(v float64) profileBound {
+			return profileBound{Value: limit, Open: true,
+				Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(v))}
+		}
 		prev, uprev, dprev := vhat, p.u0, cut
 		origin, restarts := vhat, 0 // where the doubling steps start from
 		for k := 0; k < maxDoublings; k++ {
@@ -162,8 +167,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 				// cross the cut-off between the last inside point and it.
 				for it := 0; it < 60 && edge; it++ {
 					if math.Abs(v-prev) <= 1e-12*math.Max(1, math.Abs(prev)) {
-						return profileBound{Value: limit, Open: true,
-							Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(prev))}
+						return openAtEdge(prev)
 					}
 					mid := 0.5 * (prev + v)
 					ll, u, edge, ok = p.at(mid, uprev)
@@ -177,8 +181,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					}
 				}
 				if edge {
-					return profileBound{Value: limit, Open: true,
-						Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(prev))}
+					return openAtEdge(prev)
 				}
 			}
 			if !ok && !(ll >= target) {
@@ -228,8 +231,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					if lIn, uIn, eIn, okIn := p.atChecked(root-dir*d, warm, target); okIn && !eIn && lIn >= target {
 						lOut, uOut, eOut, okOut := p.atChecked(root+dir*d, uIn, target)
 						if eOut {
-							return profileBound{Value: limit, Open: true,
-								Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(root))}
+							return openAtEdge(root)
 						}
 						if okOut && lOut >= target {
 							restarts++
@@ -253,8 +255,8 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 }
 
 // parameterProfiler profiles free parameter i of fit.
-// loglik is fitters.LogLikFunc(fam, d).
-func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, loglik func([]float64) float64, scales []Scale, i int) *profiler {
+// loglik is fam's log-likelihood on the data (fitters.LogLikFunc).
+func parameterProfiler(fam fitters.Family, fit *fitters.Fit, loglik func([]float64) float64, scales []Scale, i int) *profiler {
 	free := freeIndices(fit)
 	var others []int
 	for _, j := range free {
@@ -268,7 +270,7 @@ func parameterProfiler(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, lo
 		u0[a] = scales[j].To(est[j])
 	}
 	return &profiler{
-		fam: fam, data: d, u0: u0, loglik: loglik,
+		fam: fam, u0: u0, loglik: loglik,
 		theta: append([]float64(nil), est...),
 		build: func(v float64, u, theta []float64) bool {
 			theta[i] = scales[i].From(v)

@@ -199,7 +199,7 @@ func auditProfiles(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitter
 	scales := scalesOf(fam, fit.Estimates)
 	for i, row := range rows {
 		if !row.Fixed {
-			audit(row.Parameter, parameterProfiler(fam, fit, d, fitters.LogLikFunc(fam, d), scales, i), scales[i], row.Estimate, row.StdError,
+			audit(row.Parameter, parameterProfiler(fam, fit, fitters.LogLikFunc(fam, d), scales, i), scales[i], row.Estimate, row.StdError,
 				row.Lower, row.Upper, row.LowerOpen, row.UpperOpen, row.Note)
 		}
 	}
@@ -214,7 +214,7 @@ func auditProfiles(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitter
 		g, _ := quantityFunc(fam, q.q, q.arg)
 		sc := quantityScale(fam, fit, q.q, dv.Estimate)
 		grad := quantityGradient(g, sc, fit.Estimates, freeIndices(fit), info)
-		p, _ := quantityProfiler(fam, fit, d, fitters.LogLikFunc(fam, d), g, quantityGap(fam, q.q, q.q.probability(q.arg)), sc, grad, info)
+		p, _ := quantityProfiler(fam, fit, fitters.LogLikFunc(fam, d), g, quantityGap(fam, q.q, q.q.probability(q.arg)), sc, grad, info)
 		audit(fmt.Sprintf("%s %v", q.q, q.arg), p, sc, dv.Estimate, dv.StdError, dv.Lower, dv.Upper, dv.LowerOpen, dv.UpperOpen, dv.Note)
 	}
 	return checked, failed
