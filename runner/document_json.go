@@ -25,19 +25,27 @@ import (
 func appendDocument(b []byte, doc *docRoot) []byte {
 	b = appendDocumentHead(b, doc)
 	if doc.Analyses == nil {
-		b = append(b, "null"...)
-	} else {
-		b = append(b, '[')
-		for i := range doc.Analyses {
-			if i > 0 {
-				b = append(b, ',')
-			}
-			b = appendAnalysis(append(b, '\n'), &doc.Analyses[i])
-		}
-		b = append(b, ']')
+		return append(b, "null}\n"...)
 	}
-	return append(b, "}\n"...)
+	b = append(b, '[')
+	for i := range doc.Analyses {
+		b = appendAnalysisItem(b, &doc.Analyses[i], i == 0)
+	}
+	return append(b, documentTail...)
 }
+
+// appendAnalysisItem appends one analysis of results.json's list, after a
+// comma unless it is the list's first; the list is written whole here and
+// in parts by Results.resultsJSON.
+func appendAnalysisItem(b []byte, a *docAnalysis, firstInList bool) []byte {
+	if !firstInList {
+		b = append(b, ',')
+	}
+	return appendAnalysis(append(b, '\n'), a)
+}
+
+// documentTail closes results.json's list of analyses and the document.
+const documentTail = "]}\n"
 
 // appendDocumentHead appends results.json up to its analyses: up to and
 // including `"analyses":`.

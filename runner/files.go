@@ -127,14 +127,11 @@ func (r *Results) resultsJSON(as []*AnalysisResult, first, last bool) []byte {
 		b = append(appendDocumentHead(b, &head), '[')
 	}
 	for i, a := range as {
-		if !first || i > 0 {
-			b = append(b, ',')
-		}
 		da := docAnalysisOf(a)
-		b = appendAnalysis(append(b, '\n'), &da)
+		b = appendAnalysisItem(b, &da, first && i == 0)
 	}
 	if last {
-		b = append(b, "]}\n"...)
+		b = append(b, documentTail...)
 	}
 	return b
 }
