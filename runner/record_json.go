@@ -13,46 +13,26 @@ import "strconv"
 // compares the bytes).
 func (r *Record) AppendIndentedLists(b []byte) []byte {
 	b = append(b, `"seeds": `...)
-	if r.Seeds == nil {
-		b = append(b, "null"...)
-	} else if len(r.Seeds) == 0 {
-		b = append(b, "[]"...)
-	} else {
-		b = append(b, '[')
-		for i := range r.Seeds {
-			s := &r.Seeds[i]
-			b = append(b, "\n    {\n      \"analysis\": "...)
-			b = appendJSONString(b, s.Analysis)
-			b = append(b, ",\n      \"family\": "...)
-			b = appendJSONString(b, s.Family)
-			b = append(b, ",\n      \"purpose\": "...)
-			b = appendJSONString(b, s.Purpose)
-			b = append(b, ",\n      \"replicates\": "...)
-			b = strconv.AppendInt(b, int64(s.Replicates), 10)
-			b = append(b, ",\n      \"identity_of_replicate_0\": "...)
-			b = appendJSONString(b, s.Identity)
-			b = append(b, ",\n      \"seed_of_replicate_0\": [\n        "...)
-			b = strconv.AppendUint(b, s.FirstSeed[0], 10)
-			b = append(b, ",\n        "...)
-			b = strconv.AppendUint(b, s.FirstSeed[1], 10)
-			b = append(b, "\n      ]\n    }"...)
-			if i < len(r.Seeds)-1 {
-				b = append(b, ',')
-			}
-		}
-		b = append(b, "\n  ]"...)
-	}
+	b = appendIndentedList(b, r.Seeds, func(b []byte, s *Seed) []byte {
+		b = append(b, "{\n      \"analysis\": "...)
+		b = appendJSONString(b, s.Analysis)
+		b = append(b, ",\n      \"family\": "...)
+		b = appendJSONString(b, s.Family)
+		b = append(b, ",\n      \"purpose\": "...)
+		b = appendJSONString(b, s.Purpose)
+		b = append(b, ",\n      \"replicates\": "...)
+		b = strconv.AppendInt(b, int64(s.Replicates), 10)
+		b = append(b, ",\n      \"identity_of_replicate_0\": "...)
+		b = appendJSONString(b, s.Identity)
+		b = append(b, ",\n      \"seed_of_replicate_0\": [\n        "...)
+		b = strconv.AppendUint(b, s.FirstSeed[0], 10)
+		b = append(b, ",\n        "...)
+		b = strconv.AppendUint(b, s.FirstSeed[1], 10)
+		return append(b, "\n      ]\n    }"...)
+	})
 	b = append(b, ",\n  \"optimizers\": "...)
-	if r.Optimizers == nil {
-		return append(b, "null"...)
-	}
-	if len(r.Optimizers) == 0 {
-		return append(b, "[]"...)
-	}
-	b = append(b, '[')
-	for i := range r.Optimizers {
-		f := &r.Optimizers[i]
-		b = append(b, "\n    {\n      \"analysis\": "...)
+	return appendIndentedList(b, r.Optimizers, func(b []byte, f *RecordedFit) []byte {
+		b = append(b, "{\n      \"analysis\": "...)
 		b = appendJSONString(b, f.Analysis)
 		b = append(b, ",\n      \"family\": "...)
 		b = appendJSONString(b, f.Family)
@@ -76,10 +56,26 @@ func (r *Record) AppendIndentedLists(b []byte) []byte {
 			b = appendJSONString(b, o.Note)
 			b = append(b, "\n      }"...)
 		}
-		b = append(b, "\n    }"...)
-		if i < len(r.Optimizers)-1 {
+		return append(b, "\n    }"...)
+	})
+}
+
+// appendIndentedList appends list as json.MarshalIndent writes a list
+// valued at depth one: null when nil, [] when empty, else each item on its
+// own line at depth two, written by item from its opening brace on.
+func appendIndentedList[T any](b []byte, list []T, item func(b []byte, x *T) []byte) []byte {
+	switch {
+	case list == nil:
+		return append(b, "null"...)
+	case len(list) == 0:
+		return append(b, "[]"...)
+	}
+	b = append(b, '[')
+	for i := range list {
+		if i > 0 {
 			b = append(b, ',')
 		}
+		b = item(append(b, "\n    "...), &list[i])
 	}
 	return append(b, "\n  ]"...)
 }
