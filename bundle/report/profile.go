@@ -24,9 +24,10 @@ const ProfilePoints = 31
 // its length on each side, or over the estimate ± 3 standard errors when
 // the interval is not finite. The other parameters are maximised by BFGS,
 // or Nelder–Mead where that fails (maximise), from the previous point's
-// optimum (warm starts walking out from the estimate). The cut-off is ℓ(θ̂) − χ²₁(level)/2, so a
-// profile-likelihood interval is where the curve stays above it (Venzon &
-// Moolgavkar 1988). ok is false when no curve could be traced.
+// optimum (warm starts walking out from the estimate). The cut-off is
+// ℓ(θ̂) − χ²₁(level)/2, so a profile-likelihood interval is where the curve
+// stays above it (Venzon & Moolgavkar 1988). ok is false when no curve
+// could be traced.
 func ProfileCurve(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, i int, lower, upper, stdErr, level float64) (Profile, bool) {
 	names := fam.Parameters()
 	if i < 0 || i >= len(names) || i >= len(fit.Estimates) || (i < len(fit.Fixed) && fit.Fixed[i]) {
