@@ -10,12 +10,15 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	kgzip "github.com/klauspost/compress/gzip"
 )
 
 // BenchmarkGzipBundleLevels compresses the tar stream of a real bundle,
 // named by $FITSEAL_BENCH_BUNDLE (e.g. a bundle kept by
 // `../shared/bench/run.sh -S 1000 --keep`), as gzipped members of
-// gzipChunk on one core at levels 1 to 6 and 9, reporting the ratio; and,
+// gzipChunk on one core by Huffman coding alone and at levels 1 to 6 and 9,
+// and as writeTarGz writes it (levelOf), reporting the ratio; and,
 // per kind of member (inputs, results.json, the result CSVs, tables,
 // run.json and manifests, tar headers), the bytes each level leaves. It
 // justifies gzipLevel (tarball.go). The sub-benchmark stdlib-level1 is the
@@ -38,8 +41,14 @@ func BenchmarkGzipBundleLevels(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	// The members by kind, each kind concatenated.
+	// The members by kind, each kind concatenated; and the files, to be
+	// written again as writeTarGz writes them ("as-written": every member
+	// at the level of its path).
 	kinds := map[string][]byte{}
+	var (
+		bag   string
+		files []member
+	)
 	tr := tar.NewReader(bytes.NewReader(stream))
 	for {
 		h, err := tr.Next()
@@ -51,6 +60,11 @@ func BenchmarkGzipBundleLevels(b *testing.B) {
 		}
 		data, _ := io.ReadAll(tr)
 		kinds[memberKind(h.Name)] = append(kinds[memberKind(h.Name)], data...)
+		if h.Typeflag == tar.TypeReg {
+			top, rel, _ := strings.Cut(h.Name, "/")
+			bag = top
+			files = append(files, member{Path: rel, Data: data})
+		}
 	}
 	b.Run("stdlib-level1", func(b *testing.B) {
 		b.SetBytes(int64(len(stream)))
@@ -61,8 +75,25 @@ func BenchmarkGzipBundleLevels(b *testing.B) {
 		b.ReportMetric(float64(len(stream))/float64(size), "ratio")
 		b.ReportMetric(float64(size)/1e6, "MB")
 	})
-	for _, level := range []int{1, 2, 3, 4, 5, 6, 9} {
-		b.Run("level"+strconv.Itoa(level), func(b *testing.B) {
+	b.Run("as-written", func(b *testing.B) {
+		b.SetBytes(int64(len(stream)))
+		var size int
+		for b.Loop() {
+			var out bytes.Buffer
+			if err := writeTarGz(&out, bag, files, time.Unix(0, 0), 1); err != nil {
+				b.Fatal(err)
+			}
+			size = out.Len()
+		}
+		b.ReportMetric(float64(len(stream))/float64(size), "ratio")
+		b.ReportMetric(float64(size)/1e6, "MB")
+	})
+	for _, level := range []int{kgzip.HuffmanOnly, 1, 2, 3, 4, 5, 6, 9} {
+		name := "level" + strconv.Itoa(level)
+		if level == kgzip.HuffmanOnly {
+			name = "huffman"
+		}
+		b.Run(name, func(b *testing.B) {
 			b.SetBytes(int64(len(stream)))
 			var size int
 			for b.Loop() {

@@ -29,7 +29,10 @@ const gzipChunk = 1 << 20
 
 // memberWriter compresses what it is given as consecutive gzip members of
 // gzipChunk bytes of input each, at most workers at a time, and writes
-// them to w in order.
+// them to w in order. setLevel changes the level of what follows; a chunk
+// that has begun is then closed as a shorter member, so that every member
+// is made at one level and the bytes depend only on the stream and where
+// the level changes.
 //
 // Chunk buffers, output buffers and encoders are recycled once a member is
 // written out, so a stream of any length holds at most workers+1 of each
@@ -49,10 +52,12 @@ type memberWriter struct {
 // memberJob is one member in flight: the input chunk, the compressed
 // member and the encoder that made it, all reused by the next job.
 type memberJob struct {
-	chunk []byte
-	out   bytes.Buffer
-	zw    *gzip.Writer
-	err   error
+	chunk   []byte
+	level   int // of the member being made
+	out     bytes.Buffer
+	zw      *gzip.Writer
+	zwLevel int // of zw, which is kept for the next member at that level
+	err     error
 }
 
 // newMemberWriter compresses on at most workers goroutines; 0 means
@@ -86,6 +91,19 @@ func (m *memberWriter) Write(p []byte) (int, error) {
 	return n, nil
 }
 
+// setLevel makes the bytes written from now on compressed at level: the
+// chunk begun so far, if any, is dispatched as a member of its own at the
+// level it was begun with.
+func (m *memberWriter) setLevel(level int) {
+	if level == m.level {
+		return
+	}
+	if m.cur != nil && len(m.cur.chunk) > 0 {
+		m.dispatch()
+	}
+	m.level = level
+}
+
 // job takes a free job with an empty chunk; a new one when none is free.
 func (m *memberWriter) job() *memberJob {
 	if k := len(m.free); k > 0 {
@@ -108,12 +126,14 @@ func (m *memberWriter) dispatch() {
 		j = m.job()
 	}
 	m.cur = nil
+	j.level = m.level
 	ch := make(chan *memberJob, 1)
-	go func(level int) {
+	go func() {
 		j.out.Reset()
 		j.out.Grow(len(j.chunk)/2 + 1024)
-		if j.zw == nil {
-			j.zw, j.err = gzip.NewWriterLevel(&j.out, level)
+		if j.zw == nil || j.zwLevel != j.level {
+			j.zw, j.err = gzip.NewWriterLevel(&j.out, j.level)
+			j.zwLevel = j.level
 		} else {
 			j.zw.Reset(&j.out)
 		}
@@ -125,7 +145,7 @@ func (m *memberWriter) dispatch() {
 			}
 		}
 		ch <- j
-	}(m.level)
+	}()
 	m.pending = append(m.pending, ch)
 	m.members++
 }

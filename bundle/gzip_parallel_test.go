@@ -80,6 +80,65 @@ func TestMemberWriter(t *testing.T) {
 	}
 }
 
+// TestMemberWriterLevels: a change of level closes the chunk begun so far
+// as a shorter member at its own level, so the output is the fresh members
+// of each stretch at its level, concatenated, whatever the workers and the
+// write pattern; setting the level it already has, or changing it before
+// anything was written since the last member, adds no member.
+func TestMemberWriterLevels(t *testing.T) {
+	data := csvText(3*gzipChunk + 777)
+	type stretch struct {
+		end   int // offset in data where the stretch ends
+		level int
+	}
+	for _, stretches := range [][]stretch{
+		{{1000, gzipLevel}, {1000 + 2*gzipChunk + 5, kgzip.HuffmanOnly}, {len(data), gzipLevel}},
+		{{gzipChunk, gzipLevel}, {2 * gzipChunk, kgzip.HuffmanOnly}, {2 * gzipChunk, gzipLevel}, {len(data), kgzip.HuffmanOnly}},
+		{{len(data), gzipLevel}},
+	} {
+		var ref []byte
+		start := 0
+		for _, s := range stretches {
+			if s.end > start {
+				ref = append(ref, freshMembers(t, data[start:s.end], s.level)...)
+			}
+			start = s.end
+		}
+		for _, workers := range []int{1, 2, 7} {
+			for _, piece := range []int{1 << 30, 4099} {
+				var out bytes.Buffer
+				m := newMemberWriter(&out, gzipLevel, workers)
+				start := 0
+				for _, s := range stretches {
+					m.setLevel(s.level)
+					m.setLevel(s.level)
+					for rest := data[start:s.end]; len(rest) > 0; {
+						k := min(piece, len(rest))
+						if _, err := m.Write(rest[:k]); err != nil {
+							t.Fatal(err)
+						}
+						rest = rest[k:]
+					}
+					start = s.end
+				}
+				if err := m.Close(); err != nil {
+					t.Fatal(err)
+				}
+				if !bytes.Equal(out.Bytes(), ref) {
+					t.Fatalf("stretches %v: %d workers, writes of %d: %d bytes, want %d", stretches, workers, piece, out.Len(), len(ref))
+				}
+			}
+		}
+		zr, err := gzip.NewReader(bytes.NewReader(ref))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if back, err := io.ReadAll(zr); err != nil || !bytes.Equal(back, data) {
+			t.Fatalf("stretches %v: Go's gzip reader gives %d bytes (%v)", stretches, len(back), err)
+		}
+	}
+}
+
 // BenchmarkGzipParallel compresses 15 MB of CSV text as 1 MiB members on
 // every core at gzipLevel; the ratio metric is input over output bytes.
 // Run: go test ./bundle -run '^$' -bench 'Gzip(Parallel|Levels)'

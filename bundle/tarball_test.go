@@ -1,6 +1,8 @@
 package bundle
 
 import (
+	kgzip "github.com/klauspost/compress/gzip"
+
 	"archive/tar"
 	"bytes"
 	"compress/gzip"
@@ -246,6 +248,86 @@ func TestWriteFolderAtomic(t *testing.T) {
 
 // csvText makes n bytes of numeric CSV text shaped like fitseal's inputs and
 // result tables (invented numbers, for measuring compression only).
+// TestWriteTarGzLevels: the body of an input copy of gzipChunk bytes or
+// more lies wholly in members made by Huffman coding alone (inputLevel),
+// with at most its padding and the next header beside it, and every other
+// byte of the tar stream in members made at gzipLevel; a small input copy
+// stays at gzipLevel. Each member is read on its own and
+// compressed again at both levels to see which one made it.
+func TestWriteTarGzLevels(t *testing.T) {
+	big := csvText(gzipChunk + 4321)
+	small := csvText(5000)
+	small[0] = 'x' // not a prefix of big
+	results := csvText(2*gzipChunk + 99)
+	results[0] = 'y'
+	files := []member{
+		{Path: "data/inputs/data/big.csv", Data: big},
+		{Path: "data/inputs/data/small.csv", Data: small},
+		{Path: "data/results/fits.csv", Data: results},
+		{Path: "bagit.txt", Data: []byte("BagIt-Version: 1.0\nTag-File-Character-Encoding: UTF-8\n")},
+	}
+	var archive bytes.Buffer
+	if err := writeTarGz(&archive, "bag", files, time.Unix(1700000000, 0), 2); err != nil {
+		t.Fatal(err)
+	}
+
+	// The members, each with the range of the tar stream it holds and the
+	// level that makes its bytes.
+	type span struct{ start, end, level int }
+	var (
+		spans  []span
+		stream []byte
+	)
+	rest := bytes.NewReader(archive.Bytes())
+	for rest.Len() > 0 {
+		before := archive.Len() - rest.Len()
+		zr, err := gzip.NewReader(rest)
+		if err != nil {
+			t.Fatal(err)
+		}
+		zr.Multistream(false)
+		body, err := io.ReadAll(zr)
+		if err != nil {
+			t.Fatal(err)
+		}
+		raw := archive.Bytes()[before : archive.Len()-rest.Len()]
+		level := 0
+		for _, l := range []int{gzipLevel, inputLevel} {
+			var again bytes.Buffer
+			zw, _ := kgzip.NewWriterLevel(&again, l)
+			zw.Write(body)
+			zw.Close()
+			if bytes.Equal(again.Bytes(), raw) {
+				level = l
+			}
+		}
+		if level == 0 {
+			t.Fatalf("member %d (%d bytes of tar) is made at neither level", len(spans), len(body))
+		}
+		spans = append(spans, span{len(stream), len(stream) + len(body), level})
+		stream = append(stream, body...)
+	}
+	at := bytes.Index(stream, big)
+	if at < 0 {
+		t.Fatal("big input's body not found in the tar stream")
+	}
+	for _, s := range spans {
+		// The body, its padding to a 512-byte block, the next header.
+		tail := (at+len(big)+511)/512*512 + 512
+		inBig := s.start >= at && s.end <= tail
+		overlapsBig := s.start < at+len(big) && s.end > at
+		switch {
+		case s.level == inputLevel && !inBig:
+			t.Errorf("member [%d, %d) is Huffman-coded but not within the big input [%d, %d)", s.start, s.end, at, at+len(big))
+		case s.level == gzipLevel && overlapsBig:
+			t.Errorf("member [%d, %d) at level %d holds bytes of the big input [%d, %d)", s.start, s.end, gzipLevel, at, at+len(big))
+		}
+	}
+	if len(spans) < 4 {
+		t.Errorf("%d members; want at least 4 (before, two of the big input, after)", len(spans))
+	}
+}
+
 func csvText(n int) []byte {
 	r := rand.New(rand.NewPCG(1, 2))
 	var b bytes.Buffer
