@@ -9,6 +9,8 @@ import (
 	"os"
 	"path"
 	"path/filepath"
+
+	"fitseal/runner"
 )
 
 // ErrExists is wrapped by the error for an output that already exists and
@@ -55,9 +57,11 @@ func writeFileAtomic(out string, force bool, perm fs.FileMode, write func(io.Wri
 	if err = f.Chmod(perm); err != nil {
 		return fmt.Errorf("writing %s: %w", out, err)
 	}
+	runner.TracePhase("write: sync")
 	if err = f.Sync(); err != nil {
 		return fmt.Errorf("writing %s: %w", out, err)
 	}
+	runner.TracePhase("write: close, move")
 	if err = f.Close(); err != nil {
 		return fmt.Errorf("writing %s: %w", out, err)
 	}

@@ -361,6 +361,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	if err != nil {
 		return Contents{}, err
 	}
+	runner.TracePhase("seal: result files")
 	files, err := res.FilesOn(workers)
 	if err != nil {
 		return Contents{}, err
@@ -372,6 +373,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	for name, b := range files {
 		payload["results/"+name] = b
 	}
+	runner.TracePhase("seal: identity sums")
 	sums := identitySums(workers, payload, disk, known)
 	ident := resultsIdentity(sums)
 	var shard *ShardRecord
@@ -405,6 +407,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	if shard != nil {
 		render = func(*runner.Results, report.Identity) (map[string][]byte, error) { return nil, nil }
 	}
+	runner.TracePhase("seal: tables, figures, PDF")
 	rendered, err := render(res, report.Identity{
 		TagManifestSHA256:   ident,
 		BundleIdentityLabel: ResultsIdentityLabel,
@@ -423,6 +426,7 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	for k, v := range rendered {
 		payload[k] = v
 	}
+	runner.TracePhase("seal: run.json")
 	js := <-runJSON
 	if js.err != nil {
 		return Contents{}, js.err

@@ -10,6 +10,8 @@ import (
 	"time"
 
 	"github.com/klauspost/compress/gzip"
+
+	"fitseal/runner"
 )
 
 // member is one file of a bag: its slash path relative to the bag folder and
@@ -113,6 +115,7 @@ const (
 // core); the bytes do not depend on workers.
 func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, workers int) error {
 	mtime = time.Unix(mtime.Unix(), 0).UTC()
+	runner.TracePhase("write: tar, gzip")
 	entries, err := tarEntries(bagName, files)
 	if err != nil {
 		return err

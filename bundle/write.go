@@ -166,6 +166,7 @@ func WriteBundle(out string, force bool, c Contents, signer Signer) error {
 	if err := checkBagName(c.Name); err != nil {
 		return err
 	}
+	runner.TracePhase("write: manifests, signature")
 	files, disk, err := members(c, signer)
 	if err != nil {
 		return err

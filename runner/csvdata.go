@@ -109,6 +109,7 @@ func readCSV(name string, r io.Reader, d *Dataset, workers, chunkSize int) (*Dat
 	if d.SplitBy == "" && len(rd.out.Groups) == 0 {
 		rd.out.Groups = []*Group{{}}
 	}
+	TracePhase("finish columns")
 	for _, b := range rd.builders {
 		b.finish()
 	}

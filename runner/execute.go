@@ -42,6 +42,7 @@ type taskResult struct {
 // of workers and assembles the results in plan order. Cancelling ctx stops
 // the run; Run then returns ctx's error and no results.
 func Run(ctx context.Context, p *Project, opt RunOptions) (*Results, error) {
+	TracePhase("read data")
 	data, err := readAll(p, opt.Workers)
 	if err != nil {
 		return nil, err
@@ -51,6 +52,7 @@ func Run(ctx context.Context, p *Project, opt RunOptions) (*Results, error) {
 	if opt.Shard != nil {
 		plan = plan.Only(*opt.Shard)
 	}
+	TracePhase("fit")
 	out, err := Execute(ctx, p, plan, opt)
 	if err != nil {
 		return nil, err

@@ -136,6 +136,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	if !o.Quiet && isTerminal(stderr) {
 		opt.Progress = stderr
 	}
+	runner.TracePhase("memory limit, heap advice")
 	limitMemoryForProject(p)
 	adviseHugeHeapFor(heapPerInputByte, projectDataPaths(p)...)
 	res, err := runner.Run(ctx, p, opt)
@@ -149,6 +150,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	runner.TracePhase("seal: inputs")
 	contents, err := bundle.Seal(res, bundle.SealOptions{
 		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Shard: shard, Workers: opt.Workers,
 	})
