@@ -1,10 +1,12 @@
 package bundle
 
 import (
+	"cmp"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
 	"runtime/debug"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -103,20 +105,27 @@ func manifestOn(workers int, files map[string][]byte, paths []string, known map[
 
 // sha256All returns the hex SHA-256 of files[p] for each of paths, in
 // order: known[p] where it is there, else hashed on at most workers
-// goroutines (at least one).
+// goroutines (at least one). The largest files are hashed first, so that
+// one large file (results.json: half the bytes of a batch run's results)
+// does not start last and leave the other goroutines idle while it is
+// hashed.
 func sha256All(workers int, files map[string][]byte, paths []string, known map[string]string) []string {
 	sums := make([]string, len(paths))
-	var todo []int
+	type file struct {
+		i    int
+		data []byte
+	}
+	var todo []file
 	for i, p := range paths {
 		if s, ok := known[p]; ok {
 			sums[i] = s
 		} else {
-			todo = append(todo, i)
+			todo = append(todo, file{i, files[p]})
 		}
 	}
+	slices.SortStableFunc(todo, func(a, b file) int { return cmp.Compare(len(b.data), len(a.data)) })
 	runner.ForEach(workers, len(todo), func(k int) {
-		i := todo[k]
-		sums[i] = sha256Hex(files[paths[i]])
+		sums[todo[k].i] = sha256Hex(todo[k].data)
 	})
 	return sums
 }
