@@ -110,9 +110,9 @@ func readCSV(name string, r io.Reader, d *Dataset, workers, chunkSize int) (*Dat
 		rd.out.Groups = []*Group{{}}
 	}
 	TracePhase("finish columns")
-	for _, b := range rd.builders {
-		b.finish()
-	}
+	// Each group's values are copied out of their blocks on the workers
+	// (1000 groups of 1000 values: 3-5 ms on one, in traced batch runs).
+	ForEach(workers, len(rd.builders), func(i int) { rd.builders[i].finish() })
 	return rd.out, nil
 }
 
