@@ -232,6 +232,7 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 			break
 		}
 		p, j := quantityProfiler(fam, fit, s.logLik(fam, d), g, quantityGap(fam, q, prob), sc, grad, info)
+		guardIrregular(p, fam, fit, d)
 		vhat := sc.To(out.Estimate)
 		step := seT
 		if !(step > 0) || math.IsInf(step, 0) {
@@ -460,40 +461,62 @@ func quantityProfiler(fam fitters.Family, fit *fitters.Fit, loglik func([]float6
 		rising = -rising
 	}
 	probe := 1e-3 * stepJ
-	return &profiler{
+	p := &profiler{
 		fam: fam, u0: u0, loglik: loglik,
 		theta: append([]float64(nil), est...),
-		build: func(v float64, u, theta []float64) bool {
-			fromScales(theta, u, u0, est, others, scales)
-			// h is the constraint at v as a function of tⱼ.
-			var h func(t float64) float64
-			if gap != nil {
-				x := sc.From(v)
-				h = func(t float64) float64 {
-					theta[j] = scales[j].From(t)
-					r := gap(theta, x)
-					if math.IsInf(r, 0) {
-						// A tail that underflows still says on which side
-						// of x the quantile lies.
-						r = math.Copysign(math.MaxFloat64, r)
-					}
-					return r
+	}
+	p.build = func(v float64, u, theta []float64) bool {
+		fromScales(theta, u, u0, est, others, scales)
+		// h is the constraint at v as a function of tⱼ.
+		var h func(t float64) float64
+		if gap != nil {
+			x := sc.From(v)
+			h = func(t float64) float64 {
+				theta[j] = scales[j].From(t)
+				r := gap(theta, x)
+				if math.IsInf(r, 0) {
+					// A tail that underflows still says on which side
+					// of x the quantile lies.
+					r = math.Copysign(math.MaxFloat64, r)
 				}
-			} else {
-				h = func(t float64) float64 {
-					theta[j] = scales[j].From(t)
-					return sc.To(g(theta)) - v
-				}
+				return r
 			}
-			tj, s, ok := solveNear(h, warm, stepJ, slope)
-			if !ok || !onBranch(h, tj, probe, rising) {
-				return false
+		} else {
+			h = func(t float64) float64 {
+				theta[j] = scales[j].From(t)
+				return sc.To(g(theta)) - v
 			}
-			warm, slope = tj, s
-			theta[j] = scales[j].From(tj)
-			return finite(theta) && regular(fam, theta)
-		},
-	}, j
+		}
+		tj, s, ok := solveNear(h, warm, stepJ, slope)
+		if !ok && p.irregular {
+			// An irregular family's constraint may be undefined at the
+			// last root with these other parameters (a quantile on the log
+			// scale below a threshold moved far down): solve again from
+			// the nearest point where it is defined.
+			tj, s, ok = solveFromDefined(h, warm, stepJ)
+		}
+		if !ok || !onBranch(h, tj, probe, rising) {
+			return false
+		}
+		warm, slope = tj, s
+		theta[j] = scales[j].From(tj)
+		return finite(theta) && regular(fam, theta)
+	}
+	return p, j
+}
+
+// solveFromDefined is solveNear started from the point nearest t0, among
+// t0 ± step·2ᵏ (k < 40), where h is finite.
+func solveFromDefined(h func(float64) float64, t0, step float64) (float64, float64, bool) {
+	for k := range 40 {
+		for _, dir := range []float64{1, -1} {
+			t := t0 + dir*step*math.Ldexp(1, k)
+			if v := h(t); !math.IsNaN(v) && !math.IsInf(v, 0) {
+				return solveNear(h, t, step, math.NaN())
+			}
+		}
+	}
+	return math.NaN(), math.NaN(), false
 }
 
 // onBranch reports whether a root t of h lies on the branch of the

@@ -197,6 +197,7 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 				step = se
 			}
 			p := parameterProfiler(fam, fit, s.logLik(fam, d), scales, i)
+			guardIrregular(p, fam, fit, d)
 			lo, hi := profileLimits(fam, i, sc)
 			lb, ub := p.interval(that, fit.LogLik, step, cut, spanOf(sc), sc.From, lo, hi)
 			r.Lower, r.LowerOpen = lb.Value, lb.Open

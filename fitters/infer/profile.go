@@ -21,6 +21,18 @@ type profiler struct {
 	u0     []float64 // nuisance coordinates at the MLE
 	theta  []float64 // scratch
 	evals  int
+	// irregular, set by guardIrregular, makes interval confirm every closed
+	// bound from two starts on each side of it.
+	irregular bool
+	// admissible, when not nil, rejects a maximum at θ that is no maximum
+	// of the profile (a threshold run into the smallest value).
+	admissible func(theta []float64) bool
+	// ridge, when not nil, says why a bound whose maximum is at θ cannot be
+	// confirmed ("" when it can).
+	ridge func(theta []float64) string
+	// ranAway records that a maximisation of this side ran into the
+	// unbounded corner (see admissible).
+	ranAway bool
 }
 
 // at returns ℓp(v), maximising from warm. edge is true when θ is invalid
@@ -48,6 +60,12 @@ func (p *profiler) at(v float64, warm []float64) (ll float64, u []float64, edge,
 		}
 	}
 	if !valid {
+		return math.Inf(-1), warm, true, true
+	}
+	if p.admissible != nil && !math.IsInf(ll, -1) && p.build(v, u, p.theta) && !p.admissible(p.theta) {
+		// The maximisation ran into the unbounded corner of the
+		// likelihood: no maximum of the profile here, as beyond an edge.
+		p.ranAway = true
 		return math.Inf(-1), warm, true, true
 	}
 	return ll, u, false, ok || math.IsInf(ll, -1)
@@ -147,7 +165,12 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 	side := func(dir float64, limit float64) profileBound {
 		// openAtEdge is the side open at limit, the profile above the
 		// cut-off up to the edge of the parameter space at v.
+		p.ranAway = false
 		openAtEdge := func(v float64) profileBound {
+			if p.ranAway {
+				return profileBound{Value: math.NaN(),
+					Note: fmt.Sprintf("not confirmed: beyond %.6g the maximum over the other parameters runs into the threshold at the smallest value, where the likelihood is unbounded", from(v))}
+			}
 			return profileBound{Value: limit, Open: true,
 				Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(v))}
 		}
@@ -224,12 +247,57 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 				// starting from just inside; if the profile is still above
 				// the cut-off there, walk on from that point.
 				if math.Abs(last) <= maxCrossingGap || math.IsInf(last, -1) {
+					if !p.irregular {
+						return profileBound{Value: from(root)}
+					}
+					// An irregular likelihood: the maximisations near the
+					// root may have followed one local maximum of the other
+					// parameters, an edge of the parameter space or a ridge
+					// while a higher maximum lies elsewhere. Confirm the
+					// crossing from two starts on each side (the walk's last
+					// inside point and the MLE's values): beyond the bound
+					// the profile must be at or below the cut-off, inside
+					// at or above it.
+					d := 1e-3 * step
+					lOut, uOut, tOut := p.bestAt(root+dir*d, warm)
+					if lOut > target+crossingTol {
+						if restarts < maxRestarts {
+							restarts++
+							origin, prev, uprev, dprev = root+dir*d, root+dir*d, uOut, lOut-target
+							k = -1
+							continue
+						}
+						return profileBound{Value: math.NaN(),
+							Note: fmt.Sprintf("not confirmed: the profile log-likelihood is above the cut-off again beyond %.6g (another maximum of the other parameters)", from(root))}
+					}
+					lIn, _, tIn := p.bestAt(root-dir*d, warm)
+					if !(lIn >= target-crossingTol) {
+						return profileBound{Value: math.NaN(),
+							Note: fmt.Sprintf("not confirmed: the profile log-likelihood falls below the cut-off just inside %.6g without crossing it there", from(root))}
+					}
+					if p.ridge != nil {
+						for _, th := range [][]float64{tIn, tOut} {
+							if th == nil {
+								continue
+							}
+							if why := p.ridge(th); why != "" {
+								return profileBound{Value: math.NaN(),
+									Note: fmt.Sprintf("not confirmed near %.6g: %s", from(root), why)}
+							}
+						}
+					}
 					return profileBound{Value: from(root)}
 				}
 				if restarts < maxRestarts {
 					d := 1e-8 * math.Max(1, math.Abs(root))
 					if lIn, uIn, eIn, okIn := p.atChecked(root-dir*d, warm, target); okIn && !eIn && lIn >= target {
 						lOut, uOut, eOut, okOut := p.atChecked(root+dir*d, uIn, target)
+						if p.irregular && !(okOut && lOut >= target) {
+							// also from the MLE's values (bestAt)
+							if l2, u2, _ := p.bestAt(root+dir*d, uIn); l2 >= target {
+								lOut, uOut, eOut, okOut = l2, u2, false, true
+							}
+						}
 						if eOut {
 							return openAtEdge(root)
 						}

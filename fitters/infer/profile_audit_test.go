@@ -27,11 +27,14 @@ import (
 // right-censored; the parameters and the 0.1, 0.5, 0.9 quantiles and the
 // 100-observation return level, and the probability of exceeding the
 // sampled family's 0.8-quantile. FITSEAL_LONG=1 draws 10 samples of each
-// kind instead of 1, adds left-censored and binned samples, and also logs
-// (without failing) what the audit finds for the irregular families
-// (thresholds, GPD, Student t), whose likelihoods are unbounded or flat at
-// edges the audit's continuation does not respect, and for a GEV profile
-// that reaches shape ξ < −½, beyond Smith's (1985) regular region.
+// kind instead of 1, adds left-censored and binned samples, and audits the
+// irregular families too (thresholds, GPD, Student t, pareto), as strictly
+// but for weibull3 (loggedOnly):
+// their profiles and this audit share guardIrregular's rule of which maxima
+// count (none with a threshold run into the smallest value), and bounds the
+// intervals leave empty as "not confirmed" are counted and logged. A GEV
+// profile that reaches shape ξ < −½, beyond Smith's (1985) regular region,
+// is logged only. FITSEAL_AUDIT_FAMILIES=a,b limits the run to families a, b.
 func TestProfileBoundsAreCrossings(t *testing.T) {
 	if testing.Short() {
 		t.Skip("profiles some 300 intervals")
@@ -42,9 +45,12 @@ func TestProfileBoundsAreCrossings(t *testing.T) {
 		reps, kinds = 10, 4
 	}
 	queries := []auditQuery{{Quantile, 0.1}, {Quantile, 0.5}, {Quantile, 0.9}, {ReturnLevel, 100}}
-	checked, failed := map[string]int{}, map[string]int{}
+	checked, failed, unconfirmed := map[string]int{}, map[string]int{}, map[string]int{}
 	for _, fam := range fitters.Families() {
 		if fam.Kind() != fitters.Continuous || (!regularFamilies[fam.Name()] && !long) {
+			continue
+		}
+		if only := os.Getenv("FITSEAL_AUDIT_FAMILIES"); only != "" && !slices.Contains(strings.Split(only, ","), fam.Name()) {
 			continue
 		}
 		d0, opt := familyTestData(fam)
@@ -83,21 +89,28 @@ func TestProfileBoundsAreCrossings(t *testing.T) {
 					// and the probability of exceeding the 0.8-quantile of the
 					// family the sample was drawn from
 					qs := append(slices.Clone(queries), auditQuery{Exceedance, dist.Quantile(0.8)})
-					c, f := auditProfiles(t, fam, fit, d, qs, label, regularFamilies[fam.Name()])
+					c, f, u := auditProfiles(t, fam, fit, d, qs, label, !loggedOnly[fam.Name()])
 					checked[fam.Name()] += c
 					failed[fam.Name()] += f
+					unconfirmed[fam.Name()] += u
 				}
 			}
 		}
 	}
 	for _, name := range slices.Sorted(maps.Keys(checked)) {
 		c := checked[name]
-		t.Logf("%s: %d bounds audited, %d not crossings", name, c, failed[name])
+		t.Logf("%s: %d bounds audited, %d not crossings; %d bounds left empty as not confirmed (with a note)", name, c, failed[name], unconfirmed[name])
 		if regularFamilies[name] && c == 0 {
 			t.Errorf("%s: no bound audited", name)
 		}
 	}
 }
+
+// loggedOnly are the families whose failing bounds the long audit logs
+// without failing: weibull3 still has one (sample 6, right-censored, the
+// scale's upper bound 57.8, with ℓp 0.2 above the cut-off on both sides by
+// the audit's continuation; not yet examined), see docs/INFERENCE.md.
+var loggedOnly = map[string]bool{"weibull3": true}
 
 // topCensored is x with its values above the q-quantile right-censored
 // there (suspensions at the largest kept value).
@@ -155,7 +168,7 @@ type auditQuery struct {
 // auditProfiles audits the profile intervals of fit's parameters and of
 // queries; it returns the bounds audited and those that are not crossings,
 // failing the test on them when strict.
-func auditProfiles(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitters.Data, queries []auditQuery, label string, strict bool) (checked, failed int) {
+func auditProfiles(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitters.Data, queries []auditQuery, label string, strict bool) (checked, failed, unconfirmed int) {
 	t.Helper()
 	s := Settings{Level: 0.95}
 	info, _ := s.information(fam, fit, d)
@@ -168,6 +181,8 @@ func auditProfiles(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitter
 		if strings.Contains(note, "limiting family") || strings.Contains(note, "not the maximum") {
 			return // said so, and no interval claimed from it
 		}
+		guardIrregular(p, fam, fit, d) // the same admissible maxima as the intervals
+		unconfirmed += strings.Count(note, "not confirmed")
 		vhat := sc.To(est)
 		delta := 1e-3 * se / math.Abs(sc.Deriv(est))
 		if !(delta > 0) || math.IsInf(delta, 0) {
@@ -185,7 +200,7 @@ func auditProfiles(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitter
 			if !(in >= target-1e-6) || !(out <= target+1e-6) {
 				failed++
 				report := report
-				if nonRegularShape(fam, p.theta) {
+				if fam.Name() == "gev" && nonRegularShape(fam, p.theta) {
 					report = t.Logf // beyond Smith's regular region: logged only
 				}
 				report("%s %s: bound %v is no crossing: ℓp − cut-off %.4g just inside, %.4g just outside (%s)", label, what, b, in-target, out-target, note)
@@ -217,7 +232,7 @@ func auditProfiles(t *testing.T, fam fitters.Family, fit *fitters.Fit, d *fitter
 		p, _ := quantityProfiler(fam, fit, fitters.LogLikFunc(fam, d), g, quantityGap(fam, q.q, q.q.probability(q.arg)), sc, grad, info)
 		audit(fmt.Sprintf("%s %v", q.q, q.arg), p, sc, dv.Estimate, dv.StdError, dv.Lower, dv.Upper, dv.LowerOpen, dv.UpperOpen, dv.Note)
 	}
-	return checked, failed
+	return checked, failed, unconfirmed
 }
 
 // nonRegularShape reports whether theta has an extreme-value shape below
@@ -245,8 +260,13 @@ func continuedProfile(p *profiler, vhat, v float64) float64 {
 	best, warm := math.Inf(-1), p.u0
 	for i := 1; i <= steps; i++ {
 		ll, u, edge, ok := p.at(vhat+(v-vhat)*float64(i)/steps, warm)
-		if edge {
+		if edge && i == steps {
 			return math.Inf(-1)
+		}
+		if edge {
+			// An estimate outside the region profiled (a GPD fitted with
+			// ξ̂ < −1) starts the path beyond its edge: go on.
+			continue
 		}
 		if ok {
 			warm = u
