@@ -1,20 +1,25 @@
 package runner
 
 import (
-	"bytes"
-	"context"
-	"encoding/csv"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"fitseal/fitters"
 )
 
-// A fit that a profile beats — here a three-parameter Weibull on 25 values
-// drawn from Weibull3(1.5, 60, 15) (test data only, seeded), whose
-// profile of the shape finds −114.49 against the fit's −116.83 — is a
-// local maximum: fits.csv's note and the fit's inference note say so, so
-// that its criterion, weight and intervals are not taken at face value.
+// TestLocalMaximumIsNoted: a fit that one of its profiles beats is not the
+// maximum of its likelihood, and fits.csv's note and the fit's inference
+// note say so, so that its criterion, weight and intervals are not taken at
+// face value. No fitter here is known to stop short of the maximum on real
+// data (the three-parameter families' unbounded corners and limiting ridges
+// are not counted as higher maxima: fitters/infer/irregular.go), so the
+// test stands a weibull fit in for one that did: its scale moved 10 % off
+// the estimate, its log-likelihood recomputed there. The lognormal beside
+// it is fitted as usual and gets no such note. Data: 25 values drawn from
+// a three-parameter Weibull (shape 1.5, scale 60, threshold 15), test data
+// only, seeded.
 func TestLocalMaximumIsNoted(t *testing.T) {
 	dir := t.TempDir()
 	data := "x\n66.68\n35.63\n60.91\n51.51\n71.29\n40.13\n66.61\n36.82\n35.62\n27.45\n43.73\n133.59\n35.35\n" +
@@ -25,16 +30,18 @@ func TestLocalMaximumIsNoted(t *testing.T) {
 	proj := `name = "localmax"
 [settings]
 seed = 1
+bootstrap = 0
 [[dataset]]
 name = "x"
 file = "x.csv"
 column = "x"
 [[candidates]]
 name = "c"
-families = ["weibull3", "weibull"]
+families = ["weibull", "lognormal"]
 [[analysis]]
 dataset = "x"
 candidates = "c"
+quantiles = [0.1]
 `
 	path := filepath.Join(dir, "fitseal.toml")
 	if err := os.WriteFile(path, []byte(proj), 0o644); err != nil {
@@ -44,31 +51,38 @@ candidates = "c"
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := Run(context.Background(), p, RunOptions{Workers: 2})
+	data2, err := ReadAll(p)
 	if err != nil {
 		t.Fatal(err)
 	}
-	files, err := res.Files()
+	pa := MakePlan(p, data2).Analyses[0]
+	d := &pa.Group.Data
+	tasks := make([]taskResult, len(pa.Candidates.Families))
+	for i, name := range pa.Candidates.Families {
+		fam, _ := fitters.Lookup(name)
+		fit, err := fam.Fit(d, fitters.Options{})
+		if err != nil || !fit.Converged {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if name == "weibull" {
+			fit.Estimates[1] *= 1.1 // scale
+			fit.LogLik = fam.LogLik(fit.Estimates, d)
+		}
+		tasks[i].fit = fit
+		if tasks[i].inf, err = inferFit(p, pa, fam, fit, fitters.Options{}, 1, nil, nil); err != nil {
+			t.Fatal(err)
+		}
+	}
+	a, _, err := assembleAnalysis(p, pa, tasks)
 	if err != nil {
 		t.Fatal(err)
 	}
-	rows, err := csv.NewReader(bytes.NewReader(files[FitsFile])).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	notes := map[string]string{}
-	for _, r := range rows[1:] {
-		notes[r[2]] = r[15]
-	}
-	if !strings.Contains(notes["weibull3"], LocalMaximumNote) {
-		t.Errorf("weibull3's note %q does not say the fit is a local maximum", notes["weibull3"])
-	}
-	if strings.Contains(notes["weibull"], LocalMaximumNote) {
-		t.Errorf("weibull's note %q says it is a local maximum", notes["weibull"])
-	}
-	a := res.Analyses[0]
 	for i, row := range a.Comparison.Rows {
-		if got := strings.Contains(a.Inference[i], LocalMaximumNote); got != (row.Family == "weibull3") {
+		want := row.Family == "weibull"
+		if got := strings.Contains(row.Note, LocalMaximumNote); got != want {
+			t.Errorf("%s: fits.csv note %q", row.Family, row.Note)
+		}
+		if got := strings.Contains(a.Inference[i], LocalMaximumNote); got != want {
 			t.Errorf("%s: inference note %q", row.Family, a.Inference[i])
 		}
 	}

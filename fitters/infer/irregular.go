@@ -67,6 +67,14 @@ func guardIrregular(p *profiler, fam fitters.Family, fit *fitters.Fit, d *fitter
 			return ""
 		}
 	}
+	if sc := slices.Index(names, "scale"); fam.Name() == "studentt" && sc >= 0 && top > floor {
+		// With ν(n − 1) < 1 the likelihood grows without bound as the
+		// location sits on one observation and the scale shrinks to 0 (the
+		// density there grows as 1/σ, the other n − 1 shrink only as σ^ν):
+		// a spike, not a maximum.
+		span := top - floor
+		p.admissible = func(theta []float64) bool { return theta[sc] > runawayGap*span }
+	}
 	if fam.Name() == "gpd" && thr >= 0 {
 		sc := slices.Index(names, "scale")
 		span := top - fit.Estimates[thr]

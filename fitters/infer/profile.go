@@ -215,6 +215,14 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					Note: fmt.Sprintf("the maximisation over the other parameters failed near %.6g", from(v))}
 			}
 			if ll > llhat+1e-6*math.Max(1, math.Abs(llhat)) {
+				if p.ridge != nil && p.build(v, u, p.theta) {
+					// Far out on a ridge towards a limiting family the
+					// log-likelihood loses its last digits (a threshold
+					// 10¹³ below the data): no evidence against the fit.
+					if why := p.ridge(p.theta); why != "" {
+						return profileBound{Value: math.NaN(), Note: fmt.Sprintf("not confirmed near %.6g: %s", from(v), why)}
+					}
+				}
 				return profileBound{Value: math.NaN(), AboveFit: true,
 					Note: fmt.Sprintf("the profile log-likelihood %.10g at %.6g exceeds the fit's %.10g: the fit is not the maximum", ll, from(v), llhat)}
 			}
