@@ -6,9 +6,13 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"slices"
 	"sort"
 	"strconv"
+	"strings"
 	"text/tabwriter"
+
+	"fitseal/runner"
 )
 
 // resultTable is one result CSV read back from a bag.
@@ -63,8 +67,8 @@ func interval(lo, hi string) string {
 	return "[" + short(lo) + ", " + short(hi) + "]"
 }
 
-// WriteShow prints a bag's ranking, parameter and derived-quantity tables,
-// one block per analysis, aligned in columns, after a header naming the
+// WriteShow prints a bag's ranking, parameter, derived-quantity and
+// goodness-of-fit tables (or why there is none), one block per analysis, aligned in columns, after a header naming the
 // bundle, its created time, code version and signer. Numbers are shown to
 // six significant digits; the result files keep every digit.
 func WriteShow(w io.Writer, b *Bag) error {
@@ -80,6 +84,11 @@ func WriteShow(w io.Writer, b *Bag) error {
 	if err != nil {
 		return err
 	}
+	gof, err := readResultTable(b, "gof.csv")
+	if err != nil {
+		return err
+	}
+	noGOF := noGOFReasons(b)
 	fmt.Fprintf(w, "bundle %s\n", b.Name)
 	if rec, err := ParseRunRecord(b.RunJSON()); err == nil {
 		fmt.Fprintf(w, "created %s by fitseal %s (%s)\n", rec.Created.UTC().Format("2006-01-02T15:04:05Z"), rec.Tool.Version, rec.Tool.Platform())
@@ -149,8 +158,51 @@ func WriteShow(w io.Writer, b *Bag) error {
 			}
 			tw.Flush()
 		}
+		if rows := rowsOf(gof, a); len(rows) > 0 {
+			fmt.Fprintln(w, "\ngoodness of fit")
+			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+			fmt.Fprintln(tw, "family\tstatistic\tvalue\tp_value\treplicates")
+			for _, r := range rows {
+				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", r["family"], r["statistic"], short(r["value"]), orDash(short(r["p_value"])), r["replicates"])
+			}
+			tw.Flush()
+		} else if reasons := noGOF[a]; len(reasons) > 0 {
+			fmt.Fprintf(w, "\ngoodness of fit: none: %s\n", strings.Join(reasons, "; "))
+		}
 	}
 	return nil
+}
+
+// noGOFReasons is, by analysis, why its fits have no goodness-of-fit
+// statistic (gof.csv has no row for them): the reasons their inference notes
+// in results.json give after runner.NoGOFNote, each once. Nothing when
+// results.json cannot be read; show then just prints no reason.
+func noGOFReasons(b *Bag) map[string][]string {
+	var doc struct {
+		Analyses []struct {
+			Name string `json:"name"`
+			Fits []struct {
+				Inference string `json:"inference_note"`
+			} `json:"fits"`
+		} `json:"analyses"`
+	}
+	if json.Unmarshal(b.Files[PayloadDir+"/results/"+runner.ResultsFile], &doc) != nil {
+		return nil
+	}
+	out := map[string][]string{}
+	for _, a := range doc.Analyses {
+		for _, f := range a.Fits {
+			i := strings.Index(f.Inference, runner.NoGOFNote)
+			if i < 0 {
+				continue
+			}
+			reason, _, _ := strings.Cut(f.Inference[i+len(runner.NoGOFNote):], "; ")
+			if !slices.Contains(out[a.Name], reason) {
+				out[a.Name] = append(out[a.Name], reason)
+			}
+		}
+	}
+	return out
 }
 
 // rankKey orders fitted rows by rank, then the unranked ones.

@@ -30,6 +30,10 @@ type inference struct {
 	aboveFit bool
 }
 
+// NoGOFNote begins the inference note of a fit for which no
+// goodness-of-fit statistic was computed; the reason follows.
+const NoGOFNote = "no goodness-of-fit statistic: "
+
 // LocalMaximumNote is the note of a fit whose profile found a higher
 // log-likelihood than the fit's own.
 const LocalMaximumNote = "a profile found a higher log-likelihood than the fit's: the fit is a local maximum, so its log-likelihood, criterion, weight and intervals understate what the family can do; look at the profile plots and consider fixing a parameter"
@@ -104,6 +108,10 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 	}
 	if out.gof, err = infer.CheckFitFrom(fam, fit, d, settings.Replicates); err != nil {
 		return nil, fmt.Errorf("goodness of fit: %w", err)
+	}
+	if !out.gof.Applicable && out.gof.Reason != "" {
+		// gof.csv has no row for it, so the fit's note says why.
+		out.note = fitters.JoinNote(out.note, NoGOFNote+out.gof.Reason)
 	}
 	return out, nil
 }

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"fitseal/fitters/infer"
 	"fitseal/runner"
 	"fitseal/templates"
 )
@@ -213,6 +214,26 @@ func TestDemoReport(t *testing.T) {
 		"only the best of the candidates that were tried", "same observations", "Kaplan–Meier", "Contents") {
 		if !strings.Contains(text, want) {
 			t.Errorf("the demo's PDF lacks %q", want)
+		}
+	}
+	// Under each ranking, what its adequacy column holds: the bootstrap
+	// p-values, or why there are none (censored data: seal-life and the
+	// wells with non-detects).
+	censored := 0
+	for _, a := range r.Analyses {
+		if s := a.Summary; s.LeftCensored+s.RightCensored+s.IntervalCensored > 0 {
+			censored++
+		}
+	}
+	for _, c := range []struct {
+		caption string
+		want    int
+	}{
+		{"Adequacy p: none for these data: " + infer.NotApplicableCensored, censored},
+		{"Adequacy p: parametric-bootstrap p-value", len(r.Analyses) - censored},
+	} {
+		if got := strings.Count(text, c.caption); got != c.want || censored == 0 {
+			t.Errorf("the demo's PDF has %d captions %q, want %d (%d analyses with censored data)", got, c.caption, c.want, censored)
 		}
 	}
 }

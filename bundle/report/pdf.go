@@ -16,6 +16,7 @@ import (
 	"github.com/jung-kurt/gofpdf"
 	"gonum.org/v1/plot/vg/draw"
 
+	"fitseal/fitters/infer"
 	"fitseal/templates"
 )
 
@@ -414,14 +415,23 @@ func (d *doc) analysis(i int) {
 			used = append(used, c.Statistic)
 		}
 	}
-	if len(used) > 0 {
+	const weightsNote = " Δ and weights compare the families of this analysis only."
+	switch censored := s.LeftCensored+s.RightCensored+s.IntervalCensored > 0; {
+	case len(used) > 0:
 		var parts []string
 		for _, u := range used {
 			parts = append(parts, statisticAbbreviation(u)+": "+statisticName(u))
 		}
 		d.font("I", 7.5)
 		f.MultiCell(textW, 4, "Adequacy p: parametric-bootstrap p-value of the goodness-of-fit statistic ("+strings.Join(parts, "; ")+
-			"); – where not computed. Δ and weights compare the families of this analysis only.", "", "L", false)
+			"); – where not computed."+weightsNote, "", "L", false)
+	case len(a.Fitted()) > 0 && censored:
+		d.font("I", 7.5)
+		f.MultiCell(textW, 4, "Adequacy p: none for these data: "+infer.NotApplicableCensored+
+			". Judge the fit by the fitted CDFs against the nonparametric estimate and by the Q–Q and P–P plots."+weightsNote, "", "L", false)
+	case len(a.Fitted()) > 0:
+		d.font("I", 7.5)
+		f.MultiCell(textW, 4, "Adequacy p: none computed (each fit's inference note in results.json says why)."+weightsNote, "", "L", false)
 	}
 	var notes []string
 	if a.CriterionNote != "" {

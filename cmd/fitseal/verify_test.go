@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"fitseal/bundle"
+	"fitseal/fitters/infer"
 	"fitseal/templates"
 )
 
@@ -74,6 +75,24 @@ func TestRunVerifyInitDemo(t *testing.T) {
 	for _, a := range []string{"== seal-life ==", "== storm-rainfall ==", "== nitrate/MW-1 ==", "== defects =="} {
 		if !strings.Contains(show, a) {
 			t.Errorf("show lacks %q", a)
+		}
+	}
+	// Goodness of fit: the bootstrap table where there is one (the rainfall
+	// maxima are complete), and why there is none where the data are
+	// censored (the seals' suspensions).
+	blocks := strings.Split(show, "\n== ")
+	for _, c := range []struct{ analysis, want string }{
+		{"seal-life", "\ngoodness of fit: none: " + infer.NotApplicableCensored + "\n"},
+		{"storm-rainfall", "\ngoodness of fit\nfamily  statistic  value"},
+	} {
+		found := false
+		for _, b := range blocks {
+			if strings.HasPrefix(b, c.analysis+" ==") {
+				found = strings.Contains(b, c.want)
+			}
+		}
+		if !found {
+			t.Errorf("show's block of %s lacks %q:\n%s", c.analysis, c.want, show)
 		}
 	}
 }

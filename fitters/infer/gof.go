@@ -31,8 +31,8 @@ type GoodnessOfFit struct {
 }
 
 // NotApplicableCensored is the reason given for censored data.
-const NotApplicableCensored = "the KS, CvM and AD statistics compare a complete sample with the fitted CDF; " +
-	"with censored observations they do not apply as computed, and fitseal gives no goodness-of-fit statistic for these data"
+const NotApplicableCensored = "the KS, CvM and AD statistics compare a complete sample with the fitted CDF " +
+	"and do not apply as computed to censored observations"
 
 // CheckFit computes the goodness-of-fit statistics of fit on d and, when
 // opt.Replicates > 0, their parametric-bootstrap p-values from a fresh
