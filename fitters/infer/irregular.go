@@ -60,6 +60,7 @@ func guardIrregular(p *profiler, fam fitters.Family, fit *fitters.Fit, d *fitter
 		p.admissible = func(theta []float64) bool {
 			return floor-theta[thr] > runawayGap*span
 		}
+		p.corner = "the threshold at the smallest value"
 		p.ridge = func(theta []float64) string {
 			if depth := (floor - theta[thr]) / span; depth > ridgeDepth {
 				return fmt.Sprintf("the other parameters' maximum there has the threshold %.3g data ranges below the smallest value, on a ridge towards the two-parameter limit where no maximum is attained", depth)
@@ -74,6 +75,7 @@ func guardIrregular(p *profiler, fam fitters.Family, fit *fitters.Fit, d *fitter
 		// a spike, not a maximum.
 		span := top - floor
 		p.admissible = func(theta []float64) bool { return theta[sc] > runawayGap*span }
+		p.corner = "a spike on one observation (the scale towards 0)"
 	}
 	if fam.Name() == "gpd" && thr >= 0 {
 		sc := slices.Index(names, "scale")

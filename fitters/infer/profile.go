@@ -25,8 +25,10 @@ type profiler struct {
 	// bound from two starts on each side of it.
 	irregular bool
 	// admissible, when not nil, rejects a maximum at θ that is no maximum
-	// of the profile (a threshold run into the smallest value).
+	// of the profile (a threshold run into the smallest value); corner
+	// names that unbounded corner of the likelihood in notes.
 	admissible func(theta []float64) bool
+	corner     string
 	// ridge, when not nil, says why a bound whose maximum is at θ cannot be
 	// confirmed ("" when it can).
 	ridge func(theta []float64) string
@@ -169,7 +171,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 		openAtEdge := func(v float64) profileBound {
 			if p.ranAway {
 				return profileBound{Value: math.NaN(),
-					Note: fmt.Sprintf("not confirmed: beyond %.6g the maximum over the other parameters runs into the threshold at the smallest value, where the likelihood is unbounded", from(v))}
+					Note: fmt.Sprintf("not confirmed: beyond %.6g the maximum over the other parameters runs into %s, where the likelihood is unbounded", from(v), p.corner)}
 			}
 			return profileBound{Value: limit, Open: true,
 				Note: fmt.Sprintf("open: the profile log-likelihood stays above the cut-off up to the edge of the parameter space at %.6g", from(v))}
