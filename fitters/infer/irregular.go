@@ -113,23 +113,48 @@ func dataRange(d *fitters.Data) (floor, top float64, ok bool) {
 	return floor, top, ok && top >= floor
 }
 
-// bestAt is ℓp(v) maximised from warm and from the MLE's nuisance values,
-// the higher admissible maximum kept, with the nuisance values and the
-// full parameter vector there; −Inf when neither gives one.
-func (p *profiler) bestAt(v float64, warm []float64) (float64, []float64, []float64) {
-	best, bu, bt := math.Inf(-1), []float64(nil), []float64(nil)
-	for _, start := range [][]float64{warm, p.u0} {
-		ll, u, edge, ok := p.at(v, start)
-		if edge || !ok || !(ll > best) {
-			continue
+// bestAt is ℓp(v) maximised from warm, from the MLE's nuisance values and
+// at the end of a path of continuationSteps maximisations from vhat to v
+// (each started where the previous one ended), the highest admissible
+// maximum kept, with the nuisance values and the full parameter vector
+// there; −Inf when none gives one, and then beyond reports whether every
+// maximisation found v beyond the parameter space (rather than failing, or
+// running into the unbounded corner). The path follows the branch of the
+// other parameters' maximum that the estimate lies on, where a single start
+// near v can land on a lower branch (a weibull3 scale bound put 2 units
+// short: TestIrregularProfileBounds).
+func (p *profiler) bestAt(v, vhat float64, warm []float64) (ll float64, u, theta []float64, beyond bool) {
+	ll, beyond = math.Inf(-1), true
+	ranAway := p.ranAway
+	p.ranAway = false
+	keep := func(l float64, uu []float64, edge, ok bool) {
+		beyond = beyond && edge
+		if edge || !ok || !(l > ll) || !p.build(v, uu, p.theta) {
+			return
 		}
-		if !p.build(v, u, p.theta) {
-			continue
-		}
-		best, bu, bt = ll, u, slices.Clone(p.theta)
+		ll, u, theta = l, uu, slices.Clone(p.theta)
 	}
-	return best, bu, bt
+	for _, start := range [][]float64{warm, p.u0} {
+		keep(p.at(v, start))
+	}
+	path := p.u0
+	for i := 1; i <= continuationSteps; i++ {
+		l, uu, edge, ok := p.at(vhat+(v-vhat)*float64(i)/continuationSteps, path)
+		if i == continuationSteps {
+			keep(l, uu, edge, ok)
+			break
+		}
+		if !edge && ok {
+			path = uu // a step beyond the profiled region (a GPD with ξ̂ < −1) is passed over
+		}
+	}
+	beyond = beyond && !p.ranAway && math.IsInf(ll, -1)
+	p.ranAway = p.ranAway || ranAway
+	return ll, u, theta, beyond
 }
+
+// continuationSteps is the number of maximisations on bestAt's path.
+const continuationSteps = 8
 
 // crossingTol is how far past the cut-off ℓp may be on the wrong side of a
 // confirmed bound, 10⁻³ standard errors away from it.

@@ -97,8 +97,22 @@ func TestIrregularProfileBounds(t *testing.T) {
 		{"gpd", "right", 5, "quantile:0.9", true, 156.72684474770585, "crossing", +1},
 		// the bound was wrong: ℓp flattens towards the two-parameter limit
 		// (shape 546, threshold −16,946), 0.84 above the cut-off; no
-		// maximum is attained there
+		// maximum is attained there (the walk now goes on along the ridge
+		// until its maximisations jump, and leaves the bound empty)
 		{"weibull3", "left", 8, "shape", true, 546.4360998825586, "unconfirmed", 0},
+		// the bound was wrong: at the old bound two maxima of the other
+		// parameters coexist, (shape 1.27, threshold 30.2) reached from the
+		// MLE's values and the walk's last point, ℓp at the cut-off, and
+		// (shape 1.95, threshold 20.5) reached along a path from the
+		// estimate, 0.20 above it; on that branch the profile crosses at
+		// 59.7 (bestAt now also starts at the end of such a path)
+		{"weibull3", "right", 6, "scale", true, 57.805190642643005, "crossing", +1},
+		// a bracket closed on points where no maximum of the other
+		// parameters was found is no crossing: ℓp is about 1 above the
+		// cut-off from 3 to 11 (the threshold running off below the data),
+		// where the search with the path of the case above had put 5.52;
+		// the bound is now not confirmed, with a note
+		{"weibull3", "left", 8, "quantile:0.1", false, 5.524302881100296, "unconfirmed", 0},
 		// the same towards the normal limit (σ 5e−5, threshold −7e5): the
 		// maximisations from different starts disagree by up to 5 units
 		{"lognormal3", "complete", 2, "sigma", false, 2.1254622655103614e-05, "unconfirmed", 0},
@@ -148,8 +162,8 @@ func TestIrregularProfileBounds(t *testing.T) {
 			}
 			switch c.want {
 			case "unconfirmed":
-				if !(open || (math.IsNaN(b) && strings.Contains(note, "not confirmed"))) {
-					t.Fatalf("bound %v (open %v), note %q: want it open or empty and not confirmed", b, open, note)
+				if !(open || (math.IsNaN(b) && (strings.Contains(note, "not confirmed") || strings.Contains(note, "jumps")))) {
+					t.Fatalf("bound %v (open %v), note %q: want it open, or empty with a note (not confirmed, or a jump)", b, open, note)
 				}
 			case "crossing", "crossing or noted":
 				if c.want == "crossing or noted" && math.IsNaN(b) && (strings.Contains(note, "not confirmed") || strings.Contains(note, "jumps")) {

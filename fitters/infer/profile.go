@@ -269,7 +269,11 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					// the profile must be at or below the cut-off, inside
 					// at or above it.
 					d := 1e-3 * step
-					lOut, uOut, tOut := p.bestAt(root+dir*d, warm)
+					lOut, uOut, tOut, beyond := p.bestAt(root+dir*d, vhat, warm)
+					if math.IsInf(lOut, -1) && !beyond {
+						return profileBound{Value: math.NaN(),
+							Note: fmt.Sprintf("not confirmed: no maximum over the other parameters was found just beyond %.6g", from(root))}
+					}
 					if lOut > target+crossingTol {
 						if restarts < maxRestarts {
 							restarts++
@@ -280,7 +284,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 						return profileBound{Value: math.NaN(),
 							Note: fmt.Sprintf("not confirmed: the profile log-likelihood is above the cut-off again beyond %.6g (another maximum of the other parameters)", from(root))}
 					}
-					lIn, _, tIn := p.bestAt(root-dir*d, warm)
+					lIn, _, tIn, _ := p.bestAt(root-dir*d, vhat, warm)
 					if !(lIn >= target-crossingTol) {
 						return profileBound{Value: math.NaN(),
 							Note: fmt.Sprintf("not confirmed: the profile log-likelihood falls below the cut-off just inside %.6g without crossing it there", from(root))}
@@ -304,7 +308,7 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 						lOut, uOut, eOut, okOut := p.atChecked(root+dir*d, uIn, target)
 						if p.irregular && !(okOut && lOut >= target) {
 							// also from the MLE's values (bestAt)
-							if l2, u2, _ := p.bestAt(root+dir*d, uIn); l2 >= target {
+							if l2, u2, _, _ := p.bestAt(root+dir*d, vhat, uIn); l2 >= target {
 								lOut, uOut, eOut, okOut = l2, u2, false, true
 							}
 						}
