@@ -3,6 +3,7 @@ package bundle
 import (
 	"archive/tar"
 	"bufio"
+	"bytes"
 	"compress/gzip"
 	"errors"
 	"fmt"
@@ -11,6 +12,7 @@ import (
 	"os"
 	"path"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"strings"
 )
@@ -195,13 +197,58 @@ func (t *pathTree) add(name string, dir bool) string {
 // are accepted; each entry's declared size is checked against the limits
 // before any of its bytes are read, and the decompressed stream as a whole
 // is capped, so a bomb fails after reading at most the limits.
+//
+// When r is a regular file of at most maxSplitFile bytes, it is read into
+// memory and its gzip members are decompressed on every core
+// (splitReader: the same bytes as one reader's, or else the file is read
+// by one reader after all); reading the 1000-dataset bench bundle's 45 MB
+// of tar took 0.2 s on one core.
 func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
+	limit := lim.MaxTotalSize + lim.metadataAllowance()
+	if f, ok := r.(*os.File); ok {
+		if fi, err := f.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() <= min(maxSplitFile, limit) {
+			data, err := io.ReadAll(f)
+			if err != nil {
+				return nil, &ArchiveError{Source: "bundle", Reason: fmt.Sprintf("cannot be read: %v", err)}
+			}
+			sr := newSplitReader(data, runtime.GOMAXPROCS(0), limit)
+			if b, err := readArchive(sr, lim); !sr.failed {
+				return b, err
+			}
+			r = bytes.NewReader(data)
+		}
+	}
+	return readArchive(gzipStream(r), lim)
+}
+
+// maxSplitFile is the largest compressed file that ReadArchive reads into
+// memory to decompress on every core; a larger one is streamed.
+const maxSplitFile = 256 << 20
+
+// gzipStream is a reader of the decompressed stream in one piece, or of the
+// error that it is not gzip-compressed.
+func gzipStream(r io.Reader) io.Reader {
+	zr, err := gzip.NewReader(bufio.NewReader(r))
+	if err != nil {
+		return errReader{fmt.Errorf("%w: %v", errNotGzip, err)}
+	}
+	return zr
+}
+
+var errNotGzip = errors.New("not a gzip-compressed file")
+
+// errReader fails every read with err.
+type errReader struct{ err error }
+
+func (e errReader) Read([]byte) (int, error) { return 0, e.err }
+
+// readArchive is ReadArchive on the decompressed stream zr.
+func readArchive(zr io.Reader, lim Limits) (*Bag, error) {
 	fail := func(member, format string, args ...any) (*Bag, error) {
 		return nil, &ArchiveError{Source: "bundle", Member: member, Reason: fmt.Sprintf(format, args...)}
 	}
-	zr, err := gzip.NewReader(bufio.NewReader(r))
-	if err != nil {
-		return fail("", "not a gzip-compressed file: %v", err)
+	if e, ok := zr.(errReader); ok {
+		return fail("", "%v", e.err)
 	}
 	capped := &capReader{r: zr, n: lim.MaxTotalSize + lim.metadataAllowance()}
 	tr := tar.NewReader(capped)
