@@ -207,8 +207,8 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 	limit := lim.MaxTotalSize + lim.metadataAllowance()
 	if f, ok := r.(*os.File); ok {
 		if fi, err := f.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() <= min(maxSplitFile, limit) {
-			data, err := io.ReadAll(f)
-			if err != nil {
+			data := make([]byte, fi.Size())
+			if _, err := io.ReadFull(f, data); err != nil {
 				return nil, &ArchiveError{Source: "bundle", Reason: fmt.Sprintf("cannot be read: %v", err)}
 			}
 			sr := newSplitReader(data, runtime.GOMAXPROCS(0), limit)

@@ -5,6 +5,7 @@ import (
 	"compress/gzip"
 	"errors"
 	"io"
+	"sync"
 )
 
 // memberStart is how every gzip member that fitseal writes begins: ID1,
@@ -32,11 +33,19 @@ var errSplitFailed = errors.New("the gzip stream could not be read in pieces")
 type splitReader struct {
 	pieces  [][]byte
 	next    int // the next piece to start decompressing
-	pending []chan []byte
+	pending []chan piece
 	cur     []byte
+	buf     *[]byte // the buffer cur lies in, returned once it is served
 	workers int
 	budget  int64 // decompressed bytes still allowed
 	failed  bool
+}
+
+// piece is one decompressed piece (nil data when it failed) and the
+// buffer that holds it.
+type piece struct {
+	data []byte
+	buf  *[]byte
 }
 
 // newSplitReader cuts data into pieces; budget bounds the decompressed
@@ -73,40 +82,50 @@ func newSplitReader(data []byte, workers int, budget int64) *splitReader {
 // refuses a bomb by its tar headers before inflating it.
 const maxPiece = 2 * gzipChunk
 
-// gunzipPiece is one piece decompressed, or nil when it fails or holds
-// more than limit bytes (at most maxPiece).
-func gunzipPiece(piece []byte, limit int64) []byte {
+// gunzipPiece is one piece decompressed into buf (of capacity maxPiece+1),
+// or nil when it fails or holds more than limit bytes (at most maxPiece).
+func gunzipPiece(piece []byte, limit int64, buf []byte) []byte {
 	limit = min(limit, maxPiece)
 	zr, err := gzip.NewReader(bytes.NewReader(piece))
 	if err != nil {
 		return nil
 	}
-	var out bytes.Buffer
-	out.Grow(min(4*len(piece), maxPiece))
-	n, err := out.ReadFrom(io.LimitReader(zr, limit+1))
-	if err != nil || n > limit {
-		return nil
+	n, err := io.ReadFull(zr, buf[:limit+1])
+	if (err != io.ErrUnexpectedEOF && err != io.EOF) || int64(n) > limit {
+		return nil // an error, or more than limit bytes
 	}
-	return out.Bytes()
+	return buf[:n]
 }
+
+// pieceBuffers recycles the buffers pieces are decompressed into (a fresh
+// 2 MiB buffer per piece cost more in zeroing than the decompression).
+var pieceBuffers = sync.Pool{New: func() any { b := make([]byte, maxPiece+1); return &b }}
 
 func (s *splitReader) Read(p []byte) (int, error) {
 	for len(s.cur) == 0 {
 		if s.failed {
 			return 0, errSplitFailed
 		}
+		if s.buf != nil {
+			pieceBuffers.Put(s.buf) // the piece just served
+			s.buf = nil
+		}
 		for s.next < len(s.pieces) && len(s.pending) < 2*s.workers {
-			ch := make(chan []byte, 1)
-			go func(piece []byte, limit int64) { ch <- gunzipPiece(piece, limit) }(s.pieces[s.next], s.budget)
+			ch := make(chan piece, 1)
+			go func(data []byte, limit int64) {
+				buf := pieceBuffers.Get().(*[]byte)
+				ch <- piece{gunzipPiece(data, limit, *buf), buf}
+			}(s.pieces[s.next], s.budget)
 			s.pending = append(s.pending, ch)
 			s.next++
 		}
 		if len(s.pending) == 0 {
 			return 0, io.EOF
 		}
-		b := <-s.pending[0]
+		pc := <-s.pending[0]
 		s.pending = s.pending[1:]
-		if b == nil || int64(len(b)) > s.budget {
+		s.buf = pc.buf
+		if pc.data == nil || int64(len(pc.data)) > s.budget {
 			s.failed = true
 			for _, ch := range s.pending {
 				<-ch
@@ -114,8 +133,8 @@ func (s *splitReader) Read(p []byte) (int, error) {
 			s.pending = nil
 			return 0, errSplitFailed
 		}
-		s.budget -= int64(len(b))
-		s.cur = b
+		s.budget -= int64(len(pc.data))
+		s.cur = pc.data
 	}
 	n := copy(p, s.cur)
 	s.cur = s.cur[n:]

@@ -1,6 +1,7 @@
 package bundle
 
 import (
+	"bufio"
 	"bytes"
 	"encoding/csv"
 	"encoding/json"
@@ -10,6 +11,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"text/tabwriter"
 
 	"fitseal/runner"
@@ -19,6 +21,8 @@ import (
 type resultTable struct {
 	header []string
 	rows   []map[string]string
+	// byAnalysis holds the rows of each analysis, in file order.
+	byAnalysis map[string][]map[string]string
 }
 
 func readResultTable(b *Bag, name string) (*resultTable, error) {
@@ -34,15 +38,16 @@ func readResultTable(b *Bag, name string) (*resultTable, error) {
 	if len(recs) == 0 {
 		return nil, fmt.Errorf("%s: no header row", member)
 	}
-	t := &resultTable{header: recs[0]}
+	t := &resultTable{header: recs[0], byAnalysis: map[string][]map[string]string{}}
 	for _, r := range recs[1:] {
-		m := map[string]string{}
+		m := make(map[string]string, len(t.header))
 		for i, h := range t.header {
 			if i < len(r) {
 				m[h] = r[i]
 			}
 		}
 		t.rows = append(t.rows, m)
+		t.byAnalysis[m["analysis"]] = append(t.byAnalysis[m["analysis"]], m)
 	}
 	return t, nil
 }
@@ -71,7 +76,8 @@ func interval(lo, hi string) string {
 // goodness-of-fit tables (or why there is none), one block per analysis, aligned in columns, after a header naming the
 // bundle, its created time, code version and signer. Numbers are shown to
 // six significant digits; the result files keep every digit.
-func WriteShow(w io.Writer, b *Bag) error {
+func WriteShow(out io.Writer, b *Bag) error {
+	w := bufio.NewWriter(out)
 	fits, err := readResultTable(b, "fits.csv")
 	if err != nil {
 		return err
@@ -88,7 +94,8 @@ func WriteShow(w io.Writer, b *Bag) error {
 	if err != nil {
 		return err
 	}
-	noGOF := noGOFReasons(b)
+	// results.json is only read if an analysis has no goodness-of-fit row.
+	noGOF := sync.OnceValue(func() map[string][]string { return noGOFReasons(b) })
 	fmt.Fprintf(w, "bundle %s\n", b.Name)
 	if rec, err := ParseRunRecord(b.RunJSON()); err == nil {
 		fmt.Fprintf(w, "created %s by fitseal %s (%s)\n", rec.Created.UTC().Format("2006-01-02T15:04:05Z"), rec.Tool.Version, rec.Tool.Platform())
@@ -114,8 +121,8 @@ func WriteShow(w io.Writer, b *Bag) error {
 	for _, a := range order {
 		fmt.Fprintf(w, "\n== %s ==\n", a)
 		crit := ""
-		for _, r := range fits.rows {
-			if r["analysis"] == a && r["criterion"] != "" {
+		for _, r := range rowsOf(fits, a) {
+			if r["criterion"] != "" {
 				crit = r["criterion"]
 				break
 			}
@@ -166,11 +173,11 @@ func WriteShow(w io.Writer, b *Bag) error {
 				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", r["family"], r["statistic"], short(r["value"]), orDash(short(r["p_value"])), r["replicates"])
 			}
 			tw.Flush()
-		} else if reasons := noGOF[a]; len(reasons) > 0 {
+		} else if reasons := noGOF()[a]; len(reasons) > 0 {
 			fmt.Fprintf(w, "\ngoodness of fit: none: %s\n", strings.Join(reasons, "; "))
 		}
 	}
-	return nil
+	return w.Flush()
 }
 
 // noGOFReasons is, by analysis, why its fits have no goodness-of-fit
@@ -232,14 +239,9 @@ func orDash(s string) string {
 	return s
 }
 
+// rowsOf is the rows of one analysis, in file order.
 func rowsOf(t *resultTable, analysis string) []map[string]string {
-	var out []map[string]string
-	for _, r := range t.rows {
-		if r["analysis"] == analysis {
-			out = append(out, r)
-		}
-	}
-	return out
+	return t.byAnalysis[analysis]
 }
 
 // ShowRecord is what `show --json` prints: the bundle's results.json and
