@@ -39,15 +39,7 @@ func auditSample(t *testing.T, fam fitters.Family, rep int, kind string) (*fitte
 			}
 		}
 	}
-	var d *fitters.Data
-	switch kind {
-	case "complete":
-		d = fitters.Complete(x)
-	case "right":
-		d = topCensored(x, 0.8)
-	case "left":
-		d = bottomCensored(x, 0.2)
-	}
+	d := auditCensoring(x, kind)
 	fit, err := fam.Fit(d, opt)
 	if err != nil || !fit.Converged {
 		t.Fatalf("sample not fitted: %v", err)

@@ -70,17 +70,7 @@ func TestProfileBoundsAreCrossings(t *testing.T) {
 					x[i] = dist.Rand(r)
 				}
 				for _, censored := range []string{"complete", "right", "left", "interval"}[:kinds] {
-					var d *fitters.Data
-					switch censored {
-					case "complete":
-						d = fitters.Complete(x)
-					case "right":
-						d = topCensored(x, 0.8)
-					case "left":
-						d = bottomCensored(x, 0.2)
-					case "interval":
-						d = binned(x, 0.3)
-					}
+					d := auditCensoring(x, censored)
 					fit, err := fam.Fit(d, opt)
 					if err != nil || !fit.Converged {
 						continue
@@ -111,6 +101,21 @@ func TestProfileBoundsAreCrossings(t *testing.T) {
 // the scale's upper bound 57.8 on a lower branch of the other parameters'
 // maximum) was mended, see docs/INFERENCE.md.
 var loggedOnly = map[string]bool{}
+
+// auditCensoring is x as the audit records it: complete, with the top
+// fifth right-censored, the bottom fifth left-censored, or every third value
+// binned.
+func auditCensoring(x []float64, kind string) *fitters.Data {
+	switch kind {
+	case "right":
+		return topCensored(x, 0.8)
+	case "left":
+		return bottomCensored(x, 0.2)
+	case "interval":
+		return binned(x, 0.3)
+	}
+	return fitters.Complete(x)
+}
 
 // topCensored is x with its values above the q-quantile right-censored
 // there (suspensions at the largest kept value).
