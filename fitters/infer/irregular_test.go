@@ -192,8 +192,8 @@ func TestIrregularProfileBounds(t *testing.T) {
 // is scipy's crossing of the profile with the cut-off. For the
 // three-parameter lognormal the profile of the threshold had gone 10¹³
 // below the data, where the log-likelihood has lost its last digits; that
-// side is now not confirmed (a ridge towards the normal limit), with no
-// claim that the fit is beaten.
+// side is now empty with a note (a ridge towards the normal limit, or a
+// jump of the maximisations), with no claim that the fit is beaten.
 func TestIrregularFalseMaxima(t *testing.T) {
 	b, err := os.ReadFile("../../testdata/infer/false_maxima.json")
 	if err != nil {
@@ -244,8 +244,11 @@ func TestIrregularFalseMaxima(t *testing.T) {
 			}
 			switch {
 			case math.IsNaN(c.lower):
-				if !math.IsNaN(r.Lower) || !strings.Contains(r.Note, "lower: not confirmed near") || !strings.Contains(r.Note, "ridge") {
-					t.Errorf("%s %s: lower bound %v, note %q; want none, not confirmed on a ridge", c.family, r.Parameter, r.Lower, r.Note)
+				// amd64 meets the ridge rule first; arm64, whose last bits
+				// differ, meets a jump of the maximisations first
+				if !math.IsNaN(r.Lower) || !(strings.Contains(r.Note, "lower: not confirmed near") && strings.Contains(r.Note, "ridge") ||
+					strings.Contains(r.Note, "lower: the profile log-likelihood jumps")) {
+					t.Errorf("%s %s: lower bound %v, note %q; want none, not confirmed on a ridge or a jump", c.family, r.Parameter, r.Lower, r.Note)
 				}
 			case !(math.Abs(r.Lower-c.lower) <= 1e-8*c.lower):
 				t.Errorf("%s %s: lower bound %v, scipy's profile crosses at %v (%q)", c.family, r.Parameter, r.Lower, c.lower, r.Note)
