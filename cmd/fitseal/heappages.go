@@ -65,14 +65,35 @@ func adviseHugeHeapFor(perByte int64, paths ...string) {
 
 // projectDataPaths are the data files of p's datasets, each once.
 func projectDataPaths(p *runner.Project) []string {
-	seen := map[string]bool{}
 	var out []string
+	for _, f := range projectDataFiles(p) {
+		out = append(out, f.path)
+	}
+	return out
+}
+
+// dataFile is one data file of a project: its path, and whether some
+// dataset reads it whole (without split_by).
+type dataFile struct {
+	path  string
+	whole bool
+}
+
+// projectDataFiles are the data files of p's datasets, each once, in the
+// order of their first dataset.
+func projectDataFiles(p *runner.Project) []dataFile {
+	var out []dataFile
+	at := map[string]int{}
 	for i := range p.Datasets {
-		path := p.Datasets[i].Path(p)
-		if !seen[path] {
-			seen[path] = true
-			out = append(out, path)
+		d := p.Datasets[i]
+		path := d.Path(p)
+		k, seen := at[path]
+		if !seen {
+			k = len(out)
+			at[path] = k
+			out = append(out, dataFile{path: path})
 		}
+		out[k].whole = out[k].whole || d.SplitBy == ""
 	}
 	return out
 }

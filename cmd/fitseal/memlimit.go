@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"runtime/debug"
+	"slices"
 
 	"fitseal/runner"
 )
@@ -85,31 +86,19 @@ func fileLines(path string) (int64, bool) {
 // Files are read only when some dataset reads its file whole: a project of
 // split files alone (the batch workload: 14 MB of CSV) is not read twice.
 func limitMemoryForProject(p *runner.Project) {
-	whole := false
-	for i := range p.Datasets {
-		whole = whole || p.Datasets[i].SplitBy == ""
-	}
-	if !whole {
+	files := projectDataFiles(p)
+	if !slices.ContainsFunc(files, func(f dataFile) bool { return f.whole }) {
 		return
 	}
 	var total int64
 	large := false
-	seen := map[string]bool{}
-	for i := range p.Datasets {
-		d := p.Datasets[i]
-		path := d.Path(p)
-		if seen[path] {
-			continue
-		}
-		seen[path] = true
-		n, ok := fileLines(path)
+	for _, f := range files {
+		n, ok := fileLines(f.path)
 		if !ok {
 			return // the reader reports it
 		}
 		total += n
-		if d.SplitBy == "" && n >= largeDataRows {
-			large = true
-		}
+		large = large || (f.whole && n >= largeDataRows)
 	}
 	if large {
 		limitMemory(total, 0)

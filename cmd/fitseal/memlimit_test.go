@@ -71,6 +71,10 @@ func TestLimitMemoryForProject(t *testing.T) {
 		{"one large dataset", []*runner.Dataset{{File: "big.csv"}, {File: "small.csv"}},
 			heapPerRow * (largeDataRows + 1 + 3)},
 		{"the same file split into groups", []*runner.Dataset{{File: "big.csv", SplitBy: "g"}}, old},
+		// one file behind a split dataset and then a whole one: large, and
+		// its lines counted once
+		{"split, then read whole", []*runner.Dataset{{File: "big.csv", SplitBy: "g"}, {File: "big.csv"}},
+			heapPerRow * (largeDataRows + 1)},
 		{"small data", []*runner.Dataset{{File: "small.csv"}}, old},
 		{"a file that cannot be read", []*runner.Dataset{{File: "big.csv"}, {File: "missing.csv"}}, old},
 	} {
