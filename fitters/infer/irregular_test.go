@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
+	"slices"
 	"strings"
 	"testing"
 
@@ -254,5 +255,51 @@ func TestIrregularFalseMaxima(t *testing.T) {
 				t.Errorf("%s %s: lower bound %v, scipy's profile crosses at %v (%q)", c.family, r.Parameter, r.Lower, c.lower, r.Note)
 			}
 		}
+	}
+}
+
+// TestIrregularScaleBoundMatchesScipy: the upper profile bound of a
+// three-parameter Weibull's scale on a right-censored sample, which was put
+// at 57.8 on a lower branch of the other parameters' maximum, is scipy's
+// crossing of the profile on the higher one
+// (testdata/infer/make_weibull3_scale.py → weibull3_scale_profile.json; the
+// sample is TestProfileBoundsAreCrossings' own, weibull3_sample6_right.json).
+func TestIrregularScaleBoundMatchesScipy(t *testing.T) {
+	var sample struct {
+		Exact []float64 `json:"exact"`
+		Right []float64 `json:"right"`
+	}
+	var ref struct {
+		LogLikHat  float64 `json:"loglik_hat"`
+		ScaleUpper float64 `json:"scale_upper"`
+		Old        float64 `json:"old_bound"`
+		AboveAtOld float64 `json:"above_cut_at_old_bound"`
+	}
+	for file, v := range map[string]any{"weibull3_sample6_right.json": &sample, "weibull3_scale_profile.json": &ref} {
+		b, err := os.ReadFile("../../testdata/infer/" + file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := json.Unmarshal(b, v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	fam := family(t, "weibull3")
+	fit, d := auditSample(t, fam, 6, "right")
+	if !slices.Equal(d.Exact, sample.Exact) || !slices.Equal(d.Right, sample.Right) {
+		t.Fatal("weibull3_sample6_right.json is not the audit's sample 6")
+	}
+	if math.Abs(fit.LogLik-ref.LogLikHat) > 1e-8 {
+		t.Errorf("log-likelihood %v, scipy %v", fit.LogLik, ref.LogLikHat)
+	}
+	if !(ref.AboveAtOld > 0.1) {
+		t.Fatalf("the reference does not show the old bound %v inside (%v above the cut-off)", ref.Old, ref.AboveAtOld)
+	}
+	rows, err := Intervals(fam, fit, d, MethodProfile, Settings{Level: 0.95})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := rows[1].Upper; rows[1].Parameter != "scale" || !(math.Abs(got-ref.ScaleUpper) <= 1e-8*ref.ScaleUpper) {
+		t.Errorf("%s upper bound %v (%s), scipy's crossing %v", rows[1].Parameter, got, rows[1].Note, ref.ScaleUpper)
 	}
 }
