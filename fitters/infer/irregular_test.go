@@ -6,7 +6,6 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
-	"slices"
 	"strings"
 	"testing"
 
@@ -285,9 +284,28 @@ func TestIrregularScaleBoundMatchesScipy(t *testing.T) {
 		}
 	}
 	fam := family(t, "weibull3")
-	fit, d := auditSample(t, fam, 6, "right")
-	if !slices.Equal(d.Exact, sample.Exact) || !slices.Equal(d.Right, sample.Right) {
+	// The sample as stored (drawn on amd64; arm64's math library draws it
+	// with other last bits), fitted as the audit fits it.
+	_, audit := auditSample(t, fam, 6, "right")
+	close := func(a, b []float64) bool {
+		if len(a) != len(b) {
+			return false
+		}
+		for i := range a {
+			if math.Abs(a[i]-b[i]) > 1e-9*math.Abs(b[i]) {
+				return false
+			}
+		}
+		return true
+	}
+	if !close(audit.Exact, sample.Exact) || !close(audit.Right, sample.Right) {
 		t.Fatal("weibull3_sample6_right.json is not the audit's sample 6")
+	}
+	d := &fitters.Data{Exact: sample.Exact, Right: sample.Right}
+	_, opt := familyTestData(fam)
+	fit, err := fam.Fit(d, opt)
+	if err != nil || !fit.Converged {
+		t.Fatalf("not fitted: %v", err)
 	}
 	if math.Abs(fit.LogLik-ref.LogLikHat) > 1e-8 {
 		t.Errorf("log-likelihood %v, scipy %v", fit.LogLik, ref.LogLikHat)
