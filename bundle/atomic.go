@@ -171,13 +171,11 @@ func writeTree(dir string, files []member) error {
 	// waits for the disk in its fsync, and concurrent ones are committed
 	// together (6,000 files: 3.0 s one after another). The first failure in
 	// path order is reported.
-	errs := make([]error, len(files))
-	runner.ForEach(treeWriters, len(files), func(i int) {
+	err = runner.ForEachErr(treeWriters, len(files), func(i int) error {
 		m := files[i]
 		f, err := root.OpenFile(m.Path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, fileMode)
 		if err != nil {
-			errs[i] = err
-			return
+			return err
 		}
 		err = m.writeBody(f, m.Path)
 		if err == nil {
@@ -190,13 +188,12 @@ func writeTree(dir string, files []member) error {
 			err = cerr
 		}
 		if err != nil {
-			errs[i] = fmt.Errorf("%s: %w", m.Path, err)
+			return fmt.Errorf("%s: %w", m.Path, err)
 		}
+		return nil
 	})
-	for _, err := range errs {
-		if err != nil {
-			return err
-		}
+	if err != nil {
+		return err
 	}
 	// Folders made by MkdirAll got 0755 less the umask; make them exact.
 	return fs.WalkDir(root.FS(), ".", func(p string, d fs.DirEntry, err error) error {

@@ -526,14 +526,16 @@ func renderOn(workers int, res *runner.Results, id report.Identity) (map[string]
 		// The analyses' figures are drawn on the workers (RenderFigures is
 		// safe to call at once) and gathered in analysis order.
 		all := make([][]report.RenderedFigure, len(r.Analyses))
-		errs := make([]error, len(r.Analyses))
-		runner.ForEach(workers, len(r.Analyses), func(i int) {
-			all[i], errs[i] = report.RenderFigures(slugs[i], report.FigureInputFor(res, i))
-		})
-		for i, figs := range all {
-			if err := errs[i]; err != nil {
-				return nil, fmt.Errorf("figures of %s: %w", r.Analyses[i].Name, err)
+		err := runner.ForEachErr(workers, len(r.Analyses), func(i int) (err error) {
+			if all[i], err = report.RenderFigures(slugs[i], report.FigureInputFor(res, i)); err != nil {
+				return fmt.Errorf("figures of %s: %w", r.Analyses[i].Name, err)
 			}
+			return nil
+		})
+		if err != nil {
+			return nil, err
+		}
+		for i, figs := range all {
 			for _, f := range figs {
 				r.Analyses[i].Figures = append(r.Analyses[i].Figures, f.ForPDF())
 				if p.Report.Figures {

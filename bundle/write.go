@@ -237,14 +237,11 @@ func refusePrivateKeys(c Contents) error {
 	sort.Strings(paths)
 	// Scanned on the workers (some 30 MB in a large run); the first
 	// offender in path order is reported, whatever the workers.
-	errs := make([]error, len(paths))
-	runner.ForEach(workersOf(c.Workers), len(paths), func(i int) {
-		errs[i] = refuseKeyIn(PayloadDir+"/"+paths[i], c.Payload[paths[i]])
+	err := runner.ForEachErr(workersOf(c.Workers), len(paths), func(i int) error {
+		return refuseKeyIn(PayloadDir+"/"+paths[i], c.Payload[paths[i]])
 	})
-	for _, err := range errs {
-		if err != nil {
-			return err
-		}
+	if err != nil {
+		return err
 	}
 	return refuseKeyIn(RunFile, c.RunJSON)
 }

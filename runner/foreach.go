@@ -31,3 +31,17 @@ func ForEach(workers, n int, f func(i int)) {
 	}
 	wg.Wait()
 }
+
+// ForEachErr is ForEach for an f that can fail: every call is made, and
+// the error of the lowest i that failed is returned (nil when none did),
+// so the error reported does not depend on workers either.
+func ForEachErr(workers, n int, f func(i int) error) error {
+	errs := make([]error, n)
+	ForEach(workers, n, func(i int) { errs[i] = f(i) })
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
+}

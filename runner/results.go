@@ -93,15 +93,15 @@ func assemble(p *Project, plan *Plan, tasks []taskResult, workers int) (*Results
 	}
 	analyses := make([]*AnalysisResult, len(plan.Analyses))
 	seeds := make([][]Seed, len(plan.Analyses))
-	errs := make([]error, len(plan.Analyses))
-	ForEach(workers, len(plan.Analyses), func(i int) {
-		analyses[i], seeds[i], errs[i] = assembleAnalysis(p, plan.Analyses[i], tasks[first[i]:first[i+1]])
+	err := ForEachErr(workers, len(plan.Analyses), func(i int) (err error) {
+		analyses[i], seeds[i], err = assembleAnalysis(p, plan.Analyses[i], tasks[first[i]:first[i+1]])
+		return err
 	})
+	if err != nil {
+		return nil, err
+	}
 	res := &Results{Project: p, Analyses: analyses}
 	for i := range plan.Analyses {
-		if errs[i] != nil {
-			return nil, errs[i]
-		}
 		res.Seeds = append(res.Seeds, seeds[i]...)
 	}
 	return res, nil

@@ -49,15 +49,15 @@ func RenderTablesOn(workers int, tmpls []*templates.TableTemplate, analyses []An
 	// text/template's doc); each lands in its own slot, so the order and
 	// the bytes do not depend on the number of cores.
 	files := make([][]File, len(analyses))
-	errs := make([]error, len(analyses))
-	runner.ForEach(workers, len(analyses), func(i int) {
-		files[i], errs[i] = renderAnalysis(use, builtin, analyses[i], slugs[i])
+	err := runner.ForEachErr(workers, len(analyses), func(i int) (err error) {
+		files[i], err = renderAnalysis(use, builtin, analyses[i], slugs[i])
+		return err
 	})
+	if err != nil {
+		return nil, err
+	}
 	var out []File
 	for i := range analyses {
-		if errs[i] != nil {
-			return nil, errs[i]
-		}
 		out = append(out, files[i]...)
 	}
 	return out, nil
