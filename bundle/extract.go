@@ -209,7 +209,7 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 		if fi, err := f.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() <= min(maxSplitFile, limit) {
 			data := make([]byte, fi.Size())
 			if _, err := io.ReadFull(f, data); err != nil {
-				return nil, &ArchiveError{Source: "bundle", Reason: fmt.Sprintf("cannot be read: %v", err)}
+				return archiveFail("", "cannot be read: %v", err)
 			}
 			sr := newSplitReader(data, runtime.GOMAXPROCS(0), limit)
 			if b, err := readArchive(sr, lim); !sr.failed {
@@ -218,38 +218,25 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 			r = bytes.NewReader(data)
 		}
 	}
-	return readArchive(gzipStream(r), lim)
+	zr, err := gzip.NewReader(bufio.NewReader(r))
+	if err != nil {
+		return archiveFail("", "not a gzip-compressed file: %v", err)
+	}
+	return readArchive(zr, lim)
 }
 
 // maxSplitFile is the largest compressed file that ReadArchive reads into
 // memory to decompress on every core; a larger one is streamed.
 const maxSplitFile = 256 << 20
 
-// gzipStream is a reader of the decompressed stream in one piece, or of the
-// error that it is not gzip-compressed.
-func gzipStream(r io.Reader) io.Reader {
-	zr, err := gzip.NewReader(bufio.NewReader(r))
-	if err != nil {
-		return errReader{fmt.Errorf("%w: %v", errNotGzip, err)}
-	}
-	return zr
+// archiveFail is the *ArchiveError of a bundle read by ReadArchive
+// (OpenWithLimits puts the file's path in Source).
+func archiveFail(member, format string, args ...any) (*Bag, error) {
+	return nil, &ArchiveError{Source: "bundle", Member: member, Reason: fmt.Sprintf(format, args...)}
 }
-
-var errNotGzip = errors.New("not a gzip-compressed file")
-
-// errReader fails every read with err.
-type errReader struct{ err error }
-
-func (e errReader) Read([]byte) (int, error) { return 0, e.err }
 
 // readArchive is ReadArchive on the decompressed stream zr.
 func readArchive(zr io.Reader, lim Limits) (*Bag, error) {
-	fail := func(member, format string, args ...any) (*Bag, error) {
-		return nil, &ArchiveError{Source: "bundle", Member: member, Reason: fmt.Sprintf(format, args...)}
-	}
-	if e, ok := zr.(errReader); ok {
-		return fail("", "%v", e.err)
-	}
 	capped := &capReader{r: zr, n: lim.MaxTotalSize + lim.metadataAllowance()}
 	tr := tar.NewReader(capped)
 	tree := newPathTree()
@@ -262,14 +249,14 @@ func readArchive(zr io.Reader, lim Limits) (*Bag, error) {
 			break
 		}
 		if errors.Is(err, errOverCap) {
-			return fail("", "the archive's headers exceed the size limits")
+			return archiveFail("", "the archive's headers exceed the size limits")
 		}
 		if err != nil {
-			return fail("", "not a readable tar archive: %v", err)
+			return archiveFail("", "not a readable tar archive: %v", err)
 		}
 		entries++
 		if entries > lim.MaxEntries {
-			return fail(h.Name, "more than %d entries", lim.MaxEntries)
+			return archiveFail(h.Name, "more than %d entries", lim.MaxEntries)
 		}
 		var dir bool
 		switch h.Typeflag {
@@ -277,52 +264,52 @@ func readArchive(zr io.Reader, lim Limits) (*Bag, error) {
 		case tar.TypeDir:
 			dir = true
 		case tar.TypeSymlink, tar.TypeLink:
-			return fail(h.Name, "a link (to %q); bundles hold only files and folders", h.Linkname)
+			return archiveFail(h.Name, "a link (to %q); bundles hold only files and folders", h.Linkname)
 		case tar.TypeChar, tar.TypeBlock:
-			return fail(h.Name, "a device; bundles hold only files and folders")
+			return archiveFail(h.Name, "a device; bundles hold only files and folders")
 		case tar.TypeFifo:
-			return fail(h.Name, "a FIFO; bundles hold only files and folders")
+			return archiveFail(h.Name, "a FIFO; bundles hold only files and folders")
 		default:
-			return fail(h.Name, "entry type %q; bundles hold only files and folders", h.Typeflag)
+			return archiveFail(h.Name, "entry type %q; bundles hold only files and folders", h.Typeflag)
 		}
 		name := h.Name
 		if dir {
 			name = strings.TrimSuffix(name, "/")
 		}
 		if reason := tree.add(name, dir); reason != "" {
-			return fail(h.Name, "%s", reason)
+			return archiveFail(h.Name, "%s", reason)
 		}
 		if dir {
 			if h.Size != 0 {
-				return fail(h.Name, "a folder entry that carries %d bytes of data", h.Size)
+				return archiveFail(h.Name, "a folder entry that carries %d bytes of data", h.Size)
 			}
 			continue
 		}
 		if h.Size < 0 || h.Size > lim.MaxFileSize {
-			return fail(h.Name, "size %d bytes exceeds the limit of %d", h.Size, lim.MaxFileSize)
+			return archiveFail(h.Name, "size %d bytes exceeds the limit of %d", h.Size, lim.MaxFileSize)
 		}
 		if total+h.Size > lim.MaxTotalSize {
-			return fail(h.Name, "total size exceeds the limit of %d bytes", lim.MaxTotalSize)
+			return archiveFail(h.Name, "total size exceeds the limit of %d bytes", lim.MaxTotalSize)
 		}
 		total += h.Size
 		data := make([]byte, h.Size)
 		if _, err := io.ReadFull(tr, data); err != nil {
-			return fail(h.Name, "truncated: %v", err)
+			return archiveFail(h.Name, "truncated: %v", err)
 		}
 		files[strings.TrimPrefix(name, tree.top+"/")] = data
 	}
 	// Read to the end of the gzip stream so that its CRC-32 and length are
 	// checked; a tar writer pads with at most a few blocks of zeros.
 	if n, err := io.Copy(io.Discard, io.LimitReader(capped, 1<<20)); err != nil {
-		return fail("", "damaged compressed stream after the tar end: %v", err)
+		return archiveFail("", "damaged compressed stream after the tar end: %v", err)
 	} else if n == 1<<20 {
-		return fail("", "more than 1 MiB of data after the tar end")
+		return archiveFail("", "more than 1 MiB of data after the tar end")
 	}
 	if tree.top == "" {
-		return fail("", "empty archive: no bag folder")
+		return archiveFail("", "empty archive: no bag folder")
 	}
 	if _, ok := tree.kind[tree.top]; !ok && !tree.implied[tree.top] {
-		return fail(tree.top, "the top entry is not a folder")
+		return archiveFail(tree.top, "the top entry is not a folder")
 	}
 	return &Bag{Name: tree.top, Files: files}, nil
 }

@@ -11,7 +11,6 @@ import (
 	"sort"
 	"strconv"
 	"strings"
-	"sync"
 	"text/tabwriter"
 
 	"fitseal/runner"
@@ -73,9 +72,10 @@ func interval(lo, hi string) string {
 }
 
 // WriteShow prints a bag's ranking, parameter, derived-quantity and
-// goodness-of-fit tables (or why there is none), one block per analysis, aligned in columns, after a header naming the
-// bundle, its created time, code version and signer. Numbers are shown to
-// six significant digits; the result files keep every digit.
+// goodness-of-fit tables (or why there is none), one block per analysis,
+// aligned in columns, after a header naming the bundle, its created time,
+// code version and signer. Numbers are shown to six significant digits;
+// the result files keep every digit.
 func WriteShow(out io.Writer, b *Bag) error {
 	w := bufio.NewWriter(out)
 	fits, err := readResultTable(b, "fits.csv")
@@ -94,8 +94,7 @@ func WriteShow(out io.Writer, b *Bag) error {
 	if err != nil {
 		return err
 	}
-	// results.json is only read if an analysis has no goodness-of-fit row.
-	noGOF := sync.OnceValue(func() map[string][]string { return noGOFReasons(b) })
+	noGOF := noGOFReasons(b)
 	fmt.Fprintf(w, "bundle %s\n", b.Name)
 	if rec, err := ParseRunRecord(b.RunJSON()); err == nil {
 		fmt.Fprintf(w, "created %s by fitseal %s (%s)\n", rec.Created.UTC().Format("2006-01-02T15:04:05Z"), rec.Tool.Version, rec.Tool.Platform())
@@ -173,7 +172,7 @@ func WriteShow(out io.Writer, b *Bag) error {
 				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", r["family"], r["statistic"], short(r["value"]), orDash(short(r["p_value"])), r["replicates"])
 			}
 			tw.Flush()
-		} else if reasons := noGOF()[a]; len(reasons) > 0 {
+		} else if reasons := noGOF[a]; len(reasons) > 0 {
 			fmt.Fprintf(w, "\ngoodness of fit: none: %s\n", strings.Join(reasons, "; "))
 		}
 	}
