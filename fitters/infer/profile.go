@@ -139,6 +139,24 @@ type profileBound struct {
 	AboveFit bool
 }
 
+// onRidge is the bound near x (on the quantity's own scale) left empty as
+// not confirmed, when one of thetas (nil ones skipped) lies on a ridge
+// towards a limiting family (p.ridge); ok is false otherwise.
+func (p *profiler) onRidge(x float64, thetas ...[]float64) (b profileBound, ok bool) {
+	if p.ridge == nil {
+		return profileBound{}, false
+	}
+	for _, th := range thetas {
+		if th == nil {
+			continue
+		}
+		if why := p.ridge(th); why != "" {
+			return profileBound{Value: math.NaN(), Note: fmt.Sprintf("not confirmed near %.6g: %s", x, why)}, true
+		}
+	}
+	return profileBound{}, false
+}
+
 // chiSquareCut returns the cut-off of the profile-likelihood interval at
 // the given level: ℓp(ψ) ≥ ℓ̂ − χ²₁(level)/2 (Cox & Hinkley, 1974, §9.3).
 func chiSquareCut(level float64) float64 {
@@ -217,12 +235,12 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					Note: fmt.Sprintf("the maximisation over the other parameters failed near %.6g", from(v))}
 			}
 			if ll > llhat+1e-6*math.Max(1, math.Abs(llhat)) {
+				// Far out on a ridge towards a limiting family the
+				// log-likelihood loses its last digits (a threshold 10¹³
+				// below the data): no evidence against the fit.
 				if p.ridge != nil && p.build(v, u, p.theta) {
-					// Far out on a ridge towards a limiting family the
-					// log-likelihood loses its last digits (a threshold
-					// 10¹³ below the data): no evidence against the fit.
-					if why := p.ridge(p.theta); why != "" {
-						return profileBound{Value: math.NaN(), Note: fmt.Sprintf("not confirmed near %.6g: %s", from(v), why)}
+					if b, ok := p.onRidge(from(v), p.theta); ok {
+						return b
 					}
 				}
 				return profileBound{Value: math.NaN(), AboveFit: true,
@@ -289,16 +307,8 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 						return profileBound{Value: math.NaN(),
 							Note: fmt.Sprintf("not confirmed: the profile log-likelihood falls below the cut-off just inside %.6g without crossing it there", from(root))}
 					}
-					if p.ridge != nil {
-						for _, th := range [][]float64{tIn, tOut} {
-							if th == nil {
-								continue
-							}
-							if why := p.ridge(th); why != "" {
-								return profileBound{Value: math.NaN(),
-									Note: fmt.Sprintf("not confirmed near %.6g: %s", from(root), why)}
-							}
-						}
+					if b, ok := p.onRidge(from(root), tIn, tOut); ok {
+						return b
 					}
 					return profileBound{Value: from(root)}
 				}
