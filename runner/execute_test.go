@@ -71,7 +71,8 @@ thresholds = [2000]
 	return path
 }
 
-func runFiles(t testing.TB, path string, workers int) map[string][]byte {
+// runResults loads the project at path and runs it on workers.
+func runResults(t testing.TB, path string, workers int) *Results {
 	t.Helper()
 	p, err := Load(path)
 	if err != nil {
@@ -81,7 +82,12 @@ func runFiles(t testing.TB, path string, workers int) map[string][]byte {
 	if err != nil {
 		t.Fatal(err)
 	}
-	files, err := res.Files()
+	return res
+}
+
+func runFiles(t testing.TB, path string, workers int) map[string][]byte {
+	t.Helper()
+	files, err := runResults(t, path, workers).Files()
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,7 +1,6 @@
 package runner
 
 import (
-	"context"
 	"encoding/json"
 	"strings"
 	"testing"
@@ -22,15 +21,7 @@ func TestNoGOFIsNoted(t *testing.T) {
 		{true, "bootstrap = 19"},
 		{false, "bootstrap = 0"},
 	} {
-		path := splitProject(t, 2, 40, `"weibull", "lognormal"`, c.settings, c.censored)
-		p, err := Load(path)
-		if err != nil {
-			t.Fatal(err)
-		}
-		res, err := Run(context.Background(), p, RunOptions{Workers: 2})
-		if err != nil {
-			t.Fatal(err)
-		}
+		res := runResults(t, splitProject(t, 2, 40, `"weibull", "lognormal"`, c.settings, c.censored), 2)
 		want := NoGOFNote + infer.NotApplicableCensored
 		for _, a := range res.Analyses {
 			for i, row := range a.Comparison.Rows {
