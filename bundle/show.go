@@ -140,7 +140,24 @@ func WriteShow(out io.Writer, b *Bag) error {
 				short(r["loglik"]), short(r[crit]), short(r["delta"]), short(r["weight"]), r["converged"], r["note"])
 		}
 		tw.Flush()
-		if rows := rowsOf(params, a); len(rows) > 0 {
+		// The other tables follow the ranking: the top-ranked family first,
+		// the model-averaged rows last.
+		place := make(map[string]int, len(ranked))
+		for i, r := range ranked {
+			place[r["family"]] = i
+		}
+		inRankOrder := func(rows []map[string]string) []map[string]string {
+			placeOf := func(r map[string]string) int {
+				if i, ok := place[r["family"]]; ok {
+					return i
+				}
+				return len(place)
+			}
+			rows = slices.Clone(rows)
+			sort.SliceStable(rows, func(i, j int) bool { return placeOf(rows[i]) < placeOf(rows[j]) })
+			return rows
+		}
+		if rows := inRankOrder(rowsOf(params, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\nparameters")
 			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 			fmt.Fprintln(tw, "family\tparameter\testimate\tstd_error\tinterval\tmethod")
@@ -154,7 +171,7 @@ func WriteShow(out io.Writer, b *Bag) error {
 			}
 			tw.Flush()
 		}
-		if rows := rowsOf(derived, a); len(rows) > 0 {
+		if rows := inRankOrder(rowsOf(derived, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\nderived quantities")
 			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 			fmt.Fprintln(tw, "family\tquantity\targument\testimate\tinterval\tmethod")
@@ -164,7 +181,7 @@ func WriteShow(out io.Writer, b *Bag) error {
 			}
 			tw.Flush()
 		}
-		if rows := rowsOf(gof, a); len(rows) > 0 {
+		if rows := inRankOrder(rowsOf(gof, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\ngoodness of fit")
 			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 			fmt.Fprintln(tw, "family\tstatistic\tvalue\tp_value\treplicates")

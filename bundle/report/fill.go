@@ -83,10 +83,27 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 			}
 		}
 	}
+	// Derived rows follow the ranking, as the parameters do: the top-ranked
+	// family's first, unranked families after the ranked ones, the
+	// model-averaged rows last; each family's rows keep their own order.
+	place := make(map[string]int, len(a.Ranking))
+	for i, c := range a.Ranking {
+		place[c.Family] = i
+	}
+	placeOf := func(family string) int {
+		if i, ok := place[family]; ok {
+			return i
+		}
+		return len(place)
+	}
 	for _, d := range ar.Derived {
 		a.Derived = append(a.Derived, Derived{Family: d.Family, Quantity: d.Quantity, Argument: d.Argument,
-			Estimate: d.Estimate, Lower: d.CILower, Upper: d.CIUpper, Method: d.CIMethod})
+			Estimate: d.Estimate, Lower: d.CILower, Upper: d.CIUpper, Method: d.CIMethod,
+			BestFamily: len(a.Ranking) > 0 && a.Ranking[0].Rank == 1 && d.Family == a.Ranking[0].Family})
 	}
+	sort.SliceStable(a.Derived, func(i, j int) bool {
+		return placeOf(a.Derived[i].Family) < placeOf(a.Derived[j].Family)
+	})
 	return a
 }
 

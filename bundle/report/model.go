@@ -135,13 +135,14 @@ const ModelAverage = "model-average"
 
 // Derived is a percentile, return level or exceedance probability.
 type Derived struct {
-	Family   string // or ModelAverage
-	Quantity string // Quantile, ReturnLevel or Exceedance
-	Argument float64
-	Estimate float64
-	Lower    float64
-	Upper    float64
-	Method   string
+	Family     string // or ModelAverage
+	Quantity   string // Quantile, ReturnLevel or Exceedance
+	Argument   float64
+	Estimate   float64
+	Lower      float64
+	Upper      float64
+	Method     string
+	BestFamily bool // belongs to the top-ranked family
 }
 
 // Figure is a rendered figure for the PDF with its caption. A figure made

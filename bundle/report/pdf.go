@@ -478,8 +478,11 @@ func (d *doc) analysis(i int) {
 		rows, styles := [][]string(nil), []string(nil)
 		for _, q := range a.Derived {
 			fam, style := q.Family, ""
-			if q.IsModelAverage() {
+			switch {
+			case q.IsModelAverage():
 				fam, style = "model average", "I"
+			case q.BestFamily:
+				style = "B"
 			}
 			rows = append(rows, []string{fam, q.Label(), templates.Sig(4, q.Estimate),
 				orDash(templates.Sig(4, q.Lower)), orDash(templates.Sig(4, q.Upper)), orDash(q.Method)})
@@ -487,6 +490,12 @@ func (d *doc) analysis(i int) {
 		}
 		d.table([]column{{"family", 27, "L"}, {"quantity", 35, "L"}, {"estimate", 22, "R"}, {"lower", 22, "R"},
 			{"upper", 22, "R"}, {"interval", 52, "L"}}, rows, styles)
+		note := "Bold rows: the top-ranked family."
+		if slices.ContainsFunc(a.Derived, Derived.IsModelAverage) {
+			note = "Bold rows: the top-ranked family; italic rows: averaged over the ranked families by their Akaike weights."
+		}
+		d.font("I", 7.5)
+		f.CellFormat(textW, 4, note, "", 1, "L", false, 0, "")
 	}
 
 	if len(notes) > 0 {

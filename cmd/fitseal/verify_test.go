@@ -95,6 +95,38 @@ func TestRunVerifyInitDemo(t *testing.T) {
 			t.Errorf("show's block of %s lacks %q:\n%s", c.analysis, c.want, show)
 		}
 	}
+	// The parameter and derived rows follow the ranking, not the order the
+	// project lists the candidates in (seal-life lists weibull first; the
+	// top-ranked family's rows come first, the model average's last).
+	for _, b := range blocks {
+		if !strings.HasPrefix(b, "seal-life ==") {
+			continue
+		}
+		lines := strings.Split(b, "\n")
+		first := func(after string) string {
+			for i, l := range lines {
+				if l == after && i+2 < len(lines) {
+					return strings.Fields(lines[i+2])[0]
+				}
+			}
+			return ""
+		}
+		top := "" // the ranking's first row is "1  FAMILY ..."
+		for i, l := range lines {
+			if l == "ranking by AICc" && i+2 < len(lines) {
+				top = strings.Fields(lines[i+2])[1]
+			}
+		}
+		if top == "" || top == "weibull" {
+			t.Fatalf("seal-life's top-ranked family is %q; the check needs a family ranked above the first-listed weibull:\n%s", top, b)
+		}
+		if p, d := first("parameters"), first("derived quantities"); p != top || d != top {
+			t.Errorf("seal-life: parameters start with %q and derived quantities with %q, want the top-ranked %q:\n%s", p, d, top, b)
+		}
+		if !strings.Contains(b, "\nmodel-average  quantile    0.1") || strings.Index(b, "model-average") < strings.LastIndex(b, "\nexponential ") {
+			t.Errorf("seal-life: the model-average rows are not last among the derived quantities:\n%s", b)
+		}
+	}
 }
 
 // TestVerifyFlippedByte: one flipped byte in a result file of a bag folder
