@@ -17,6 +17,7 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/recorder"
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
 )
@@ -314,6 +315,7 @@ func densityPlot(in FigureInput, obs []float64) (*plot.Plot, error) {
 			counts[math.Round(x)]++
 		}
 		h = &plotter.Histogram{FillColor: histFill, LineStyle: plotter.DefaultLineStyle, Width: 1}
+		var marks plotter.XYs // the points drawn, which the legend must not cover
 		for k := math.Round(lo); k <= math.Round(hi); k++ {
 			h.Bins = append(h.Bins, plotter.HistogramBin{Min: k - 0.5, Max: k + 0.5, Weight: float64(counts[k]) / float64(len(obs))})
 		}
@@ -339,8 +341,10 @@ func densityPlot(in FigureInput, obs []float64) (*plot.Plot, error) {
 			s.Radius = vg.Points(2.5)
 			p.Add(l, s)
 			p.Legend.Add(legendName(c), l, s)
+			marks = append(marks, xys...)
 		}
 		p.Y.Min, p.Y.Max = 0, ymax*1.08
+		placeLegend(p, h.Bins, marks)
 		return p, nil
 	}
 
@@ -373,6 +377,7 @@ func densityPlot(in FigureInput, obs []float64) (*plot.Plot, error) {
 		xlo = 0
 	}
 	curveMax := 0.0
+	var marks plotter.XYs // the curves drawn, which the legend must not cover
 	for i, c := range leading(in.Candidates) {
 		xys := sample(c.PDF, xlo, xhi, 241)
 		if len(xys) == 0 {
@@ -381,6 +386,7 @@ func densityPlot(in FigureInput, obs []float64) (*plot.Plot, error) {
 		for _, pt := range xys {
 			curveMax = math.Max(curveMax, pt.Y)
 		}
+		marks = append(marks, xys...)
 		l, err := plotter.NewLine(xys)
 		if err != nil {
 			return nil, err
@@ -397,7 +403,56 @@ func densityPlot(in FigureInput, obs []float64) (*plot.Plot, error) {
 	}
 	p.Y.Min, p.Y.Max = 0, top*1.08
 	p.X.Min, p.X.Max = xlo, xhi
+	placeLegend(p, h.Bins, marks)
 	return p, nil
+}
+
+// placeLegend puts a density plot's legend in the top corner where the bars
+// and curves under it are lower, and raises the y-axis just enough that they
+// stay below it: the legend's box (measured with the plot's own fonts on a
+// figureWidth × figureHeight canvas) takes the top fraction fh of the data
+// area's height and the fraction fw of its width, so with m the highest bar
+// or curve point under that corner the axis must reach m/(1 − fh). Points
+// above the axis (a density capped at three times the histogram) are
+// clipped there anyway and count at the axis' top.
+func placeLegend(p *plot.Plot, bins []plotter.HistogramBin, marks plotter.XYs) {
+	if !(p.Y.Max > p.Y.Min) {
+		return
+	}
+	da := p.DataCanvas(draw.NewCanvas(&recorder.Canvas{}, figureWidth, figureHeight))
+	box := p.Legend.Rectangle(da).Size()
+	if box.Y <= 0 {
+		return // no legend
+	}
+	em := p.Legend.TextStyle.Rectangle(" ").Max.X
+	fw := float64(box.X+2*em) / float64(da.Size().X)
+	fh := float64(box.Y+em) / float64(da.Size().Y)
+	if fw >= 1 || fh >= 0.6 {
+		return // a legend this large covers the plot wherever it goes
+	}
+	span, top := p.X.Max-p.X.Min, p.Y.Max
+	under := func(x0, x1 float64) float64 {
+		m := 0.0
+		for _, b := range bins {
+			if b.Max > x0 && b.Min < x1 {
+				m = math.Max(m, math.Min(b.Weight, top))
+			}
+		}
+		for _, pt := range marks {
+			if pt.X >= x0 && pt.X <= x1 {
+				m = math.Max(m, math.Min(pt.Y, top))
+			}
+		}
+		return m
+	}
+	right := under(p.X.Max-fw*span, p.X.Max)
+	left := under(p.X.Min, p.X.Min+fw*span)
+	m := right
+	p.Legend.Left = left < right
+	if p.Legend.Left {
+		m = left
+	}
+	p.Y.Max = math.Max(p.Y.Max, m/(1-fh))
 }
 
 func cdfPlot(in FigureInput, obs []float64) (*plot.Plot, error) {

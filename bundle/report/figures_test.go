@@ -12,6 +12,9 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/stat/distuv"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/recorder"
 )
 
 // sealFigures builds figure input from a seeded Weibull sample with known
@@ -191,5 +194,67 @@ func TestRenderFiguresSurvivesUnboundedDensity(t *testing.T) {
 	}
 	if _, err := RenderFigures("none", FigureInput{Analysis: "none"}); err != nil {
 		t.Errorf("no material must give no figures, not an error: %v", err)
+	}
+}
+
+// TestPlaceLegend: the density plot's legend goes to the top corner whose
+// bars and curves are lower, and the y-axis is raised just enough that
+// nothing under that corner reaches into the legend's box.
+func TestPlaceLegend(t *testing.T) {
+	bars := func(heights ...float64) []plotter.HistogramBin {
+		var out []plotter.HistogramBin
+		for i, h := range heights {
+			out = append(out, plotter.HistogramBin{Min: float64(i), Max: float64(i + 1), Weight: h})
+		}
+		return out
+	}
+	for _, c := range []struct {
+		name     string
+		bins     []plotter.HistogramBin
+		wantLeft bool
+	}{
+		{"tall on the right", bars(1, 2, 3, 5, 8, 10), true},
+		{"tall on the left", bars(10, 8, 5, 3, 2, 1), false},
+		{"tall in the middle", bars(1, 1, 1, 1, 2, 10, 10, 2, 1, 1, 1, 1), false},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			p := newPlot("test", "x", "density")
+			h := &plotter.Histogram{Bins: c.bins, Width: 1}
+			p.Add(h)
+			for i, name := range []string{"lognormal (w = 0.56)", "gamma (w = 0.33)", "weibull (w = 0.11)"} {
+				l, err := plotter.NewLine(plotter.XYs{{X: 0, Y: 0}, {X: 1, Y: 0}})
+				if err != nil {
+					t.Fatal(err)
+				}
+				l.LineStyle = curveStyle(i)
+				p.Legend.Add(name, l)
+			}
+			top, xmax := maxWeight(h)*1.08, c.bins[len(c.bins)-1].Max
+			p.Y.Min, p.Y.Max = 0, top
+			p.X.Min, p.X.Max = 0, xmax
+			placeLegend(p, c.bins, nil)
+			if p.Legend.Left != c.wantLeft {
+				t.Errorf("legend left = %v, want %v", p.Legend.Left, c.wantLeft)
+			}
+			if p.Y.Max < top {
+				t.Errorf("y-axis lowered from %v to %v", top, p.Y.Max)
+			}
+			// The legend's box on the data area, by the plot's own measure.
+			da := p.DataCanvas(draw.NewCanvas(&recorder.Canvas{}, figureWidth, figureHeight))
+			box := p.Legend.Rectangle(da).Size()
+			legendBottom := p.Y.Max * (1 - float64(box.Y)/float64(da.Size().Y))
+			x0, x1 := xmax*(1-float64(box.X)/float64(da.Size().X)), xmax
+			if p.Legend.Left {
+				x0, x1 = 0, xmax*float64(box.X)/float64(da.Size().X)
+			}
+			for _, b := range c.bins {
+				if b.Max > x0 && b.Min < x1 && b.Weight > legendBottom {
+					t.Errorf("bar [%v, %v] of height %v reaches into the legend (its bottom at %v, axis top %v)", b.Min, b.Max, b.Weight, legendBottom, p.Y.Max)
+				}
+			}
+			if c.name == "tall in the middle" && p.Y.Max != top {
+				t.Errorf("nothing under the corner, yet the axis was raised from %v to %v", top, p.Y.Max)
+			}
+		})
 	}
 }
