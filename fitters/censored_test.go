@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"strings"
 	"testing"
 )
 
@@ -179,5 +180,94 @@ func TestCensoredUnidentified(t *testing.T) {
 				t.Logf("failed with: %s", fit.Reason)
 			}
 		})
+	}
+}
+
+// TestCurrentStatusData: data with no exact value, only non-detect limits
+// and suspensions (each unit inspected once, found failed or running),
+// against scipy's maximisation of the same likelihood
+// (testdata/censored/make_current_status.py). With a trend the limits
+// identify weibull and lognormal: both fits converge to scipy's maximum.
+// Without one, nothing beats a distribution flat across the data, and no
+// family may report a converged fit within flatTolerance of that
+// supremum (the runaway parameters: scales of 1e+308, rates of 1e-318);
+// those fits fail with a reason, and a fit that does converge (the
+// one-parameter exponential, which cannot flatten) stays below it.
+func TestCurrentStatusData(t *testing.T) {
+	b, err := os.ReadFile("../testdata/censored/current_status.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		Cases []struct {
+			Name  string
+			Left  []float64
+			Right []float64
+			Flat  float64 `json:"flat_supremum"`
+			Fits  map[string]struct {
+				Estimates []float64
+				LogLik    float64 `json:"loglik"`
+			}
+		}
+	}
+	if err := json.Unmarshal(b, &ref); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range ref.Cases {
+		d := &Data{Left: c.Left, Right: c.Right}
+		if flat, ok := flatSupremum(d); !ok || math.Abs(flat-c.Flat) > 1e-12 {
+			t.Errorf("%s: flatSupremum = %v, %v; scipy's script gives %v", c.Name, flat, ok, c.Flat)
+		}
+		for _, fam := range Families() {
+			if fam.Kind() != Continuous || fam.Applicable(d, nil) != nil {
+				continue
+			}
+			t.Run(c.Name+"/"+fam.Name(), func(t *testing.T) {
+				fit, err := fam.Fit(d, Options{})
+				if err != nil {
+					t.Fatal(err)
+				}
+				want, checked := c.Fits[fam.Name()]
+				switch {
+				case c.Name == "trend" && checked:
+					if !fit.Converged {
+						t.Fatalf("not converged: %s", fit.Reason)
+					}
+					if fit.LogLik < want.LogLik-1e-6 {
+						t.Errorf("loglik %.10g below scipy's %.10g", fit.LogLik, want.LogLik)
+					}
+					for i, v := range want.Estimates {
+						if math.Abs(fit.Estimates[i]-v) > 1e-4*math.Abs(v) {
+							t.Errorf("%s = %.8g, scipy %.8g", fit.Parameters[i], fit.Estimates[i], v)
+						}
+					}
+				case c.Name == "weak" && checked && fit.Converged:
+					t.Errorf("converged at %v, loglik %.8g, where scipy's maximisation runs off to %v (loglik %.8g, the flat supremum %.8g)",
+						fit.Estimates, fit.LogLik, want.Estimates, want.LogLik, c.Flat)
+				case fit.Converged && math.Abs(fit.LogLik-c.Flat) <= flatTolerance:
+					t.Errorf("converged at %v with loglik %.8g, within %g of the flat supremum %.8g", fit.Estimates, fit.LogLik, flatTolerance, c.Flat)
+				case !fit.Converged && fit.Reason == "":
+					t.Error("not converged without a reason")
+				}
+			})
+		}
+	}
+}
+
+// TestNonDetectAtZero: a non-detect recorded at 0 has probability
+// P(X ≤ 0) = 0 under every family on the positive half-line, those that
+// allow an exact 0 included, so each refuses it as not applicable, naming
+// the limit, instead of failing to find a finite likelihood.
+func TestNonDetectAtZero(t *testing.T) {
+	d := &Data{Exact: []float64{1.5, 2.5, 3.5, 4.5}, Left: []float64{0}}
+	for _, name := range []string{"exponential", "gamma", "invgauss", "loglogistic", "lognormal", "pareto", "weibull"} {
+		fam, ok := Lookup(name)
+		if !ok {
+			t.Fatalf("%s is not registered", name)
+		}
+		err := fam.Applicable(d, nil)
+		if err == nil || !strings.Contains(err.Error(), "non-detect limit 0") {
+			t.Errorf("%s: Applicable with a non-detect at 0: %v; want a refusal naming the limit", name, err)
+		}
 	}
 }

@@ -195,9 +195,12 @@ func needPositive(family string, d *Data, allowZero bool) error {
 			return err
 		}
 	}
+	// A non-detect limit must be above 0 even where 0 itself is in the
+	// support: P(X ≤ 0) = 0, so a non-detect at 0 has probability 0 under
+	// every parameter value.
 	for _, x := range d.Left {
-		if x < 0 || (!allowZero && x == 0) {
-			return inapplicable(family, "needs values > 0, the data have the non-detect limit %v", x)
+		if x <= 0 {
+			return inapplicable(family, "needs non-detect limits > 0, the data have the non-detect limit %v (P(X ≤ %v) = 0 for this family: record the detection limit)", x, x)
 		}
 	}
 	for i := range d.Upper {

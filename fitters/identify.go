@@ -14,7 +14,9 @@ import (
 //     the distribution moves beyond every limit. Such a fit fails with that
 //     reason instead of returning the runaway parameters;
 //   - a fit to censored data alone whose log-likelihood has reached 0 has
-//     run to such a boundary, whatever the data's pattern;
+//     run to such a boundary, whatever the data's pattern; so has one whose
+//     log-likelihood has come within flatTolerance of what a distribution
+//     flat across the data gives (flatSupremum);
 //   - a converged fit with a non-finite estimate must say in its Note which
 //     limiting family it reached (df → ∞, size → ∞); otherwise it is marked
 //     as not converged.
@@ -41,6 +43,13 @@ func (c checkedFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		fit.LogLik > -1e-9*float64(d.N()) {
 		fit.Converged = false
 		fit.Reason = fmt.Sprintf("the log-likelihood of the %d censored observations reached %.3g, its supremum 0, at a parameter boundary: the data do not identify the parameters", d.N(), fit.LogLik)
+	}
+	if fit.Converged && c.Kind() == Continuous {
+		if flat, ok := flatSupremum(d); ok && math.Abs(fit.LogLik-flat) <= flatTolerance {
+			fit.Converged = false
+			fit.Reason = fmt.Sprintf("no exact value and no bounded interval, and the log-likelihood reached %.6g, within %g of %.6g, what a distribution flat across the data gives (probability %.3g below every non-detect limit, %.3g above every suspension): the fit runs off toward that limit (an ever larger scale) and the data do not identify the parameters",
+				fit.LogLik, flatTolerance, flat, 1-flatShare(d), flatShare(d))
+		}
 	}
 	if fit.Converged && fit.Note == "" {
 		for i, v := range fit.Estimates {
@@ -82,6 +91,52 @@ func unidentified(d *Data) string {
 		return fmt.Sprintf("all %d observations are left-censored (non-detects): with no value observed the likelihood has no maximum, it rises toward 1 as the distribution moves below every detection limit", d.N())
 	}
 	return ""
+}
+
+// flatTolerance is how near (in log-likelihood) a fit may come to the flat
+// supremum before it counts as having run off toward it: 0.01 (0.02 in
+// AIC) is immaterial to any comparison by AIC, AICc or BIC, and a fit
+// running off slowly (pareto's scale toward 0) stops about 0.001 short.
+const flatTolerance = 0.01
+
+// flatSupremum is, for data with no exact value and no bounded interval
+// (a non-detects and b suspensions, both present, n = a + b), the
+// log-likelihood a ln(a/n) + b ln(b/n) of a distribution function flat at
+// p = a/n over the whole range of the limits. Families with a scale that
+// can grow without end (while the location follows) approach it; when the
+// limits interleave weakly or not at all nothing beats it, so a fit whose
+// log-likelihood comes that near it is on its way there, not at a maximum
+// (one well above it is a maximum the data support: the limits interleave
+// with a trend).
+// ok is false for other data.
+func flatSupremum(d *Data) (ll float64, ok bool) {
+	if len(d.Exact) > 0 || d.N() == 0 {
+		return 0, false
+	}
+	for i := range d.Lower {
+		if !math.IsInf(d.Lower[i], -1) && !math.IsInf(d.Upper[i], 1) {
+			return 0, false // a bounded interval
+		}
+	}
+	n := float64(d.N())
+	b := n * flatShare(d)
+	a := n - b
+	if a == 0 || b == 0 {
+		return 0, false
+	}
+	return a*math.Log(a/n) + b*math.Log(b/n), true
+}
+
+// flatShare is the share of observations bounded only from below
+// (suspensions and intervals (l, +∞)).
+func flatShare(d *Data) float64 {
+	b := len(d.Right)
+	for i := range d.Lower {
+		if math.IsInf(d.Upper[i], 1) && !math.IsInf(d.Lower[i], -1) {
+			b++
+		}
+	}
+	return float64(b) / float64(d.N())
 }
 
 // markFixed flags the fixed parameters of fit and takes them out of k.
