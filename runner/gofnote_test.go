@@ -63,3 +63,26 @@ func TestNoGOFIsNoted(t *testing.T) {
 		}
 	}
 }
+
+// TestBootstrapIntervalsFallBack: with intervals = "bootstrap", censored
+// data (whose censoring the parametric bootstrap cannot simulate) get
+// profile-likelihood intervals, named as such on every row, and the fit's
+// inference note says why; complete data keep their bootstrap intervals.
+func TestBootstrapIntervalsFallBack(t *testing.T) {
+	for _, censored := range []bool{true, false} {
+		res := runResults(t, splitProject(t, 2, 40, `"weibull", "lognormal"`, "bootstrap = 19\nintervals = \"bootstrap\"", censored), 2)
+		for _, a := range res.Analyses {
+			for i, row := range a.Comparison.Rows {
+				if got := strings.Contains(a.Inference[i], BootstrapFallbackNote); got != censored {
+					t.Errorf("censored=%v: %s %s: inference note %q", censored, a.Name, row.Family, a.Inference[i])
+				}
+				for _, pr := range a.Parameters[i] {
+					profile := strings.HasPrefix(pr.CIMethod, "profile")
+					if profile != censored || (censored && !(pr.CILower < pr.Estimate && pr.Estimate < pr.CIUpper)) {
+						t.Errorf("censored=%v: %s %s %s: interval [%v, %v] by %q", censored, a.Name, row.Family, pr.Parameter, pr.CILower, pr.CIUpper, pr.CIMethod)
+					}
+				}
+			}
+		}
+	}
+}

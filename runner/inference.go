@@ -38,6 +38,10 @@ const NoGOFNote = "no goodness-of-fit statistic: "
 // log-likelihood than the fit's own.
 const LocalMaximumNote = "a profile found a higher log-likelihood than the fit's: the fit is a local maximum, so its log-likelihood, criterion, weight and intervals understate what the family can do; look at the profile plots and consider fixing a parameter"
 
+// BootstrapFallbackNote is the note of a fit whose bootstrap intervals
+// could not be computed, for the reason its note gives before it.
+const BootstrapFallbackNote = "intervals = \"bootstrap\" needs the replicates: profile-likelihood intervals given instead"
+
 // stream is the identity of a fit's bootstrap stream.
 func stream(p *Project, analysis, family string) infer.Stream {
 	return infer.Stream{Master: p.Settings.Seed, Analysis: analysis, Family: family, Purpose: BootstrapPurpose}
@@ -83,9 +87,13 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 		}
 	}
 	if method == infer.MethodBootstrap && settings.Replicates == nil {
-		// Without replicates the bootstrap method would only try again and
-		// fail the same way: say so once, on every row.
-		settings.Bootstrap.Replicates = 0
+		// Without replicates (censored data, whose censoring cannot be
+		// simulated, or a failed bootstrap) the intervals fall back to the
+		// profile likelihood, and the note says so: never a bootstrap
+		// method named on rows it gave nothing to.
+		method = infer.MethodProfile
+		settings.LogLik = fitters.LogLikFunc(fam, d)
+		out.note = fitters.JoinNote(out.note, BootstrapFallbackNote)
 	}
 	if out.parameters, err = infer.Intervals(fam, fit, d, method, settings); err != nil {
 		return nil, fmt.Errorf("intervals: %w", err)
