@@ -2,6 +2,11 @@ package runner
 
 import (
 	"encoding/json"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -83,6 +88,79 @@ func TestBootstrapIntervalsFallBack(t *testing.T) {
 					}
 				}
 			}
+		}
+	}
+}
+
+// TestCountFamilyWithoutTrials: beside binomial and betabinomial, which use
+// each row's number of trials, poisson models the counts alone, as its fit
+// does; so its median and its chi-square statistic are computed from the
+// counts alone instead of being left out ("the data give numbers of
+// trials"), while the binomial-type families' median stays undefined (each
+// row has its own number of trials). A statistic whose cells all pool into
+// one gets no p-value even with replicates.
+func TestCountFamilyWithoutTrials(t *testing.T) {
+	dir := t.TempDir()
+	var b strings.Builder
+	b.WriteString("batch,n,k\n")
+	r := rand.New(rand.NewPCG(3, 4))
+	for i := range 60 {
+		n := 20 + 10*(i%4)
+		k := 0
+		for range n {
+			if r.Float64() < 0.1 {
+				k++
+			}
+		}
+		fmt.Fprintf(&b, "%d,%d,%d\n", i, n, k)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "d.csv"), []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	proj := `name = "counts"
+[settings]
+bootstrap = 19
+[[dataset]]
+name = "d"
+file = "d.csv"
+column = "k"
+trials_column = "n"
+[[candidates]]
+name = "c"
+families = ["binomial", "betabinomial", "poisson"]
+[[analysis]]
+dataset = "d"
+candidates = "c"
+quantiles = [0.5]
+`
+	if err := os.WriteFile(filepath.Join(dir, "fitseal.toml"), []byte(proj), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	res := runResults(t, filepath.Join(dir, "fitseal.toml"), 2)
+	a := res.Analyses[0]
+	gof := map[string]GOFRow{}
+	for _, g := range a.GOF {
+		gof[g.Family] = g
+	}
+	for _, d := range a.Derived {
+		switch d.Family {
+		case "poisson":
+			if !(d.Estimate >= 1) {
+				t.Errorf("poisson median %v, want a count", d.Estimate)
+			}
+		case "binomial", "betabinomial":
+			if !math.IsNaN(d.Estimate) || !strings.Contains(d.Note, "own number of trials") {
+				t.Errorf("%s median %v (%q), want none: each row has its own number of trials", d.Family, d.Estimate, d.Note)
+			}
+		}
+	}
+	g, ok := gof["poisson"]
+	if !ok || g.Statistic != "chisq" || math.IsNaN(g.Value) {
+		t.Fatalf("poisson has no chi-square statistic: %+v (rows %+v)", g, a.GOF)
+	}
+	for fam, g := range gof {
+		if strings.Contains(g.Note, "carries no information") != math.IsNaN(g.PValue) {
+			t.Errorf("%s: p = %v with note %q: an uninformative statistic must have no p-value, an informative one a p-value", fam, g.PValue, g.Note)
 		}
 	}
 }

@@ -56,6 +56,14 @@ func stream(p *Project, analysis, family string) infer.Stream {
 // help to it (infer.BootstrapOptions.Share; none changes a number).
 func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.Fit, opt fitters.Options, bootWorkers int, drawn *atomic.Int64, share func(func() bool)) (*inference, error) {
 	d := &pa.Group.Data
+	if d.Trials != nil {
+		// A count family that takes no number of trials (poisson beside
+		// binomial) models the counts alone, as its fit did: so do its
+		// intervals, derived quantities and goodness of fit.
+		if dist, err := fam.New(fit.Estimates); err == nil && !infer.TakesTrials(dist) {
+			d = &fitters.Data{Exact: d.Exact}
+		}
+	}
 	s := p.Settings
 	out := &inference{}
 	method, err := infer.ParseMethod(s.Intervals)

@@ -19,6 +19,10 @@ type Statistic struct {
 	Replicates int
 	// Note: failed replicates, pooled cells, ….
 	Note string
+	// Uninformative is true when the statistic cannot tell fits apart
+	// (every cell pooled into one): it gets no p-value, whatever the
+	// replicates give.
+	Uninformative bool
 }
 
 // GoodnessOfFit is the absolute check of one fit.
@@ -65,8 +69,8 @@ func CheckFitFrom(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, rep *Re
 func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
 	for si := range g.Statistics {
 		s := &g.Statistics[si]
-		if math.IsInf(s.Value, 1) {
-			continue // no p-value for an infinite statistic (see observedStatistics)
+		if math.IsInf(s.Value, 1) || s.Uninformative {
+			continue // no p-value for an infinite or uninformative statistic (see observedStatistics)
 		}
 		var r, b int
 		for _, row := range rep.Statistics {
@@ -120,7 +124,8 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 		s := Statistic{Name: ChiSquare, Value: v, PValue: math.NaN(),
 			Note: fmt.Sprintf("%d cells after pooling to expected counts ≥ %d (common practice)", nc, minExpected)}
 		if nc < 2 {
-			s.Note = "every cell pooled into one: the statistic carries no information"
+			s.Note = "every cell pooled into one: the statistic carries no information; no p-value"
+			s.Uninformative = true
 		}
 		g.Statistics = []Statistic{s}
 		return g, nil

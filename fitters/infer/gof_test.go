@@ -9,6 +9,7 @@ import (
 	"os"
 	"slices"
 	"strconv"
+	"strings"
 	"testing"
 
 	"fitseal/fitters"
@@ -328,5 +329,30 @@ func TestEDFStatisticsAllocatesNothing(t *testing.T) {
 				t.Errorf("%s (%T): %v allocations per call", c.family, dd, n)
 			}
 		}
+	}
+}
+
+// TestUninformativeChiSquareHasNoPValue: seven batches of 40–50 items with
+// 0–7 defects leave a binomial's expected counts so few that every cell
+// pools into one; the statistic is then ~0 whatever the data, and however
+// many replicates are drawn it gets no p-value (a p-value from it would
+// look like evidence of fit), with the reason in its note.
+func TestUninformativeChiSquareHasNoPValue(t *testing.T) {
+	fam, _ := fitters.Lookup("binomial")
+	d := &fitters.Data{Exact: []float64{3, 5, 2, 0, 7, 4, 1}, Trials: []int{50, 50, 40, 50, 50, 45, 50}}
+	fit, err := fam.Fit(d, fitters.Options{})
+	if err != nil || !fit.Converged {
+		t.Fatalf("fit: %v %+v", err, fit)
+	}
+	g, err := CheckFit(fam, fit, d, BootstrapOptions{Replicates: 49, Stream: Stream{Master: 1, Analysis: "a", Family: "binomial"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(g.Statistics) != 1 {
+		t.Fatalf("statistics %+v", g.Statistics)
+	}
+	s := g.Statistics[0]
+	if !s.Uninformative || !math.IsNaN(s.PValue) || !strings.Contains(s.Note, "no p-value") {
+		t.Errorf("chi-square %+v: want uninformative, no p-value, and the note saying so", s)
 	}
 }

@@ -22,6 +22,14 @@ func withTrials(d fitters.Dist, n int) (fitters.Dist, bool) {
 	return nil, false
 }
 
+// TakesTrials reports whether d's family uses each observation's number of
+// trials (binomial, betabinomial); the other count families model the
+// counts alone and ignore a trials column.
+func TakesTrials(d fitters.Dist) bool {
+	_, ok := withTrials(d, 1)
+	return ok
+}
+
 // component is one group of observations sharing a distribution: the
 // expected count of a cell is Σ weight·P(cell) over the components.
 type component struct {
