@@ -64,11 +64,31 @@ func short(s string) string {
 	return strconv.FormatFloat(x, 'g', 6, 64)
 }
 
-func interval(lo, hi string) string {
-	if lo == "" && hi == "" {
+// interval writes [lo, hi]; an open end (the profile stays above the
+// cut-off as far as it was followed: no bound at this level) is written
+// "open" and bracketed as such, a bound not computed "–".
+func interval(lo, hi string, n rowNote) string {
+	left, right := "[", "]"
+	l, h := short(lo), short(hi)
+	if n.lowerOpen {
+		left, l = "(", "open"
+	}
+	if n.upperOpen {
+		right, h = ")", "open"
+	}
+	if l == "–" && h == "–" {
 		return "–"
 	}
-	return "[" + short(lo) + ", " + short(hi) + "]"
+	return left + l + ", " + h + right
+}
+
+// families is the family column of rows, in order.
+func families(rows []map[string]string) []string {
+	out := make([]string, len(rows))
+	for i, r := range rows {
+		out[i] = r["family"]
+	}
+	return out
 }
 
 // WriteShow prints a bag's ranking, parameter, derived-quantity and
@@ -94,7 +114,7 @@ func WriteShow(out io.Writer, b *Bag) error {
 	if err != nil {
 		return err
 	}
-	noGOF := noGOFReasons(b)
+	notes := readShowNotes(b)
 	fmt.Fprintf(w, "bundle %s\n", b.Name)
 	if rec, err := ParseRunRecord(b.RunJSON()); err == nil {
 		fmt.Fprintf(w, "created %s by fitseal %s (%s)\n", rec.Created.UTC().Format("2006-01-02T15:04:05Z"), rec.Tool.Version, rec.Tool.Platform())
@@ -126,18 +146,30 @@ func WriteShow(out io.Writer, b *Bag) error {
 				break
 			}
 		}
+		ranked := slices.Clone(rowsOf(fits, a))
+		sort.SliceStable(ranked, func(i, j int) bool { return rankKey(ranked[i]) < rankKey(ranked[j]) })
+		if len(ranked) > 0 {
+			// The data behind every row: n, how many censored, how many
+			// values the file had missing (skipped, counted).
+			line := "n = " + ranked[0]["n"]
+			if c := ranked[0]["n_censored"]; c != "" && c != "0" {
+				line += " (" + c + " censored)"
+			}
+			if m := notes.missing[a]; m > 0 {
+				line += fmt.Sprintf("; %d missing values skipped", m)
+			}
+			fmt.Fprintln(w, line)
+		}
 		fmt.Fprintf(w, "\nranking by %s\n", criterionName(crit))
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "rank\tfamily\tn\tk\tloglik\t"+crit+"\tdelta\tweight\tconverged\tnote")
-		ranked := rowsOf(fits, a)
-		sort.SliceStable(ranked, func(i, j int) bool { return rankKey(ranked[i]) < rankKey(ranked[j]) })
+		fmt.Fprintln(tw, "rank\tfamily\tn\tk\tloglik\t"+crit+"\tdelta\tweight\tsupport\tconverged\tnote")
 		for _, r := range ranked {
 			rank := r["rank"]
 			if rank == "" {
 				rank = "–"
 			}
-			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", rank, r["family"], r["n"], orDash(r["k"]),
-				short(r["loglik"]), short(r[crit]), short(r["delta"]), short(r["weight"]), r["converged"], r["note"])
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", rank, r["family"], r["n"], orDash(r["k"]),
+				short(r["loglik"]), short(r[crit]), short(r["delta"]), short(r["weight"]), orDash(r["support"]), r["converged"], r["note"])
 		}
 		tw.Flush()
 		// The other tables follow the ranking: the top-ranked family first,
@@ -160,69 +192,154 @@ func WriteShow(out io.Writer, b *Bag) error {
 		if rows := inRankOrder(rowsOf(params, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\nparameters")
 			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-			fmt.Fprintln(tw, "family\tparameter\testimate\tstd_error\tinterval\tmethod")
+			fmt.Fprintln(tw, "family\tparameter\testimate\tstd_error\tinterval\tmethod\tnote")
 			for _, r := range rows {
 				method := r["ci_method"]
 				if r["fixed"] == "true" {
 					method = "fixed"
 				}
-				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["parameter"], short(r["estimate"]), short(r["std_error"]),
-					interval(r["ci_lower"], r["ci_upper"]), method)
+				n := notes.rows[rowKey(a, r["family"], r["parameter"])]
+				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["parameter"], short(r["estimate"]), short(r["std_error"]),
+					interval(r["ci_lower"], r["ci_upper"], n), method, n.note)
 			}
 			tw.Flush()
 		}
 		if rows := inRankOrder(rowsOf(derived, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\nderived quantities")
 			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-			fmt.Fprintln(tw, "family\tquantity\targument\testimate\tinterval\tmethod")
+			fmt.Fprintln(tw, "family\tquantity\targument\testimate\tinterval\tmethod\tnote")
 			for _, r := range rows {
-				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["quantity"], short(r["argument"]), short(r["estimate"]),
-					interval(r["ci_lower"], r["ci_upper"]), orDash(r["ci_method"]))
+				n := notes.rows[rowKey(a, r["family"], derivedWhat(r["quantity"], r["argument"]))]
+				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["quantity"], short(r["argument"]), short(r["estimate"]),
+					interval(r["ci_lower"], r["ci_upper"], n), orDash(r["ci_method"]), n.note)
 			}
 			tw.Flush()
 		}
 		if rows := inRankOrder(rowsOf(gof, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\ngoodness of fit")
 			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-			fmt.Fprintln(tw, "family\tstatistic\tvalue\tp_value\treplicates")
+			fmt.Fprintln(tw, "family\tstatistic\tvalue\tp_value\treplicates\tnote")
+			have := map[string]bool{}
 			for _, r := range rows {
-				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", r["family"], r["statistic"], short(r["value"]), orDash(short(r["p_value"])), r["replicates"])
+				have[r["family"]] = true
+				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["statistic"], short(r["value"]), orDash(short(r["p_value"])), r["replicates"],
+					notes.rows[rowKey(a, r["family"], "gof "+r["statistic"])].note)
+			}
+			// A fitted family without a row says why, as when none has one.
+			for _, r := range ranked {
+				if f := r["family"]; !have[f] {
+					if reason, ok := notes.noGOF[a][f]; ok {
+						fmt.Fprintf(tw, "%s\tnone\t\t\t\t%s\n", f, reason)
+					}
+				}
 			}
 			tw.Flush()
-		} else if reasons := noGOF[a]; len(reasons) > 0 {
+		} else if reasons := notes.gofReasons(a, families(ranked)); len(reasons) > 0 {
 			fmt.Fprintf(w, "\ngoodness of fit: none: %s\n", strings.Join(reasons, "; "))
 		}
 	}
 	return w.Flush()
 }
 
-// noGOFReasons is, by analysis, why its fits have no goodness-of-fit
-// statistic (gof.csv has no row for them): the reasons their inference notes
-// in results.json give after runner.NoGOFNote, each once. Nothing when
-// results.json cannot be read; show then just prints no reason.
-func noGOFReasons(b *Bag) map[string][]string {
+// showNotes is what show takes from results.json beside the CSV files:
+// each analysis's count of missing values, each fit's reason for having no
+// goodness-of-fit statistic (after runner.NoGOFNote in its inference note),
+// and the notes (and open interval ends) of the parameter, derived and
+// goodness-of-fit rows, which the CSV files do not carry. Empty when results.json cannot be read; show then
+// prints the CSV files' contents alone.
+type showNotes struct {
+	missing map[string]int               // by analysis
+	noGOF   map[string]map[string]string // analysis → family → reason
+	rows    map[string]rowNote           // by rowKey
+}
+
+// rowNote is a parameter or derived row's note and open interval ends.
+type rowNote struct {
+	note                 string
+	lowerOpen, upperOpen bool
+}
+
+// rowKey names a parameter row (what = the parameter), a derived row
+// (what = quantity and argument, as results.json and derived.csv write them)
+// or a goodness-of-fit row (what = "gof " and the statistic).
+func rowKey(analysis, family, what string) string {
+	return analysis + "\x00" + family + "\x00" + what
+}
+
+func derivedWhat(quantity, argument string) string {
+	if x, err := strconv.ParseFloat(argument, 64); err == nil {
+		argument = strconv.FormatFloat(x, 'g', -1, 64)
+	}
+	return quantity + " " + argument
+}
+
+func readShowNotes(b *Bag) showNotes {
+	type interval struct {
+		Note      string `json:"note"`
+		LowerOpen bool   `json:"ci_lower_open"`
+		UpperOpen bool   `json:"ci_upper_open"`
+	}
 	var doc struct {
 		Analyses []struct {
-			Name string `json:"name"`
-			Fits []struct {
-				Inference string `json:"inference_note"`
+			Name    string `json:"name"`
+			Missing int    `json:"missing"`
+			Fits    []struct {
+				Family     string `json:"family"`
+				Inference  string `json:"inference_note"`
+				Parameters []struct {
+					Name string `json:"name"`
+					interval
+				} `json:"parameters"`
 			} `json:"fits"`
+			Derived []struct {
+				Family   string  `json:"family"`
+				Quantity string  `json:"quantity"`
+				Argument float64 `json:"argument"`
+				interval
+			} `json:"derived"`
+			GOF []struct {
+				Family    string `json:"family"`
+				Statistic string `json:"statistic"`
+				Note      string `json:"note"`
+			} `json:"gof"`
 		} `json:"analyses"`
 	}
+	out := showNotes{missing: map[string]int{}, noGOF: map[string]map[string]string{}, rows: map[string]rowNote{}}
 	if json.Unmarshal(b.Files[PayloadDir+"/results/"+runner.ResultsFile], &doc) != nil {
-		return nil
+		return out
 	}
-	out := map[string][]string{}
 	for _, a := range doc.Analyses {
+		out.missing[a.Name] = a.Missing
 		for _, f := range a.Fits {
-			i := strings.Index(f.Inference, runner.NoGOFNote)
-			if i < 0 {
-				continue
+			if i := strings.Index(f.Inference, runner.NoGOFNote); i >= 0 {
+				reason, _, _ := strings.Cut(f.Inference[i+len(runner.NoGOFNote):], "; ")
+				if out.noGOF[a.Name] == nil {
+					out.noGOF[a.Name] = map[string]string{}
+				}
+				out.noGOF[a.Name][f.Family] = reason
 			}
-			reason, _, _ := strings.Cut(f.Inference[i+len(runner.NoGOFNote):], "; ")
-			if !slices.Contains(out[a.Name], reason) {
-				out[a.Name] = append(out[a.Name], reason)
+			for _, p := range f.Parameters {
+				out.rows[rowKey(a.Name, f.Family, p.Name)] = rowNote{p.Note, p.LowerOpen, p.UpperOpen}
 			}
+		}
+		for _, d := range a.Derived {
+			what := d.Quantity + " " + strconv.FormatFloat(d.Argument, 'g', -1, 64)
+			out.rows[rowKey(a.Name, d.Family, what)] = rowNote{d.Note, d.LowerOpen, d.UpperOpen}
+		}
+		for _, g := range a.GOF {
+			out.rows[rowKey(a.Name, g.Family, "gof "+g.Statistic)] = rowNote{note: g.Note}
+		}
+	}
+	return out
+}
+
+// gofReasons is the distinct reasons, in family order, why the given
+// families of an analysis have no goodness-of-fit statistic.
+func (n showNotes) gofReasons(analysis string, families []string) []string {
+	var out []string
+	for _, f := range families {
+		if r, ok := n.noGOF[analysis][f]; ok && !slices.Contains(out, r) {
+			out = append(out, r)
 		}
 	}
 	return out

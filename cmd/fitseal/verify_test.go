@@ -95,6 +95,24 @@ func TestRunVerifyInitDemo(t *testing.T) {
 			t.Errorf("show's block of %s lacks %q:\n%s", c.analysis, c.want, show)
 		}
 	}
+	// Each analysis names its data (n, censored, missing values skipped),
+	// the ranking its support labels, and rows without an interval say why.
+	for _, c := range []struct{ analysis, want string }{
+		{"seal-life", "seal-life ==\nn = 36 (18 censored)\n"},
+		{"storm-rainfall", "; 2 missing values skipped\n"},
+		{"seal-life", "weight       support "},
+		{"defects", "a quantile of a discrete family is a step function of the parameters: no profile interval"},
+	} {
+		found := false
+		for _, b := range blocks {
+			if strings.HasPrefix(b, c.analysis+" ==") {
+				found = strings.Contains(b, c.want)
+			}
+		}
+		if !found {
+			t.Errorf("show's block of %s lacks %q:\n%s", c.analysis, c.want, show)
+		}
+	}
 	// The parameter and derived rows follow the ranking, not the order the
 	// project lists the candidates in (seal-life lists weibull first; the
 	// top-ranked family's rows come first, the model average's last).
