@@ -79,7 +79,8 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 		if i < len(ar.Parameters) && row.Rank > 0 {
 			for _, pr := range ar.Parameters[i] {
 				a.Parameters = append(a.Parameters, Parameter{Family: row.Family, Name: pr.Parameter, Estimate: pr.Estimate,
-					StdError: pr.StdError, Lower: pr.CILower, Upper: pr.CIUpper, Method: pr.CIMethod, Fixed: pr.Fixed, BestFamily: row.Rank == 1})
+					StdError: pr.StdError, Lower: pr.CILower, Upper: pr.CIUpper, Method: pr.CIMethod, Fixed: pr.Fixed, BestFamily: row.Rank == 1,
+					LowerOpen: pr.LowerOpen, UpperOpen: pr.UpperOpen, Note: pr.Note})
 			}
 		}
 	}
@@ -99,7 +100,8 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 	for _, d := range ar.Derived {
 		a.Derived = append(a.Derived, Derived{Family: d.Family, Quantity: d.Quantity, Argument: d.Argument,
 			Estimate: d.Estimate, Lower: d.CILower, Upper: d.CIUpper, Method: d.CIMethod,
-			BestFamily: len(a.Ranking) > 0 && a.Ranking[0].Rank == 1 && d.Family == a.Ranking[0].Family})
+			BestFamily: len(a.Ranking) > 0 && a.Ranking[0].Rank == 1 && d.Family == a.Ranking[0].Family,
+			LowerOpen: d.LowerOpen, UpperOpen: d.UpperOpen, Note: d.Note})
 	}
 	sort.SliceStable(a.Derived, func(i, j int) bool {
 		return placeOf(a.Derived[i].Family) < placeOf(a.Derived[j].Family)

@@ -121,6 +121,10 @@ type Parameter struct {
 	Method     string // "profile", "wald", "bootstrap"
 	Fixed      bool
 	BestFamily bool // belongs to the top-ranked family
+	// LowerOpen and UpperOpen mark a side the data do not bound; Note says
+	// why a value or bound is missing or open.
+	LowerOpen, UpperOpen bool
+	Note                 string
 }
 
 // Quantities of [Derived].
@@ -143,6 +147,10 @@ type Derived struct {
 	Upper      float64
 	Method     string
 	BestFamily bool // belongs to the top-ranked family
+	// LowerOpen and UpperOpen mark a side the data do not bound; Note says
+	// why a value or bound is missing or open.
+	LowerOpen, UpperOpen bool
+	Note                 string
 }
 
 // Figure is a rendered figure for the PDF with its caption. A figure made

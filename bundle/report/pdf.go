@@ -223,6 +223,45 @@ func platform(id Identity) string {
 	return "(" + strings.Join(parts, ", ") + ")"
 }
 
+// bound writes an interval bound: "open" where the data do not bound that
+// side, "–" where none was computed.
+func bound(x float64, open bool) string {
+	if open {
+		return "open"
+	}
+	return orDash(templates.Sig(4, x))
+}
+
+// blankNotes gathers the notes of table rows with a blank or open cell,
+// each distinct note once with the rows it concerns, in first-seen order.
+type blankNotes struct {
+	order []string
+	rows  map[string][]string
+}
+
+// add records row's note when the row has a blank or open cell.
+func (b *blankNotes) add(row, note string, blank bool) {
+	if !blank || note == "" {
+		return
+	}
+	if b.rows == nil {
+		b.rows = map[string][]string{}
+	}
+	if _, ok := b.rows[note]; !ok {
+		b.order = append(b.order, note)
+	}
+	b.rows[note] = append(b.rows[note], row)
+}
+
+// lines is one line per note: "rows: note".
+func (b *blankNotes) lines() []string {
+	out := make([]string, 0, len(b.order))
+	for _, n := range b.order {
+		out = append(out, strings.Join(b.rows[n], ", ")+": "+n)
+	}
+	return out
+}
+
 func orDash(s string) string {
 	if s == "" {
 		return "–"
@@ -451,6 +490,9 @@ func (d *doc) analysis(i int) {
 	}
 	notes = append(notes, a.Notes...)
 
+	// Why a cell of the parameter or derived tables is blank or open, once
+	// per reason, with the rows it concerns.
+	var rowNotes blankNotes
 	if len(a.Parameters) > 0 {
 		d.subheading(fmt.Sprintf("Parameters (%s %% intervals)", a.Level()))
 		rows, styles := [][]string(nil), []string(nil)
@@ -460,7 +502,8 @@ func (d *doc) analysis(i int) {
 				se, method = "fixed", "fixed"
 			}
 			rows = append(rows, []string{p.Family, p.Name, templates.Sig(4, p.Estimate), orDash(se),
-				orDash(templates.Sig(4, p.Lower)), orDash(templates.Sig(4, p.Upper)), orDash(method)})
+				bound(p.Lower, p.LowerOpen), bound(p.Upper, p.UpperOpen), orDash(method)})
+			rowNotes.add(p.Family+" "+p.Name, p.Note, math.IsNaN(p.Lower) || math.IsNaN(p.Upper) || p.LowerOpen || p.UpperOpen)
 			style := ""
 			if p.BestFamily {
 				style = "B"
@@ -484,8 +527,9 @@ func (d *doc) analysis(i int) {
 			case q.BestFamily:
 				style = "B"
 			}
-			rows = append(rows, []string{fam, q.Label(), templates.Sig(4, q.Estimate),
-				orDash(templates.Sig(4, q.Lower)), orDash(templates.Sig(4, q.Upper)), orDash(q.Method)})
+			rows = append(rows, []string{fam, q.Label(), orDash(templates.Sig(4, q.Estimate)),
+				bound(q.Lower, q.LowerOpen), bound(q.Upper, q.UpperOpen), orDash(q.Method)})
+			rowNotes.add(fam+" "+q.Label(), q.Note, math.IsNaN(q.Estimate) || math.IsNaN(q.Lower) || math.IsNaN(q.Upper) || q.LowerOpen || q.UpperOpen)
 			styles = append(styles, style)
 		}
 		d.table([]column{{"family", 27, "L"}, {"quantity", 35, "L"}, {"estimate", 22, "R"}, {"lower", 22, "R"},
@@ -498,6 +542,7 @@ func (d *doc) analysis(i int) {
 		f.CellFormat(textW, 4, note, "", 1, "L", false, 0, "")
 	}
 
+	notes = append(notes, rowNotes.lines()...)
 	if len(notes) > 0 {
 		d.subheading("Notes")
 		for _, n := range notes {
