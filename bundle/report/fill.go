@@ -101,7 +101,7 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 		a.Derived = append(a.Derived, Derived{Family: d.Family, Quantity: d.Quantity, Argument: d.Argument,
 			Estimate: d.Estimate, Lower: d.CILower, Upper: d.CIUpper, Method: d.CIMethod,
 			BestFamily: len(a.Ranking) > 0 && a.Ranking[0].Rank == 1 && d.Family == a.Ranking[0].Family,
-			LowerOpen: d.LowerOpen, UpperOpen: d.UpperOpen, Note: d.Note})
+			LowerOpen:  d.LowerOpen, UpperOpen: d.UpperOpen, Note: d.Note})
 	}
 	sort.SliceStable(a.Derived, func(i, j int) bool {
 		return placeOf(a.Derived[i].Family) < placeOf(a.Derived[j].Family)
