@@ -433,7 +433,16 @@ func (d *doc) analysis(i int) {
 	if a.Discrete {
 		kind = "counts"
 	}
-	f.MultiCell(textW, 4.4, fmt.Sprintf("Dataset %s; units: %s; data: %s. Censored values count at their recorded value in min, median and max.", a.Dataset, units, kind), "", "L", false)
+	var counted string
+	switch {
+	case s.IntervalCensored > 0 && s.LeftCensored+s.RightCensored > 0:
+		counted = " Min, median and max are over the recorded values: non-detect limits, suspensions and both finite bounds of each interval."
+	case s.IntervalCensored > 0:
+		counted = " Min, median and max are over the finite bounds of the intervals (and the exact values)."
+	case s.LeftCensored+s.RightCensored > 0:
+		counted = " Non-detects and suspensions count at their recorded limits in min, median and max."
+	}
+	f.MultiCell(textW, 4.4, fmt.Sprintf("Dataset %s; units: %s; data: %s.%s", a.Dataset, units, kind, counted), "", "L", false)
 
 	crit := a.CriterionName()
 	d.subheading("Ranking by " + crit)

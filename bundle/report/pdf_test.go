@@ -267,3 +267,34 @@ func TestRenderPDFWithoutCreatedTime(t *testing.T) {
 		t.Error("without a created time the PDF must carry the epoch, not the clock")
 	}
 }
+
+// TestDataSummarySentence: the sentence under the data summary explains
+// what min, median and max are taken over only where the data are
+// censored: nothing for complete data (counts included), the recorded
+// limits for non-detects and suspensions, the finite bounds for intervals.
+func TestDataSummarySentence(t *testing.T) {
+	for _, c := range []struct {
+		name    string
+		summary DataSummary
+		want    string
+		not     string
+	}{
+		{"complete", DataSummary{N: 5, Exact: 5}, "data: continuous.", "Min, median"},
+		{"suspensions", DataSummary{N: 5, Exact: 3, RightCensored: 2}, "Non-detects and suspensions count at their recorded limits", "intervals"},
+		{"intervals", DataSummary{N: 5, IntervalCensored: 5}, "finite bounds of the intervals", "suspensions"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			r := &Report{Name: "p", Analyses: []Analysis{{Name: "a", Dataset: "a", Summary: c.summary}}}
+			pdf, err := RenderPDF(r, PDFOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			text := strings.Join(strings.Fields(pdftotext(t, pdf)), " ")
+			_, text, _ = strings.Cut(text, "Dataset a;") // the analysis's data sentence
+			text, _, _ = strings.Cut(text, "Ranking")
+			if !strings.Contains(text, c.want) || strings.Contains(text, c.not) {
+				t.Errorf("the data sentence: want %q and not %q in:\n%s", c.want, c.not, text)
+			}
+		})
+	}
+}
