@@ -118,16 +118,12 @@ func WriteShow(out io.Writer, b *Bag) error {
 	fmt.Fprintf(w, "bundle %s\n", b.Name)
 	if rec, err := ParseRunRecord(b.RunJSON()); err == nil {
 		fmt.Fprintf(w, "created %s by fitseal %s (%s)\n", rec.Created.UTC().Format("2006-01-02T15:04:05Z"), rec.Tool.Version, rec.Tool.Platform())
-		if rec.Git.Repository {
-			dirty := ""
-			if rec.Git.Dirty {
-				dirty = ", uncommitted changes"
-			}
-			fmt.Fprintf(w, "git %s on %s%s\n", orNone(rec.Git.Commit), orNone(rec.Git.Branch), dirty)
-		} else {
-			fmt.Fprintf(w, "git: %s\n", orNone(rec.Git.Note))
-		}
+		fmt.Fprintln(w, gitLine(rec.Git))
 		fmt.Fprintf(w, "signer %s; seed %d\n", rec.Signer.Fingerprint, rec.MasterSeed)
+		if sh := rec.Shard; sh != nil {
+			fmt.Fprintf(w, "PARTIAL BUNDLE: shard %d of %d (%d of the plan's %d analyses); 'fitseal merge' joins the shards into the whole\n",
+				sh.Index, sh.Count, len(sh.Analyses), sh.PlanAnalyses)
+		}
 	}
 	var order []string
 	seen := map[string]bool{}
@@ -161,6 +157,9 @@ func WriteShow(out io.Writer, b *Bag) error {
 			fmt.Fprintln(w, line)
 		}
 		fmt.Fprintf(w, "\nranking by %s\n", criterionName(crit))
+		if n := notes.analysis[a]; n != "" {
+			fmt.Fprintln(w, n) // why the criterion differs from the one asked for, …
+		}
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 		fmt.Fprintln(tw, "rank\tfamily\tn\tk\tloglik\t"+crit+"\tdelta\tweight\tsupport\tconverged\tnote")
 		for _, r := range ranked {
@@ -241,6 +240,25 @@ func WriteShow(out io.Writer, b *Bag) error {
 	return w.Flush()
 }
 
+// gitLine is show's line on the git state: the commit and branch, whether
+// the working tree had uncommitted changes, and the inputs' own state, which
+// the tree's does not tell (a tree with an untracked scratch file is dirty
+// while every input is committed as used).
+func gitLine(g GitInfo) string {
+	if !g.Repository {
+		return "git: " + orNone(g.Note)
+	}
+	dirty := ""
+	if g.Dirty {
+		dirty = ", uncommitted changes in the working tree"
+	}
+	inputs := "; every input committed as used"
+	if u := g.Uncommitted(); len(u) > 0 {
+		inputs = "; inputs not committed as used: " + strings.Join(u, ", ")
+	}
+	return fmt.Sprintf("git %s on %s%s%s", orNone(g.Commit), orNone(g.Branch), dirty, inputs)
+}
+
 // showNotes is what show takes from results.json beside the CSV files:
 // each analysis's count of missing values, each fit's reason for having no
 // goodness-of-fit statistic (after runner.NoGOFNote in its inference note),
@@ -248,9 +266,10 @@ func WriteShow(out io.Writer, b *Bag) error {
 // goodness-of-fit rows, which the CSV files do not carry. Empty when results.json cannot be read; show then
 // prints the CSV files' contents alone.
 type showNotes struct {
-	missing map[string]int               // by analysis
-	noGOF   map[string]map[string]string // analysis → family → reason
-	rows    map[string]rowNote           // by rowKey
+	missing  map[string]int               // by analysis
+	analysis map[string]string            // the analysis's own note, by analysis
+	noGOF    map[string]map[string]string // analysis → family → reason
+	rows     map[string]rowNote           // by rowKey
 }
 
 // rowNote is a parameter or derived row's note and open interval ends.
@@ -283,6 +302,7 @@ func readShowNotes(b *Bag) showNotes {
 		Analyses []struct {
 			Name    string `json:"name"`
 			Missing int    `json:"missing"`
+			Note    string `json:"note"`
 			Fits    []struct {
 				Family     string `json:"family"`
 				Inference  string `json:"inference_note"`
@@ -304,12 +324,13 @@ func readShowNotes(b *Bag) showNotes {
 			} `json:"gof"`
 		} `json:"analyses"`
 	}
-	out := showNotes{missing: map[string]int{}, noGOF: map[string]map[string]string{}, rows: map[string]rowNote{}}
+	out := showNotes{missing: map[string]int{}, analysis: map[string]string{}, noGOF: map[string]map[string]string{}, rows: map[string]rowNote{}}
 	if json.Unmarshal(b.Files[PayloadDir+"/results/"+runner.ResultsFile], &doc) != nil {
 		return out
 	}
 	for _, a := range doc.Analyses {
 		out.missing[a.Name] = a.Missing
+		out.analysis[a.Name] = a.Note
 		for _, f := range a.Fits {
 			if i := strings.Index(f.Inference, runner.NoGOFNote); i >= 0 {
 				reason, _, _ := strings.Cut(f.Inference[i+len(runner.NoGOFNote):], "; ")

@@ -23,3 +23,27 @@ func TestShowInterval(t *testing.T) {
 		}
 	}
 }
+
+// TestShowGitLine: show names the inputs' own git state beside the tree's,
+// so a tree made dirty by an untracked scratch file does not hide that
+// every input was committed as used (or does not pass for clean when one
+// was not).
+func TestShowGitLine(t *testing.T) {
+	committed := []GitFile{{Path: "fitseal.toml", State: GitCommitted}, {Path: "data/x.csv", State: GitCommitted}}
+	for _, c := range []struct {
+		g    GitInfo
+		want string
+	}{
+		{GitInfo{Note: "no git repository holds the project file"}, "git: no git repository holds the project file"},
+		{GitInfo{Repository: true, Commit: "abc", Branch: "main", Files: committed}, "git abc on main; every input committed as used"},
+		{GitInfo{Repository: true, Commit: "abc", Branch: "main", Dirty: true, Files: committed},
+			"git abc on main, uncommitted changes in the working tree; every input committed as used"},
+		{GitInfo{Repository: true, Commit: "abc", Branch: "main", Dirty: true,
+			Files: []GitFile{{Path: "fitseal.toml", State: GitCommitted}, {Path: "data/x.csv", State: GitModified}}},
+			"git abc on main, uncommitted changes in the working tree; inputs not committed as used: data/x.csv (modified)"},
+	} {
+		if got := gitLine(c.g); got != c.want {
+			t.Errorf("gitLine(%+v) =\n %q, want\n %q", c.g, got, c.want)
+		}
+	}
+}
