@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"fmt"
 	"context"
 	"math"
 	"os"
@@ -279,5 +280,62 @@ func TestDerivedFollowTheRanking(t *testing.T) {
 	}
 	if checked == 0 {
 		t.Fatal("no analysis with derived quantities in the demo")
+	}
+}
+
+// TestExcessQuantitiesAreConditional: gpd models the excesses over its fixed
+// threshold u, so its exceedance probability is P(X > t | X > u) and its
+// quantiles are of the values above u; the tables say so in the label, and
+// the derived row's note says how to make the probability unconditional.
+// Invented data: 40 values above 30.
+func TestExcessQuantitiesAreConditional(t *testing.T) {
+	dir := t.TempDir()
+	var b strings.Builder
+	b.WriteString("x\n")
+	for i := range 40 {
+		fmt.Fprintf(&b, "%g\n", 30+8*math.Pow(-math.Log(1-(float64(i)+0.5)/40), 1.2))
+	}
+	proj := `name = "excess"
+[settings]
+bootstrap = 0
+intervals = "wald"
+[[dataset]]
+name = "d"
+file = "d.csv"
+column = "x"
+[[candidates]]
+name = "c"
+families = ["gpd", "weibull3"]
+fixed = { gpd = { threshold = 30.0 }, weibull3 = { threshold = 30.0 } }
+[[analysis]]
+dataset = "d"
+candidates = "c"
+quantiles = [0.9]
+thresholds = [50.0]
+`
+	os.WriteFile(filepath.Join(dir, "d.csv"), []byte(b.String()), 0o644)
+	os.WriteFile(filepath.Join(dir, "fitseal.toml"), []byte(proj), 0o644)
+	p, err := runner.Load(filepath.Join(dir, "fitseal.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := runner.Run(context.Background(), p, runner.RunOptions{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, d := range res.Analyses[0].Derived {
+		if conditional := strings.Contains(d.Note, "of X given X > 30"); conditional != (d.Family == "gpd") {
+			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
+		}
+	}
+	r := FromResults(res, Identity{Created: testCreated, ToolVersion: "test", TagManifestSHA256: strings.Repeat("0", 64)})
+	labels := map[string]bool{}
+	for _, d := range r.Analyses[0].Derived {
+		labels[d.Family+": "+d.Label()] = true
+	}
+	for _, want := range []string{"gpd: P(X > 50 | X > 30)", "gpd: quantile 0.9 (X > 30)", "weibull3: P(X > 50)", "weibull3: quantile 0.9"} {
+		if !labels[want] {
+			t.Errorf("no derived row labelled %q among %v", want, labels)
+		}
 	}
 }

@@ -97,8 +97,17 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 		}
 		return len(place)
 	}
+	// gpd models the excesses over its fixed threshold: its quantities are
+	// conditional on exceeding it.
+	given := map[string]*float64{}
+	for _, p := range a.Parameters {
+		if p.Family == "gpd" && p.Name == "threshold" && p.Fixed {
+			u := p.Estimate
+			given[p.Family] = &u
+		}
+	}
 	for _, d := range ar.Derived {
-		a.Derived = append(a.Derived, Derived{Family: d.Family, Quantity: d.Quantity, Argument: d.Argument,
+		a.Derived = append(a.Derived, Derived{Given: given[d.Family], Family: d.Family, Quantity: d.Quantity, Argument: d.Argument,
 			Estimate: d.Estimate, Lower: d.CILower, Upper: d.CIUpper, Method: d.CIMethod,
 			BestFamily: len(a.Ranking) > 0 && a.Ranking[0].Rank == 1 && d.Family == a.Ranking[0].Family,
 			LowerOpen:  d.LowerOpen, UpperOpen: d.UpperOpen, Note: d.Note})

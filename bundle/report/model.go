@@ -151,6 +151,9 @@ type Derived struct {
 	// why a value or bound is missing or open.
 	LowerOpen, UpperOpen bool
 	Note                 string
+	// Given is the threshold u of a family that models the excesses over
+	// it (gpd): its quantities are of X given X > u. Nil otherwise.
+	Given *float64
 }
 
 // Figure is a rendered figure for the PDF with its caption. A figure made
@@ -306,26 +309,40 @@ func (a Analysis) Best() string {
 // Label describes a derived quantity in plain text:
 // "quantile 0.1", "return level 100 yr", "P(X > 4000)".
 func (d Derived) Label() string {
+	given := ""
+	if d.Given != nil {
+		given = " | X > " + g(*d.Given)
+	}
 	switch d.Quantity {
 	case Quantile:
+		if given != "" {
+			return "quantile " + g(d.Argument) + " (X > " + g(*d.Given) + ")"
+		}
 		return "quantile " + g(d.Argument)
 	case ReturnLevel:
 		return "return level " + g(d.Argument) + " yr"
 	case Exceedance:
-		return "P(X > " + g(d.Argument) + ")"
+		return "P(X > " + g(d.Argument) + given + ")"
 	}
 	return d.Quantity + " " + g(d.Argument)
 }
 
 // TeXLabel describes a derived quantity for LaTeX.
 func (d Derived) TeXLabel() string {
+	given := ""
+	if d.Given != nil {
+		given = ` \mid X > ` + g(*d.Given)
+	}
 	switch d.Quantity {
 	case Quantile:
+		if given != "" {
+			return `quantile $p = ` + g(d.Argument) + `$ ($X > ` + g(*d.Given) + `$)`
+		}
 		return `quantile $p = ` + g(d.Argument) + `$`
 	case ReturnLevel:
 		return `return level $T = ` + g(d.Argument) + `$\,yr`
 	case Exceedance:
-		return `$P(X > ` + g(d.Argument) + `)$`
+		return `$P(X > ` + g(d.Argument) + given + `)$`
 	}
 	return templates.TeXEscape(d.Quantity) + " " + g(d.Argument)
 }

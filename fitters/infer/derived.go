@@ -129,6 +129,28 @@ func quantityScale(fam fitters.Family, fit *fitters.Fit, q Quantity, est float64
 // so it has no delta-method standard error and gets bootstrap percentile
 // intervals only.
 func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, arg float64, method Method, s Settings) (DerivedValue, error) {
+	v, err := derived(fam, fit, d, q, arg, method, s)
+	if u, ok := excessThreshold(fam, fit); ok && err == nil && !math.IsNaN(v.Estimate) {
+		v.Note = fitters.JoinNote(v.Note, fmt.Sprintf("of X given X > %v: %s models the excesses over its threshold %v, so for the chance of exceeding a value unconditionally multiply by the chance of exceeding %v", u, fam.Name(), u, u))
+	}
+	return v, err
+}
+
+// excessThreshold is the threshold u whose excesses fam models (gpd:
+// X − u given X > u), so that its quantities are conditional on X > u.
+func excessThreshold(fam fitters.Family, fit *fitters.Fit) (float64, bool) {
+	if fam.Name() != "gpd" {
+		return 0, false
+	}
+	for i, name := range fit.Parameters {
+		if name == "threshold" {
+			return fit.Estimates[i], true
+		}
+	}
+	return 0, false
+}
+
+func derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, arg float64, method Method, s Settings) (DerivedValue, error) {
 	level, err := s.level()
 	if err != nil {
 		return DerivedValue{}, err
