@@ -2,8 +2,8 @@ package report
 
 import (
 	"bytes"
-	"fmt"
 	"context"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
