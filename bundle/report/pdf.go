@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sort"
 	"strconv"
 	"strings"
 	"time"
@@ -179,7 +180,7 @@ func (d *doc) cover() {
 		{"Git commit", git, id.GitCommit != ""},
 		{"Tool", strings.TrimSpace("fitseal " + id.ToolVersion + " " + platform(id)), false},
 		{"Master seed", strconv.FormatUint(s.Seed, 10), true},
-		{"Criterion", CriterionName(s.Criterion), false},
+		{"Criterion", coverCriterion(s.Criterion, r.Analyses), false},
 		{"Interval level", templates.Percent(s.Confidence) + " %", false},
 		{"Parameter intervals", orDash(s.Intervals), false},
 		{"Bootstrap", bootstrap, false},
@@ -221,6 +222,35 @@ func platform(id Identity) string {
 		return ""
 	}
 	return "(" + strings.Join(parts, ", ") + ")"
+}
+
+// coverCriterion is the cover's criterion line: the project's, and where
+// analyses ranked by another (an override, or AIC where AICc is undefined)
+// how many did, e.g. "AICc (project setting); BIC in 3 of 5 analyses".
+func coverCriterion(project string, analyses []Analysis) string {
+	counts := map[string]int{}
+	var others []string
+	for _, a := range analyses {
+		if a.Criterion != "" && a.Criterion != project {
+			if counts[a.Criterion] == 0 {
+				others = append(others, a.Criterion)
+			}
+			counts[a.Criterion]++
+		}
+	}
+	if len(others) == 0 {
+		return CriterionName(project)
+	}
+	sort.Strings(others)
+	out := CriterionName(project) + " (project setting)"
+	for _, c := range others {
+		word := "analyses"
+		if len(analyses) == 1 {
+			word = "analysis"
+		}
+		out += fmt.Sprintf("; %s in %d of %d %s", CriterionName(c), counts[c], len(analyses), word)
+	}
+	return out
 }
 
 // bound writes an interval bound: "open" where the data do not bound that

@@ -298,3 +298,31 @@ func TestDataSummarySentence(t *testing.T) {
 		})
 	}
 }
+
+// TestCoverCriterion: the cover names the project's criterion, and how many
+// analyses ranked by another (an analysis's override, or AIC where AICc is
+// undefined), so a cover reading "AICc" never hides that every analysis
+// used BIC.
+func TestCoverCriterion(t *testing.T) {
+	an := func(crits ...string) []Analysis {
+		var out []Analysis
+		for _, c := range crits {
+			out = append(out, Analysis{Criterion: c})
+		}
+		return out
+	}
+	for _, c := range []struct {
+		project  string
+		analyses []Analysis
+		want     string
+	}{
+		{"aicc", an("aicc", "aicc"), "AICc"},
+		{"aicc", an("bic", "bic"), "AICc (project setting); BIC in 2 of 2 analyses"},
+		{"aicc", an("aicc", "aic", "bic", "bic"), "AICc (project setting); AIC in 1 of 4 analyses; BIC in 2 of 4 analyses"},
+		{"bic", an("aic"), "BIC (project setting); AIC in 1 of 1 analysis"},
+	} {
+		if got := coverCriterion(c.project, c.analyses); got != c.want {
+			t.Errorf("coverCriterion(%q, …) = %q, want %q", c.project, got, c.want)
+		}
+	}
+}
