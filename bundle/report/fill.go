@@ -107,7 +107,7 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 		}
 	}
 	for _, d := range ar.Derived {
-		a.Derived = append(a.Derived, Derived{Given: given[d.Family], Family: d.Family, Quantity: d.Quantity, Argument: d.Argument,
+		a.Derived = append(a.Derived, Derived{Given: given[d.Family], Count: a.Discrete, Family: d.Family, Quantity: d.Quantity, Argument: d.Argument,
 			Estimate: d.Estimate, Lower: d.CILower, Upper: d.CIUpper, Method: d.CIMethod,
 			BestFamily: len(a.Ranking) > 0 && a.Ranking[0].Rank == 1 && d.Family == a.Ranking[0].Family,
 			LowerOpen:  d.LowerOpen, UpperOpen: d.UpperOpen, Note: d.Note})

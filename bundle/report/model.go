@@ -154,6 +154,18 @@ type Derived struct {
 	// Given is the threshold u of a family that models the excesses over
 	// it (gpd): its quantities are of X given X > u. Nil otherwise.
 	Given *float64
+	// Count is true for a count family's row: its quantiles are whole.
+	Count bool
+}
+
+// EstimateText is the estimate as the tables print it: a count family's
+// quantile or return level as the whole number it is, else to four
+// significant digits.
+func (d Derived) EstimateText() string {
+	if d.Count && d.Quantity != Exceedance && d.Estimate == math.Trunc(d.Estimate) && math.Abs(d.Estimate) < 1e15 {
+		return strconv.FormatFloat(d.Estimate, 'f', 0, 64)
+	}
+	return templates.Sig(4, d.Estimate)
 }
 
 // Figure is a rendered figure for the PDF with its caption. A figure made

@@ -566,7 +566,7 @@ func (d *doc) analysis(i int) {
 			case q.BestFamily:
 				style = "B"
 			}
-			rows = append(rows, []string{fam, q.Label(), orDash(templates.Sig(4, q.Estimate)),
+			rows = append(rows, []string{fam, q.Label(), orDash(q.EstimateText()),
 				bound(q.Lower, q.LowerOpen), bound(q.Upper, q.UpperOpen), orDash(q.Method)})
 			rowNotes.add(fam+" "+q.Label(), q.Note, math.IsNaN(q.Estimate) || math.IsNaN(q.Lower) || math.IsNaN(q.Upper) || q.LowerOpen || q.UpperOpen)
 			styles = append(styles, style)

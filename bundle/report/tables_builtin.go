@@ -30,8 +30,8 @@ var builtinTables = map[string]builtinTable{
 	"ranking.tex.tmpl":    {"b36940ec0a1067388fe484ab0ce02003b83b55466e1a6938326c55e36b0cf819", rankingTeX},
 	"parameters.md.tmpl":  {"248f84a68b6696ebde2c378a1fdb8f52ffb631d4b061ff340cc813d5d474bd0f", parametersMD},
 	"parameters.tex.tmpl": {"3e6c6c1c9754f0c545883941970e89a6b98e5d4acf0e7a43ef43fdd040d19fc6", parametersTeX},
-	"derived.md.tmpl":     {"95545ae57f9d3ff0e58e3beac4da0521a48f1c5e8c57fcd11ebf3348beb61a50", derivedMD},
-	"derived.tex.tmpl":    {"1da9356f00043a082b7b71aa13d18dde7081bc4c51421383976e02f15436a29c", derivedTeX},
+	"derived.md.tmpl":     {"39d8493836d881bb04301510a06649823bf6a166a27508df14002c30d286590b", derivedMD},
+	"derived.tex.tmpl":    {"8d097c99fe413db4e707d57aaf6fbeefdb2a32e35d4a729c9a08a98fe4390994", derivedTeX},
 }
 
 // builtinFor returns the Go rendering of t, or nil when t's text is not a
@@ -302,7 +302,7 @@ func derivedMD(b []byte, a *Analysis, _ string) []byte {
 		}
 		b = append(b, " | "...)
 		b = append(md(b, d.Label()), " | "...)
-		b = append(md(b, templates.Sig(4, d.Estimate)), " | "...)
+		b = append(md(b, d.EstimateText()), " | "...)
 		b = append(md(b, templates.Sig(4, d.Lower)), " | "...)
 		b = append(md(b, templates.Sig(4, d.Upper)), " | "...)
 		b = append(md(b, d.Method), " |\n"...)
@@ -335,7 +335,7 @@ func derivedTeX(b []byte, a *Analysis, slug string) []byte {
 		}
 		b = append(b, " & "...)
 		b = append(append(b, d.TeXLabel()...), " & "...)
-		b = append(num(b, templates.Sig(4, d.Estimate)), " & "...)
+		b = append(num(b, d.EstimateText()), " & "...)
 		b = append(num(b, templates.Sig(4, d.Lower)), " & "...)
 		b = append(num(b, templates.Sig(4, d.Upper)), " & "...)
 		b = append(append(b, keyOf(notes, d.Method)...), ` \\`...)

@@ -126,8 +126,17 @@ func randomAnalysis(r *rand.Rand) Analysis {
 		if r.IntN(3) == 0 {
 			fam = ModelAverage
 		}
-		a.Derived = append(a.Derived, Derived{Family: fam, Quantity: pick(r, []string{Quantile, ReturnLevel, Exceedance, "other_$"}),
-			Argument: randomFloat(r), Estimate: randomFloat(r), Lower: randomFloat(r), Upper: randomFloat(r), Method: pick(r, methods)})
+		d := Derived{Family: fam, Quantity: pick(r, []string{Quantile, ReturnLevel, Exceedance, "other_$"}),
+			Argument: randomFloat(r), Estimate: randomFloat(r), Lower: randomFloat(r), Upper: randomFloat(r), Method: pick(r, methods),
+			Count: r.IntN(2) == 0}
+		if d.Count && r.IntN(2) == 0 {
+			d.Estimate = float64(r.IntN(40)) // a count family's whole quantile
+		}
+		if r.IntN(4) == 0 {
+			u := randomFloat(r)
+			d.Given = &u // conditional on exceeding a threshold (gpd)
+		}
+		a.Derived = append(a.Derived, d)
 	}
 	return a
 }
@@ -167,5 +176,26 @@ func BenchmarkRenderTables(b *testing.B) {
 				}
 			}
 		})
+	}
+}
+
+// TestDerivedEstimateText: a count family's quantile or return level is the
+// whole number it is ("3", not "3.000"); probabilities and continuous
+// families keep four significant digits; no estimate prints as "".
+func TestDerivedEstimateText(t *testing.T) {
+	for _, c := range []struct {
+		d    Derived
+		want string
+	}{
+		{Derived{Count: true, Quantity: Quantile, Estimate: 3}, "3"},
+		{Derived{Count: true, Quantity: ReturnLevel, Estimate: 12}, "12"},
+		{Derived{Count: true, Quantity: Exceedance, Estimate: 0.25}, "0.2500"},
+		{Derived{Quantity: Quantile, Estimate: 3}, "3.000"},
+		{Derived{Count: true, Quantity: Quantile, Estimate: math.NaN()}, ""},
+		{Derived{Count: true, Family: ModelAverage, Quantity: Quantile, Estimate: 2.75}, "2.750"},
+	} {
+		if got := c.d.EstimateText(); got != c.want {
+			t.Errorf("%+v: EstimateText() = %q, want %q", c.d, got, c.want)
+		}
 	}
 }
