@@ -142,7 +142,19 @@ func adequacy(rows []runner.GOFRow, family string) (string, float64) {
 
 func summarise(d *fitters.Data, missing int) DataSummary {
 	s := DataSummary{N: d.N(), Exact: len(d.Exact), LeftCensored: len(d.Left), RightCensored: len(d.Right),
-		IntervalCensored: len(d.Lower), Missing: missing, Min: math.NaN(), Median: math.NaN(), Max: math.NaN()}
+		Missing: missing, Min: math.NaN(), Median: math.NaN(), Max: math.NaN()}
+	// An interval open at one end is a non-detect (−∞, u] or a suspension
+	// (l, +∞), and is counted as one.
+	for i, l := range d.Lower {
+		switch u := d.Upper[i]; {
+		case math.IsInf(l, -1) && !math.IsInf(u, 1):
+			s.LeftCensored++
+		case math.IsInf(u, 1) && !math.IsInf(l, -1):
+			s.RightCensored++
+		default:
+			s.IntervalCensored++
+		}
+	}
 	var v []float64
 	if d.IsComplete() {
 		// The view the goodness-of-fit statistics already sorted.

@@ -3,6 +3,7 @@ package report
 import (
 	"bytes"
 	"fmt"
+	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -12,6 +13,8 @@ import (
 	"sync"
 	"testing"
 	"time"
+
+	"fitseal/fitters"
 )
 
 // figuresOf renders an input's figures for embedding.
@@ -324,5 +327,16 @@ func TestCoverCriterion(t *testing.T) {
 		if got := coverCriterion(c.project, c.analyses); got != c.want {
 			t.Errorf("coverCriterion(%q, …) = %q, want %q", c.project, got, c.want)
 		}
+	}
+}
+
+// TestSummariseOpenIntervals: an interval open at one end is counted as the
+// non-detect (−∞, u] or suspension (l, +∞) it is, not as interval-censored.
+func TestSummariseOpenIntervals(t *testing.T) {
+	inf := math.Inf(1)
+	d := &fitters.Data{Exact: []float64{2}, Lower: []float64{-inf, 1, 3, -inf}, Upper: []float64{1.5, inf, 4, inf}}
+	s := summarise(d, 0)
+	if s.N != 5 || s.Exact != 1 || s.LeftCensored != 1 || s.RightCensored != 1 || s.IntervalCensored != 2 {
+		t.Errorf("summary %+v: want n 5, exact 1, left 1, right 1, interval 2 (one bounded, one open both ways)", s)
 	}
 }
