@@ -135,6 +135,9 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 	}
 	dist, err := fam.New(fit.Estimates)
 	if err != nil {
+		if limit := limitParameter(fit); limit != "" {
+			return nil, fmt.Errorf("%w: %s, the optimum is the limiting family, which this family cannot simulate", ErrBootstrapNotApplicable, limit)
+		}
 		return nil, fmt.Errorf("%s: %w", fam.Name(), err)
 	}
 	if err := bootstrapApplicable(d, dist); err != nil {

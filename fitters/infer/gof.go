@@ -107,6 +107,11 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 	}
 	dist, err := fam.New(fit.Estimates)
 	if err != nil {
+		if limit := limitParameter(fit); limit != "" {
+			// The optimum is the limiting family (betabinomial's binomial),
+			// whose own row, when it is a candidate, has the statistic.
+			return &GoodnessOfFit{Reason: limit + ": the optimum is the limiting family, judged by that family's own row"}, nil
+		}
 		return nil, fmt.Errorf("%s: %w", fam.Name(), err)
 	}
 	x := d.SortedExact() // sorted once for every family fitted to d

@@ -356,3 +356,27 @@ func TestUninformativeChiSquareHasNoPValue(t *testing.T) {
 		t.Errorf("chi-square %+v: want uninformative, no p-value, and the note saying so", s)
 	}
 }
+
+// TestLimitFitHasNoStatisticButAReason: betabinomial fitted to counts that
+// are not overdispersed reaches its binomial limit (alpha, beta = +Inf); the
+// goodness of fit and the bootstrap then say so instead of failing on the
+// infinite parameters (which took the fit's intervals down with them).
+func TestLimitFitHasNoStatisticButAReason(t *testing.T) {
+	fam, _ := fitters.Lookup("betabinomial")
+	d := &fitters.Data{Exact: []float64{5, 5, 4, 5, 6, 5}, Trials: []int{50, 50, 50, 50, 50, 50}}
+	fit, err := fam.Fit(d, fitters.Options{})
+	if err != nil || !fit.Converged || !math.IsInf(fit.Estimates[0], 1) {
+		t.Fatalf("want the converged binomial limit, got %v %+v", err, fit)
+	}
+	g, err := CheckFit(fam, fit, d, BootstrapOptions{Replicates: 19, Stream: Stream{Master: 1, Analysis: "a", Family: "betabinomial"}})
+	if err != nil {
+		t.Fatalf("goodness of fit failed on the limit: %v", err)
+	}
+	if g.Applicable || !strings.Contains(g.Reason, "alpha = +Inf: the optimum is the limiting family") || strings.Contains(g.Reason, "; ") {
+		t.Errorf("goodness of fit %+v: want none, with the limit as its reason (one clause)", g)
+	}
+	_, err = Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 19, Stream: Stream{Master: 1, Analysis: "a", Family: "betabinomial"}})
+	if !errors.Is(err, ErrBootstrapNotApplicable) {
+		t.Errorf("bootstrap of the limit: %v, want ErrBootstrapNotApplicable", err)
+	}
+}

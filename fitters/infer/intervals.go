@@ -276,9 +276,18 @@ func methodLabel(m Method) string {
 // family: negbinomial size → ∞ is the Poisson), that Wald and profile
 // intervals are not computed; "" otherwise.
 func atLimit(fit *fitters.Fit) string {
+	if p := limitParameter(fit); p != "" {
+		return p + ": the optimum is the limiting family, so the likelihood has no curvature or profile to give an interval from"
+	}
+	return ""
+}
+
+// limitParameter is "name = ±Inf" for the first free parameter whose
+// estimate is infinite (the fit reached a limiting family), or "".
+func limitParameter(fit *fitters.Fit) string {
 	for _, i := range freeIndices(fit) {
 		if math.IsInf(fit.Estimates[i], 0) {
-			return fmt.Sprintf("%s = %v: the optimum is the limiting family, so the likelihood has no curvature or profile to give an interval from", fit.Parameters[i], fit.Estimates[i])
+			return fmt.Sprintf("%s = %v", fit.Parameters[i], fit.Estimates[i])
 		}
 	}
 	return ""
