@@ -307,3 +307,21 @@ func (f betaBinomialFamily) Fit(d *Data, opt Options) (*Fit, error) {
 	fit.LogLik = f.LogLik(fit.Estimates, d)
 	return fit, nil
 }
+
+// LimitDist returns the distribution a converged fit reached at its
+// limiting family when fam.New cannot take its infinite estimates:
+// betabinomial's α = β = +Inf is the binomial with the pooled proportion
+// p̂ = Σk/Σn of d, the data it was fitted to (the limit's maximum). Other
+// families take their limits in New (negbinomial's size → ∞ is the
+// Poisson, studentt's df → ∞ the normal); ok is false for them.
+func LimitDist(fam Family, fit *Fit, d *Data) (Dist, bool) {
+	if fam.Name() != "betabinomial" || !fit.Converged || len(fit.Estimates) != 2 ||
+		!math.IsInf(fit.Estimates[0], 1) || !math.IsInf(fit.Estimates[1], 1) {
+		return nil, false
+	}
+	sx, sn := pooledSuccesses(d)
+	if !(sn > 0) {
+		return nil, false
+	}
+	return Binomial{P: sx / sn}, true
+}

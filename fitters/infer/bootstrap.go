@@ -229,8 +229,15 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			}
 			rd, err := member.New(refit.Estimates) // fam.New's model, in place
 			if err != nil {
-				reasons[r] = err.Error()
-				continue
+				// A refit at its limiting family (a betabinomial replicate
+				// that is not overdispersed) is a valid refit: its statistic
+				// is the limit's. Leaving it out would bias the p-value.
+				if lim, ok := fitters.LimitDist(fam, refit, sim); ok && !opt.Information {
+					rd = lim
+				} else {
+					reasons[r] = err.Error()
+					continue
+				}
 			}
 			row := est[r*k : (r+1)*k]
 			copy(row, refit.Estimates)

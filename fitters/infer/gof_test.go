@@ -380,3 +380,30 @@ func TestLimitFitHasNoStatisticButAReason(t *testing.T) {
 		t.Errorf("bootstrap of the limit: %v, want ErrBootstrapNotApplicable", err)
 	}
 }
+
+// TestLimitReplicatesCount: betabinomial fitted to mildly overdispersed
+// counts; many of its bootstrap replicates are not overdispersed, and
+// their refits reach the binomial limit. Those are valid refits whose
+// statistic is the limit's: none may be left out as failed (which would
+// bias the p-value toward the replicates that happen to be overdispersed).
+func TestLimitReplicatesCount(t *testing.T) {
+	fam, _ := fitters.Lookup("betabinomial")
+	d := &fitters.Data{Exact: []float64{3, 9, 2, 0, 7, 4, 1, 6, 12, 5, 2, 8}, Trials: []int{50, 50, 50, 50, 50, 50, 50, 50, 50, 50, 50, 50}}
+	fit, err := fam.Fit(d, fitters.Options{})
+	if err != nil || !fit.Converged || math.IsInf(fit.Estimates[0], 0) {
+		t.Fatalf("want an interior fit, got %v %+v", err, fit)
+	}
+	rep, err := Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 99, Stream: Stream{Master: 7, Analysis: "a", Family: "betabinomial"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	limits := 0
+	for _, e := range rep.Estimates {
+		if e != nil && math.IsInf(e[0], 1) {
+			limits++
+		}
+	}
+	if rep.Failed != 0 || limits == 0 {
+		t.Errorf("%d of %d replicates failed (%s), %d reached the limit: want none failed and some at the limit", rep.Failed, rep.Requested, rep.FirstFailure, limits)
+	}
+}
