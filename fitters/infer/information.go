@@ -109,7 +109,11 @@ func observedInformation(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, 
 		info.Method = numericMethod
 	}
 	info.Hessian = h
-	cov, err := invertInformation(h)
+	theta := make([]float64, k)
+	for i, fi := range free {
+		theta[i] = fit.Estimates[fi]
+	}
+	cov, err := invertInformation(h, theta)
 	if err != nil {
 		return info, err
 	}
@@ -173,11 +177,21 @@ func numericHessian(h *mat.SymDense, fam fitters.Family, est []float64, free []i
 	}
 }
 
-// invertInformation inverts a positive-definite information matrix by
-// Cholesky factorisation and otherwise says why it cannot: not finite,
-// singular (smallest eigenvalue ≤ 1e-12 of the largest in magnitude) or
-// indefinite (a clearly negative eigenvalue: the point is not a maximum).
-func invertInformation(h *mat.SymDense) (*mat.SymDense, error) {
+// invertInformation inverts a positive-definite information matrix h of
+// the parameters at theta by Cholesky factorisation and otherwise says why
+// it cannot: not finite, singular (smallest eigenvalue ≤ 1e-12 of the
+// largest in magnitude) or indefinite (a clearly negative eigenvalue: the
+// point is not a maximum). Neither the verdict nor the digits depend on the
+// units of the data or of the parameters (a gamma's shape near 1 beside a
+// rate near 1e9 is not "singular"):
+//
+//   - the eigenvalue checks are made in relative coordinates, on T h T with
+//     T = diag(|θᵢ|) (1 where θᵢ = 0), the curvature per relative change of
+//     each parameter, where a parameter the data do not identify still
+//     shows as a (numerically) zero row;
+//   - the inverse is taken of H̃ = S h S with S = diag(1/√hᵢᵢ), h scaled to
+//     a unit diagonal, and the covariance is S H̃⁻¹ S.
+func invertInformation(h *mat.SymDense, theta []float64) (*mat.SymDense, error) {
 	k := h.SymmetricDim()
 	for i := 0; i < k; i++ {
 		for j := i; j < k; j++ {
@@ -187,28 +201,65 @@ func invertInformation(h *mat.SymDense) (*mat.SymDense, error) {
 			}
 		}
 	}
+	rel := mat.NewSymDense(k, nil)
+	t := make([]float64, k)
+	for i := range t {
+		t[i] = math.Abs(theta[i])
+		if t[i] == 0 || math.IsInf(t[i], 0) || math.IsNaN(t[i]) {
+			t[i] = 1
+		}
+	}
+	for i := 0; i < k; i++ {
+		for j := i; j < k; j++ {
+			rel.SetSym(i, j, t[i]*h.At(i, j)*t[j])
+		}
+	}
 	var eig mat.EigenSym
 	var vals []float64
-	if eig.Factorize(h, false) {
+	if eig.Factorize(rel, false) {
 		vals = eig.Values(nil)
 		lo, hi := vals[0], vals[len(vals)-1]
 		big := math.Max(math.Abs(lo), math.Abs(hi))
 		switch {
 		case big == 0 || math.Abs(lo) <= 1e-12*big:
 			return nil, &HessianError{Kind: ErrSingularHessian, Eigenvalues: vals,
-				Detail: fmt.Sprintf("smallest eigenvalue %.3g against largest %.3g: a parameter is not identified by these data", lo, hi)}
+				Detail: fmt.Sprintf("smallest eigenvalue %.3g against largest %.3g (per relative change of the parameters): a parameter is not identified by these data", lo, hi)}
 		case lo < 0:
 			return nil, &HessianError{Kind: ErrIndefiniteHessian, Eigenvalues: vals,
-				Detail: fmt.Sprintf("eigenvalue %.3g < 0: the estimate is not a local maximum of the likelihood", lo)}
+				Detail: fmt.Sprintf("eigenvalue %.3g < 0 (per relative change of the parameters): the estimate is not a local maximum of the likelihood", lo)}
+		}
+	}
+	sc := make([]float64, k)
+	for i := range sc {
+		switch d := h.At(i, i); {
+		case d == 0:
+			return nil, &HessianError{Kind: ErrSingularHessian,
+				Detail: fmt.Sprintf("the information on parameter %d is 0: a parameter is not identified by these data", i+1)}
+		case d < 0:
+			return nil, &HessianError{Kind: ErrIndefiniteHessian,
+				Detail: fmt.Sprintf("the curvature along parameter %d is negative (%.3g): the estimate is not a local maximum of the likelihood", i+1, -d)}
+		}
+		sc[i] = 1 / math.Sqrt(h.At(i, i))
+	}
+	hs := mat.NewSymDense(k, nil)
+	for i := 0; i < k; i++ {
+		for j := i; j < k; j++ {
+			hs.SetSym(i, j, sc[i]*h.At(i, j)*sc[j])
 		}
 	}
 	var ch mat.Cholesky
-	if !ch.Factorize(h) {
+	if !ch.Factorize(hs) {
 		return nil, &HessianError{Kind: ErrIndefiniteHessian, Eigenvalues: vals, Detail: "Cholesky factorisation failed"}
 	}
-	cov := mat.NewSymDense(k, nil)
-	if err := ch.InverseTo(cov); err != nil {
+	cs := mat.NewSymDense(k, nil)
+	if err := ch.InverseTo(cs); err != nil {
 		return nil, &HessianError{Kind: ErrSingularHessian, Eigenvalues: vals, Detail: err.Error()}
+	}
+	cov := mat.NewSymDense(k, nil)
+	for i := 0; i < k; i++ {
+		for j := i; j < k; j++ {
+			cov.SetSym(i, j, sc[i]*cs.At(i, j)*sc[j])
+		}
 	}
 	return cov, nil
 }

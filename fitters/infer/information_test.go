@@ -142,3 +142,49 @@ func TestProfileOpenSide(t *testing.T) {
 		t.Errorf("upper %v open %v note %q: want an open side reported", r.Upper, r.UpperOpen, r.Note)
 	}
 }
+
+// TestInformationIsUnitFree: the same seven values in six units (×1e-12 …
+// ×1e9, as concentrations in kg/L or ng/L) give every scale-type family the
+// same standard errors relative to the estimates (and the same absolute
+// ones for shapes and for lognormal's mu): the checks of the information
+// work per relative change of the parameters. Before, the raw eigenvalue
+// ratio of a gamma (shape ≈ 2 beside rate ≈ 1e9) read as singular and the
+// family lost its standard errors, and with them its place in the model
+// average, in some units only.
+func TestInformationIsUnitFree(t *testing.T) {
+	base := []float64{1.2, 3.4, 0.5, 2.2, 7.1, 1.9, 4.4}
+	units := []float64{1, 1e-12, 1e-9, 1e-6, 1e3, 1e9}
+	for _, name := range []string{"gamma", "weibull", "loglogistic", "lognormal", "invgauss", "exponential", "gev", "gumbel", "normal", "logistic"} {
+		fam := family(t, name)
+		var ref []float64 // se/|estimate| (or se) at unit 1
+		for _, c := range units {
+			x := make([]float64, len(base))
+			for i, v := range base {
+				x[i] = v * c
+			}
+			d := fitters.Complete(x)
+			fit := fitOf(t, fam, d)
+			info, err := ObservedInformation(fam, fit, d)
+			if err != nil {
+				t.Errorf("%s ×%g: %v", name, c, err)
+				continue
+			}
+			rel := make([]float64, len(fit.Estimates))
+			for i, se := range info.StdErrors {
+				rel[i] = se / math.Abs(fit.Estimates[i])
+				if name == "lognormal" && fit.Parameters[i] == "mu" {
+					rel[i] = se // mu moves by ln c: its se does not scale
+				}
+			}
+			if ref == nil {
+				ref = rel
+				continue
+			}
+			for i := range rel {
+				if math.Abs(rel[i]-ref[i]) > 1e-6*ref[i] {
+					t.Errorf("%s ×%g: %s: relative se %.10g, at ×1 %.10g", name, c, fit.Parameters[i], rel[i], ref[i])
+				}
+			}
+		}
+	}
+}
