@@ -372,7 +372,7 @@ func (rd *csvReading) number(rec [][]byte, i int, what string) (x float64, ok bo
 		if errors.As(perr, &ne) && ne.Err == strconv.ErrRange {
 			return 0, false, rd.fail(i, "", "%s %q is out of the range of a float64", what, cell)
 		}
-		hint := "write numbers with a '.' decimal point and no thousands separators"
+		hint := "write plain decimal numbers such as 1250, -0.5 or 1.25e3: a '.' decimal point, no thousands or digit separators, no hexadecimal"
 		if len(rd.d.Missing) > 0 {
 			hint += fmt.Sprintf("; missing cells must be one of %s", quoteList(rd.d.Missing))
 		}
@@ -385,15 +385,71 @@ func (rd *csvReading) number(rec [][]byte, i int, what string) (x float64, ok bo
 	return x, true, nil
 }
 
-// parseFloat is strconv.ParseFloat(string(b), 64) without allocating:
-// plain decimals take parseDecimal's exact path, and the rest go to
-// strconv through a conversion of the cell that does not escape (made on
-// the stack for a cell of up to 32 bytes).
+// parseFloat parses an observation cell written as a plain decimal
+// number: an optional sign, digits with an optional decimal point (at
+// least one digit), and an optional exponent (e or E, an optional sign,
+// digits). Its value and range error are strconv.ParseFloat's: plain
+// decimals take parseDecimal's exact path, and the rest go to strconv
+// through a conversion of the cell that does not escape (made on the
+// stack for a cell of up to 32 bytes). The words strconv reads as
+// infinities and NaN ("inf", "-Infinity", "NaN", …) give those values,
+// which the caller refuses as not finite. Every other syntax that strconv
+// takes from Go's literals — digit separators (1_000), hexadecimal
+// mantissas (0x1p4) — is a syntax error here: a data file holds decimals.
 func parseFloat(b []byte) (float64, error) {
 	if f, ok := parseDecimal(b); ok {
 		return f, nil
 	}
+	if !plainDecimal(b) && !infOrNaN(b) {
+		return 0, &strconv.NumError{Func: "ParseFloat", Num: string(b), Err: strconv.ErrSyntax}
+	}
 	return strconv.ParseFloat(string(b), 64)
+}
+
+// plainDecimal reports whether b is [+-]digits[.digits][(e|E)[+-]digits]
+// with at least one digit before the exponent (".5" and "5." are plain).
+func plainDecimal(b []byte) bool {
+	i := 0
+	if i < len(b) && (b[i] == '+' || b[i] == '-') {
+		i++
+	}
+	digits, point := 0, false
+	for ; i < len(b); i++ {
+		if c := b[i]; c >= '0' && c <= '9' {
+			digits++
+		} else if c == '.' && !point {
+			point = true
+		} else {
+			break
+		}
+	}
+	if digits == 0 {
+		return false
+	}
+	if i < len(b) && (b[i] == 'e' || b[i] == 'E') {
+		i++
+		if i < len(b) && (b[i] == '+' || b[i] == '-') {
+			i++
+		}
+		start := i
+		for i < len(b) && b[i] >= '0' && b[i] <= '9' {
+			i++
+		}
+		if i == start {
+			return false
+		}
+	}
+	return i == len(b)
+}
+
+// infOrNaN reports whether b may be one of the words strconv reads as an
+// infinity or NaN: after an optional sign, it starts with i or n. Any
+// such cell that strconv accepts is one of them.
+func infOrNaN(b []byte) bool {
+	if len(b) > 0 && (b[0] == '+' || b[0] == '-') {
+		b = b[1:]
+	}
+	return len(b) > 0 && (b[0]|0x20 == 'i' || b[0]|0x20 == 'n')
 }
 
 // exactPow10 are the powers of ten that a float64 holds exactly.

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"reflect"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -33,6 +34,16 @@ func TestReadCSV(t *testing.T) {
 				trials                           []int
 			}{{exact: []float64{1.5, 2}}},
 			missing: 2,
+		},
+		{
+			name:   "plain decimal forms",
+			d:      Dataset{Column: "x", Missing: []string{""}},
+			csv:    "x\n+1.5\n-.5\n5.\n1E+3\n 2.5e-1 \n007\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{1.5, -0.5, 5, 1000, 0.25, 7}}},
 		},
 		{
 			name:   "status column censoring",
@@ -135,6 +146,10 @@ func TestReadCSVErrors(t *testing.T) {
 		{"NaN", obs, "x\n1\nNaN\n", 3, 1, `"NaN" is not a finite number`},
 		{"Inf in second column", Dataset{Column: "x", Missing: []string{""}}, "id,x\na,1\nb,-Inf\n", 3, 3, `"-Inf" is not a finite number`},
 		{"too large", obs, "x\n1e999\n", 2, 1, "out of the range"},
+		{"digit separators", obs, "x\n1\n1_000\n", 3, 1, `the value "1_000" is not a number`},
+		{"hexadecimal", obs, "x\n0x1p4\n", 2, 1, `the value "0x1p4" is not a number`},
+		{"hexadecimal interval bound", Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{""}}, "lo,hi\n1,0x10p0\n", 2, 3, `the upper bound "0x10p0" is not a number`},
+		{"Infinity word", obs, "x\n-Infinity\n", 2, 1, `"-Infinity" is not a finite number`},
 		{"ragged row", obs, "x,y\n1,2\n3\n", 3, 0, "the row has 1 fields, the header 2"},
 		{"unknown status code", status, "x,s\n1,\n2,>\n", 3, 3, `unknown status code ">"`},
 		{"no such column", Dataset{Column: "hours", Missing: []string{""}}, "hour,x\n1,2\n", 1, 0, `no column "hours"`},
@@ -186,12 +201,32 @@ func BenchmarkReadCSV(b *testing.B) {
 	}
 }
 
+// decimalSyntax and infNaNSyntax are, written independently of
+// plainDecimal, the cells parseFloat takes: plain decimals, and the words
+// strconv reads as infinities and NaN.
+var (
+	decimalSyntax = regexp.MustCompile(`^[+-]?([0-9]+\.?[0-9]*|\.[0-9]+)([eE][+-]?[0-9]+)?$`)
+	infNaNSyntax  = regexp.MustCompile(`(?i)^([+-]?inf(inity)?|nan)$`)
+)
+
 // parseFloat must give exactly strconv.ParseFloat's value and error kind
-// for every cell, through parseDecimal's exact path or through strconv.
+// for every plain decimal cell and every infinity or NaN word, through
+// parseDecimal's exact path or through strconv, and a syntax error for
+// every other cell (1_000 and 0x1p4 included, which strconv takes).
 func sameAsStrconv(t *testing.T, s string) {
 	t.Helper()
 	want, werr := strconv.ParseFloat(s, 64)
 	got, gerr := parseFloat([]byte(s))
+	if !decimalSyntax.MatchString(s) && !infNaNSyntax.MatchString(s) {
+		var ne *strconv.NumError
+		if !errors.As(gerr, &ne) || ne.Err != strconv.ErrSyntax || ne.Num != s {
+			t.Fatalf("parseFloat(%q) = %v, %v; want a syntax error (not a plain decimal)", s, got, gerr)
+		}
+		if _, ok := parseDecimal([]byte(s)); ok {
+			t.Fatalf("parseDecimal(%q) accepts a cell that is not a plain decimal", s)
+		}
+		return
+	}
 	if (werr == nil) != (gerr == nil) || math.Float64bits(got) != math.Float64bits(want) && !(math.IsNaN(got) && math.IsNaN(want)) {
 		t.Fatalf("parseFloat(%q) = %v (%b), %v; strconv %v (%b), %v", s, got, math.Float64bits(got), gerr, want, math.Float64bits(want), werr)
 	}
@@ -208,7 +243,8 @@ func TestParseFloatMatchesStrconv(t *testing.T) {
 		"1E5", "1.5e22", "1e23", "1e-22", "1e-23", "123456789012345678", "1234567890123456789", "12345678901234567890",
 		"9007199254740992", "9007199254740993", "9007199254740992e1", "0.000000000000000000000000001", "00000000000000000000000001.5",
 		"1_000", "0x1p-2", "inf", "NaN", "1e308", "1e309", "-1e400", "4.9e-324", "2.2250738585072014e-308", "1..2", "1.2.3", "1e5.5",
-		"1e1000000", "0.1", "0.2", "0.30000000000000004", "3.141592653589793", "17976931348623157e292", "1,5", " 1", "1 "}
+		"1e1000000", "1_000", "1_000.5", "0x1p4", "0x1P-2", "0X10p0", "-0x1.8p1", "0b101", "0o7", "1e1_0", "_1", "infinity", "-Inf",
+		"+INFINITY", "-nan", "+NaN", "infin", "nan1", "1e+", "e", ".e1", "+.5", "-5.", "5.e3", "0.1", "0.2", "0.30000000000000004", "3.141592653589793", "17976931348623157e292", "1,5", " 1", "1 "}
 	r := rand.New(rand.NewPCG(5, 6))
 	for range 20000 {
 		x := math.Float64frombits(r.Uint64())
@@ -222,7 +258,7 @@ func TestParseFloatMatchesStrconv(t *testing.T) {
 }
 
 func FuzzParseFloat(f *testing.F) {
-	for _, s := range []string{"1.5", "-0", ".5e-3", "9007199254740993", "1e22", "1e23", "0x1p3", "NaN"} {
+	for _, s := range []string{"1.5", "-0", ".5e-3", "9007199254740993", "1e22", "1e23", "0x1p3", "NaN", "1_000", "-Infinity"} {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) { sameAsStrconv(t, s) })
