@@ -198,19 +198,50 @@ type csvReading struct {
 	line                              int
 }
 
+// fail is a DataError at the cell of field (0-based) of the current row,
+// or, with field < 0, at the whole row.
 func (rd *csvReading) fail(field int, hint, format string, args ...any) error {
-	line, col := rd.line, 0
-	if field >= 0 {
-		line, col = rd.rr.fieldPos(field)
+	if field < 0 {
+		return rd.failCells(nil, hint, format, args...)
 	}
-	return &DataError{File: rd.name, Line: line, Column: col, Msg: fmt.Sprintf(format, args...), Hint: hint}
+	return rd.failCells([]int{field}, hint, format, args...)
+}
+
+// failCells is a DataError at the cells of fields (0-based, in header
+// order) of the current row, on the line where the first one starts.
+func (rd *csvReading) failCells(fields []int, hint, format string, args ...any) error {
+	e := &DataError{File: rd.name, Line: rd.line, Msg: fmt.Sprintf(format, args...), Hint: hint}
+	for i, f := range fields {
+		if i == 0 {
+			e.Line, e.Column = rd.rr.fieldPos(f)
+		}
+		e.Cells = append(e.Cells, rd.column(f))
+	}
+	return e
+}
+
+// column names field i (0-based) by the header, once it has been read.
+func (rd *csvReading) column(i int) DataColumn {
+	c := DataColumn{Position: i + 1}
+	if i < len(rd.columns) {
+		c.Name = strings.TrimSpace(rd.columns[i])
+	}
+	return c
 }
 
 func (rd *csvReading) csvError(err error) error {
 	var pe *csv.ParseError
 	if errors.As(err, &pe) {
-		return &DataError{File: rd.name, Line: pe.Line, Column: pe.Column, Msg: "not valid CSV: " + pe.Err.Error(),
+		field, line, col := rd.rr.errField()
+		e := &DataError{File: rd.name, Line: pe.Line, Column: col, Cells: []DataColumn{rd.column(field)},
+			Msg:  fmt.Sprintf("not valid CSV: %v (at character %d of the line)", pe.Err, pe.Column),
 			Hint: "a field with the delimiter, a quote or a line break must be quoted, quotes doubled inside", Err: err}
+		if line > 0 && line < pe.Line {
+			// A quoted cell ran on over line breaks: name where it starts.
+			e.Line = line
+			e.Msg = fmt.Sprintf("not valid CSV: this cell's quotes run on to line %d, where they are not closed properly: %v (at character %d)", pe.Line, pe.Err, pe.Column)
+		}
+		return e
 	}
 	return &DataError{File: rd.name, Msg: "cannot read: " + err.Error(), Err: err}
 }
@@ -228,13 +259,18 @@ func (rd *csvReading) header() error {
 	for i, f := range rec {
 		rd.columns[i] = string(f)
 	}
+	// Header cells are named by position: their names are what is wrong.
+	headerCell := func(i int, hint, format string, args ...any) error {
+		line, col := rd.rr.fieldPos(i)
+		return &DataError{File: rd.name, Line: line, Column: col, Cells: []DataColumn{{Position: i + 1}}, Msg: fmt.Sprintf(format, args...), Hint: hint}
+	}
 	for i, h := range rd.columns {
 		if !utf8.ValidString(h) {
-			return rd.fail(i, "save the file as UTF-8", "the header is not valid UTF-8")
+			return headerCell(i, "save the file as UTF-8", "the header is not valid UTF-8")
 		}
 		for j := 0; j < i; j++ {
 			if rd.columns[j] == h && h != "" {
-				return rd.fail(i, "give every column its own name", "column %q appears twice in the header", h)
+				return headerCell(i, "give every column its own name", "%q is already the name of column %d", h, j+1)
 			}
 		}
 	}
@@ -341,7 +377,7 @@ func (rd *csvReading) group(rec [][]byte) (*groupBuilder, error) {
 		return b, nil
 	}
 	if len(bytes.TrimSpace(key)) == 0 {
-		return nil, rd.fail(rd.split, "fill in the group, or leave the row out with where = { … }", "the split_by column %q is empty", rd.d.SplitBy)
+		return nil, rd.fail(rd.split, "fill in the group, or leave the row out with where = { … }", "the row has no group: its split_by cell is empty")
 	}
 	if !utf8.Valid(key) {
 		return nil, rd.fail(rd.split, "save the file as UTF-8", "the group name is not valid UTF-8")

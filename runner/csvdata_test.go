@@ -132,34 +132,46 @@ func TestReadCSV(t *testing.T) {
 	}
 }
 
+// TestReadCSVErrors: each problem is a *DataError with the line, the byte
+// position of the cell at fault (0: the whole line or file), and a message
+// that names the file, the line and the cell's column by its header.
 func TestReadCSVErrors(t *testing.T) {
 	obs := Dataset{Column: "x", Missing: []string{"", "NA"}}
 	status := Dataset{Column: "x", StatusColumn: "s", Left: []string{"<"}, Missing: []string{""}}
+	interval := Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{""}}
+	trials := Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}}
 	cases := []struct {
 		name      string
 		d         Dataset
 		csv       string
 		line, col int
-		msg       string
+		err       string
 	}{
-		{"not a number", obs, "x\n1\nabc\n", 3, 1, `the value "abc" is not a number`},
-		{"NaN", obs, "x\n1\nNaN\n", 3, 1, `"NaN" is not a finite number`},
-		{"Inf in second column", Dataset{Column: "x", Missing: []string{""}}, "id,x\na,1\nb,-Inf\n", 3, 3, `"-Inf" is not a finite number`},
-		{"too large", obs, "x\n1e999\n", 2, 1, "out of the range"},
-		{"digit separators", obs, "x\n1\n1_000\n", 3, 1, `the value "1_000" is not a number`},
-		{"hexadecimal", obs, "x\n0x1p4\n", 2, 1, `the value "0x1p4" is not a number`},
-		{"hexadecimal interval bound", Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{""}}, "lo,hi\n1,0x10p0\n", 2, 3, `the upper bound "0x10p0" is not a number`},
-		{"Infinity word", obs, "x\n-Infinity\n", 2, 1, `"-Infinity" is not a finite number`},
-		{"ragged row", obs, "x,y\n1,2\n3\n", 3, 0, "the row has 1 fields, the header 2"},
-		{"unknown status code", status, "x,s\n1,\n2,>\n", 3, 3, `unknown status code ">"`},
-		{"no such column", Dataset{Column: "hours", Missing: []string{""}}, "hour,x\n1,2\n", 1, 0, `no column "hours"`},
-		{"bad trials", Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}}, "k,n\n1,2.5\n", 2, 3, `trials "2.5"`},
-		{"count above trials", Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}}, "k,n\n1,2\n5,3\n", 3, 1, "outside 0 … 3 trials"},
-		{"empty interval", Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{""}}, "lo,hi\n3,3\n", 2, 3, "is empty"},
-		{"bare quote", obs, "x\n\"1\n", 2, 0, "not valid CSV"},
-		{"empty file", obs, "", 1, 0, "the file is empty"},
-		{"empty split group", Dataset{Column: "x", SplitBy: "g", Missing: []string{""}}, "g,x\na,1\n,2\n", 3, 1, "split_by column"},
-		{"duplicate header", obs, "x,x\n1,2\n", 1, 3, "appears twice"},
+		{"not a number", obs, "x\n1\nabc\n", 3, 1, `in.csv line 3, column "x": the value "abc" is not a number`},
+		{"NaN", obs, "x\n1\nNaN\n", 3, 1, `in.csv line 3, column "x": the value "NaN" is not a finite number`},
+		{"Inf in second column", Dataset{Column: "x", Missing: []string{""}}, "id,x\na,1\nb,-Inf\n", 3, 3, `in.csv line 3, column "x": the value "-Inf" is not a finite number`},
+		{"too large", obs, "x\n1e999\n", 2, 1, `in.csv line 2, column "x": the value "1e999" is out of the range of a float64`},
+		{"digit separators", obs, "x\n1\n1_000\n", 3, 1, `in.csv line 3, column "x": the value "1_000" is not a number`},
+		{"hexadecimal", obs, "x\n0x1p4\n", 2, 1, `in.csv line 2, column "x": the value "0x1p4" is not a number`},
+		{"hexadecimal interval bound", interval, "lo,hi\n1,0x10p0\n", 2, 3, `in.csv line 2, column "hi": the upper bound "0x10p0" is not a number`},
+		{"Infinity word", obs, "x\n-Infinity\n", 2, 1, `in.csv line 2, column "x": the value "-Infinity" is not a finite number`},
+		{"header name padded", Dataset{Column: "x", Missing: []string{""}}, "id, x \na,1\nb,z\n", 3, 3, `in.csv line 3, column "x": the value "z" is not a number`},
+		{"ragged row", obs, "x,y\n1,2\n3\n", 3, 0, `in.csv:3: the row has 1 fields, the header 2`},
+		{"unknown status code", status, "x,s\n1,\n2,>\n", 3, 3, `in.csv line 3, column "s": unknown status code ">" (left: "<"; right: )`},
+		{"no such column", Dataset{Column: "hours", Missing: []string{""}}, "hour,x\n1,2\n", 1, 0, `in.csv:1: no column "hours" (named by column in dataset "")`},
+		{"bad trials", trials, "k,n\n1,2.5\n", 2, 3, `in.csv line 2, column "n": trials "2.5" is not a whole number of trials`},
+		{"count above trials", trials, "k,n\n1,2\n5,3\n", 3, 1, `in.csv line 3, column "k": the value 5 is outside 0 … 3 trials`},
+		{"empty interval", interval, "lo,hi\n3,3\n", 2, 3, `in.csv line 2, column "hi": the interval (3, 3] is empty`},
+		{"bare quote", obs, "x,y\n1,a\"b\n", 2, 3, `in.csv line 2, column "y": not valid CSV: bare " in non-quoted-field (at character 4 of the line)`},
+		{"quote left open", obs, "x\n\"1\n", 2, 1, `in.csv line 2, column "x": not valid CSV: extraneous or missing " in quoted-field (at character 4 of the line)`},
+		{"bad quote in the header", obs, "x,y\"\n1,2\n", 1, 3, `in.csv line 1, column 2: not valid CSV: bare " in non-quoted-field (at character 4 of the line)`},
+		{"bad quote in an unnamed column", obs, "x,\n1,a\"b\n", 2, 3, `in.csv line 2, column 2: not valid CSV: bare " in non-quoted-field (at character 4 of the line)`},
+		{"bad quote past the header", obs, "x\n1,\"2\"3\n", 2, 3, `in.csv line 2, column 2: not valid CSV: extraneous or missing " in quoted-field (at character 5 of the line)`},
+		{"quotes run on over lines", obs, "x,y\n1,2\n3,\"a\nb\nc\"d\n", 3, 3, `in.csv line 3, column "y": not valid CSV: this cell's quotes run on to line 5, where they are not closed properly: extraneous or missing " in quoted-field (at character 2)`},
+		{"empty file", obs, "", 1, 0, `in.csv:1: the file is empty: it needs a header row naming the columns`},
+		{"empty split group", Dataset{Column: "x", SplitBy: "g", Missing: []string{""}}, "g,x\na,1\n,2\n", 3, 1, `in.csv line 3, column "g": the row has no group: its split_by cell is empty`},
+		{"duplicate header", obs, "x,x\n1,2\n", 1, 3, `in.csv line 1, column 2: "x" is already the name of column 1`},
+		{"header not UTF-8", obs, "x,\xff\n1,2\n", 1, 3, `in.csv line 1, column 2: the header is not valid UTF-8`},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -168,13 +180,36 @@ func TestReadCSVErrors(t *testing.T) {
 			if !errors.As(err, &de) {
 				t.Fatalf("error %v (%T), want *DataError", err, err)
 			}
-			if de.Line != c.line || (c.col != 0 && de.Column != c.col) || !strings.Contains(de.Msg, c.msg) {
-				t.Errorf("got %v (line %d col %d), want line %d col %d with %q", de, de.Line, de.Column, c.line, c.col, c.msg)
-			}
-			if !strings.HasPrefix(de.Error(), "in.csv:") {
-				t.Errorf("message %q does not name the file", de.Error())
+			if de.Error() != c.err || de.Line != c.line || de.Column != c.col {
+				t.Errorf("got %q (line %d, byte %d)\nwant %q (line %d, byte %d)", de.Error(), de.Line, de.Column, c.err, c.line, c.col)
 			}
 		})
+	}
+}
+
+// TestDataErrorColumns: cells are named by header, by position where the
+// header leaves a column unnamed, and both bounds of an interval together.
+func TestDataErrorColumns(t *testing.T) {
+	cases := []struct {
+		cells []DataColumn
+		want  string
+	}{
+		{nil, "d.csv:6: oops"},
+		{[]DataColumn{{Position: 3, Name: "x"}}, `d.csv line 6, column "x": oops`},
+		{[]DataColumn{{Position: 3}}, `d.csv line 6, column 3: oops`},
+		{[]DataColumn{{Position: 3, Name: "  "}}, `d.csv line 6, column 3: oops`},
+		{[]DataColumn{{Position: 3, Name: "\xff"}}, `d.csv line 6, column 3: oops`},
+		{[]DataColumn{{Position: 1, Name: "lo"}, {Position: 2, Name: "hi"}}, `d.csv line 6, columns "lo" and "hi": oops`},
+		{[]DataColumn{{Position: 1, Name: "a"}, {Position: 2, Name: "b"}, {Position: 4}}, `d.csv line 6, columns "a", "b" and 4: oops`},
+	}
+	for _, c := range cases {
+		e := &DataError{File: "d.csv", Line: 6, Cells: c.cells, Msg: "oops"}
+		if got := e.Error(); got != c.want {
+			t.Errorf("%+v: %q, want %q", c.cells, got, c.want)
+		}
+	}
+	if got := (&DataError{File: "d.csv", Cells: []DataColumn{{Position: 1, Name: "x"}}, Msg: "oops"}).Error(); got != "d.csv: oops" {
+		t.Errorf("no line: %q", got)
 	}
 }
 

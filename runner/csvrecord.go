@@ -30,6 +30,7 @@ type recordReader struct {
 	ends      []int      // each field's end in record
 	positions []position // each field's first line and column
 	fields    [][]byte
+	errAt     position // where the field of the last *csv.ParseError starts
 }
 
 type position struct{ line, col int }
@@ -46,6 +47,13 @@ func newRecordReader(r *bufio.Reader, comma rune) *recordReader {
 func (r *recordReader) fieldPos(i int) (line, col int) {
 	p := r.positions[i]
 	return p.line, p.col
+}
+
+// errField returns the 0-based index of the field in which the last read
+// met its *csv.ParseError (the fields before it are complete), and the
+// line and byte column where that field starts.
+func (r *recordReader) errField() (field, line, col int) {
+	return len(r.ends), r.errAt.line, r.errAt.col
 }
 
 func (r *recordReader) readLine() ([]byte, error) {
@@ -137,6 +145,7 @@ parseField:
 			}
 			if j := bytes.IndexByte(field, '"'); j >= 0 {
 				err = &csv.ParseError{StartLine: recLine, Line: r.numLine, Column: pos.col + j, Err: csv.ErrBareQuote}
+				r.errAt = pos
 				break parseField
 			}
 			r.record = append(r.record, field...)
@@ -176,6 +185,7 @@ parseField:
 					break parseField
 				default: // a quote inside a quoted field
 					err = &csv.ParseError{StartLine: recLine, Line: r.numLine, Column: pos.col - quoteLen, Err: csv.ErrQuote}
+					r.errAt = fieldPos
 					break parseField
 				}
 			} else if len(line) > 0 {
@@ -197,6 +207,7 @@ parseField:
 				// The file ends inside the quotes.
 				if errRead == nil {
 					err = &csv.ParseError{StartLine: recLine, Line: pos.line, Column: pos.col, Err: csv.ErrQuote}
+					r.errAt = fieldPos
 					break parseField
 				}
 				r.ends = append(r.ends, len(r.record))

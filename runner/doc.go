@@ -23,7 +23,8 @@
 // [ReadDataset] streams one CSV file and returns one group per value of the
 // dataset's split_by column (or a single group), with censoring taken from a
 // status column or from lower/upper columns. Every problem is a
-// [*DataError] naming file:line:column.
+// [*DataError] naming the file and line, and the cells at fault by their
+// columns' header names: `life.csv line 7, column "hours": …`.
 //
 // # Inference
 //

@@ -3,7 +3,9 @@ package runner
 import (
 	"errors"
 	"fmt"
+	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // ProjectError is a problem in the project file: the file, the line where
@@ -56,26 +58,63 @@ func (es ProjectErrors) Unwrap() []error {
 	return out
 }
 
-// DataError is a problem in a data file, named by file, line and column
-// (1-based; column counts bytes as encoding/csv does, 0 when the whole
-// line or file is at fault).
+// DataError is a problem in a data file, named by file, line and, where
+// one or more cells are at fault, their columns by header name:
+// `life.csv line 7, column "hours": the value "45O" is not a number`.
+// Without cells it reads `life.csv:3: …` (the whole line at fault) or
+// `life.csv: …` (the whole file).
 type DataError struct {
-	File   string
-	Line   int
+	File string
+	Line int
+	// Column is the 1-based byte position in the line where the first cell
+	// at fault starts (as encoding/csv counts), 0 when no cell is; it is for
+	// programs, the message names Cells instead.
 	Column int
-	Msg    string
-	Hint   string
-	Err    error
+	// Cells are the columns of the cells at fault, in header order.
+	Cells []DataColumn
+	Msg   string
+	Hint  string
+	Err   error
+}
+
+// DataColumn is a column of a data file: its 1-based position in the
+// header and its name there ("" when the header leaves it unnamed).
+type DataColumn struct {
+	Position int
+	Name     string
+}
+
+// String names the column as a reader of the file would: its header name
+// quoted, or its position when the header gives it no usable name.
+func (c DataColumn) String() string {
+	if strings.TrimSpace(c.Name) != "" && utf8.ValidString(c.Name) {
+		return strconv.Quote(c.Name)
+	}
+	return strconv.Itoa(c.Position)
 }
 
 func (e *DataError) Error() string {
 	var b strings.Builder
 	b.WriteString(e.File)
-	if e.Line > 0 {
-		fmt.Fprintf(&b, ":%d", e.Line)
-		if e.Column > 0 {
-			fmt.Fprintf(&b, ":%d", e.Column)
+	switch {
+	case e.Line > 0 && len(e.Cells) > 0:
+		fmt.Fprintf(&b, " line %d, column", e.Line)
+		if len(e.Cells) > 1 {
+			b.WriteString("s")
 		}
+		for i, c := range e.Cells {
+			switch {
+			case i == 0:
+				b.WriteString(" ")
+			case i == len(e.Cells)-1:
+				b.WriteString(" and ")
+			default:
+				b.WriteString(", ")
+			}
+			b.WriteString(c.String())
+		}
+	case e.Line > 0:
+		fmt.Fprintf(&b, ":%d", e.Line)
 	}
 	b.WriteString(": ")
 	b.WriteString(e.Msg)
