@@ -64,6 +64,8 @@ func TestReadCSVChunked(t *testing.T) {
 		{"empty group name late", split, "g,s,c,x\na,keep,,1\nb,keep,,2\n,keep,,3\n"},
 		{"interval bounds", Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{"", "NA"}},
 			"lo,hi\n1,2\n,5\n7,\nNA,3\n,\n2,9\n3,3\n"},
+		{"interval bounds reversed late", Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{""}},
+			"lo,hi\n1,2\n4,4\n2,9\n5,4\n3,3\n"},
 		{"trials", Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}}, "k,n\n3,10\n0,4\n1,1\n2,9\n"},
 		{"multi-byte delimiter", Dataset{Column: "v", Delimiter: "§", Missing: []string{""}}, "u§v\n1§2\n3§4\n5§6\n"},
 		{"header only", obs, "x\n"},

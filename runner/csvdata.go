@@ -635,7 +635,9 @@ func (rd *csvReading) observation(rec [][]byte, g *groupBuilder) error {
 }
 
 // interval reads the bounds of one interval-censored row: an empty cell is
-// an open bound, other missing tokens make the row missing.
+// an open bound, other missing tokens make the row missing. Equal bounds
+// are a value known exactly, which joins the exact values (a density
+// term); a lower bound above the upper one is an error.
 func (rd *csvReading) interval(rec [][]byte, g *groupBuilder) error {
 	bound := func(i int, open float64, what string) (float64, bool, error) {
 		if len(bytes.TrimSpace(rec[i])) == 0 {
@@ -656,9 +658,17 @@ func (rd *csvReading) interval(rec [][]byte, g *groupBuilder) error {
 		rd.out.Missing++
 		return nil
 	}
-	if !(lo < hi) {
-		return rd.fail(rd.upper, "an interval (lower, upper] needs lower < upper; record values known exactly in a separate dataset with column = …",
-			"the interval (%v, %v] is empty", lo, hi)
+	if lo > hi {
+		cells := []int{rd.lower, rd.upper}
+		if rd.upper < rd.lower {
+			cells = []int{rd.upper, rd.lower}
+		}
+		return rd.failCells(cells, "swap the bounds if they were entered the wrong way round; equal bounds record a value known exactly",
+			"lower bound %v is above upper bound %v", lo, hi)
+	}
+	if lo == hi {
+		g.exact.add(lo)
+		return nil
 	}
 	g.lower.add(lo)
 	g.upper.add(hi)
