@@ -155,6 +155,7 @@ func (rd *csvReading) merge(part *csvReading) {
 	rd.out.Rows += part.out.Rows
 	rd.out.Filtered += part.out.Filtered
 	rd.out.Missing += part.out.Missing
+	rd.out.BlankLines += part.out.BlankLines
 	for _, pb := range part.builders {
 		var b *groupBuilder
 		switch {

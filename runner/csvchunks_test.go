@@ -68,6 +68,9 @@ func TestReadCSVChunked(t *testing.T) {
 			"lo,hi\n1,2\n4,4\n2,9\n5,4\n3,3\n"},
 		{"trials", Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}}, "k,n\n3,10\n0,4\n1,1\n2,9\n"},
 		{"multi-byte delimiter", Dataset{Column: "v", Delimiter: "§", Missing: []string{""}}, "u§v\n1§2\n3§4\n5§6\n"},
+		{"blank lines over chunks", split, "g,s,c,x\na,keep,,1\n\nb,drop,,2\n\n\n"},
+		{"blank lines counted over chunks", Dataset{Column: "x", Missing: []string{""}}, "x\n1\n\n2\n\n\n3\n\r\n"},
+		{"blank line where the empty cell is not missing, late", Dataset{Column: "x", Missing: []string{"NA"}}, "x\n1\n2\n3\nNA\n\n4\n"},
 		{"header only", obs, "x\n"},
 		{"no line break at all", obs, "x"},
 	}

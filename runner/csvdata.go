@@ -3,6 +3,7 @@ package runner
 import (
 	"bufio"
 	"bytes"
+	"cmp"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -37,9 +38,13 @@ type DatasetData struct {
 	Groups []*Group
 	// Rows counts every data row of the file; Filtered the rows that `where`
 	// left out; Missing the rows skipped as missing, over all groups.
-	Rows     int
-	Filtered int
-	Missing  int
+	// BlankLines counts the blank lines among the Missing rows: a blank line
+	// after the header is read as a row of empty cells (one that `where`
+	// leaves out is among Filtered instead).
+	Rows       int
+	Filtered   int
+	Missing    int
+	BlankLines int
 	// Source is the size and SHA-256 of the file's bytes as they were
 	// parsed (ReadDataset); zero for data read from elsewhere (ReadCSV).
 	Source FileDigest
@@ -196,6 +201,10 @@ type csvReading struct {
 	last                              *groupBuilder   // the group of the last row
 	left, right, missing              map[string]bool
 	line                              int
+	// blankRow is set while a blank line is read as a row of empty cells
+	// (empty), which has no field positions.
+	blankRow bool
+	empty    [][]byte
 }
 
 // fail is a DataError at the cell of field (0-based) of the current row,
@@ -212,7 +221,7 @@ func (rd *csvReading) fail(field int, hint, format string, args ...any) error {
 func (rd *csvReading) failCells(fields []int, hint, format string, args ...any) error {
 	e := &DataError{File: rd.name, Line: rd.line, Msg: fmt.Sprintf(format, args...), Hint: hint}
 	for i, f := range fields {
-		if i == 0 {
+		if i == 0 && !rd.blankRow {
 			e.Line, e.Column = rd.rr.fieldPos(f)
 		}
 		e.Cells = append(e.Cells, rd.column(f))
@@ -326,6 +335,11 @@ func set(list []string) map[string]bool {
 func (rd *csvReading) rows() error {
 	for {
 		rec, err := rd.rr.read()
+		for _, line := range rd.rr.blank {
+			if err := rd.blankLine(line); err != nil {
+				return err
+			}
+		}
 		if err == io.EOF {
 			return nil
 		}
@@ -333,32 +347,69 @@ func (rd *csvReading) rows() error {
 			return rd.csvError(err)
 		}
 		rd.line, _ = rd.rr.fieldPos(0)
-		if len(rec) != len(rd.columns) {
-			if len(rec) == 1 && len(bytes.TrimSpace(rec[0])) == 0 {
-				continue // a blank line
+		if len(rec) == 1 && len(bytes.TrimSpace(rec[0])) == 0 {
+			// Spaces alone: blank too.
+			if err := rd.blankLine(rd.line); err != nil {
+				return err
 			}
+			continue
+		}
+		if len(rec) != len(rd.columns) {
 			return rd.fail(-1, "every row needs one field per header column; quote fields that contain the delimiter",
 				"the row has %d fields, the header %d", len(rec), len(rd.columns))
 		}
-		rd.out.Rows++
-		if rd.where >= 0 && string(rec[rd.where]) != rd.d.Where.Equals {
-			rd.out.Filtered++
-			continue
-		}
-		g, err := rd.group(rec)
-		if err != nil {
-			return err
-		}
-		g.g.Rows++
-		if rd.d.Interval() {
-			err = rd.interval(rec, g)
-		} else {
-			err = rd.observation(rec, g)
-		}
-		if err != nil {
+		if err := rd.row(rec); err != nil {
 			return err
 		}
 	}
+}
+
+// blankLine reads a blank line after the header as a row whose cells are
+// all empty: where the empty cell is a missing value (as by default), it is
+// counted and reported as a missing row like any other, so that a blank
+// year in a column of annual maxima does not vanish; where it is not, the
+// line is an error. The line break that ends the file is not a blank line.
+func (rd *csvReading) blankLine(line int) error {
+	rd.line = line
+	if !rd.isMissing(nil) {
+		return &DataError{File: rd.name, Line: line,
+			Msg:  fmt.Sprintf("the line is blank, and an empty cell is not a missing value (missing: %s)", cmp.Or(quoteList(rd.d.Missing), "none")),
+			Hint: fmt.Sprintf(`remove the line, or add "" to missing %s to count blank lines as missing rows`, rd.setting())}
+	}
+	if rd.empty == nil {
+		rd.empty = make([][]byte, len(rd.columns))
+	}
+	missing := rd.out.Missing
+	rd.blankRow = true
+	err := rd.row(rd.empty)
+	rd.blankRow = false
+	if rd.out.Missing > missing {
+		rd.out.BlankLines++
+	}
+	return err
+}
+
+// setting says where the dataset's settings are given, for hints.
+func (rd *csvReading) setting() string {
+	return fmt.Sprintf("in dataset %q", rd.d.Name)
+}
+
+// row reads one data row of the header's width.
+func (rd *csvReading) row(rec [][]byte) error {
+	rd.out.Rows++
+	if rd.where >= 0 && string(rec[rd.where]) != rd.d.Where.Equals {
+		rd.out.Filtered++
+		return nil
+	}
+	g, err := rd.group(rec)
+	if err != nil {
+		return err
+	}
+	g.g.Rows++
+	if rd.d.Interval() {
+		return rd.interval(rec, g)
+	}
+	return rd.observation(rec, g)
 }
 
 func (rd *csvReading) group(rec [][]byte) (*groupBuilder, error) {
@@ -375,6 +426,10 @@ func (rd *csvReading) group(rec [][]byte) (*groupBuilder, error) {
 	if b, ok := rd.byName[string(key)]; ok {
 		rd.last = b
 		return b, nil
+	}
+	if rd.blankRow {
+		return nil, rd.fail(-1, "remove the blank line: every row of a split dataset belongs to a group",
+			"the line is blank, so the row has no group (split_by column %q)", rd.d.SplitBy)
 	}
 	if len(bytes.TrimSpace(key)) == 0 {
 		return nil, rd.fail(rd.split, "fill in the group, or leave the row out with where = { … }", "the row has no group: its split_by cell is empty")

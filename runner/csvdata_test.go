@@ -22,10 +22,10 @@ func TestReadCSV(t *testing.T) {
 			exact, left, right, lower, upper []float64
 			trials                           []int
 		}
-		missing, filtered int
+		rows, missing, filtered, blank int
 	}{
 		{
-			name:   "byte-order mark, blank line, missing tokens",
+			name:   "byte-order mark, missing tokens, a blank line counted as missing",
 			d:      Dataset{Column: "x", Missing: []string{"", "NA"}},
 			csv:    "\ufeffx,y\n1.5,a\nNA,b\n\n,c\n2,d\n",
 			groups: []string{""},
@@ -33,7 +33,9 @@ func TestReadCSV(t *testing.T) {
 				exact, left, right, lower, upper []float64
 				trials                           []int
 			}{{exact: []float64{1.5, 2}}},
-			missing: 2,
+			missing: 3,
+			rows:    5,
+			blank:   1,
 		},
 		{
 			name:   "plain decimal forms",
@@ -44,6 +46,7 @@ func TestReadCSV(t *testing.T) {
 				exact, left, right, lower, upper []float64
 				trials                           []int
 			}{{exact: []float64{1.5, -0.5, 5, 1000, 0.25, 7}}},
+			rows: 6,
 		},
 		{
 			name:   "status column censoring",
@@ -54,6 +57,7 @@ func TestReadCSV(t *testing.T) {
 				exact, left, right, lower, upper []float64
 				trials                           []int
 			}{{exact: []float64{10}, left: []float64{3}, right: []float64{40, 41}}},
+			rows: 4,
 		},
 		{
 			name:   "split_by in order of first appearance, where filter, semicolon delimiter",
@@ -65,6 +69,7 @@ func TestReadCSV(t *testing.T) {
 				trials                           []int
 			}{{exact: []float64{1, 3}}, {exact: []float64{2}}},
 			filtered: 1,
+			rows:     4,
 		},
 		{
 			name:   "interval columns with open bounds",
@@ -76,6 +81,7 @@ func TestReadCSV(t *testing.T) {
 				trials                           []int
 			}{{lower: []float64{1, math.Inf(-1), 7}, upper: []float64{2, 5, inf}}},
 			missing: 2,
+			rows:    5,
 		},
 		{
 			name:   "interval rows with equal bounds are exact values",
@@ -86,6 +92,7 @@ func TestReadCSV(t *testing.T) {
 				exact, left, right, lower, upper []float64
 				trials                           []int
 			}{{exact: []float64{3.5, 0, -1}, lower: []float64{1, math.Inf(-1), 2}, upper: []float64{2, 5, 4}}},
+			rows: 6,
 		},
 		{
 			name:   "trials column",
@@ -96,6 +103,62 @@ func TestReadCSV(t *testing.T) {
 				exact, left, right, lower, upper []float64
 				trials                           []int
 			}{{exact: []float64{3, 0}, trials: []int{10, 4}}},
+			rows: 2,
+		},
+		{
+			name:   "one column of annual maxima: a blank year is a missing row",
+			d:      Dataset{Column: "peak", Missing: []string{"", "NA"}},
+			csv:    "peak\n812\n\n954\n733\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{812, 954, 733}}},
+			rows: 4, missing: 1, blank: 1,
+		},
+		{
+			name:   "blank lines at the end, CRLF, spaces; the final line break is not one",
+			d:      Dataset{Column: "x", Missing: []string{""}},
+			csv:    "x,y\r\n1,a\r\n\r\n  \r\n2,b\r\n\r\n\r\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{1, 2}}},
+			rows: 6, missing: 4, blank: 4,
+		},
+		{
+			name:   "blank lines before the header are not rows",
+			d:      Dataset{Column: "x", Missing: []string{""}},
+			csv:    "\n\nx\n1\n2",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{1, 2}}},
+			rows: 2,
+		},
+		{
+			name:   "a blank line is left out by where like any row of empty cells",
+			d:      Dataset{Column: "x", Where: &Where{Column: "site", Equals: "north"}, Missing: []string{""}},
+			csv:    "site,x\nnorth,1\n\nsouth,2\nnorth,\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{exact: []float64{1}}},
+			rows: 4, missing: 1, filtered: 2,
+		},
+		{
+			name:   "a blank line in interval data is a missing row",
+			d:      Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{"", "NA"}},
+			csv:    "lo,hi\n1,2\n\n3,4\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{lower: []float64{1, 3}, upper: []float64{2, 4}}},
+			rows: 3, missing: 1, blank: 1,
 		},
 		{
 			name:   "header only",
@@ -106,6 +169,7 @@ func TestReadCSV(t *testing.T) {
 				exact, left, right, lower, upper []float64
 				trials                           []int
 			}{{}},
+			rows: 0,
 		},
 	}
 	for _, c := range cases {
@@ -135,8 +199,12 @@ func TestReadCSV(t *testing.T) {
 					t.Errorf("trials %v, want %v", g.Trials, w.trials)
 				}
 			}
-			if out.Missing != c.missing || out.Filtered != c.filtered {
-				t.Errorf("missing %d filtered %d, want %d %d", out.Missing, out.Filtered, c.missing, c.filtered)
+			if out.Rows != c.rows || out.Missing != c.missing || out.Filtered != c.filtered || out.BlankLines != c.blank {
+				t.Errorf("rows %d missing %d filtered %d blank lines %d, want %d %d %d %d",
+					out.Rows, out.Missing, out.Filtered, out.BlankLines, c.rows, c.missing, c.filtered, c.blank)
+			}
+			if g := out.Groups[0]; c.d.SplitBy == "" && (g.Missing != c.missing || g.Rows != c.rows-c.filtered) {
+				t.Errorf("group rows %d missing %d, want %d %d", g.Rows, g.Missing, c.rows-c.filtered, c.missing)
 			}
 		})
 	}
@@ -179,6 +247,16 @@ func TestReadCSVErrors(t *testing.T) {
 		{"bad quote in an unnamed column", obs, "x,\n1,a\"b\n", 2, 3, `in.csv line 2, column 2: not valid CSV: bare " in non-quoted-field (at character 4 of the line)`},
 		{"bad quote past the header", obs, "x\n1,\"2\"3\n", 2, 3, `in.csv line 2, column 2: not valid CSV: extraneous or missing " in quoted-field (at character 5 of the line)`},
 		{"quotes run on over lines", obs, "x,y\n1,2\n3,\"a\nb\nc\"d\n", 3, 3, `in.csv line 3, column "y": not valid CSV: this cell's quotes run on to line 5, where they are not closed properly: extraneous or missing " in quoted-field (at character 2)`},
+		{"blank line where the empty cell is not missing", Dataset{Column: "x", Missing: []string{"NA"}}, "x\n1\n\n2\n", 3, 0,
+			`in.csv:3: the line is blank, and an empty cell is not a missing value (missing: "NA")`},
+		{"blank last line where the empty cell is not missing", Dataset{Column: "x", Missing: []string{"NA"}}, "x\r\n1\r\n2\r\n\r\n", 4, 0,
+			`in.csv:4: the line is blank, and an empty cell is not a missing value (missing: "NA")`},
+		{"line of spaces where the empty cell is not missing", Dataset{Column: "x", Missing: []string{"NA"}}, "x\n1\n \t\n", 3, 0,
+			`in.csv:3: the line is blank, and an empty cell is not a missing value (missing: "NA")`},
+		{"blank line before a bad cell comes first", Dataset{Column: "x", Missing: nil}, "x\n1\n\nabc\n", 3, 0,
+			`in.csv:3: the line is blank, and an empty cell is not a missing value (missing: none)`},
+		{"blank line in a split dataset", Dataset{Column: "x", SplitBy: "g", Missing: []string{""}}, "g,x\na,1\n\nb,2\n", 3, 0,
+			`in.csv:3: the line is blank, so the row has no group (split_by column "g")`},
 		{"empty file", obs, "", 1, 0, `in.csv:1: the file is empty: it needs a header row naming the columns`},
 		{"empty split group", Dataset{Column: "x", SplitBy: "g", Missing: []string{""}}, "g,x\na,1\n,2\n", 3, 1, `in.csv line 3, column "g": the row has no group: its split_by cell is empty`},
 		{"duplicate header", obs, "x,x\n1,2\n", 1, 3, `in.csv line 1, column 2: "x" is already the name of column 1`},

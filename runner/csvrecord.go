@@ -30,7 +30,11 @@ type recordReader struct {
 	ends      []int      // each field's end in record
 	positions []position // each field's first line and column
 	fields    [][]byte
-	errAt     position // where the field of the last *csv.ParseError starts
+	// blank are the lines skipped as blank (a line break alone, \r\n
+	// included) before the last record read, or before the end of the
+	// stream; encoding/csv skips them without a trace.
+	blank []int
+	errAt position // where the field of the last *csv.ParseError starts
 }
 
 type position struct{ line, col int }
@@ -107,9 +111,15 @@ func (r *recordReader) read() ([][]byte, error) {
 	}
 	var line []byte
 	var errRead error
+	r.blank = r.blank[:0]
 	for errRead == nil {
 		line, errRead = r.readLine()
 		if errRead == nil && len(line) == lengthNL(line) {
+			if len(line) == 1 {
+				// A line break alone; not the "" left of a lone \r
+				// ending the file.
+				r.blank = append(r.blank, r.numLine)
+			}
 			line = nil
 			continue // blank lines are skipped
 		}

@@ -21,7 +21,7 @@ func TestReadDatasetDigest(t *testing.T) {
 		if err := os.WriteFile(filepath.Join(dir, "d.csv"), []byte(text), 0o644); err != nil {
 			t.Fatal(err)
 		}
-		d := &Dataset{Name: "d", File: "d.csv", Column: "x"}
+		d := &Dataset{Name: "d", File: "d.csv", Column: "x", Missing: DefaultMissing}
 		dd, err := ReadDataset(&Project{Dir: dir}, d)
 		if err != nil {
 			t.Fatal(err)

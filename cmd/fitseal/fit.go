@@ -113,6 +113,9 @@ func printRanking(w io.Writer, file string, a *runner.AnalysisResult, dd *runner
 	}
 	if dd != nil && dd.Missing > 0 {
 		fmt.Fprintf(w, ", %d missing skipped", dd.Missing)
+		if blank := blankLines(dd); blank != "" {
+			fmt.Fprintf(w, " (%s)", blank)
+		}
 	}
 	fmt.Fprintf(w, "; ranked by %s", criterionLabel[string(c.Criterion)])
 	if c.Note != "" {

@@ -45,7 +45,7 @@ func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	fs.StringVar(&o.Output, "o", "", "output `PATH` (default bundles/NAME-YYYYMMDDTHHMMSSZ.tar.gz beside the project file)")
 	fs.StringVar(&o.Key, "key", "", "signing key `FILE` (default $FITSEAL_KEY, else $XDG_CONFIG_HOME/fitseal/id_ed25519, created if missing)")
 	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once, and the most cores used (default: all cores); never changes a result")
-	fs.BoolVar(&o.Quiet, "q", false, "no progress line")
+	fs.BoolVar(&o.Quiet, "q", false, "no progress line (notes about the data, such as rows skipped as missing, are still printed)")
 	fs.BoolVar(&o.Force, "force", false, "replace an existing output")
 	fs.StringVar(&o.Shard, "shard", "", "run only shard `I/N` (0-based) of the plan and write a signed partial bundle for 'fitseal merge';\n'auto' takes I and N from Slurm, a Kubernetes Indexed Job or GNU parallel (docs/SHARDS.md)")
 	pos, err := parseInterleaved(fs, args)
@@ -169,9 +169,8 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		}
 		return err
 	}
-	if !o.Quiet {
-		reportMissing(stderr, res)
-	}
+	// A diagnostic about the data, not progress: printed under -q too.
+	reportMissing(stderr, res)
 	fmt.Fprintln(stdout, summary(res))
 	if shard != nil {
 		fmt.Fprintf(stdout, "shard %s: %d of the plan's %d analyses (merge every shard with 'fitseal merge')\n", shard, len(res.Analyses), len(res.Plan))
@@ -213,15 +212,41 @@ func summary(res *runner.Results) string {
 		len(res.Analyses), ranked, notConverged, inapplicable)
 }
 
-// reportMissing says on stderr how many cells each dataset skipped as missing.
+// reportMissing says on stderr how many rows each dataset skipped as
+// missing, and how many of them were blank lines.
 func reportMissing(w io.Writer, res *runner.Results) {
 	for _, d := range res.Project.Datasets {
 		dd := res.Data[d.Name]
 		if dd == nil || dd.Missing == 0 {
 			continue
 		}
-		fmt.Fprintf(w, "fitseal: note: dataset %q: %d rows skipped as missing (cells %s)\n", d.Name, dd.Missing, quoteAll(d.Missing))
+		blank := blankLines(dd)
+		if blank != "" {
+			blank = "; " + blank
+		}
+		rows := "rows"
+		if dd.Missing == 1 {
+			rows = "row"
+		}
+		fmt.Fprintf(w, "fitseal: note: dataset %q: %d %s skipped as missing (cells %s%s)\n", d.Name, dd.Missing, rows, quoteAll(d.Missing), blank)
 	}
+}
+
+// blankLines says how many of a dataset's missing rows were blank lines
+// ("" when none).
+func blankLines(dd *runner.DatasetData) string {
+	n := dd.BlankLines
+	switch {
+	case n == 0:
+		return ""
+	case n == 1 && dd.Missing == 1:
+		return "a blank line"
+	case n == 1:
+		return "1 of them a blank line"
+	case n == dd.Missing:
+		return "all blank lines"
+	}
+	return fmt.Sprintf("%d of them blank lines", n)
 }
 
 func quoteAll(list []string) string {
