@@ -296,7 +296,7 @@ func (rd *csvReading) header() error {
 		if hint == "" {
 			hint = "the header has: " + joinQuoted(rd.columns)
 		}
-		return -1, &DataError{File: rd.name, Line: rd.line, Msg: fmt.Sprintf("no column %q (named by %s in dataset %q)", col, key, rd.d.Name), Hint: hint}
+		return -1, &DataError{File: rd.name, Line: rd.line, Msg: fmt.Sprintf("no column %q (named by %s)", col, rd.d.setting(key)), Hint: hint}
 	}
 	var err2 error
 	for _, c := range []struct {
@@ -374,7 +374,7 @@ func (rd *csvReading) blankLine(line int) error {
 	if !rd.isMissing(nil) {
 		return &DataError{File: rd.name, Line: line,
 			Msg:  fmt.Sprintf("the line is blank, and an empty cell is not a missing value (missing: %s)", cmp.Or(quoteList(rd.d.Missing), "none")),
-			Hint: fmt.Sprintf(`remove the line, or add "" to missing %s to count blank lines as missing rows`, rd.setting())}
+			Hint: fmt.Sprintf(`remove the line, or add "" to %s to count blank lines as missing rows`, rd.d.setting("missing"))}
 	}
 	if rd.empty == nil {
 		rd.empty = make([][]byte, len(rd.columns))
@@ -387,11 +387,6 @@ func (rd *csvReading) blankLine(line int) error {
 		rd.out.BlankLines++
 	}
 	return err
-}
-
-// setting says where the dataset's settings are given, for hints.
-func (rd *csvReading) setting() string {
-	return fmt.Sprintf("in dataset %q", rd.d.Name)
 }
 
 // row reads one data row of the header's width.
@@ -668,7 +663,11 @@ func (rd *csvReading) observation(rec [][]byte, g *groupBuilder) error {
 			g.right.add(x)
 			return nil
 		default:
-			return rd.fail(rd.status, fmt.Sprintf("list it in left or right of dataset %q, or leave the cell empty for an exact value", rd.d.Name),
+			where := fmt.Sprintf("left or right of dataset %q", rd.d.Name)
+			if rd.d.fitFlags {
+				where = "--left or --right"
+			}
+			return rd.fail(rd.status, fmt.Sprintf("list it in %s, or leave the cell empty for an exact value", where),
 				"unknown status code %q (left: %s; right: %s)", string(code), quoteList(rd.d.Left), quoteList(rd.d.Right))
 		}
 	}

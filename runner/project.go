@@ -1,6 +1,7 @@
 package runner
 
 import (
+	"fmt"
 	"path/filepath"
 	"sort"
 )
@@ -85,6 +86,21 @@ type Dataset struct {
 	Where        *Where `json:"where,omitempty"`
 	// Missing cells of the observation columns are skipped and counted.
 	Missing []string `json:"missing"`
+
+	// fitFlags is set for the dataset of `fitseal fit` (QuickProject): the
+	// errors of reading it name that command's flags, not the keys of a
+	// project file's dataset.
+	fitFlags bool
+}
+
+// setting names one of the dataset's settings for a message: the
+// project-file key of this dataset (`missing in dataset "life"`), or the
+// flag of `fitseal fit` that gave it (`--missing`).
+func (d *Dataset) setting(key string) string {
+	if d.fitFlags {
+		return "--" + key
+	}
+	return fmt.Sprintf("%s in dataset %q", key, d.Name)
 }
 
 // Where keeps only the rows whose Column cell is exactly Equals.

@@ -26,7 +26,8 @@ type QuickSpec struct {
 // QuickProject builds and checks a one-analysis project from spec, with the
 // same rules as a project file. Its errors name command-line flags instead
 // of key paths (a key such as dataset[0].status_column becomes
-// --status-column).
+// --status_column), and their hints give flags instead of project-file
+// lines; so do the errors of reading its data file.
 func QuickProject(spec QuickSpec) (*Project, error) {
 	d := spec.Dataset
 	ds := map[string]any{"name": "data", "file": filepath.Base(spec.File)}
@@ -89,16 +90,45 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 	if len(l.errs) > 0 {
 		for _, e := range l.errs {
 			e.Key = flagOfKey(e.Key)
-			e.Msg = strings.ReplaceAll(e.Msg, "[[dataset]]", "data file")
+			e.Msg = fitWords.Replace(e.Msg)
+			e.Hint = fitWords.Replace(e.Hint)
 		}
 		return nil, l.errs
 	}
 	p.Defaulted = l.defaulted
+	p.Datasets[0].fitFlags = true
 	return p, nil
 }
 
+// fitWords rewords the project loader's messages and hints about the one
+// dataset, candidate set and analysis that `fitseal fit` makes for its
+// flags: keys become flags, project-file lines become flags with values
+// (TestQuickProjectErrors holds every message the flags can reach to it).
+var fitWords = strings.NewReplacer(
+	"[[dataset]]", "data file",
+	`left = ["<"] for non-detects and right = ["+"] for suspensions`, `--left '<' for non-detects and --right '+' for suspensions`,
+	`add status_column = "…"`, "add --status_column NAME",
+	`add column = "…"`, "add --column NAME",
+	"remove column:", "remove --column:",
+	"lower_column and upper_column", "--lower_column and --upper_column",
+	"lower/upper columns", "--lower_column and --upper_column",
+	"a status column", "--status_column",
+	"separate [[candidates]] sets", "separate runs of fitseal fit",
+	`dataset "data" has a trials_column`, "--trials_column is given",
+	"with a trials_column", "with --trials_column",
+	"needs left or right", "needs --left or --right",
+	"needs status_column", "needs --status_column",
+	"listed in left", "listed in --left",
+	"listed in right", "listed in --right",
+	"is already the column", "is already the --column",
+	"is already the status_column", "is already the --status_column",
+	"is already the lower_column", "is already the --lower_column",
+	"is already the upper_column", "is already the --upper_column",
+	"drop the censoring columns", "drop the censoring flags",
+)
+
 // flagOfKey names the command-line flag that set a key of the synthetic
-// project: "dataset[0].status_column" → "--status-column".
+// project: "dataset[0].status_column" → "--status_column".
 func flagOfKey(key string) string {
 	k := key
 	if i := strings.LastIndexByte(k, '.'); i >= 0 {
@@ -116,7 +146,7 @@ func flagOfKey(key string) string {
 	if strings.HasPrefix(key, "candidates[0].fixed") {
 		return "--families"
 	}
-	return "--" + strings.ReplaceAll(k, "_", "-")
+	return "--" + k
 }
 
 // IsInputError reports whether err is a problem of the user's input (a

@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -37,17 +38,17 @@ type fitOptions struct {
 func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	var o fitOptions
 	d := &o.Spec.Dataset
-	fs := newFlagSet("fit", "FILE.csv", "Fit candidate families to one column of a CSV file by maximum likelihood and\nprint their ranking. Censoring flags are named as the project file's keys.", stderr)
+	fs := newFlagSet("fit", "FILE.csv", "Fit candidate families to one column of a CSV file by maximum likelihood and\nprint their ranking. Censoring flags are named as the project file's keys\n(--status_column, --lower_column, …); the hyphenated spellings work too.", stderr)
 	fs.StringVar(&d.Column, "column", "", "the `NAME` of the column of observations")
-	fs.StringVar(&o.Families, "families", "", "comma-separated `LIST` of families (default: every continuous family, or every count family with --discrete or --trials-column)")
+	fs.StringVar(&o.Families, "families", "", "comma-separated `LIST` of families (default: every continuous family, or every count family with --discrete or --trials_column)")
 	fs.BoolVar(&o.Discrete, "discrete", false, "rank the count families by default")
 	fs.StringVar(&o.Criterion, "criterion", "aicc", "ranking criterion: aic, aicc or bic")
-	fs.StringVar(&d.StatusColumn, "status-column", "", "column of censoring codes")
+	keyFlag(fs, &d.StatusColumn, "status_column", "the `NAME` of the column of censoring codes")
 	fs.StringVar(&o.Left, "left", "", "comma-separated codes of left-censored rows (non-detects)")
 	fs.StringVar(&o.Right, "right", "", "comma-separated codes of right-censored rows (suspensions)")
-	fs.StringVar(&d.LowerColumn, "lower-column", "", "column of lower bounds of interval-censored values (empty cell = open)")
-	fs.StringVar(&d.UpperColumn, "upper-column", "", "column of upper bounds of interval-censored values (empty cell = open)")
-	fs.StringVar(&d.TrialsColumn, "trials-column", "", "column of each count's number of trials (binomial-type data)")
+	keyFlag(fs, &d.LowerColumn, "lower_column", "the `NAME` of the column of lower bounds of interval-censored values (empty cell = open; equal bounds = an exact value)")
+	keyFlag(fs, &d.UpperColumn, "upper_column", "the `NAME` of the column of upper bounds of interval-censored values (empty cell = open)")
+	keyFlag(fs, &d.TrialsColumn, "trials_column", "the `NAME` of the column of each count's number of trials (binomial-type data)")
 	fs.StringVar(&d.Delimiter, "delimiter", ",", "field separator, one character")
 	fs.StringVar(&o.Missing, "missing", ",NA", "comma-separated cell values skipped as missing (the empty cell is written as nothing)")
 	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once, and the most cores used (default: all cores)")
@@ -68,6 +69,13 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	d.Left, d.Right = splitList(o.Left), splitList(o.Right)
 	d.Missing = strings.Split(o.Missing, ",")
 	return runFit(ctx, o, stdout, stderr)
+}
+
+// keyFlag defines a flag named as the project file's key (status_column),
+// and its hyphenated spelling (status-column) as the same flag.
+func keyFlag(fs *flag.FlagSet, p *string, key, usage string) {
+	fs.StringVar(p, key, "", usage)
+	fs.StringVar(p, strings.ReplaceAll(key, "_", "-"), "", "the same as --"+key+" `NAME`")
 }
 
 // splitList splits a comma-separated flag value; "" gives nil.

@@ -1,0 +1,125 @@
+package runner
+
+import (
+	"errors"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+)
+
+// projectWords are the project file's ways of naming things, which the
+// messages of `fitseal fit` must not use: table headers, key = value
+// lines, the synthetic dataset's name, and keys not written as flags.
+var projectWords = regexp.MustCompile(`\[\[|\w = |dataset "data"|(^|[^-])\b(status_column|lower_column|upper_column|trials_column)\b|(needs|in|of) (left|right|missing)\b`)
+
+// TestQuickProjectErrors: every problem the flags of `fitseal fit` can make
+// in its synthetic project is named by the flag, and its hint says what to
+// do with flags, not with project-file lines.
+func TestQuickProjectErrors(t *testing.T) {
+	cases := []struct {
+		name      string
+		d         Dataset
+		families  []string
+		err, hint string
+	}{
+		{"no column", Dataset{}, nil,
+			"fitseal fit: --column: is required (or --lower_column and --upper_column for interval data)",
+			"add --column NAME, the header of the observations"},
+		{"status column without codes", Dataset{Column: "x", StatusColumn: "s"}, nil,
+			"fitseal fit: --status_column: needs --left or --right: without censoring codes the status column says nothing",
+			"list the codes, e.g. --left '<' for non-detects and --right '+' for suspensions"},
+		{"codes without status column", Dataset{Column: "x", Left: []string{"<"}}, nil,
+			"fitseal fit: --left: needs --status_column",
+			"add --status_column NAME, the column holding these codes"},
+		{"one code on both sides", Dataset{Column: "x", StatusColumn: "s", Left: []string{"<"}, Right: []string{"<"}}, nil,
+			`fitseal fit: --right: "<" is already listed in --left`,
+			"each code must mean one thing"},
+		{"one column in two roles", Dataset{Column: "x", StatusColumn: "x", Left: []string{"<"}}, nil,
+			`fitseal fit: --status_column: "x" is already the --column`,
+			"each role needs its own column"},
+		{"half an interval", Dataset{LowerColumn: "lo"}, nil,
+			"fitseal fit: --upper_column: is missing",
+			"interval-censored data need both --lower_column and --upper_column"},
+		{"column and interval", Dataset{Column: "x", LowerColumn: "lo", UpperColumn: "hi"}, nil,
+			"fitseal fit: --column: cannot be given together with --lower_column and --upper_column",
+			"remove --column: interval data take their values from --lower_column and --upper_column"},
+		{"status and interval", Dataset{LowerColumn: "lo", UpperColumn: "hi", StatusColumn: "s", Left: []string{"<"}}, nil,
+			"fitseal fit: --status_column: cannot be combined with --lower_column and --upper_column",
+			"interval bounds already say what is known: use either --status_column or --lower_column and --upper_column"},
+		{"trials and censoring", Dataset{Column: "k", TrialsColumn: "n", StatusColumn: "s", Left: []string{"<"}}, []string{"binomial"},
+			"fitseal fit: --trials_column: cannot be combined with censoring",
+			"binomial-type counts are exact observations: drop the censoring flags"},
+		{"trials with a continuous family", Dataset{Column: "k", TrialsColumn: "n"}, []string{"normal"},
+			`fitseal fit: --families: --trials_column is given, but "normal" is a continuous family`,
+			"use count families such as binomial or betabinomial with --trials_column"},
+		{"discrete and continuous families", Dataset{Column: "x"}, []string{"normal", "poisson"},
+			`fitseal fit: --families: mixes discrete families (poisson) with continuous ones (normal): their likelihoods are not on the same footing`,
+			"put count families and continuous families in separate runs of fitseal fit"},
+	}
+	dir := t.TempDir()
+	file := filepath.Join(dir, "x.csv")
+	if err := os.WriteFile(file, []byte("x,s,k,n,lo,hi\n1,,1,2,1,2\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := QuickProject(QuickSpec{File: file, Dataset: c.d, Families: c.families})
+			var pes ProjectErrors
+			if !errors.As(err, &pes) {
+				t.Fatalf("error %v (%T), want ProjectErrors", err, err)
+			}
+			if got := pes[0].Error(); got != c.err || pes[0].Hint != c.hint {
+				t.Errorf("got  %q\n     hint %q\nwant %q\n     hint %q", got, pes[0].Hint, c.err, c.hint)
+			}
+			for _, e := range pes {
+				if projectWords.MatchString(e.Error()) || projectWords.MatchString(e.Hint) {
+					t.Errorf("project-file words in %q (hint %q)", e.Error(), e.Hint)
+				}
+			}
+		})
+	}
+}
+
+// TestQuickDataErrors: reading the data file of `fitseal fit`, the errors
+// and hints name its flags; reading a project's dataset, its keys.
+func TestQuickDataErrors(t *testing.T) {
+	cases := []struct {
+		name              string
+		d                 Dataset
+		csv               string
+		fitErr, fitHint   string
+		projErr, projHint string
+	}{
+		{"no such column", Dataset{Column: "y"}, "x\n1\n",
+			`x.csv:1: no column "y" (named by --column)`, `did you mean "x"?`,
+			`x.csv:1: no column "y" (named by column in dataset "life")`, `did you mean "x"?`},
+		{"unknown status code", Dataset{Column: "x", StatusColumn: "s", Left: []string{"<"}}, "x,s\n1,?\n",
+			`x.csv line 2, column "s": unknown status code "?" (left: "<"; right: )`, "list it in --left or --right, or leave the cell empty for an exact value",
+			`x.csv line 2, column "s": unknown status code "?" (left: "<"; right: )`, `list it in left or right of dataset "life", or leave the cell empty for an exact value`},
+		{"blank line", Dataset{Column: "x", Missing: []string{"NA"}}, "x\n1\n\n",
+			`x.csv:3: the line is blank, and an empty cell is not a missing value (missing: "NA")`, `remove the line, or add "" to --missing to count blank lines as missing rows`,
+			`x.csv:3: the line is blank, and an empty cell is not a missing value (missing: "NA")`, `remove the line, or add "" to missing in dataset "life" to count blank lines as missing rows`},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			for _, fit := range []bool{true, false} {
+				d := c.d
+				d.Name, d.fitFlags = "life", fit
+				_, err := ReadCSV("x.csv", strings.NewReader(c.csv), &d)
+				var de *DataError
+				if !errors.As(err, &de) {
+					t.Fatalf("error %v (%T), want *DataError", err, err)
+				}
+				want, hint := c.projErr, c.projHint
+				if fit {
+					want, hint = c.fitErr, c.fitHint
+				}
+				if de.Error() != want || de.Hint != hint {
+					t.Errorf("fit command %v: got %q, hint %q\nwant %q, hint %q", fit, de.Error(), de.Hint, want, hint)
+				}
+			}
+		})
+	}
+}
