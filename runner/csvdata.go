@@ -368,10 +368,13 @@ func (rd *csvReading) rows() error {
 // all empty: where the empty cell is a missing value (as by default), it is
 // counted and reported as a missing row like any other, so that a blank
 // year in a column of annual maxima does not vanish; where it is not, the
-// line is an error. The line break that ends the file is not a blank line.
+// line is an error. In interval data it is a row with both bounds open,
+// which counts as missing whatever the missing values are (an empty bound
+// is open, not missing). The line break that ends the file is not a blank
+// line.
 func (rd *csvReading) blankLine(line int) error {
 	rd.line = line
-	if !rd.isMissing(nil) {
+	if !rd.d.Interval() && !rd.isMissing(nil) {
 		return &DataError{File: rd.name, Line: line,
 			Msg:  fmt.Sprintf("the line is blank, and an empty cell is not a missing value (missing: %s)", cmp.Or(quoteList(rd.d.Missing), "none")),
 			Hint: fmt.Sprintf(`remove the line, or add "" to %s to count blank lines as missing rows`, rd.d.setting("missing"))}

@@ -150,6 +150,17 @@ func TestReadCSV(t *testing.T) {
 			rows: 4, missing: 1, filtered: 2,
 		},
 		{
+			name:   "a blank line in interval data is a row with both bounds open, missing whatever missing lists",
+			d:      Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{"NA"}},
+			csv:    "lo,hi\n1,2\n,\n\n3,4\n",
+			groups: []string{""},
+			data: []struct {
+				exact, left, right, lower, upper []float64
+				trials                           []int
+			}{{lower: []float64{1, 3}, upper: []float64{2, 4}}},
+			rows: 4, missing: 2, blank: 1,
+		},
+		{
 			name:   "a blank line in interval data is a missing row",
 			d:      Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{"", "NA"}},
 			csv:    "lo,hi\n1,2\n\n3,4\n",
