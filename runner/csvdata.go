@@ -693,8 +693,7 @@ func (rd *csvReading) observation(rec [][]byte, g *groupBuilder) error {
 
 // interval reads the bounds of one interval-censored row: an empty cell is
 // an open bound, other missing tokens make the row missing. Equal bounds
-// are a value known exactly, which joins the exact values (a density
-// term); a lower bound above the upper one is an error.
+// (an empty interval) and a lower bound above the upper one are errors.
 func (rd *csvReading) interval(rec [][]byte, g *groupBuilder) error {
 	bound := func(i int, open float64, what string) (float64, bool, error) {
 		if len(bytes.TrimSpace(rec[i])) == 0 {
@@ -715,17 +714,19 @@ func (rd *csvReading) interval(rec [][]byte, g *groupBuilder) error {
 		rd.out.Missing++
 		return nil
 	}
-	if lo > hi {
+	if lo >= hi {
 		cells := []int{rd.lower, rd.upper}
 		if rd.upper < rd.lower {
 			cells = []int{rd.upper, rd.lower}
 		}
-		return rd.failCells(cells, "swap the bounds if they were entered the wrong way round; equal bounds record a value known exactly",
+		if lo == hi {
+			// Every interval row counts as censored (SPEC.md): a value
+			// read to a resolution is the interval of that width.
+			return rd.failCells(cells, "record a value read to a resolution as the interval it stands for, e.g. 3.45 and 3.55 for 3.5 read to 0.1",
+				"the interval (%v, %v] is empty: lower bound and upper bound are equal", lo, hi)
+		}
+		return rd.failCells(cells, "swap the bounds if they were entered the wrong way round",
 			"lower bound %v is above upper bound %v", lo, hi)
-	}
-	if lo == hi {
-		g.exact.add(lo)
-		return nil
 	}
 	g.lower.add(lo)
 	g.upper.add(hi)

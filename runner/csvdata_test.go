@@ -84,17 +84,6 @@ func TestReadCSV(t *testing.T) {
 			rows:    5,
 		},
 		{
-			name:   "interval rows with equal bounds are exact values",
-			d:      Dataset{LowerColumn: "lo", UpperColumn: "hi", Missing: []string{"", "NA"}},
-			csv:    "lo,hi\n1,2\n3.5,3.5\n,5\n0,0\n2,4\n-1,-1.0\n",
-			groups: []string{""},
-			data: []struct {
-				exact, left, right, lower, upper []float64
-				trials                           []int
-			}{{exact: []float64{3.5, 0, -1}, lower: []float64{1, math.Inf(-1), 2}, upper: []float64{2, 5, 4}}},
-			rows: 6,
-		},
-		{
 			name:   "trials column",
 			d:      Dataset{Column: "k", TrialsColumn: "n", Missing: []string{""}},
 			csv:    "k,n\n3,10\n0,4\n",
@@ -251,6 +240,7 @@ func TestReadCSVErrors(t *testing.T) {
 		{"bad trials", trials, "k,n\n1,2.5\n", 2, 3, `in.csv line 2, column "n": trials "2.5" is not a whole number of trials`},
 		{"count above trials", trials, "k,n\n1,2\n5,3\n", 3, 1, `in.csv line 3, column "k": the value 5 is outside 0 … 3 trials`},
 		{"lower bound above upper", interval, "lo,hi\n1,2\n7,5\n", 3, 1, `in.csv line 3, columns "lo" and "hi": lower bound 7 is above upper bound 5`},
+		{"empty interval", interval, "lo,hi\n3.5,3.5\n", 2, 1, `in.csv line 2, columns "lo" and "hi": the interval (3.5, 3.5] is empty: lower bound and upper bound are equal`},
 		{"lower bound above upper, columns in header order", interval, "id,hi,lo\na,5,7.25\n", 2, 3, `in.csv line 2, columns "hi" and "lo": lower bound 7.25 is above upper bound 5`},
 		{"bare quote", obs, "x,y\n1,a\"b\n", 2, 3, `in.csv line 2, column "y": not valid CSV: bare " in non-quoted-field (at character 4 of the line)`},
 		{"quote left open", obs, "x\n\"1\n", 2, 1, `in.csv line 2, column "x": not valid CSV: extraneous or missing " in quoted-field (at character 4 of the line)`},

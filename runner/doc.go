@@ -17,8 +17,7 @@
 // Group order is the order of first appearance among the rows that `where`
 // keeps. In interval data an empty cell is an open bound; a row with both
 // bounds open, or with another missing token, counts as missing; a row with
-// lower = upper is an exact observation of that value; a row with
-// lower > upper is an error. A trials column cannot be combined with
+// lower ≥ upper is an error (every interval row counts as censored). A trials column cannot be combined with
 // censoring, and a count above its trials is an error.
 //
 // [ReadDataset] streams one CSV file and returns one group per value of the
