@@ -29,6 +29,12 @@ type thresholdModel struct {
 	censored *thresholdLocScale
 }
 
+// ThresholdFloor is the smallest value that must lie above a threshold
+// family's threshold γ (weibull3, lognormal3): the least exact value,
+// non-detect limit or finite interval upper bound; ok is false when d has
+// none.
+func ThresholdFloor(d *Data) (float64, bool) { return thresholdFloor(d) }
+
 // thresholdFloor is the smallest value that must lie above the threshold:
 // the least exact value, non-detect limit or finite interval upper bound
 // (right-censored values and interval lower bounds may lie below it).

@@ -184,6 +184,14 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 				continue
 			}
 			r.Lower, r.Upper = waldInterval(fit.Estimates[i], r.StdError, scales[i], z)
+			if m, ok := thresholdGap(fam, fit, d, i); ok {
+				// A threshold lies below the smallest value m: its interval
+				// is taken on ln(m − γ), so that it stays below m.
+				g := m - fit.Estimates[i]
+				su := r.StdError / g
+				r.Lower, r.Upper = m-g*math.Exp(z*su), m-g*math.Exp(-z*su)
+				r.Method = "wald (log scale of the distance below the smallest value)"
+			}
 		}
 	case MethodProfile:
 		cut := chiSquareCut(level)
@@ -262,6 +270,21 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 }
 
 // methodLabel is the ci_method text of a row that got no interval.
+// thresholdGap reports, for a free threshold γ (weibull3, lognormal3)
+// estimated below the smallest value m that must lie above it
+// (fitters.ThresholdFloor), that m, on which the Wald interval is taken
+// as ln(m − γ) ± z·se/(m − γ).
+func thresholdGap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, i int) (float64, bool) {
+	if fam.Parameters()[i] != "threshold" {
+		return 0, false
+	}
+	m, ok := fitters.ThresholdFloor(d)
+	if !ok || !(fit.Estimates[i] < m) {
+		return 0, false
+	}
+	return m, true
+}
+
 func methodLabel(m Method) string {
 	switch m {
 	case MethodWald:

@@ -2,12 +2,15 @@ package infer
 
 import (
 	"math"
+	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
 	"fitseal/fitters"
 
 	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // z975 and chi95 are the standard normal 0.975 quantile and the χ²₁ 0.95
@@ -198,5 +201,44 @@ func TestBootstrapInformationWorkers(t *testing.T) {
 	}
 	if ref.Succeeded()-ref.NoCovariance < 25 {
 		t.Errorf("only %d of 30 gev replicates gave a covariance (%s)", ref.Succeeded()-ref.NoCovariance, ref.FirstNoCovariance)
+	}
+}
+
+// TestWaldThresholdStaysBelowTheData: a free threshold γ lies below the
+// smallest value m; its Wald interval is taken on ln(m − γ), so both ends
+// stay below m (on the natural scale the upper end ran past it, to values
+// the likelihood forbids), and it is that transform's interval exactly.
+func TestWaldThresholdStaysBelowTheData(t *testing.T) {
+	r := rand.New(rand.NewPCG(11, 12))
+	x := make([]float64, 30)
+	for i := range x {
+		x[i] = 100 + 40*math.Pow(-math.Log(1-r.Float64()), 1/2.5) // weibull3: threshold 100, scale 40, shape 2.5
+	}
+	d := fitters.Complete(x)
+	m := slices.Min(x)
+	z := distuv.UnitNormal.Quantile(0.975)
+	for _, name := range []string{"weibull3", "lognormal3"} {
+		fam := family(t, name)
+		fit := fitOf(t, fam, d)
+		rows, err := Intervals(fam, fit, d, MethodWald, Settings{Level: 0.95})
+		if err != nil {
+			t.Fatal(err)
+		}
+		checked := false
+		for i, row := range rows {
+			if fit.Parameters[i] != "threshold" {
+				continue
+			}
+			g := m - row.Estimate
+			lo, hi := m-g*math.Exp(z*row.StdError/g), m-g*math.Exp(-z*row.StdError/g)
+			if !(row.Upper < m) || !(row.Lower < row.Estimate && row.Estimate < row.Upper) ||
+				math.Abs(row.Lower-lo) > 1e-9*math.Abs(lo) || math.Abs(row.Upper-hi) > 1e-9*math.Abs(hi) {
+				t.Errorf("%s threshold %v: interval [%v, %v] by %q; want [%v, %v], below the smallest value %v", name, row.Estimate, row.Lower, row.Upper, row.Method, lo, hi, m)
+			}
+			checked = true
+		}
+		if !checked {
+			t.Errorf("%s: no threshold row", name)
+		}
 	}
 }
