@@ -149,8 +149,8 @@ quantiles = [0.5]
 				t.Errorf("poisson median %v, want a count", d.Estimate)
 			}
 		case "binomial", "betabinomial":
-			if !math.IsNaN(d.Estimate) || !strings.Contains(d.Note, "own number of trials") {
-				t.Errorf("%s median %v (%q), want none: each row has its own number of trials", d.Family, d.Estimate, d.Note)
+			if !math.IsNaN(d.Estimate) || !strings.Contains(d.Note, "different numbers of trials") {
+				t.Errorf("%s median %v (%q), want none: the rows have different numbers of trials", d.Family, d.Estimate, d.Note)
 			}
 		}
 	}

@@ -129,6 +129,11 @@ func quantityScale(fam fitters.Family, fit *fitters.Fit, q Quantity, est float64
 // so it has no delta-method standard error and gets bootstrap percentile
 // intervals only.
 func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, arg float64, method Method, s Settings) (DerivedValue, error) {
+	if n, ok := commonTrials(d.Trials); ok {
+		// Every observation has the same number of trials: the quantity is
+		// that of the member with those trials.
+		fam = withCommonTrials{fam, n}
+	}
 	v, err := derived(fam, fit, d, q, arg, method, s)
 	if u, ok := excessThreshold(fam, fit); ok && err == nil && !math.IsNaN(v.Estimate) {
 		v.Note = fitters.JoinNote(v.Note, fmt.Sprintf("of X given X > %v: %s models the excesses over its threshold %v, so for the chance of exceeding a value unconditionally multiply by the chance of exceeding %v", u, fam.Name(), u, u))
@@ -148,6 +153,39 @@ func excessThreshold(fam fitters.Family, fit *fitters.Fit) (float64, bool) {
 		}
 	}
 	return 0, false
+}
+
+// commonTrials is the number of trials every observation shares, when
+// there are trials and they are all equal.
+func commonTrials(t []int) (int, bool) {
+	if len(t) == 0 {
+		return 0, false
+	}
+	for _, n := range t[1:] {
+		if n != t[0] {
+			return 0, false
+		}
+	}
+	return t[0], true
+}
+
+// withCommonTrials is a binomial-type family whose members (New) have n
+// trials, so that a quantile or exceedance probability is that of the
+// observations' common number of trials.
+type withCommonTrials struct {
+	fitters.Family
+	n int
+}
+
+func (f withCommonTrials) New(theta []float64) (fitters.Dist, error) {
+	d, err := f.Family.New(theta)
+	if err != nil {
+		return nil, err
+	}
+	if dn, ok := withTrials(d, f.n); ok {
+		return dn, nil
+	}
+	return d, nil
 }
 
 func derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, arg float64, method Method, s Settings) (DerivedValue, error) {
@@ -175,8 +213,8 @@ func derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 		out.Note = "the fit did not converge: no estimate"
 		return out, nil
 	}
-	if d.Trials != nil {
-		out.Note = "each observation has its own number of trials, so the quantity has no single value: not given"
+	if _, common := fam.(withCommonTrials); d.Trials != nil && !common {
+		out.Note = "the observations have different numbers of trials, so the quantity has no single value: not given"
 		return out, nil
 	}
 	out.Estimate = g(fit.Estimates)

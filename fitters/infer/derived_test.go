@@ -2,6 +2,7 @@ package infer
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"fitseal/fitters"
@@ -128,5 +129,42 @@ func TestBootstrapTDerivedExact(t *testing.T) {
 		if !withinWidth(got.Lower, got.Upper, e, 0.05) || got.Method != want || got.Note != "" {
 			t.Errorf("%s q99: (%v, %v) %q %q, want about (%v, %v) %q", tc.family, got.Lower, got.Upper, got.Method, got.Note, e.Lower, e.Upper, want)
 		}
+	}
+}
+
+// TestBinomialCommonTrials: when every row has the same number of trials
+// (10 here) a binomial's quantiles and exceedance probabilities are those
+// of the member with 10 trials; with p̂ = 28/80 = 0.35, scipy 1.10 gives
+// binom.ppf(0.5, 10, 0.35) = 3, binom.ppf(0.9, 10, 0.35) = 5 and
+// binom.sf(5, 10, 0.35) = 0.09493408017324216 (computed with /usr/bin/python3
+// from the closed form p̂ = Σk/Σn). Rows with different numbers of trials
+// have no single value, and say so.
+func TestBinomialCommonTrials(t *testing.T) {
+	fam := family(t, "binomial")
+	d := &fitters.Data{Exact: []float64{3, 5, 2, 0, 7, 4, 1, 6}, Trials: []int{10, 10, 10, 10, 10, 10, 10, 10}}
+	fit := fitOf(t, fam, d)
+	for _, c := range []struct {
+		q    Quantity
+		arg  float64
+		want float64
+	}{
+		{Quantile, 0.5, 3}, {Quantile, 0.9, 5}, {Exceedance, 5, 0.09493408017324216},
+	} {
+		v, err := Derived(fam, fit, d, c.q, c.arg, MethodProfile, Settings{Level: 0.95})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(v.Estimate-c.want) > 1e-12*math.Max(1, c.want) {
+			t.Errorf("%s %v: %v (%q), scipy %v", c.q, c.arg, v.Estimate, v.Note, c.want)
+		}
+		if c.q == Exceedance && !(v.Lower < v.Estimate && v.Estimate < v.Upper) {
+			t.Errorf("%s %v: interval [%v, %v] by %q (%q)", c.q, c.arg, v.Lower, v.Upper, v.Method, v.Note)
+		}
+	}
+	d.Trials[3] = 12
+	fit = fitOf(t, fam, d)
+	v, err := Derived(fam, fit, d, Quantile, 0.5, MethodProfile, Settings{Level: 0.95})
+	if err != nil || !math.IsNaN(v.Estimate) || !strings.Contains(v.Note, "different numbers of trials") {
+		t.Errorf("different trials: %+v, %v; want no value and the reason", v, err)
 	}
 }
