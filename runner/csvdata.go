@@ -296,6 +296,15 @@ func (rd *csvReading) header() error {
 		if hint == "" {
 			hint = "the header has: " + joinQuoted(rd.columns)
 		}
+		if len(rd.columns) == 1 {
+			for _, sep := range []string{";", "\t", "|"} {
+				if strings.Contains(rd.columns[0], sep) {
+					hint = fmt.Sprintf("the header reads as one column %q: if the file separates its columns with %q, set %s to %q",
+						rd.columns[0], sep, rd.d.setting("delimiter"), sep)
+					break
+				}
+			}
+		}
 		return -1, &DataError{File: rd.name, Line: rd.line, Msg: fmt.Sprintf("no column %q (named by %s)", col, rd.d.setting(key)), Hint: hint}
 	}
 	var err2 error
@@ -448,6 +457,35 @@ func (rd *csvReading) newGroup(name string) *groupBuilder {
 	return b
 }
 
+// delimiterName is the field separator in use, "," by default.
+func (rd *csvReading) delimiterName() string {
+	if rd.d.Delimiter == "" {
+		return ","
+	}
+	return rd.d.Delimiter
+}
+
+// censoringMark splits a cell such as "<0.5", "< 0.5", ">1200" or "0.5<"
+// into its number ("0.5") and mark; rest is "" when the cell is not a
+// number with such a mark.
+func censoringMark(b []byte) (rest string, mark byte) {
+	for _, m := range []byte{'<', '>'} {
+		var t []byte
+		switch {
+		case len(b) > 1 && b[0] == m:
+			t = bytes.TrimSpace(b[1:])
+		case len(b) > 1 && b[len(b)-1] == m:
+			t = bytes.TrimSpace(b[:len(b)-1])
+		default:
+			continue
+		}
+		if _, err := parseFloat(t); err == nil {
+			return string(t), m
+		}
+	}
+	return "", 0
+}
+
 // number parses one observation cell; ok is false for a missing cell.
 func (rd *csvReading) number(rec [][]byte, i int, what string) (x float64, ok bool, err error) {
 	b := bytes.TrimSpace(rec[i])
@@ -462,6 +500,14 @@ func (rd *csvReading) number(rec [][]byte, i int, what string) (x float64, ok bo
 			return 0, false, rd.fail(i, "", "%s %q is out of the range of a float64", what, cell)
 		}
 		hint := "write plain decimal numbers such as 1250, -0.5 or 1.25e3: a '.' decimal point, no thousands or digit separators, no hexadecimal"
+		switch rest, _ := censoringMark(b); {
+		case rest != "":
+			// "<0.5" or "> 1200": a laboratory's non-detect, or a
+			// suspension, written into the value cell.
+			hint = fmt.Sprintf("a value marked %q is censored: put %s in the value column and the mark in a status column (status_column, with left = [\"<\"] for non-detects or right = [\">\"] for values at or above it)", cell, rest)
+		case bytes.ContainsAny(b, ";\t|"):
+			hint += fmt.Sprintf("; if the file separates its columns with another character than %q, set %s to it", rd.delimiterName(), rd.d.setting("delimiter"))
+		}
 		if len(rd.d.Missing) > 0 {
 			hint += fmt.Sprintf("; missing cells must be one of %s", quoteList(rd.d.Missing))
 		}

@@ -388,3 +388,41 @@ func FuzzParseFloat(f *testing.F) {
 	}
 	f.Fuzz(func(t *testing.T, s string) { sameAsStrconv(t, s) })
 }
+
+// TestReadCSVHints: the hint that comes with a refused cell points at the
+// likely cause: a laboratory's "<0.5" written into the value cell is a
+// non-detect for a status column, a cell or header holding another
+// separator asks for the delimiter setting.
+func TestReadCSVHints(t *testing.T) {
+	obs := Dataset{Name: "d", Column: "x", Missing: []string{"", "NA"}}
+	for _, c := range []struct {
+		name, csv string
+		d         Dataset
+		want      string
+	}{
+		{"non-detect in the value cell", "x\n1.2\n<0.5\n", obs, `put 0.5 in the value column and the mark in a status column`},
+		{"non-detect with a space", "x\n< 0.5\n", obs, `put 0.5 in the value column`},
+		{"value at or above", "x\n1200>\n", obs, `put 1200 in the value column`},
+		{"semicolon inside a cell", "id,x\n1,1.2;3\n", obs, `if the file separates its columns with another character than ",", set delimiter in dataset "d" to it`},
+		{"semicolon header", "x;y\n1;2\n", obs, `the header reads as one column "x;y": if the file separates its columns with ";", set delimiter in dataset "d" to ";"`},
+		{"plain typo has neither", "x\n4O\n", obs, `write plain decimal numbers`},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := ReadCSV("in.csv", strings.NewReader(c.csv), &c.d)
+			var de *DataError
+			if !errors.As(err, &de) || !strings.Contains(de.Hint, c.want) {
+				t.Fatalf("error %v, hint %q; want a hint containing %q", err, hintOf(de), c.want)
+			}
+			if c.name == "plain typo has neither" && (strings.Contains(de.Hint, "status column") || strings.Contains(de.Hint, "delimiter")) {
+				t.Errorf("hint %q points at a cause the cell does not show", de.Hint)
+			}
+		})
+	}
+}
+
+func hintOf(de *DataError) string {
+	if de == nil {
+		return ""
+	}
+	return de.Hint
+}
