@@ -271,3 +271,29 @@ func TestNonDetectAtZero(t *testing.T) {
 		}
 	}
 }
+
+// TestSingleExactValueIsNamed: one exact value among non-detects above it
+// and a suspension below it leave the likelihood of a family with a free
+// scale without bound (concentrated on the value, f → ∞ while F and S of
+// the limits → 1). Such a fit fails, and its reason names the cause
+// instead of only the optimiser's stop; a family that cannot concentrate
+// (exponential) still fits.
+func TestSingleExactValueIsNamed(t *testing.T) {
+	d := &Data{Exact: []float64{2.5}, Left: []float64{3, 4, 5}, Right: []float64{1}}
+	for _, name := range []string{"normal", "lognormal", "gamma", "weibull", "logistic", "exponential"} {
+		fam, _ := Lookup(name)
+		fit, err := fam.Fit(d, Options{})
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if name == "exponential" {
+			if !fit.Converged {
+				t.Errorf("exponential: %s", fit.Reason)
+			}
+			continue
+		}
+		if fit.Converged || !strings.Contains(fit.Reason, "one distinct exact value, 2.5") {
+			t.Errorf("%s: converged %v, reason %q", name, fit.Converged, fit.Reason)
+		}
+	}
+}

@@ -51,6 +51,11 @@ func (c checkedFamily) Fit(d *Data, opt Options) (*Fit, error) {
 				fit.LogLik, flatTolerance, flat, 1-flatShare(d), flatShare(d))
 		}
 	}
+	if !fit.Converged && c.Kind() == Continuous && d.NCensored() > 0 {
+		if x0, ok := singleExactValue(d); ok {
+			fit.Reason = JoinNote(fit.Reason, fmt.Sprintf("the data have one distinct exact value, %v, beside censored ones: a family with a free scale has a likelihood without bound as it concentrates on it", x0))
+		}
+	}
 	if fit.Converged && fit.Note == "" {
 		for i, v := range fit.Estimates {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
@@ -91,6 +96,20 @@ func unidentified(d *Data) string {
 		return fmt.Sprintf("all %d observations are left-censored (non-detects): with no value observed the likelihood has no maximum, it rises toward 1 as the distribution moves below every detection limit", d.N())
 	}
 	return ""
+}
+
+// singleExactValue reports the one distinct exact value of d, when its
+// exact values are all equal (and there is at least one).
+func singleExactValue(d *Data) (float64, bool) {
+	if len(d.Exact) == 0 {
+		return 0, false
+	}
+	for _, x := range d.Exact[1:] {
+		if x != d.Exact[0] {
+			return 0, false
+		}
+	}
+	return d.Exact[0], true
 }
 
 // flatTolerance is how near (in log-likelihood) a fit may come to the flat
