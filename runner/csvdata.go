@@ -62,16 +62,16 @@ func ReadDataset(p *Project, d *Dataset) (*DatasetData, error) {
 func readDataset(p *Project, d *Dataset, workers int) (*DatasetData, error) {
 	f, err := os.Open(d.Path(p))
 	if err != nil {
-		return nil, &DataError{File: d.File, Msg: fmt.Sprintf("cannot open: %v", unwrapPathError(err)), Err: err}
+		return nil, &DataError{File: d.errorName(), Msg: fmt.Sprintf("cannot open: %v", unwrapPathError(err)), Err: err}
 	}
 	defer f.Close()
 	dr := newDigestReader(f)
-	dd, err := readCSV(d.File, dr, d, workers, csvChunkSize)
+	dd, err := readCSV(d.errorName(), dr, d, workers, csvChunkSize)
 	if err != nil {
 		return nil, err
 	}
 	if dd.Source, err = dr.digest(); err != nil {
-		return nil, &DataError{File: d.File, Msg: fmt.Sprintf("cannot read: %v", unwrapPathError(err)), Err: err}
+		return nil, &DataError{File: d.errorName(), Msg: fmt.Sprintf("cannot read: %v", unwrapPathError(err)), Err: err}
 	}
 	return dd, nil
 }
@@ -504,7 +504,8 @@ func (rd *csvReading) number(rec [][]byte, i int, what string) (x float64, ok bo
 		case rest != "":
 			// "<0.5" or "> 1200": a laboratory's non-detect, or a
 			// suspension, written into the value cell.
-			hint = fmt.Sprintf("a value marked %q is censored: put %s in the value column and the mark in a status column (status_column, with left = [\"<\"] for non-detects or right = [\">\"] for values at or above it)", cell, rest)
+			hint = fmt.Sprintf("a value marked %q is censored: put %s in the value column and the mark in a column of its own, named by %s, with %s listing \"<\" for non-detects (or %s listing \">\" for values at or above it)",
+				cell, rest, rd.d.setting("status_column"), rd.d.setting("left"), rd.d.setting("right"))
 		case bytes.ContainsAny(b, ";\t|"):
 			hint += fmt.Sprintf("; if the file separates its columns with another character than %q, set %s to it", rd.delimiterName(), rd.d.setting("delimiter"))
 		}

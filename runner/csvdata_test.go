@@ -400,7 +400,7 @@ func TestReadCSVHints(t *testing.T) {
 		d         Dataset
 		want      string
 	}{
-		{"non-detect in the value cell", "x\n1.2\n<0.5\n", obs, `put 0.5 in the value column and the mark in a status column`},
+		{"non-detect in the value cell", "x\n1.2\n<0.5\n", obs, `put 0.5 in the value column and the mark in a column of its own, named by status_column in dataset "d", with left in dataset "d" listing "<"`},
 		{"non-detect with a space", "x\n< 0.5\n", obs, `put 0.5 in the value column`},
 		{"value at or above", "x\n1200>\n", obs, `put 1200 in the value column`},
 		{"semicolon inside a cell", "id,x\n1,1.2;3\n", obs, `if the file separates its columns with another character than ",", set delimiter in dataset "d" to it`},

@@ -90,10 +90,10 @@ func readAll(p *Project, workers int) (map[string]*DatasetData, error) {
 		}
 		if len(dd.Groups) == 0 || (d.SplitBy == "" && dd.Groups[0].Data.N() == 0) {
 			if d.fitFlags {
-				return nil, &DataError{File: d.File, Msg: fmt.Sprintf("no observations (%d rows, %d missing)", dd.Rows, dd.Missing),
+				return nil, &DataError{File: d.errorName(), Msg: fmt.Sprintf("no observations (%d rows, %d missing)", dd.Rows, dd.Missing),
 					Hint: "check --column (or --lower_column and --upper_column) and --missing"}
 			}
-			return nil, &DataError{File: d.File, Msg: fmt.Sprintf("dataset %q has no observations (%d rows, %d left out by where, %d missing)", d.Name, dd.Rows, dd.Filtered, dd.Missing),
+			return nil, &DataError{File: d.errorName(), Msg: fmt.Sprintf("dataset %q has no observations (%d rows, %d left out by where, %d missing)", d.Name, dd.Rows, dd.Filtered, dd.Missing),
 				Hint: "check column, where and missing in the project file"}
 		}
 		data[d.Name] = dd

@@ -91,11 +91,22 @@ type Dataset struct {
 	// errors of reading it name that command's flags, not the keys of a
 	// project file's dataset.
 	fitFlags bool
+	// shownAs, when set, is how errors name the data file: `fitseal fit`
+	// names it as the user typed it, not relative to its own folder.
+	shownAs string
 }
 
 // setting names one of the dataset's settings for a message: the
 // project-file key of this dataset (`missing in dataset "life"`), or the
 // flag of `fitseal fit` that gave it (`--missing`).
+// errorName is the data file as errors name it.
+func (d *Dataset) errorName() string {
+	if d.shownAs != "" {
+		return d.shownAs
+	}
+	return d.File
+}
+
 func (d *Dataset) setting(key string) string {
 	if d.fitFlags {
 		return "--" + key

@@ -2,6 +2,8 @@ package runner
 
 import (
 	"errors"
+	"fmt"
+	"os"
 	"path/filepath"
 	"strings"
 
@@ -29,6 +31,9 @@ type QuickSpec struct {
 // --status_column), and their hints give flags instead of project-file
 // lines; so do the errors of reading its data file.
 func QuickProject(spec QuickSpec) (*Project, error) {
+	if _, err := os.Stat(spec.File); err != nil {
+		return nil, &DataError{File: spec.File, Msg: fmt.Sprintf("cannot be read: %v", unwrapPathError(err)), Err: err}
+	}
 	d := spec.Dataset
 	ds := map[string]any{"name": "data", "file": filepath.Base(spec.File)}
 	put := func(k, v string) {
@@ -97,6 +102,7 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 	}
 	p.Defaulted = l.defaulted
 	p.Datasets[0].fitFlags = true
+	p.Datasets[0].shownAs = spec.File
 	return p, nil
 }
 
