@@ -239,7 +239,7 @@ func (d LogLogistic) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 // CDFTails of the gamma distribution: for shapes up to
 // incGammaMaxShape, incGammaTails (one series or continued fraction; ln x, ln Γ(k), one
 // exponential, one logarithm of the sum, and ln(1 − T) by a short series
-// where T < ¼). Otherwise, and where
+// where T < ¼); above it incGammaTailsLarge. Where
 // incGammaTails declines, one regularized incomplete gamma
 // function, P(k, βx) below the mode region or Q(k, βx) above it, whichever
 // is under ½ (gonum computes the smaller one directly), its logarithm, and
@@ -261,8 +261,9 @@ func (d Gamma) CDFTails(x float64) (cdf, logCDF, logSurvival float64) {
 		if cdf, logCDF, logSurvival, ok := incGammaTails(a, y); ok {
 			return cdf, logCDF, logSurvival
 		}
+		return gammaTailsGonum(a, y)
 	}
-	return gammaTailsGonum(a, y)
+	return incGammaTailsLarge(a, y)
 }
 
 // CDFTailsBatch is CDFTails over x with the constant part of the

@@ -28,6 +28,13 @@ func (d Gamma) LogPDF(x float64) float64 {
 			return math.Inf(-1)
 		}
 	}
+	if d.Shape > incGammaMaxShape {
+		// ln f = ln β − ln y + ln(y^k e^(−y)/Γ(k)), y = βx: the prefactor
+		// from Stirling's series, where the plain sum cancels terms of
+		// size k ln x (whole units at k = 1e20).
+		y := d.Rate * x
+		return math.Log(d.Rate) - math.Log(y) + logGammaPrefactor(d.Shape, y)
+	}
 	lg, _ := math.Lgamma(d.Shape)
 	return d.Shape*math.Log(d.Rate) + (d.Shape-1)*math.Log(x) - d.Rate*x - lg
 }
@@ -41,8 +48,15 @@ func (d Gamma) LogSurvival(x float64) float64 { return logGammaIncUpper(d.Shape,
 
 // Quantile starts from gonum's inverse of P (lower half) or of Q (upper
 // half) and polishes it on ln F or ln S (positiveQuantile), which also
-// rescues the far tails where the inverse underflows.
+// rescues the far tails where the inverse underflows. Above
+// incGammaMaxShape it starts from Wilson & Hilferty's (1931) cube-root
+// normal approximation, k(1 − 1/(9k) + z/(3√k))³ with z = Φ⁻¹(p), and
+// brackets the root in steps of a tenth of ln X's spread 1/√k, on the tails
+// of incGammaTailsLarge (gonum's evaluator is wrong there from k ≈ 1e16).
 func (d Gamma) Quantile(p float64) float64 {
+	if d.Shape > incGammaMaxShape {
+		return d.quantileLarge(p)
+	}
 	var x0 float64
 	if p > 0.5 {
 		x0 = mathext.GammaIncRegCompInv(d.Shape, 1-p) / d.Rate
@@ -53,6 +67,21 @@ func (d Gamma) Quantile(p float64) float64 {
 		x0 = d.Shape / d.Rate
 	}
 	return positiveQuantile(d, p, x0)
+}
+
+// quantileLarge is Quantile for a shape above incGammaMaxShape.
+func (d Gamma) quantileLarge(p float64) float64 {
+	k := d.Shape
+	sk := math.Sqrt(k)
+	z := distuv.UnitNormal.Quantile(p)
+	x0 := math.NaN()
+	if b := 1 - 1/(9*k) + z/(3*sk); b > 0.1 {
+		x0 = k * b * b * b / d.Rate
+	}
+	if !(x0 > 0) || math.IsInf(x0, 0) {
+		x0 = k / d.Rate
+	}
+	return positiveQuantileStep(d, p, x0, math.Min(1e-3, 0.1/sk))
 }
 
 func (d Gamma) Rand(r *rand.Rand) float64 {

@@ -9,7 +9,8 @@ import (
 // logGammaIncLower returns ln P(a, x), the log of the regularized lower
 // incomplete gamma function, accurate where P underflows: there it sums the
 // series P(a,x) = x^a e^(−x)/Γ(a+1) · Σ_n x^n/((a+1)…(a+n)) in log space
-// (Abramowitz & Stegun 6.5.29). Near P = 1 it uses log1p(−Q).
+// (Abramowitz & Stegun 6.5.29). Near P = 1 it uses log1p(−Q). Shapes above
+// incGammaMaxShape go to incGammaTailsLarge.
 func logGammaIncLower(a, x float64) float64 {
 	switch {
 	case math.IsNaN(x) || math.IsNaN(a):
@@ -18,6 +19,10 @@ func logGammaIncLower(a, x float64) float64 {
 		return math.Inf(-1)
 	case math.IsInf(x, 1):
 		return 0
+	}
+	if a > incGammaMaxShape {
+		_, lp, _ := incGammaTailsLarge(a, x)
+		return lp
 	}
 	if x > a {
 		q := mathext.GammaIncRegComp(a, x)
@@ -54,7 +59,8 @@ func logGammaSeries(a, x float64) float64 {
 // underflows: there it evaluates Legendre's continued fraction
 // Q(a,x) = x^a e^(−x)/Γ(a) · 1/(x+1−a− 1(1−a)/(x+3−a− 2(2−a)/(x+5−a− …)))
 // by the modified Lentz method (Press et al., Numerical Recipes, 6.2).
-// Near Q = 1 it uses log1p(−P).
+// Near Q = 1 it uses log1p(−P). Shapes above incGammaMaxShape go to
+// incGammaTailsLarge.
 func logGammaIncUpper(a, x float64) float64 {
 	switch {
 	case math.IsNaN(x) || math.IsNaN(a):
@@ -63,6 +69,10 @@ func logGammaIncUpper(a, x float64) float64 {
 		return 0
 	case math.IsInf(x, 1):
 		return math.Inf(-1)
+	}
+	if a > incGammaMaxShape {
+		_, _, lq := incGammaTailsLarge(a, x)
+		return lq
 	}
 	if x < a {
 		p := mathext.GammaIncReg(a, x)
