@@ -77,13 +77,51 @@ func quantityFunc(fam fitters.Family, q Quantity, arg float64) (func(theta []flo
 	default:
 		return nil, fmt.Errorf("unknown derived quantity %q: use quantile, return_level or exceedance", q)
 	}
+	continuous := fam.Kind() == fitters.Continuous
 	return func(theta []float64) float64 {
 		d, err := fam.New(theta)
 		if err != nil {
 			return math.NaN()
 		}
-		return d.Quantile(p)
+		x := d.Quantile(p)
+		if continuous && checkQuantile(d, p, x) != nil {
+			return math.NaN()
+		}
+		return x
 	}, nil
+}
+
+// quantileTolerance is how far ln F(x) (ln S(x) from p = ½ on) may lie
+// from ln p (ln(1 − p)) at a reported p-quantile x: the tail probability
+// within a relative 1e-6.
+const quantileTolerance = 1e-6
+
+// checkQuantile returns an error when x, a continuous distribution's
+// computed p-quantile, does not give back p: when ln F(x) − ln p (below
+// p = ½; ln(1 − p) − ln S(x) above) exceeds quantileTolerance in size and
+// p's tail does not change sides within 64 ulps of x either (where the
+// distribution is so narrow that neighbouring floats differ in F by more
+// than the tolerance). A quantile that is ±Inf or NaN is left to the caller.
+func checkQuantile(d fitters.Dist, p, x float64) error {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return nil
+	}
+	gap := func(x float64) float64 {
+		if p < 0.5 {
+			return d.LogCDF(x) - math.Log(p)
+		}
+		return math.Log1p(-p) - d.LogSurvival(x)
+	}
+	g := gap(x)
+	if math.Abs(g) <= quantileTolerance {
+		return nil
+	}
+	h := 64 * 0x1p-52 * math.Max(math.Abs(x), 0x1p-1022)
+	if gap(x-h) <= 0 && gap(x+h) >= 0 {
+		return nil
+	}
+	f := math.Exp(d.LogCDF(x))
+	return fmt.Errorf("the computed %v-quantile %v does not invert the CDF (F there is %.6g): the inversion failed, so no value is given", p, x, f)
 }
 
 // quantityScale is the scale of a derived quantity's Wald interval and
@@ -217,7 +255,20 @@ func derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 		out.Note = "the observations have different numbers of trials, so the quantity has no single value: not given"
 		return out, nil
 	}
-	out.Estimate = g(fit.Estimates)
+	out.Estimate = nan
+	dist, err := fam.New(fit.Estimates)
+	if q != Exceedance && fam.Kind() == fitters.Continuous && err == nil {
+		// g's value, with the reason where its check fails
+		p := q.probability(arg)
+		x := dist.Quantile(p)
+		if err := checkQuantile(dist, p, x); err != nil {
+			out.Note = err.Error()
+			return out, nil
+		}
+		out.Estimate = x
+	} else {
+		out.Estimate = g(fit.Estimates)
+	}
 	if math.IsNaN(out.Estimate) {
 		out.Note = "the quantity is not defined for this fit"
 		return out, nil
