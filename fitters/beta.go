@@ -89,9 +89,20 @@ func (f betaFamily) Applicable(d *Data, fixed Fixed) error {
 	if err := noFixed(f.Name(), fixed); err != nil {
 		return err
 	}
-	for _, v := range d.Values() {
-		if !(v > 0 && v < 1) {
-			return inapplicable(f.Name(), "needs proportions strictly between 0 and 1, the data have %v", v)
+	// Exact values and censoring limits lie strictly inside (0, 1); an
+	// interval may end at 0 or 1 (binned proportions (0, 0.1] … (0.9, 1]),
+	// where F is 0 or 1.
+	for _, v := range [][]float64{d.Exact, d.Left, d.Right} {
+		for _, x := range v {
+			if !(x > 0 && x < 1) {
+				return inapplicable(f.Name(), "needs proportions strictly between 0 and 1, the data have %v", x)
+			}
+		}
+	}
+	for i, l := range d.Lower {
+		u := d.Upper[i]
+		if !(math.IsInf(l, -1) || l >= 0 && l < 1) || !(math.IsInf(u, 1) || u > 0 && u <= 1) {
+			return inapplicable(f.Name(), "needs intervals within [0, 1], the data have (%v, %v]", l, u)
 		}
 	}
 	return needDistinct(f.Name(), d, 2)

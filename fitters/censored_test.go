@@ -297,3 +297,37 @@ func TestSingleExactValueIsNamed(t *testing.T) {
 		}
 	}
 }
+
+// TestBetaBinsEndingAtZeroAndOne: binned proportions whose outer bins end at
+// 0 and 1 ((0, 0.1] … (0.9, 1]) are valid interval data for the beta (F(0)
+// = 0, F(1) = 1), fitted to scipy's maximum of the same likelihood
+// (testdata/censored/make_beta_bins.py); an exact 0 is still refused.
+func TestBetaBinsEndingAtZeroAndOne(t *testing.T) {
+	b, err := os.ReadFile("../testdata/censored/beta_bins.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		Lower, Upper, Estimates []float64
+		LogLik                  float64 `json:"loglik"`
+	}
+	if err := json.Unmarshal(b, &ref); err != nil {
+		t.Fatal(err)
+	}
+	fam, _ := Lookup("beta")
+	fit, err := fam.Fit(&Data{Lower: ref.Lower, Upper: ref.Upper}, Options{})
+	if err != nil || !fit.Converged {
+		t.Fatalf("fit: %v %+v", err, fit)
+	}
+	if fit.LogLik < ref.LogLik-1e-6 {
+		t.Errorf("loglik %.10g below scipy's %.10g", fit.LogLik, ref.LogLik)
+	}
+	for i, v := range ref.Estimates {
+		if math.Abs(fit.Estimates[i]-v) > 1e-4*v {
+			t.Errorf("%s = %.8g, scipy %.8g", fit.Parameters[i], fit.Estimates[i], v)
+		}
+	}
+	if err := fam.Applicable(&Data{Exact: []float64{0, 0.5, 0.7}}, nil); err == nil {
+		t.Error("an exact 0 was accepted")
+	}
+}
