@@ -48,7 +48,7 @@ func (c checkedFamily) Fit(d *Data, opt Options) (*Fit, error) {
 		if flat, ok := flatSupremum(d); ok && math.Abs(fit.LogLik-flat) <= flatTolerance {
 			fit.Converged = false
 			fit.Reason = fmt.Sprintf("no exact value and no bounded interval, and the log-likelihood reached %.6g, within %g of %.6g, what a distribution flat across the data gives (probability %.3g below every non-detect limit, %.3g above every suspension): the fit runs off toward that limit (an ever larger scale) and the data do not identify the parameters",
-				fit.LogLik, flatTolerance, flat, 1-flatShare(d), flatShare(d))
+				fit.LogLik, flatTolerance, flat, 1-float64(boundedBelow(d))/float64(d.N()), float64(boundedBelow(d))/float64(d.N()))
 		}
 	}
 	if !fit.Converged && c.Kind() == Continuous && d.NCensored() > 0 {
@@ -137,25 +137,24 @@ func flatSupremum(d *Data) (ll float64, ok bool) {
 			return 0, false // a bounded interval
 		}
 	}
-	n := float64(d.N())
-	b := n * flatShare(d)
-	a := n - b
+	above := boundedBelow(d)
+	n, a, b := float64(d.N()), float64(d.N()-above), float64(above)
 	if a == 0 || b == 0 {
 		return 0, false
 	}
 	return a*math.Log(a/n) + b*math.Log(b/n), true
 }
 
-// flatShare is the share of observations bounded only from below
-// (suspensions and intervals (l, +∞)).
-func flatShare(d *Data) float64 {
+// boundedBelow counts the observations bounded only from below:
+// suspensions and intervals (l, +∞).
+func boundedBelow(d *Data) int {
 	b := len(d.Right)
 	for i := range d.Lower {
 		if math.IsInf(d.Upper[i], 1) && !math.IsInf(d.Lower[i], -1) {
 			b++
 		}
 	}
-	return float64(b) / float64(d.N())
+	return b
 }
 
 // markFixed flags the fixed parameters of fit and takes them out of k.
