@@ -51,9 +51,15 @@ func (c checkedFamily) Fit(d *Data, opt Options) (*Fit, error) {
 				fit.LogLik, flatTolerance, flat, 1-float64(boundedBelow(d))/float64(d.N()), float64(boundedBelow(d))/float64(d.N()))
 		}
 	}
-	if !fit.Converged && c.Kind() == Continuous && d.NCensored() > 0 {
-		if x0, ok := singleExactValue(d); ok {
-			fit.Reason = JoinNote(fit.Reason, fmt.Sprintf("the data have one distinct exact value, %v, beside censored ones: a family with a free scale has a likelihood without bound as it concentrates on it", x0))
+	if x0, ok := concentratesOn(d); ok && c.Kind() == Continuous && fit.K >= 2 {
+		why := fmt.Sprintf("the data have one distinct exact value, %v, and every censored observation allows it: the likelihood of a family with a free scale has no bound as the family concentrates on that value", x0)
+		if fit.Converged {
+			// A stop on the way there (which one depends on rounding, so
+			// on the platform) is not a maximum.
+			fit.Converged = false
+			fit.Reason = fmt.Sprintf("stopped at %v, log-likelihood %.6g, on the way to no maximum: %s", fit.Estimates, fit.LogLik, why)
+		} else {
+			fit.Reason = JoinNote(fit.Reason, why)
 		}
 	}
 	if fit.Converged && fit.Note == "" {
@@ -98,18 +104,40 @@ func unidentified(d *Data) string {
 	return ""
 }
 
-// singleExactValue reports the one distinct exact value of d, when its
-// exact values are all equal (and there is at least one).
-func singleExactValue(d *Data) (float64, bool) {
-	if len(d.Exact) == 0 {
+// concentratesOn reports x0 when d's exact values are all x0 and every
+// censored observation allows a distribution concentrated on it: each
+// non-detect limit at or above x0, each suspension at or below it, each
+// interval containing it. Then, as a family with a free scale concentrates
+// on x0, f(x0) grows without bound while every F(L), S(R) and interval
+// probability stays away from 0: the likelihood has no maximum. (A
+// one-parameter family such as the exponential cannot concentrate, and has
+// one.)
+func concentratesOn(d *Data) (float64, bool) {
+	if len(d.Exact) == 0 || d.NCensored() == 0 {
 		return 0, false
 	}
+	x0 := d.Exact[0]
 	for _, x := range d.Exact[1:] {
-		if x != d.Exact[0] {
+		if x != x0 {
 			return 0, false
 		}
 	}
-	return d.Exact[0], true
+	for _, l := range d.Left {
+		if !(l >= x0) {
+			return 0, false
+		}
+	}
+	for _, r := range d.Right {
+		if !(r <= x0) {
+			return 0, false
+		}
+	}
+	for i, l := range d.Lower {
+		if !(l <= x0 && x0 <= d.Upper[i]) {
+			return 0, false
+		}
+	}
+	return x0, true
 }
 
 // flatTolerance is how near (in log-likelihood) a fit may come to the flat
