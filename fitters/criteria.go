@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 )
 
 // Criterion is an information criterion used to rank candidate families.
@@ -145,7 +146,7 @@ func Compare(entries []Entry, criterion Criterion) (*Comparison, error) {
 	}
 	if criterion == AICc && len(undefinedAICc) > 0 {
 		c.Criterion = AIC
-		c.Note = fmt.Sprintf("ranked by AIC: AICc is undefined for %v (n ≤ k + 1)", undefinedAICc)
+		c.Note = fmt.Sprintf("ranked by AIC: AICc is undefined for %s (n ≤ k + 1)", strings.Join(undefinedAICc, ", "))
 	}
 	// Rank the rows that carry weight.
 	var idx []int

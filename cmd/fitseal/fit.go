@@ -46,7 +46,7 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	keyFlag(fs, &d.StatusColumn, "status_column", "the `NAME` of the column of censoring codes")
 	fs.StringVar(&o.Left, "left", "", "comma-separated codes of left-censored rows (non-detects)")
 	fs.StringVar(&o.Right, "right", "", "comma-separated codes of right-censored rows (suspensions)")
-	keyFlag(fs, &d.LowerColumn, "lower_column", "the `NAME` of the column of lower bounds of interval-censored values (empty cell = open; equal bounds = an exact value)")
+	keyFlag(fs, &d.LowerColumn, "lower_column", "the `NAME` of the column of lower bounds of interval-censored values (empty cell = open; every row is interval-censored, lower < upper)")
 	keyFlag(fs, &d.UpperColumn, "upper_column", "the `NAME` of the column of upper bounds of interval-censored values (empty cell = open)")
 	keyFlag(fs, &d.TrialsColumn, "trials_column", "the `NAME` of the column of each count's number of trials (binomial-type data)")
 	fs.StringVar(&d.Delimiter, "delimiter", ",", "field separator, one character")
