@@ -74,7 +74,7 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 		if row.Inapplicable != "" {
 			c.Note = "not applicable: " + row.Inapplicable
 		}
-		c.Statistic, c.AdequacyP = adequacy(ar.GOF, row.Family)
+		c.Statistic, c.AdequacyP, c.AdequacyNote = adequacy(ar.GOF, row.Family)
 		a.Ranking = append(a.Ranking, c)
 		if i < len(ar.Parameters) && row.Rank > 0 {
 			for _, pr := range ar.Parameters[i] {
@@ -129,15 +129,15 @@ func discrete(cmp *fitters.Comparison) bool {
 
 // adequacy picks the family's adequacy check: the first of AD, CvM, KS
 // and chi-square that has a p-value.
-func adequacy(rows []runner.GOFRow, family string) (string, float64) {
+func adequacy(rows []runner.GOFRow, family string) (stat string, p float64, note string) {
 	for _, stat := range []string{"ad", "cvm", "ks", "chisq"} {
 		for _, g := range rows {
 			if g.Family == family && g.Statistic == stat && !math.IsNaN(g.PValue) {
-				return stat, g.PValue
+				return stat, g.PValue, g.Note
 			}
 		}
 	}
-	return "", math.NaN()
+	return "", math.NaN(), ""
 }
 
 func summarise(d *fitters.Data, missing int) DataSummary {

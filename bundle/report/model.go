@@ -106,8 +106,10 @@ type Candidate struct {
 	// AdequacyP is its bootstrap p-value (NaN when not computed).
 	Statistic string
 	AdequacyP float64
-	Converged bool
-	Note      string // why not fitted or not converged, or a remark
+	// AdequacyNote is the statistic's note (failed replicates, pooling).
+	AdequacyNote string
+	Converged    bool
+	Note         string // why not fitted or not converged, or a remark
 }
 
 // Parameter is one parameter estimate with its interval.

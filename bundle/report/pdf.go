@@ -526,6 +526,10 @@ func (d *doc) analysis(i int) {
 		if c.Note != "" {
 			notes = append(notes, c.Family+": "+c.Note)
 		}
+		// A p-value from fewer replicates than were drawn says so.
+		if strings.Contains(c.AdequacyNote, "replicates failed") {
+			notes = append(notes, c.Family+": adequacy p: "+c.AdequacyNote)
+		}
 	}
 	notes = append(notes, a.Notes...)
 
@@ -568,7 +572,9 @@ func (d *doc) analysis(i int) {
 			}
 			rows = append(rows, []string{fam, q.Label(), orDash(q.EstimateText()),
 				bound(q.Lower, q.LowerOpen), bound(q.Upper, q.UpperOpen), orDash(q.Method)})
-			rowNotes.add(fam+" "+q.Label(), q.Note, math.IsNaN(q.Estimate) || math.IsNaN(q.Lower) || math.IsNaN(q.Upper) || q.LowerOpen || q.UpperOpen)
+			// A model-averaged row's note (families left out, weights
+			// renormalised) is always a caveat worth reading.
+			rowNotes.add(fam+" "+q.Label(), q.Note, q.IsModelAverage() || math.IsNaN(q.Estimate) || math.IsNaN(q.Lower) || math.IsNaN(q.Upper) || q.LowerOpen || q.UpperOpen)
 			styles = append(styles, style)
 		}
 		d.table([]column{{"family", 27, "L"}, {"quantity", 35, "L"}, {"estimate", 22, "R"}, {"lower", 22, "R"},

@@ -340,3 +340,30 @@ func TestSummariseOpenIntervals(t *testing.T) {
 		t.Errorf("summary %+v: want n 5, exact 1, left 1, right 1, interval 2 (one bounded, one open both ways)", s)
 	}
 }
+
+// TestPDFNotesCaveats: the Notes say when an adequacy p rests on fewer
+// replicates than were drawn, and carry a model-averaged row's note (the
+// families left out and the weights renormalised) even when its cells are
+// filled.
+func TestPDFNotesCaveats(t *testing.T) {
+	a := Analysis{Name: "a", Dataset: "a", Criterion: "aic", Confidence: 0.95, Summary: DataSummary{N: 30, Exact: 30},
+		Ranking: []Candidate{
+			{Family: "gpd", Rank: 1, K: 2, LogLik: -10, Criterion: 24, Weight: 0.7, Support: "substantial", Converged: true,
+				Statistic: "ad", AdequacyP: 1, AdequacyNote: "27 of 49 replicates failed and are left out (refit did not converge)"},
+			{Family: "weibull", Rank: 2, K: 2, LogLik: -11, Criterion: 26, Delta: 2, Weight: 0.3, Support: "substantial", Converged: true, AdequacyP: math.NaN()},
+		},
+		Derived: []Derived{{Family: ModelAverage, Quantity: Exceedance, Argument: 5, Estimate: 0.2, Lower: 0.1, Upper: 0.3,
+			Method: "model average", Note: "left out for want of an estimate or standard error: gpd; weights renormalised"}},
+	}
+	pdf, err := RenderPDF(&Report{Name: "p", Analyses: []Analysis{a}}, PDFOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := strings.Join(strings.Fields(pdftotext(t, pdf)), " ")
+	for _, want := range []string{"gpd: adequacy p: 27 of 49 replicates failed",
+		"model average P(X > 5): left out for want of an estimate or standard error: gpd; weights renormalised"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("the PDF's Notes lack %q", want)
+		}
+	}
+}
