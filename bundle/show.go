@@ -171,6 +171,16 @@ func WriteShow(out io.Writer, b *Bag) error {
 				short(r["loglik"]), short(r[crit]), short(r["delta"]), short(r["weight"]), orDash(r["support"]), r["converged"], r["note"])
 		}
 		tw.Flush()
+		// What the fits' inference notes say of the bootstrap and the
+		// intervals (a fallback to profile intervals, a local maximum).
+		var fams, remarks []string
+		for _, r := range ranked {
+			fams = append(fams, r["family"])
+			remarks = append(remarks, runner.InferenceRemarks(notes.inference[a][r["family"]]))
+		}
+		for _, line := range runner.GroupRemarks(fams, remarks) {
+			fmt.Fprintln(w, line)
+		}
 		// The other tables follow the ranking: the top-ranked family first,
 		// the model-averaged rows last.
 		place := make(map[string]int, len(ranked))
@@ -266,10 +276,11 @@ func gitLine(g GitInfo) string {
 // goodness-of-fit rows, which the CSV files do not carry. Empty when results.json cannot be read; show then
 // prints the CSV files' contents alone.
 type showNotes struct {
-	missing  map[string]int               // by analysis
-	analysis map[string]string            // the analysis's own note, by analysis
-	noGOF    map[string]map[string]string // analysis → family → reason
-	rows     map[string]rowNote           // by rowKey
+	missing   map[string]int               // by analysis
+	analysis  map[string]string            // the analysis's own note, by analysis
+	inference map[string]map[string]string // analysis → family → inference note
+	noGOF     map[string]map[string]string // analysis → family → reason
+	rows      map[string]rowNote           // by rowKey
 }
 
 // rowNote is a parameter or derived row's note and open interval ends.
@@ -324,14 +335,16 @@ func readShowNotes(b *Bag) showNotes {
 			} `json:"gof"`
 		} `json:"analyses"`
 	}
-	out := showNotes{missing: map[string]int{}, analysis: map[string]string{}, noGOF: map[string]map[string]string{}, rows: map[string]rowNote{}}
+	out := showNotes{missing: map[string]int{}, analysis: map[string]string{}, inference: map[string]map[string]string{}, noGOF: map[string]map[string]string{}, rows: map[string]rowNote{}}
 	if json.Unmarshal(b.Files[PayloadDir+"/results/"+runner.ResultsFile], &doc) != nil {
 		return out
 	}
 	for _, a := range doc.Analyses {
 		out.missing[a.Name] = a.Missing
 		out.analysis[a.Name] = a.Note
+		out.inference[a.Name] = map[string]string{}
 		for _, f := range a.Fits {
+			out.inference[a.Name][f.Family] = f.Inference
 			if i := strings.Index(f.Inference, runner.NoGOFNote); i >= 0 {
 				reason, _, _ := strings.Cut(f.Inference[i+len(runner.NoGOFNote):], "; ")
 				if out.noGOF[a.Name] == nil {

@@ -7,6 +7,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -162,5 +163,28 @@ quantiles = [0.5]
 		if strings.Contains(g.Note, "carries no information") != math.IsNaN(g.PValue) {
 			t.Errorf("%s: p = %v with note %q: an uninformative statistic must have no p-value, an informative one a p-value", fam, g.PValue, g.Note)
 		}
+	}
+}
+
+// TestInferenceRemarks: what show and the PDF print of a fit's inference
+// note: not its no-goodness-of-fit clause (the goodness-of-fit tables say
+// it), nor why there was no bootstrap unless that changed the intervals;
+// families sharing a remark are named on one line.
+func TestInferenceRemarks(t *testing.T) {
+	censored := noBootstrapNote + "parametric bootstrap not applicable: 3 of 9 observations are censored"
+	for _, c := range []struct{ note, want string }{
+		{"", ""},
+		{NoGOFNote + infer.NotApplicableCensored, ""},
+		{censored + "; " + NoGOFNote + infer.NotApplicableCensored, ""},
+		{censored + "; " + BootstrapFallbackNote + "; " + NoGOFNote + infer.NotApplicableCensored, censored + "; " + BootstrapFallbackNote},
+		{LocalMaximumNote, LocalMaximumNote},
+	} {
+		if got := InferenceRemarks(c.note); got != c.want {
+			t.Errorf("InferenceRemarks(%q) = %q, want %q", c.note, got, c.want)
+		}
+	}
+	got := GroupRemarks([]string{"a", "b", "c", "d"}, []string{"x", "", "x", "y"})
+	if want := []string{"a, c: x", "d: y"}; !slices.Equal(got, want) {
+		t.Errorf("GroupRemarks = %q, want %q", got, want)
 	}
 }

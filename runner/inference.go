@@ -3,6 +3,7 @@ package runner
 import (
 	"errors"
 	"fmt"
+	"strings"
 	"sync/atomic"
 
 	"fitseal/fitters"
@@ -33,6 +34,52 @@ type inference struct {
 // NoGOFNote begins the inference note of a fit for which no
 // goodness-of-fit statistic was computed; the reason follows.
 const NoGOFNote = "no goodness-of-fit statistic: "
+
+// InferenceRemarks is a fit's inference note without its no-goodness-of-fit
+// clause (NoGOFNote …, which the goodness-of-fit tables report): what it
+// says of the bootstrap and the intervals (a fallback to profile intervals,
+// a local maximum, a failed bootstrap), for the places that print notes.
+// The reason there was no bootstrap ("no bootstrap: …") is kept only
+// beside the fallback it caused: for goodness of fit alone the tables say
+// it already.
+func InferenceRemarks(note string) string {
+	fallback := strings.Contains(note, BootstrapFallbackNote)
+	var keep []string
+	for _, clause := range strings.Split(note, "; ") {
+		switch {
+		case clause == "", strings.HasPrefix(clause, NoGOFNote):
+		case strings.HasPrefix(clause, noBootstrapNote) && !fallback:
+		default:
+			keep = append(keep, clause)
+		}
+	}
+	return strings.Join(keep, "; ")
+}
+
+// GroupRemarks gathers the families with the same remark, in the order
+// given: one line "a, b: remark" per distinct remark, so that a reason
+// shared by every fit of an analysis is read once.
+func GroupRemarks(families, remarks []string) []string {
+	var order []string
+	byRemark := map[string][]string{}
+	for i, r := range remarks {
+		if r == "" {
+			continue
+		}
+		if _, ok := byRemark[r]; !ok {
+			order = append(order, r)
+		}
+		byRemark[r] = append(byRemark[r], families[i])
+	}
+	out := make([]string, len(order))
+	for i, r := range order {
+		out[i] = strings.Join(byRemark[r], ", ") + ": " + r
+	}
+	return out
+}
+
+// noBootstrapNote begins the clause saying why no bootstrap was drawn.
+const noBootstrapNote = "no bootstrap: "
 
 // LocalMaximumNote is the note of a fit whose profile found a higher
 // log-likelihood than the fit's own.
@@ -86,7 +133,7 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 		rep, err := infer.Bootstrap(fam, fit, d, settings.Bootstrap)
 		switch {
 		case errors.Is(err, infer.ErrBootstrapNotApplicable):
-			out.note = "no bootstrap: " + err.Error()
+			out.note = noBootstrapNote + err.Error()
 		case err != nil:
 			out.note = "bootstrap failed: " + err.Error()
 		default:

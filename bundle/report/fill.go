@@ -75,6 +75,9 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 			c.Note = "not applicable: " + row.Inapplicable
 		}
 		c.Statistic, c.AdequacyP, c.AdequacyNote = adequacy(ar.GOF, row.Family)
+		if i < len(ar.Inference) {
+			c.Remarks = runner.InferenceRemarks(ar.Inference[i])
+		}
 		a.Ranking = append(a.Ranking, c)
 		if i < len(ar.Parameters) && row.Rank > 0 {
 			for _, pr := range ar.Parameters[i] {

@@ -108,8 +108,11 @@ type Candidate struct {
 	AdequacyP float64
 	// AdequacyNote is the statistic's note (failed replicates, pooling).
 	AdequacyNote string
-	Converged    bool
-	Note         string // why not fitted or not converged, or a remark
+	// Remarks are the fit's inference remarks (runner.InferenceRemarks):
+	// a fallback to profile intervals, a local maximum, a failed bootstrap.
+	Remarks   string
+	Converged bool
+	Note      string // why not fitted or not converged, or a remark
 }
 
 // Parameter is one parameter estimate with its interval.

@@ -18,6 +18,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"fitseal/fitters/infer"
+	"fitseal/runner"
 	"fitseal/templates"
 )
 
@@ -522,6 +523,11 @@ func (d *doc) analysis(i int) {
 		}
 		notes = append(notes, n)
 	}
+	var fams, remarks []string
+	for _, c := range a.Fitted() {
+		fams, remarks = append(fams, c.Family), append(remarks, c.Remarks)
+	}
+	notes = append(notes, runner.GroupRemarks(fams, remarks)...)
 	for _, c := range a.Fitted() {
 		if c.Note != "" {
 			notes = append(notes, c.Family+": "+c.Note)
