@@ -248,6 +248,8 @@ func TestCurrentStatusData(t *testing.T) {
 					t.Errorf("converged at %v with loglik %.8g, within %g of the flat supremum %.8g", fit.Estimates, fit.LogLik, flatTolerance, c.Flat)
 				case !fit.Converged && fit.Reason == "":
 					t.Error("not converged without a reason")
+				case c.Name == "weak" && !fit.Converged && fit.K >= 2 && !strings.Contains(fit.Reason, "flat across the data"):
+					t.Errorf("not converged, but the reason does not say the data identify no family without a trend: %q", fit.Reason)
 				}
 			})
 		}

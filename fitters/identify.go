@@ -3,6 +3,7 @@ package fitters
 import (
 	"fmt"
 	"math"
+	"strings"
 )
 
 // checkedFamily wraps every registered family with the checks that hold for
@@ -50,6 +51,9 @@ func (c checkedFamily) Fit(d *Data, opt Options) (*Fit, error) {
 			fit.Reason = fmt.Sprintf("no exact value and no bounded interval, and the log-likelihood reached %.6g, within %g of %.6g, what a distribution flat across the data gives (probability %.3g below every non-detect limit, %.3g above every suspension): the fit runs off toward that limit (an ever larger scale) and the data do not identify the parameters",
 				fit.LogLik, flatTolerance, flat, 1-float64(boundedBelow(d))/float64(d.N()), float64(boundedBelow(d))/float64(d.N()))
 		}
+	}
+	if flat, ok := flatSupremum(d); ok && !fit.Converged && c.Kind() == Continuous && fit.K >= 2 && !strings.Contains(fit.Reason, "flat across the data") {
+		fit.Reason = JoinNote(fit.Reason, fmt.Sprintf("the data have no exact value and no bounded interval, which identify a family only where failures and survivors show a trend; without one the likelihood only approaches %.6g, what a distribution flat across the data gives", flat))
 	}
 	if x0, ok := concentratesOn(d); ok && c.Kind() == Continuous && fit.K >= 2 {
 		why := fmt.Sprintf("the data have one distinct exact value, %v, and every censored observation allows it: the likelihood of a family with a free scale has no bound as the family concentrates on that value", x0)

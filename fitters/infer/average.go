@@ -54,12 +54,16 @@ func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (De
 		used = append(used, c)
 		total += c.Weight
 	}
-	if len(left) > 0 {
-		out.Note = fmt.Sprintf("left out for want of an estimate or standard error: %s; weights renormalised", strings.Join(left, ", "))
-	}
 	if len(used) == 0 {
-		out.Note = fitters.JoinNote(out.Note, "no candidate to average")
+		if len(left) > 0 {
+			out.Note = fmt.Sprintf("no candidate to average: none of %s has both an estimate and a standard error (a quantile of a count family has no standard error)", strings.Join(left, ", "))
+		} else {
+			out.Note = "no candidate to average"
+		}
 		return out, nil
+	}
+	if len(left) > 0 {
+		out.Note = fmt.Sprintf("left out for want of an estimate or standard error: %s; the other families' weights renormalised (they carry %.3g of the weight)", strings.Join(left, ", "), total)
 	}
 	var mean float64
 	for _, c := range used {

@@ -107,3 +107,27 @@ func TestModelAverageExceedanceLogit(t *testing.T) {
 		t.Errorf("method %q does not say the interval is on the logit scale", got.Method)
 	}
 }
+
+// TestModelAverageNotes: a candidate without a standard error is left out
+// and the note says what share of the weight the average rests on; when
+// none has one (quantiles of count families) the note says that instead of
+// also claiming renormalised weights.
+func TestModelAverageNotes(t *testing.T) {
+	cands := []Candidate{
+		{Family: "betabinomial", Weight: 0.75, Estimate: 2, StdError: math.NaN()},
+		{Family: "poisson", Weight: 0.18, Estimate: 0.18, StdError: 0.05},
+		{Family: "binomial", Weight: 0.07, Estimate: 2, StdError: math.NaN()},
+	}
+	v, err := ModelAverage(Exceedance, 3, cands, 0.95)
+	if err != nil || !strings.Contains(v.Note, "left out for want of an estimate or standard error: betabinomial, binomial") ||
+		!strings.Contains(v.Note, "they carry 0.18 of the weight") {
+		t.Errorf("one candidate averaged: %q, %v", v.Note, err)
+	}
+	for i := range cands {
+		cands[i].StdError = math.NaN()
+	}
+	v, err = ModelAverage(Quantile, 0.5, cands, 0.95)
+	if err != nil || !math.IsNaN(v.Estimate) || !strings.HasPrefix(v.Note, "no candidate to average: none of betabinomial, poisson, binomial") || strings.Contains(v.Note, "renormalised") {
+		t.Errorf("none averaged: %+v, %v", v, err)
+	}
+}
