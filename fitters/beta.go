@@ -22,6 +22,11 @@ func (d Beta) LogPDF(x float64) float64 {
 	if !(x > 0 && x < 1) {
 		return math.Inf(-1)
 	}
+	if d.Alpha+d.Beta >= incBetaLargeFrom {
+		// α ln x + β ln(1−x) − ln B without its cancellation (lnBetaPower).
+		y := 1 - x
+		return lnBetaPower(d.Alpha, d.Beta, x, y) - math.Log(x) - math.Log1p(-x)
+	}
 	return (d.Alpha-1)*math.Log(x) + (d.Beta-1)*math.Log1p(-x) - mathext.Lbeta(d.Alpha, d.Beta)
 }
 
@@ -32,7 +37,7 @@ func (d Beta) LogCDF(x float64) float64 {
 	case x >= 1:
 		return 0
 	}
-	return logRegIncBeta(d.Alpha, d.Beta, x, 1-x)
+	return betaLogRegIncBeta(d.Alpha, d.Beta, x, 1-x)
 }
 
 func (d Beta) LogSurvival(x float64) float64 {
@@ -42,7 +47,7 @@ func (d Beta) LogSurvival(x float64) float64 {
 	case x >= 1:
 		return math.Inf(-1)
 	}
-	return logRegIncBeta(d.Beta, d.Alpha, 1-x, x)
+	return betaLogRegIncBeta(d.Beta, d.Alpha, 1-x, x)
 }
 
 // Quantile inverts I_x(α, β) = p, through the upper tail's I_(1−x)(β, α) =
@@ -127,7 +132,7 @@ func betaNLL(n, s1, s2 float64) exactNLL {
 		if n == 0 {
 			return 0
 		}
-		return -((a-1)*s1 + (b-1)*s2 - n*mathext.Lbeta(a, b))
+		return -((a-1)*s1 + (b-1)*s2 - n*lnBeta(a, b))
 	}
 }
 

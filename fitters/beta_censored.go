@@ -73,15 +73,15 @@ const betaShapeStep = 0x1p-10
 func betaCensoredTerm(kind int, a, b, x, u float64) float64 {
 	switch kind {
 	case 0:
-		return logRegIncBeta(a, b, x, 1-x)
+		return betaLogRegIncBeta(a, b, x, 1-x)
 	case 1:
-		return logRegIncBeta(b, a, 1-x, x)
+		return betaLogRegIncBeta(b, a, 1-x, x)
 	}
-	lfl := logRegIncBeta(a, b, x, 1-x)
+	lfl := betaLogRegIncBeta(a, b, x, 1-x)
 	if lfl > -math.Ln2 {
-		return logDiffExp(logRegIncBeta(b, a, 1-x, x), logRegIncBeta(b, a, 1-u, u))
+		return logDiffExp(betaLogRegIncBeta(b, a, 1-x, x), betaLogRegIncBeta(b, a, 1-u, u))
 	}
-	return logDiffExp(logRegIncBeta(a, b, u, 1-u), lfl)
+	return logDiffExp(betaLogRegIncBeta(a, b, u, 1-u), lfl)
 }
 
 // betaStencil are the 13 points (i, j) of the censored terms' differences
@@ -123,7 +123,7 @@ func betaCensoredPoint(s *betaCensoredSample, kappa, lambda float64) newton2Poin
 		tab := trigammaPositive(a + b)
 		da := s.s1 - s.n*(mathext.Digamma(a)-pab)
 		db := s.s2 - s.n*(mathext.Digamma(b)-pab)
-		p.ll = (a-1)*s.s1 + (b-1)*s.s2 - s.n*mathext.Lbeta(a, b)
+		p.ll = (a-1)*s.s1 + (b-1)*s.s2 - s.n*lnBeta(a, b)
 		p.g0 = a * da
 		p.g1 = b * db
 		p.h00 = -a*a*s.n*(trigammaPositive(a)-tab) + a*da
@@ -166,7 +166,7 @@ func betaCensoredLogLik(s *betaCensoredSample, a, b float64) float64 {
 	}
 	var ll float64
 	if s.n > 0 {
-		ll = (a-1)*s.s1 + (b-1)*s.s2 - s.n*mathext.Lbeta(a, b)
+		ll = (a-1)*s.s1 + (b-1)*s.s2 - s.n*lnBeta(a, b)
 	}
 	for i, x := range s.left.u {
 		ll += s.left.n[i] * betaCensoredTerm(0, a, b, x, 0)
