@@ -61,15 +61,22 @@ func stirlingDelta(z float64) float64 {
 //
 // the form of Temme's and DiDonato & Morris's (1992) power terms: a ln x,
 // b ln y and ln B, each of size s ln s, never meet, and the result keeps
-// its digits wherever it is not itself large.
+// its digits wherever it is not itself large. d is formed free of the
+// rounding of x₀, which a(ln(1+u) − u) ≈ −s d²/(2x₀y₀) would otherwise
+// amplify by about √s.
 func lnBetaPower(a, b, x, y float64) float64 {
+	// d to a few ε of itself, though x₀ = a/s is rounded twice: with
+	// s + e = a + b exactly (Knuth's two-sum) and r = a − x₀·s exactly
+	// (math.FMA), the exact x₀ is x₀ + (r − x₀e)/s to O(ε²).
 	s := a + b
+	bv := s - a
+	e := (a - (s - bv)) + (b - bv)
 	x0, y0 := a/s, b/s
 	var d float64
 	if x0 <= y0 {
-		d = x - x0
+		d = (x - x0) - (math.FMA(-x0, s, a)-x0*e)/s
 	} else {
-		d = y0 - y
+		d = (y0 - y) + (math.FMA(-y0, s, b)-y0*e)/s
 	}
 	u, v := d/x0, -d/y0
 	return a*lnRatioMinus(x, x0, u) + b*lnRatioMinus(y, y0, v) -
@@ -100,10 +107,73 @@ const incBetaMaxTerms = 1 << 20
 // converge within incBetaMaxTerms steps (a or b beyond about 1e11).
 func logIncBetaLarge(a, b, x, y float64) float64 {
 	if x*(a+b+2) < a+1 {
-		return lnBetaPower(a, b, x, y) - math.Log(a) + math.Log(incBetaFraction(a, b, x))
+		return logIncBetaSmallerTail(a, b, x, y)
 	}
-	lc := lnBetaPower(b, a, y, x) - math.Log(b) + math.Log(incBetaFraction(b, a, y))
-	return log1mExp(lc)
+	return log1mExp(logIncBetaSmallerTail(b, a, y, x))
+}
+
+// logIncBetaSmallerTail is logIncBetaLarge's ln I_x(a, b) on the side
+// x < (a+1)/(a+b+2). Up to x = 1/2 it takes the fraction in x; beyond, that
+// fraction would round 1 − x at every odd step (the relative error of
+// I_x grows as ε/(1 − x)), so it takes the one in z = x/y, formed from y
+// itself.
+func logIncBetaSmallerTail(a, b, x, y float64) float64 {
+	if x > 0.5 {
+		return lnBetaPower(a, b, x, y) - math.Log(a) - math.Log(y) + math.Log(incBetaFractionZ(a, b, x/y))
+	}
+	return lnBetaPower(a, b, x, y) - math.Log(a) + math.Log(incBetaFraction(a, b, x))
+}
+
+// incBetaFractionZ returns the continued fraction h of I_x(a, b) =
+// x^a (1−x)^(b−1)/(a B(a, b)) · h in z = x/(1 − x) (Abramowitz & Stegun
+// 26.5.9, as Cephes' incbd: partial numerators −z(a+m)(b−m−1)/((a+2m)(a+2m+1))
+// and z(m+1)(a+b+m)/((a+2m+1)(a+2m+2))), by the fundamental recurrences
+// rescaled before they overflow. NaN if it does not converge within
+// incBetaMaxTerms steps.
+func incBetaFractionZ(a, b, z float64) float64 {
+	const big, bigInv = 0x1p52, 0x1p-52
+	k1, k2, k3, k4 := a, b-1, a, a+1
+	k5, k6, k7, k8 := 1.0, a+b, a+1, a+2
+	pkm2, qkm2, pkm1, qkm1 := 0.0, 1.0, 1.0, 1.0
+	ans := 1.0
+	for n := 0; n < incBetaMaxTerms; n++ {
+		xk := -(z * k1 * k2) / (k3 * k4)
+		pk := pkm1 + pkm2*xk
+		qk := qkm1 + qkm2*xk
+		pkm2, pkm1, qkm2, qkm1 = pkm1, pk, qkm1, qk
+		xk = (z * k5 * k6) / (k7 * k8)
+		pk = pkm1 + pkm2*xk
+		qk = qkm1 + qkm2*xk
+		pkm2, pkm1, qkm2, qkm1 = pkm1, pk, qkm1, qk
+		if qk != 0 {
+			r := pk / qk
+			if math.Abs(ans-r) < 1e-16*math.Abs(r) {
+				return r
+			}
+			ans = r
+		}
+		k1++
+		k2--
+		k3 += 2
+		k4 += 2
+		k5++
+		k6++
+		k7 += 2
+		k8 += 2
+		if math.Abs(qk)+math.Abs(pk) > big {
+			pkm2 *= bigInv
+			pkm1 *= bigInv
+			qkm2 *= bigInv
+			qkm1 *= bigInv
+		}
+		if math.Abs(qk) < bigInv || math.Abs(pk) < bigInv {
+			pkm2 *= big
+			pkm1 *= big
+			qkm2 *= big
+			qkm1 *= big
+		}
+	}
+	return math.NaN()
 }
 
 // incBetaFraction returns 1/(1 + d₁/(1 + d₂/(1 + …))) with
@@ -152,9 +222,21 @@ func incBetaFraction(a, b, x float64) float64 {
 
 // betaLogRegIncBeta is the beta family's ln I_x(a, b) (y = 1 − x):
 // logIncBetaLarge from a + b = incBetaLargeFrom on, logRegIncBeta below.
+// Below, for x > 1/2 it takes log1p(−I_y(b, a)) wherever I_y(b, a) < 0.99
+// (logRegIncBeta only below 1/2): gonum's I_x(a, b) works from 1 − x, and
+// where the caller's x is itself 1 − y rounded (the survival function at a
+// small y), that has lost y's digits — 5e-7 relative at a = 0.01, y = 1e-12.
 func betaLogRegIncBeta(a, b, x, y float64) float64 {
-	if a+b >= incBetaLargeFrom && x > 0 && y > 0 {
+	if !(x > 0 && y > 0) {
+		return logRegIncBeta(a, b, x, y)
+	}
+	if a+b >= incBetaLargeFrom {
 		return logIncBetaLarge(a, b, x, y)
+	}
+	if x > 0.5 {
+		if c := mathext.RegIncBeta(b, a, y); c < 0.99 {
+			return math.Log1p(-c)
+		}
 	}
 	return logRegIncBeta(a, b, x, y)
 }
