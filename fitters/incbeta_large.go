@@ -178,7 +178,10 @@ func incBetaFractionZ(a, b, z float64) float64 {
 
 // incBetaFraction returns 1/(1 + d₁/(1 + d₂/(1 + …))) with
 // d_(2m+1) = −(a+m)(a+b+m)x/((a+2m)(a+2m+1)) and
-// d_(2m) = m(b−m)x/((a+2m−1)(a+2m)).
+// d_(2m) = m(b−m)x/((a+2m−1)(a+2m)) (Abramowitz & Stegun 26.5.8), by the
+// modified Lentz evaluation; each d is formed from ratios, so that nothing
+// overflows at a ~ 1e300 (studentt's ν/2). NaN when incBetaMaxTerms pairs
+// of terms do not settle it.
 func incBetaFraction(a, b, x float64) float64 {
 	const tiny = 1e-300
 	c, d := 1.0, 1-(a+b)*x/(a+1)
@@ -189,31 +192,22 @@ func incBetaFraction(a, b, x float64) float64 {
 	h := d
 	for m := 1; m <= incBetaMaxTerms; m++ {
 		fm := float64(m)
-		m2 := 2 * fm
-		aa := fm * (b - fm) * x / ((a + m2 - 1) * (a + m2))
-		d = 1 + aa*d
-		if math.Abs(d) < tiny {
-			d = tiny
+		for _, aa := range [2]float64{
+			fm / (a + 2*fm - 1) * ((b - fm) / (a + 2*fm)) * x,
+			-(a + fm) / (a + 2*fm) * ((a + b + fm) / (a + 2*fm + 1)) * x,
+		} {
+			d = 1 + aa*d
+			if math.Abs(d) < tiny {
+				d = tiny
+			}
+			c = 1 + aa/c
+			if math.Abs(c) < tiny {
+				c = tiny
+			}
+			d = 1 / d
+			h *= d * c
 		}
-		c = 1 + aa/c
-		if math.Abs(c) < tiny {
-			c = tiny
-		}
-		d = 1 / d
-		h *= d * c
-		aa = -(a + fm) * (a + b + fm) * x / ((a + m2) * (a + m2 + 1))
-		d = 1 + aa*d
-		if math.Abs(d) < tiny {
-			d = tiny
-		}
-		c = 1 + aa/c
-		if math.Abs(c) < tiny {
-			c = tiny
-		}
-		d = 1 / d
-		del := d * c
-		h *= del
-		if math.Abs(del-1) < 1e-16 {
+		if math.Abs(d*c-1) < 1e-16 {
 			return h
 		}
 	}

@@ -247,34 +247,7 @@ func tLogLowerTailFraction(q, r2, nu float64) float64 {
 	a, b := nu/2, 0.5
 	x := math.Exp(-q)
 	lnY := -math.Log1p(1 / r2)
-	const tiny = 1e-300
-	c, d := 1.0, 1-(a+b)*x/(a+1)
-	if math.Abs(d) < tiny {
-		d = tiny
-	}
-	d = 1 / d
-	f := d
-	for m := 1; m < 10000; m++ {
-		fm := float64(m)
-		for _, aa := range [2]float64{
-			fm / (a + 2*fm - 1) * ((b - fm) / (a + 2*fm)) * x, // ratios: no overflow at ν ~ 1e300
-			-(a + fm) / (a + 2*fm) * ((a + b + fm) / (a + 2*fm + 1)) * x,
-		} {
-			d = 1 + aa*d
-			if math.Abs(d) < tiny {
-				d = tiny
-			}
-			c = 1 + aa/c
-			if math.Abs(c) < tiny {
-				c = tiny
-			}
-			d = 1 / d
-			f *= d * c
-		}
-		if math.Abs(d*c-1) < 1e-16 {
-			break
-		}
-	}
+	f := incBetaFraction(a, b, x)
 	rest := 0.5*lnY - math.Log(a) - 0.5*math.Log(math.Pi) + lnGammaHalfStep(a) + math.Log(f) - math.Ln2
 	return -a*q + rest // the large term last: one rounding at its size
 }
