@@ -457,18 +457,10 @@ func (rd *csvReading) newGroup(name string) *groupBuilder {
 	return b
 }
 
-// delimiterName is the field separator in use, "," by default.
-func (rd *csvReading) delimiterName() string {
-	if rd.d.Delimiter == "" {
-		return ","
-	}
-	return rd.d.Delimiter
-}
-
-// censoringMark splits a cell such as "<0.5", "< 0.5", ">1200" or "0.5<"
-// into its number ("0.5") and mark; rest is "" when the cell is not a
-// number with such a mark.
-func censoringMark(b []byte) (rest string, mark byte) {
+// censoringMark returns the number of a cell such as "<0.5", "< 0.5",
+// ">1200" or "0.5<" ("0.5"), or "" when the cell is not a number with such
+// a mark.
+func censoringMark(b []byte) string {
 	for _, m := range []byte{'<', '>'} {
 		var t []byte
 		switch {
@@ -480,10 +472,10 @@ func censoringMark(b []byte) (rest string, mark byte) {
 			continue
 		}
 		if _, err := parseFloat(t); err == nil {
-			return string(t), m
+			return string(t)
 		}
 	}
-	return "", 0
+	return ""
 }
 
 // number parses one observation cell; ok is false for a missing cell.
@@ -500,14 +492,14 @@ func (rd *csvReading) number(rec [][]byte, i int, what string) (x float64, ok bo
 			return 0, false, rd.fail(i, "", "%s %q is out of the range of a float64", what, cell)
 		}
 		hint := "write plain decimal numbers such as 1250, -0.5 or 1.25e3: a '.' decimal point, no thousands or digit separators, no hexadecimal"
-		switch rest, _ := censoringMark(b); {
+		switch rest := censoringMark(b); {
 		case rest != "":
 			// "<0.5" or "> 1200": a laboratory's non-detect, or a
 			// suspension, written into the value cell.
 			hint = fmt.Sprintf("a value marked %q is censored: put %s in the value column and the mark in a column of its own, named by %s, with %s listing \"<\" for non-detects (or %s listing \">\" for values at or above it)",
 				cell, rest, rd.d.setting("status_column"), rd.d.setting("left"), rd.d.setting("right"))
 		case bytes.ContainsAny(b, ";\t|"):
-			hint += fmt.Sprintf("; if the file separates its columns with another character than %q, set %s to it", rd.delimiterName(), rd.d.setting("delimiter"))
+			hint += fmt.Sprintf("; if the file separates its columns with another character than %q, set %s to it", string(rd.rr.comma), rd.d.setting("delimiter"))
 		}
 		if len(rd.d.Missing) > 0 {
 			hint += fmt.Sprintf("; missing cells must be one of %s", quoteList(rd.d.Missing))
