@@ -255,19 +255,16 @@ func derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 		out.Note = "the observations have different numbers of trials, so the quantity has no single value: not given"
 		return out, nil
 	}
-	out.Estimate = nan
-	dist, err := fam.New(fit.Estimates)
-	if q != Exceedance && fam.Kind() == fitters.Continuous && err == nil {
-		// g's value, with the reason where its check fails
-		p := q.probability(arg)
-		x := dist.Quantile(p)
-		if err := checkQuantile(dist, p, x); err != nil {
-			out.Note = err.Error()
-			return out, nil
+	out.Estimate = g(fit.Estimates)
+	if math.IsNaN(out.Estimate) && q != Exceedance && fam.Kind() == fitters.Continuous {
+		// g refused a quantile that does not invert the CDF: say why.
+		if dist, err := fam.New(fit.Estimates); err == nil {
+			p := q.probability(arg)
+			if err := checkQuantile(dist, p, dist.Quantile(p)); err != nil {
+				out.Note = err.Error()
+				return out, nil
+			}
 		}
-		out.Estimate = x
-	} else {
-		out.Estimate = g(fit.Estimates)
 	}
 	if math.IsNaN(out.Estimate) {
 		out.Note = "the quantity is not defined for this fit"
