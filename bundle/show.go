@@ -218,7 +218,8 @@ func WriteShow(out io.Writer, b *Bag) error {
 			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 			fmt.Fprintln(tw, "family\tquantity\targument\testimate\tinterval\tmethod\tnote")
 			for _, r := range rows {
-				n := notes.rows[rowKey(a, r["family"], derivedWhat(r["quantity"], r["argument"]))]
+				arg, _ := strconv.ParseFloat(r["argument"], 64) // derived.csv writes it in shortest form
+				n := notes.rows[rowKey(a, r["family"], derivedWhat(r["quantity"], arg))]
 				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["quantity"], short(r["argument"]), short(r["estimate"]),
 					interval(r["ci_lower"], r["ci_upper"], n), orDash(r["ci_method"]), n.note)
 			}
@@ -296,11 +297,9 @@ func rowKey(analysis, family, what string) string {
 	return analysis + "\x00" + family + "\x00" + what
 }
 
-func derivedWhat(quantity, argument string) string {
-	if x, err := strconv.ParseFloat(argument, 64); err == nil {
-		argument = strconv.FormatFloat(x, 'g', -1, 64)
-	}
-	return quantity + " " + argument
+// derivedWhat is rowKey's what of a derived row.
+func derivedWhat(quantity string, argument float64) string {
+	return quantity + " " + strconv.FormatFloat(argument, 'g', -1, 64)
 }
 
 func readShowNotes(b *Bag) showNotes {
@@ -357,8 +356,7 @@ func readShowNotes(b *Bag) showNotes {
 			}
 		}
 		for _, d := range a.Derived {
-			what := d.Quantity + " " + strconv.FormatFloat(d.Argument, 'g', -1, 64)
-			out.rows[rowKey(a.Name, d.Family, what)] = rowNote{d.Note, d.LowerOpen, d.UpperOpen}
+			out.rows[rowKey(a.Name, d.Family, derivedWhat(d.Quantity, d.Argument))] = rowNote{d.Note, d.LowerOpen, d.UpperOpen}
 		}
 		for _, g := range a.GOF {
 			out.rows[rowKey(a.Name, g.Family, "gof "+g.Statistic)] = rowNote{note: g.Note}

@@ -263,34 +263,16 @@ func bound(x float64, open bool) string {
 	return orDash(templates.Sig(4, x))
 }
 
-// blankNotes gathers the notes of table rows with a blank or open cell,
-// each distinct note once with the rows it concerns, in first-seen order.
-type blankNotes struct {
-	order []string
-	rows  map[string][]string
-}
+// blankNotes gathers, beside each table row, its note where the row has a
+// blank or open cell (runner.GroupRemarks prints each note once, with the
+// rows it concerns).
+type blankNotes struct{ rows, notes []string }
 
 // add records row's note when the row has a blank or open cell.
 func (b *blankNotes) add(row, note string, blank bool) {
-	if !blank || note == "" {
-		return
+	if blank && note != "" {
+		b.rows, b.notes = append(b.rows, row), append(b.notes, note)
 	}
-	if b.rows == nil {
-		b.rows = map[string][]string{}
-	}
-	if _, ok := b.rows[note]; !ok {
-		b.order = append(b.order, note)
-	}
-	b.rows[note] = append(b.rows[note], row)
-}
-
-// lines is one line per note: "rows: note".
-func (b *blankNotes) lines() []string {
-	out := make([]string, 0, len(b.order))
-	for _, n := range b.order {
-		out = append(out, strings.Join(b.rows[n], ", ")+": "+n)
-	}
-	return out
 }
 
 func orDash(s string) string {
@@ -593,7 +575,7 @@ func (d *doc) analysis(i int) {
 		f.CellFormat(textW, 4, note, "", 1, "L", false, 0, "")
 	}
 
-	notes = append(notes, rowNotes.lines()...)
+	notes = append(notes, runner.GroupRemarks(rowNotes.rows, rowNotes.notes)...)
 	if len(notes) > 0 {
 		d.subheading("Notes")
 		for _, n := range notes {
