@@ -50,16 +50,36 @@ func (d Beta) LogSurvival(x float64) float64 {
 	return betaLogRegIncBeta(d.Beta, d.Alpha, 1-x, x)
 }
 
-// Quantile inverts I_x(α, β) = p, through the upper tail's I_(1−x)(β, α) =
-// 1 − p above p = 1/2.
+// Quantile inverts I_x(α, β) = p: gonum's inverse (through the upper
+// tail's I_(1−x)(β, α) = 1 − p above p = 1/2) gives the start, and Newton
+// steps on the tail's logarithm polish it (polishQuantile with
+// betaNearerEndStep): the start can miss p by a relative 1e-6 at shapes
+// near 1e9 and be far off (0.9375 for 1 − 1.1e-5) at α ~ 1e6, β < 1.
 func (d Beta) Quantile(p float64) float64 {
 	switch {
 	case p < 0 || p > 1 || math.IsNaN(p):
 		return math.NaN()
+	case p == 0:
+		return 0
+	case p == 1:
+		return 1
 	case p > 0.5:
-		return 1 - mathext.InvRegIncBeta(d.Beta, d.Alpha, 1-p)
+		return polishQuantile(d, p, 1-mathext.InvRegIncBeta(d.Beta, d.Alpha, 1-p), betaNearerEndStep)
 	}
-	return mathext.InvRegIncBeta(d.Alpha, d.Beta, p)
+	return polishQuantile(d, p, mathext.InvRegIncBeta(d.Alpha, d.Beta, p), betaNearerEndStep)
+}
+
+// betaNearerEndStep is beta's Newton step for polishQuantile, taken in
+// u = ln z, z = min(x, 1 − x) the distance to the nearer end, so that a
+// quantile near 0 or 1 keeps its relative digits and a far start moves z
+// by about a factor e per step: z ← z·exp(−g/(dg/du)), dg/du = (dg/dx)·
+// (dx/du), dx/du = z (x = z) or −z (x = 1 − z).
+func betaNearerEndStep(x, g, dgdx float64) float64 {
+	if x > 0.5 {
+		z := 1 - x
+		return 1 - z*math.Exp(g/(dgdx*z))
+	}
+	return x * math.Exp(-g/(dgdx*x))
 }
 
 func (d Beta) Rand(r *rand.Rand) float64 {

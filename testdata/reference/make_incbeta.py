@@ -96,38 +96,43 @@ def agree_check():
             raise SystemExit("betainc and quad disagree at a=%s b=%s x=%s: %s %s" % (a, b, x, p1, p2))
 
 
-agree_check()
-points = []
-for a0 in shapes:
-    for b0 in shapes:
-        a, b = mp.mpf(a0), mp.mpf(b0)
-        m = a / (a + b)
-        sd = mp.sqrt(a * b / ((a + b) ** 2 * (a + b + 1)))
-        xs = set(absolute)
-        for k in sds:
-            v = float(m + k * sd)
-            if 1e-12 <= v <= 1 - 1e-12:
-                xs.add(v)
-        for x0 in sorted(xs):
-            x = mp.mpf(x0)
-            p, q, how = tails(a, b, x)
-            if not (p > 0 and q > 0):
-                continue
-            lp = mp.log(p) if p < q else mp.log1p(-q)
-            lq = mp.log1p(-p) if p < q else mp.log(q)
-            lt = min(lp, lq)
-            lf = logdens(a, b, x)
-            if lt < -700 * 2.302585:  # below 1e-700: nothing to check there
-                continue
-            cond = mp.exp(lf + mp.log(x) - lt)
-            points.append({
-                "a": a0, "b": b0, "x": x0,
-                "logCDF": mp.nstr(lp, 20), "logSF": mp.nstr(lq, 20),
-                "logPDF": mp.nstr(lf, 20), "lnBeta": mp.nstr(mp.log(mp.beta(a, b)), 20),
-                "cond": float(cond), "how": how,
-            })
-        print("a=%g b=%g done" % (a0, b0), file=sys.stderr)
+def main():
+    agree_check()
+    points = []
+    for a0 in shapes:
+        for b0 in shapes:
+            a, b = mp.mpf(a0), mp.mpf(b0)
+            m = a / (a + b)
+            sd = mp.sqrt(a * b / ((a + b) ** 2 * (a + b + 1)))
+            xs = set(absolute)
+            for k in sds:
+                v = float(m + k * sd)
+                if 1e-12 <= v <= 1 - 1e-12:
+                    xs.add(v)
+            for x0 in sorted(xs):
+                x = mp.mpf(x0)
+                p, q, how = tails(a, b, x)
+                if not (p > 0 and q > 0):
+                    continue
+                lp = mp.log(p) if p < q else mp.log1p(-q)
+                lq = mp.log1p(-p) if p < q else mp.log(q)
+                lt = min(lp, lq)
+                lf = logdens(a, b, x)
+                if lt < -700 * 2.302585:  # below 1e-700: nothing to check there
+                    continue
+                cond = mp.exp(lf + mp.log(x) - lt)
+                points.append({
+                    "a": a0, "b": b0, "x": x0,
+                    "logCDF": mp.nstr(lp, 20), "logSF": mp.nstr(lq, 20),
+                    "logPDF": mp.nstr(lf, 20), "lnBeta": mp.nstr(mp.log(mp.beta(a, b)), 20),
+                    "cond": float(cond), "how": how,
+                })
+            print("a=%g b=%g done" % (a0, b0), file=sys.stderr)
 
-json.dump({"source": "mpmath %s at 50 digits (hyp2f1 series of the smaller tail, quad of the density where it does not converge; checked against betainc with regularized=True)" % mp.__version__,
-           "points": points}, sys.stdout, indent=0)
-print()
+    json.dump({"source": "mpmath %s at 50 digits (hyp2f1 series of the smaller tail, quad of the density where it does not converge; checked against betainc with regularized=True)" % mp.__version__,
+               "points": points}, sys.stdout, indent=0)
+    print()
+
+
+if __name__ == "__main__":
+    main()
