@@ -174,9 +174,41 @@ func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 	}
 	v, err := derived(fam, fit, d, q, arg, method, s)
 	if u, ok := excessThreshold(fam, fit); ok && err == nil && !math.IsNaN(v.Estimate) {
-		v.Note = fitters.JoinNote(v.Note, fmt.Sprintf("of X given X > %v: %s models the excesses over its threshold %v, so for the chance of exceeding a value unconditionally multiply by the chance of exceeding %v", u, fam.Name(), u, u))
+		v.Note = fitters.JoinNote(v.Note, excessNote(fam.Name(), q, arg, u))
 	}
 	return v, err
+}
+
+// excessNote says what a derived quantity of a family of excesses over u
+// (gpd: X − u given X > u) is conditional on, and what would make it
+// unconditional. With ζ = P(X > u), the chance of exceeding u, which the
+// values above u alone do not give:
+//
+//   - exceedance: P(X > t) = ζ·P(X > t | X > u) for t ≥ u; below u the
+//     conditional probability is 1 and says nothing of P(X > t).
+//   - quantile: P(X > x) = ζ·P(X > x | X > u) = 1 − p gives the
+//     unconditional p-quantile as the conditional quantile at
+//     1 − (1 − p)/ζ, for p > 1 − ζ (a lower quantile lies below u).
+//   - return level: the conditional quantile at 1 − 1/T is the level
+//     exceeded on average once in T values above u, not once in T years;
+//     with λ values above u a year on average (the rate of exceedances),
+//     the level exceeded on average once in T years is the conditional
+//     quantile at 1 − 1/(λT), the return level for period λT
+//     (Coles, 2001, §4.3.3).
+func excessNote(family string, q Quantity, arg, u float64) string {
+	models := fmt.Sprintf("%s models the excesses over its threshold %v", family, u)
+	switch q {
+	case Exceedance:
+		if arg < u {
+			return fmt.Sprintf("P(X > %v | X > %v), which is 1: %s, and %v lies below it, so it says nothing of P(X > %v) unconditionally", arg, u, models, arg, arg)
+		}
+		return fmt.Sprintf("P(X > %v | X > %v): %s, so the unconditional P(X > %v) is this times P(X > %v), the chance of exceeding %v", arg, u, models, arg, u, u)
+	case Quantile:
+		return fmt.Sprintf("of X given X > %v: %s, so the unconditional %v-quantile is this family's quantile at 1 − (1 − %v)/ζ, ζ = P(X > %v) being the chance of exceeding %v (for %v above 1 − ζ: a lower quantile lies below %v, where %s says nothing)", u, models, arg, arg, u, u, arg, u, family)
+	case ReturnLevel:
+		return fmt.Sprintf("of X given X > %v: %s, so this is the level exceeded on average once in %v values above %v, not once in %v years: with λ values above %v a year on average (the rate of exceedances), the %v-year return level is this family's return level for period λ·%v, its quantile at 1 − 1/(λ·%v)", u, models, arg, u, arg, u, arg, arg, arg)
+	}
+	return "of X given X > " + fmt.Sprint(u) + ": " + models
 }
 
 // excessThreshold is the threshold u whose excesses fam models (gpd:
