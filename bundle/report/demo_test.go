@@ -284,9 +284,11 @@ func TestDerivedFollowTheRanking(t *testing.T) {
 }
 
 // TestExcessQuantitiesAreConditional: gpd models the excesses over its fixed
-// threshold u, so its exceedance probability is P(X > t | X > u) and its
-// quantiles are of the values above u; the tables say so in the label, and
-// the derived row's note says how to make the probability unconditional.
+// threshold u, so its exceedance probability is P(X > t | X > u), and its
+// quantiles and return levels are of the values above u (a return period
+// counts values above u, not years); the tables say so in the label, and
+// each derived row's note says how to make its value unconditional
+// (fitters/infer's TestExcessNotesGiveTheRightRule checks the rules).
 // Invented data: 40 values above 30.
 func TestExcessQuantitiesAreConditional(t *testing.T) {
 	dir := t.TempDir()
@@ -311,6 +313,7 @@ fixed = { gpd = { threshold = 30.0 }, weibull3 = { threshold = 30.0 } }
 dataset = "d"
 candidates = "c"
 quantiles = [0.9]
+return_periods = [100]
 thresholds = [50.0]
 `
 	os.WriteFile(filepath.Join(dir, "d.csv"), []byte(b.String()), 0o644)
@@ -324,7 +327,12 @@ thresholds = [50.0]
 		t.Fatal(err)
 	}
 	for _, d := range res.Analyses[0].Derived {
-		if conditional := strings.Contains(d.Note, "of X given X > 30"); conditional != (d.Family == "gpd") {
+		conditional := strings.Contains(d.Note, "of X given X > 30") || strings.Contains(d.Note, "| X > 30)")
+		if conditional != (d.Family == "gpd") {
+			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
+		}
+		// Only a probability is made unconditional by multiplying.
+		if multiply := strings.Contains(d.Note, "this times P(X > 30)"); d.Family == "gpd" && multiply != (d.Quantity == "exceedance") {
 			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
 		}
 	}
@@ -333,9 +341,14 @@ thresholds = [50.0]
 	for _, d := range r.Analyses[0].Derived {
 		labels[d.Family+": "+d.Label()] = true
 	}
-	for _, want := range []string{"gpd: P(X > 50 | X > 30)", "gpd: quantile 0.9 (X > 30)", "weibull3: P(X > 50)", "weibull3: quantile 0.9"} {
+	for _, want := range []string{"gpd: P(X > 50 | X > 30)", "gpd: quantile 0.9 (X > 30)", "gpd: return level 100 (X > 30)",
+		"weibull3: P(X > 50)", "weibull3: quantile 0.9", "weibull3: return level 100 yr"} {
 		if !labels[want] {
 			t.Errorf("no derived row labelled %q among %v", want, labels)
 		}
+	}
+	// The summary's methods say what a gpd row is conditional on.
+	if m := strings.Join(methodsText(r), "\n"); !strings.Contains(m, "return period T counts values above u, not years") {
+		t.Errorf("the methods do not say that a gpd return period counts values above the threshold:\n%s", m)
 	}
 }

@@ -324,7 +324,10 @@ func (a Analysis) Best() string {
 }
 
 // Label describes a derived quantity in plain text:
-// "quantile 0.1", "return level 100 yr", "P(X > 4000)".
+// "quantile 0.1", "return level 100 yr", "P(X > 4000)". A quantity of a
+// family of excesses over u (Given) is conditional on X > u, and so
+// labelled: "quantile 0.9 (X > 30)", "P(X > 50 | X > 30)", and "return
+// level 100 (X > 30)", whose period counts values above u, not years.
 func (d Derived) Label() string {
 	given := ""
 	if d.Given != nil {
@@ -337,6 +340,9 @@ func (d Derived) Label() string {
 		}
 		return "quantile " + g(d.Argument)
 	case ReturnLevel:
+		if given != "" {
+			return "return level " + g(d.Argument) + " (X > " + g(*d.Given) + ")"
+		}
 		return "return level " + g(d.Argument) + " yr"
 	case Exceedance:
 		return "P(X > " + g(d.Argument) + given + ")"
@@ -357,6 +363,9 @@ func (d Derived) TeXLabel() string {
 		}
 		return `quantile $p = ` + g(d.Argument) + `$`
 	case ReturnLevel:
+		if given != "" {
+			return `return level $T = ` + g(d.Argument) + `$ ($X > ` + g(*d.Given) + `$)`
+		}
 		return `return level $T = ` + g(d.Argument) + `$\,yr`
 	case Exceedance:
 		return `$P(X > ` + g(d.Argument) + given + `)$`

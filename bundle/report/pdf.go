@@ -385,6 +385,19 @@ var Cautions = []string{
 		"applying the local codes and standards.",
 }
 
+// conditional reports whether any derived row of r is conditional on
+// exceeding a threshold (Derived.Given).
+func conditional(r *Report) bool {
+	for _, a := range r.Analyses {
+		for _, d := range a.Derived {
+			if d.Given != nil {
+				return true
+			}
+		}
+	}
+	return false
+}
+
 func methodsText(r *Report) []string {
 	s := r.Settings
 	intervals := map[string]string{
@@ -401,6 +414,15 @@ func methodsText(r *Report) []string {
 			"chi-square for counts) is compared with its distribution under the fitted model, found by a parametric bootstrap of %d replicates, each "+
 			"simulated from the fit and refitted; p = (r + 1)/(B + 1), where r replicates give a statistic at least as large as the data's.", s.Bootstrap)
 	}
+	derived := "Derived quantities. The quantile at lower-tail probability p is the value x with F(x) = p, the inverse CDF at p (p = 0.1 gives the B10 life); the return level for a " +
+		"period of T years is the 1 − 1/T quantile of the annual-maximum distribution (Coles 2001); an exceedance probability is " +
+		"P(X > t) = 1 − F(t), so the chance of a value at or below t is one minus it. Model-averaged rows combine the ranked " +
+		"families with their Akaike weights (Burnham & Anderson 2002, ch. 4)."
+	if conditional(r) {
+		derived += " A model of the excesses over a fixed threshold u (gpd) describes X given X > u, and its quantities are labelled so: " +
+			"its return period T counts values above u, not years, and each of its rows says what the unconditional value needs " +
+			"(the chance of exceeding u, or the number of values above u a year)."
+	}
 	return []string{
 		"Fitting. Each candidate family is fitted by maximum likelihood to the same observations. An exact value contributes ln f(x); " +
 			"a non-detect (left-censored) ln F(x); a suspension (right-censored) ln S(x) = ln(1 − F(x)); an interval ln(F(u) − F(l)). " +
@@ -412,10 +434,7 @@ func methodsText(r *Report) []string {
 			"Burnham & Anderson's rough guide (Δ ≤ 2 substantial, 4–7 considerably less, > 10 essentially none); it is a description, not a test.",
 		boot,
 		"Intervals at " + templates.Percent(s.Confidence) + " %: " + intervals + ".",
-		"Derived quantities. The quantile at lower-tail probability p is the value x with F(x) = p, the inverse CDF at p (p = 0.1 gives the B10 life); the return level for a " +
-			"period of T years is the 1 − 1/T quantile of the annual-maximum distribution (Coles 2001); an exceedance probability is " +
-			"P(X > t) = 1 − F(t), so the chance of a value at or below t is one minus it. Model-averaged rows combine the ranked " +
-			"families with their Akaike weights (Burnham & Anderson 2002, ch. 4).",
+		derived,
 		"Figures. Densities (or probability mass functions) of the leading candidates are drawn over a histogram of the exact values; " +
 			"the empirical CDF (Kaplan–Meier for suspensions, its reverse for non-detects, Turnbull for other censoring) is set against the fitted CDFs; Q–Q and P–P plots " +
 			"show the best candidate, with a pointwise simulation envelope where the bootstrap ran.",
