@@ -258,6 +258,45 @@ func (f withCommonTrials) New(theta []float64) (fitters.Dist, error) {
 	return d, nil
 }
 
+// limitMember is the distribution of one observation under a fit that
+// reached its limiting family where fam.New cannot take the infinite
+// estimates (fitters.LimitDist: betabinomial's α, β → ∞ with α/(α+β) = p̂
+// is the binomial with p̂ = Σk/Σn), with the observations' common number
+// of trials; false for any other fit, or without a common number of trials.
+func limitMember(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (fitters.Dist, bool) {
+	common, ok := fam.(withCommonTrials)
+	if !ok {
+		return nil, false
+	}
+	lim, ok := fitters.LimitDist(common.Family, fit, d)
+	if !ok {
+		return nil, false
+	}
+	return withTrials(lim, common.n)
+}
+
+// limitDerived sets out's estimate to the quantity of lim, the limiting
+// family a fit reached: its quantile at q's probability (the smallest k
+// with P(X ≤ k) ≥ p for a count), or P(X > arg). Its intervals are left
+// empty, and the note says why: at the limit the likelihood has no
+// curvature or profile in the original parameters, and an interval of
+// the limit alone (the binomial's p with no overdispersion) would take the
+// limit as known and leave out the chance of overdispersion, which the
+// data do not rule out by being at the limit.
+func limitDerived(out *DerivedValue, lim fitters.Dist, fit *fitters.Fit, q Quantity, arg float64) {
+	if q == Exceedance {
+		out.Estimate = math.Exp(lim.LogSurvival(arg))
+	} else {
+		out.Estimate = lim.Quantile(q.probability(arg))
+	}
+	what := "the limit's"
+	if b, ok := lim.(fitters.Binomial); ok {
+		what = fmt.Sprintf("the binomial's with p = alpha/(alpha+beta) = %v and %d trials", b.P, b.Trials)
+	}
+	out.Note = fmt.Sprintf("%s: the fit is at its limiting family, so the value is %s; no interval: the likelihood has no curvature or profile at the limit, "+
+		"and an interval of the limit alone would take it as known and leave out the chance of overdispersion", limitParameter(fit), what)
+}
+
 func derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, arg float64, method Method, s Settings) (DerivedValue, error) {
 	level, err := s.level()
 	if err != nil {
@@ -285,6 +324,10 @@ func derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 	}
 	if _, common := fam.(withCommonTrials); d.Trials != nil && !common {
 		out.Note = "the observations have different numbers of trials, so the quantity has no single value: not given"
+		return out, nil
+	}
+	if lim, ok := limitMember(fam, fit, d); ok {
+		limitDerived(&out, lim, fit, q, arg)
 		return out, nil
 	}
 	out.Estimate = g(fit.Estimates)
