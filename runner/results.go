@@ -213,7 +213,8 @@ func derivedRow(family string, v infer.DerivedValue) DerivedRow {
 // derived lists each quantity under every ranked fit, then the
 // Akaike-weighted model average over the ranked fits with its unconditional
 // standard error (Burnham & Anderson, 2002, eqs. 4.1 and 4.9; computed by
-// infer.ModelAverage).
+// infer.ModelAverage). Where one family carries all the weight the average
+// is that family's own row, interval included.
 func derived(p *Project, a *Analysis, cmp *fitters.Comparison, tasks []*taskResult) []DerivedRow {
 	qs := quantities(a)
 	if len(qs) == 0 {
@@ -248,7 +249,7 @@ func derived(p *Project, a *Analysis, cmp *fitters.Comparison, tasks []*taskResu
 			}
 			c := infer.Candidate{Family: r.Family, Weight: r.Weight, Estimate: math.NaN(), StdError: math.NaN()}
 			if inf := tasks[i].inf; inf != nil && k < len(inf.derived) {
-				c.Estimate, c.StdError = inf.derived[k].Estimate, inf.derived[k].StdError
+				c.Estimate, c.StdError, c.Row = inf.derived[k].Estimate, inf.derived[k].StdError, &inf.derived[k]
 			}
 			cands = append(cands, c)
 		}

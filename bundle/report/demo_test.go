@@ -291,6 +291,63 @@ func TestDerivedFollowTheRanking(t *testing.T) {
 // (fitters/infer's TestExcessNotesGiveTheRightRule checks the rules).
 // Invented data: 40 values above 30.
 func TestExcessQuantitiesAreConditional(t *testing.T) {
+	res, r := excessReport(t, `"gpd", "weibull3"`, `gpd = { threshold = 30.0 }, weibull3 = { threshold = 30.0 }`)
+	for _, d := range res.Analyses[0].Derived {
+		conditional := strings.Contains(d.Note, "of X given X > 30") || strings.Contains(d.Note, "| X > 30)")
+		if conditional != (d.Family == "gpd") {
+			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
+		}
+		// Only a probability is made unconditional by multiplying.
+		if multiply := strings.Contains(d.Note, "this times P(X > 30)"); d.Family == "gpd" && multiply != (d.Quantity == "exceedance") {
+			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
+		}
+	}
+	labels := map[string]bool{}
+	for _, d := range r.Analyses[0].Derived {
+		labels[d.Family+": "+d.Label()] = true
+	}
+	for _, want := range []string{"gpd: P(X > 50 | X > 30)", "gpd: quantile 0.9 (X > 30)", "gpd: return level 100 (X > 30)",
+		"weibull3: P(X > 50)", "weibull3: quantile 0.9", "weibull3: return level 100 yr",
+		"model-average: P(X > 50)", "model-average: return level 100 yr"} {
+		if !labels[want] {
+			t.Errorf("no derived row labelled %q among %v", want, labels)
+		}
+	}
+	// The summary's methods say what a gpd row is conditional on.
+	if m := strings.Join(methodsText(r), "\n"); !strings.Contains(m, "return period T counts values above u, not years") {
+		t.Errorf("the methods do not say that a gpd return period counts values above the threshold:\n%s", m)
+	}
+}
+
+// TestSoleExcessAverageIsConditional: with beta inapplicable (values above
+// 1), gpd carries all the weight, so the model average is gpd's own row and
+// is labelled conditional on X > 30 as gpd's is.
+func TestSoleExcessAverageIsConditional(t *testing.T) {
+	_, r := excessReport(t, `"gpd", "beta"`, `gpd = { threshold = 30.0 }`)
+	rows := map[string]Derived{}
+	var labels []string
+	for _, d := range r.Analyses[0].Derived {
+		rows[d.Family+": "+d.Label()] = d
+		labels = append(labels, d.Family+": "+d.Label())
+	}
+	for _, label := range []string{"P(X > 50 | X > 30)", "quantile 0.9 (X > 30)", "return level 100 (X > 30)"} {
+		own, ok := rows["gpd: "+label]
+		avg, ok2 := rows["model-average: "+label]
+		if !ok || !ok2 {
+			t.Errorf("no gpd and model-average rows labelled %q among %q", label, labels)
+			continue
+		}
+		if avg.Estimate != own.Estimate || avg.Lower != own.Lower || avg.Upper != own.Upper {
+			t.Errorf("%s: average %v [%v, %v], gpd's own %v [%v, %v]", label, avg.Estimate, avg.Lower, avg.Upper, own.Estimate, own.Lower, own.Upper)
+		}
+	}
+}
+
+// excessReport runs an analysis of 40 invented values above 30 with the
+// given candidate families and fixed parameters, and returns the results
+// and their report.
+func excessReport(t *testing.T, families, fixed string) (*runner.Results, *Report) {
+	t.Helper()
 	dir := t.TempDir()
 	var b strings.Builder
 	b.WriteString("x\n")
@@ -307,8 +364,8 @@ file = "d.csv"
 column = "x"
 [[candidates]]
 name = "c"
-families = ["gpd", "weibull3"]
-fixed = { gpd = { threshold = 30.0 }, weibull3 = { threshold = 30.0 } }
+families = [` + families + `]
+fixed = { ` + fixed + ` }
 [[analysis]]
 dataset = "d"
 candidates = "c"
@@ -326,29 +383,5 @@ thresholds = [50.0]
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, d := range res.Analyses[0].Derived {
-		conditional := strings.Contains(d.Note, "of X given X > 30") || strings.Contains(d.Note, "| X > 30)")
-		if conditional != (d.Family == "gpd") {
-			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
-		}
-		// Only a probability is made unconditional by multiplying.
-		if multiply := strings.Contains(d.Note, "this times P(X > 30)"); d.Family == "gpd" && multiply != (d.Quantity == "exceedance") {
-			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
-		}
-	}
-	r := FromResults(res, Identity{Created: testCreated, ToolVersion: "test", TagManifestSHA256: strings.Repeat("0", 64)})
-	labels := map[string]bool{}
-	for _, d := range r.Analyses[0].Derived {
-		labels[d.Family+": "+d.Label()] = true
-	}
-	for _, want := range []string{"gpd: P(X > 50 | X > 30)", "gpd: quantile 0.9 (X > 30)", "gpd: return level 100 (X > 30)",
-		"weibull3: P(X > 50)", "weibull3: quantile 0.9", "weibull3: return level 100 yr"} {
-		if !labels[want] {
-			t.Errorf("no derived row labelled %q among %v", want, labels)
-		}
-	}
-	// The summary's methods say what a gpd row is conditional on.
-	if m := strings.Join(methodsText(r), "\n"); !strings.Contains(m, "return period T counts values above u, not years") {
-		t.Errorf("the methods do not say that a gpd return period counts values above the threshold:\n%s", m)
-	}
+	return res, FromResults(res, Identity{Created: testCreated, ToolVersion: "test", TagManifestSHA256: strings.Repeat("0", 64)})
 }

@@ -109,6 +109,11 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 			given[p.Family] = &u
 		}
 	}
+	if u := sharedGiven(a.Ranking, given); u != nil {
+		// The average of families all conditional on X > u (gpd carrying
+		// all the weight) is conditional too.
+		given[ModelAverage] = u
+	}
 	for _, d := range ar.Derived {
 		a.Derived = append(a.Derived, Derived{Given: given[d.Family], Count: a.Discrete, Family: d.Family, Quantity: d.Quantity, Argument: d.Argument,
 			Estimate: d.Estimate, Lower: d.CILower, Upper: d.CIUpper, Method: d.CIMethod,
@@ -119,6 +124,24 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 		return placeOf(a.Derived[i].Family) < placeOf(a.Derived[j].Family)
 	})
 	return a
+}
+
+// sharedGiven is the threshold u that every ranked family with a positive
+// Akaike weight is conditional on (given, by family), or nil when they do
+// not all share one: a model average rests on those families only.
+func sharedGiven(ranking []Candidate, given map[string]*float64) *float64 {
+	var u *float64
+	for _, c := range ranking {
+		if c.Rank == 0 || !(c.Weight > 0) {
+			continue
+		}
+		g := given[c.Family]
+		if g == nil || (u != nil && *g != *u) {
+			return nil
+		}
+		u = g
+	}
+	return u
 }
 
 func discrete(cmp *fitters.Comparison) bool {

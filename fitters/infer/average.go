@@ -18,6 +18,10 @@ type Candidate struct {
 	Weight   float64
 	Estimate float64
 	StdError float64
+	// Row is the family's own derived row (estimate, interval, method and
+	// note), nil when not at hand. A family that carries all the weight
+	// has its own row for the average (see ModelAverage).
+	Row *DerivedValue
 }
 
 // ModelAverage returns the Akaike-weighted estimate of a derived quantity
@@ -33,6 +37,15 @@ type Candidate struct {
 // standard error are left out too, the remaining weights renormalised to sum
 // to 1, and the note names them. The returned value carries the quantity and
 // argument given.
+//
+// When one family carries all the weight — it is the only one with a weight,
+// or the only one with a weight and both an estimate and a standard error —
+// θ̄ = θ̂ of that family and eq. 4.9 gives its own standard error, so the
+// average is that family's estimate: given its own row (Candidate.Row), the
+// average is that row, interval and note included, with the method saying
+// so, rather than a normal interval beside a different one of the family's
+// for the same number. With only one weighted family, that holds even where
+// the family has no standard error (a count family's quantile).
 func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (DerivedValue, error) {
 	if !(level > 0 && level < 1) {
 		return DerivedValue{}, fmt.Errorf("confidence level must lie strictly between 0 and 1, got %v", level)
@@ -40,19 +53,27 @@ func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (De
 	nan := math.NaN()
 	out := DerivedValue{Quantity: q, Argument: arg, Estimate: nan, StdError: nan, Lower: nan, Upper: nan,
 		Method: "model average: Akaike weights, unconditional se (Burnham & Anderson 2002 eq. 4.9), normal interval"}
-	var used []Candidate
+	var weighted, used []Candidate
 	var left []string
 	var total float64
 	for _, c := range cands {
 		if math.IsNaN(c.Weight) || c.Weight <= 0 {
 			continue
 		}
+		weighted = append(weighted, c)
 		if math.IsNaN(c.Estimate) || math.IsInf(c.Estimate, 0) || math.IsNaN(c.StdError) || math.IsInf(c.StdError, 0) {
 			left = append(left, c.Family)
 			continue
 		}
 		used = append(used, c)
 		total += c.Weight
+	}
+	if len(weighted) == 1 && weighted[0].Row != nil {
+		return soleFamily(q, arg, weighted[0], ""), nil
+	}
+	if len(used) == 1 && used[0].Row != nil {
+		return soleFamily(q, arg, used[0], fmt.Sprintf("left out for want of an estimate or standard error: %s, so the average rests on %s alone (it carries %.3g of the weight)",
+			strings.Join(left, ", "), used[0].Family, total)), nil
 	}
 	if len(used) == 0 {
 		if len(left) > 0 {
@@ -87,6 +108,22 @@ func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (De
 		}
 	}
 	return out, nil
+}
+
+// soleFamily is the model average of a family c that carries all the
+// weight: its own row, with the method saying so and note before the
+// row's own note.
+func soleFamily(q Quantity, arg float64, c Candidate, note string) DerivedValue {
+	out := *c.Row
+	out.Quantity, out.Argument = q, arg
+	method := out.Method
+	if method == "" {
+		method = "none"
+	}
+	out.Method = fmt.Sprintf("model average: %s carries all the weight, so its own estimate and interval (%s)", c.Family, method)
+	out.Note = fitters.JoinNote(note, out.Note)
+	out.AboveFit = false // the family's row reports it
+	return out
 }
 
 // logitAverageInterval is the model-averaged interval of a probability

@@ -131,3 +131,67 @@ func TestModelAverageNotes(t *testing.T) {
 		t.Errorf("none averaged: %+v, %v", v, err)
 	}
 }
+
+// TestModelAverageSoleFamily: when one family carries all the weight the
+// average is that family's own row — estimate, interval (open ends and note
+// included) — and the method says so: θ̄ = θ̂ and eq. 4.9 gives the family's
+// own standard error, so a normal interval would be a second, different
+// interval for the same number. Invented rows; the last case is a control
+// with two weighted families, which are averaged as before.
+func TestModelAverageSoleFamily(t *testing.T) {
+	nan := math.NaN()
+	profile := &DerivedValue{Quantity: ReturnLevel, Argument: 100, Estimate: 412.5, StdError: 61.2, Lower: 318.4, Upper: 1e300,
+		UpperOpen: true, Method: "profile likelihood (solved for scale)", Note: "upper: the profile stays above the cut-off"}
+	count := &DerivedValue{Quantity: Quantile, Argument: 0.9, Estimate: 7, StdError: nan, Lower: nan, Upper: nan,
+		Method: "profile likelihood", Note: "a quantile of a discrete family is a step function of the parameters: no profile interval"}
+	tests := []struct {
+		name  string
+		cands []Candidate
+		own   *DerivedValue
+		note  string // the averaged row's note begins with it
+	}{
+		{"the only weighted family", []Candidate{
+			{Family: "gpd", Weight: 1, Estimate: profile.Estimate, StdError: profile.StdError, Row: profile},
+			{Family: "weibull3", Weight: nan, Estimate: nan, StdError: nan},
+			{Family: "lognormal3", Weight: 0, Estimate: 500, StdError: 10},
+		}, profile, profile.Note},
+		{"the only weighted family, without a standard error", []Candidate{
+			{Family: "negbinomial", Weight: 1, Estimate: 7, StdError: nan, Row: count},
+			{Family: "poisson", Weight: nan, Estimate: nan, StdError: nan},
+		}, count, count.Note},
+		{"the only one left with a standard error", []Candidate{
+			{Family: "gpd", Weight: 0.6, Estimate: profile.Estimate, StdError: profile.StdError, Row: profile},
+			{Family: "negbinomial", Weight: 0.4, Estimate: 380, StdError: nan, Row: &DerivedValue{Estimate: 380, StdError: nan}},
+		}, profile, "left out for want of an estimate or standard error: negbinomial, so the average rests on gpd alone (it carries 0.6 of the weight); " + profile.Note},
+		{"two weighted families", []Candidate{
+			{Family: "gpd", Weight: 0.6, Estimate: profile.Estimate, StdError: profile.StdError, Row: profile},
+			{Family: "weibull3", Weight: 0.4, Estimate: 380, StdError: 40, Row: &DerivedValue{Estimate: 380, StdError: 40}},
+		}, nil, ""},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			got, err := ModelAverage(tc.cands[0].Row.Quantity, tc.cands[0].Row.Argument, tc.cands, 0.95)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if tc.own == nil {
+				// θ̄ = 0.6·412.5 + 0.4·380 = 399.5, by eq. 4.1.
+				if !close(got.Estimate, 399.5, 1e-14) || !strings.Contains(got.Method, "normal interval") {
+					t.Errorf("average %v by %q, want 399.5 by the normal interval", got.Estimate, got.Method)
+				}
+				return
+			}
+			same := func(a, b float64) bool { return a == b || (math.IsNaN(a) && math.IsNaN(b)) }
+			if !same(got.Estimate, tc.own.Estimate) || !same(got.StdError, tc.own.StdError) || !same(got.Lower, tc.own.Lower) ||
+				!same(got.Upper, tc.own.Upper) || got.LowerOpen != tc.own.LowerOpen || got.UpperOpen != tc.own.UpperOpen {
+				t.Errorf("average %+v, want the family's own row %+v", got, *tc.own)
+			}
+			if fam := tc.cands[0].Family; !strings.HasPrefix(got.Method, "model average: "+fam+" carries all the weight") || !strings.Contains(got.Method, tc.own.Method) {
+				t.Errorf("method %q does not say that %s carries all the weight and name its method %q", got.Method, fam, tc.own.Method)
+			}
+			if got.Note != tc.note {
+				t.Errorf("note %q, want %q", got.Note, tc.note)
+			}
+		})
+	}
+}
