@@ -165,7 +165,10 @@ func quantityScale(fam fitters.Family, fit *fitters.Fit, q Quantity, est float64
 //
 // A quantile of a discrete family is a step function of the parameters,
 // so it has no delta-method standard error and gets bootstrap percentile
-// intervals only.
+// intervals only. A fit at a limiting family that the family's New cannot
+// take (betabinomial's binomial limit) gives the limit's value with no
+// interval (limitDerived); a family of excesses over u (gpd) notes what its
+// value is conditional on and how to make it unconditional (excessNote).
 func Derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, arg float64, method Method, s Settings) (DerivedValue, error) {
 	if n, ok := commonTrials(d.Trials); ok {
 		// Every observation has the same number of trials: the quantity is
