@@ -152,8 +152,9 @@ func Hints(err error) []string {
 
 // Closest returns the candidate nearest to s by edit distance, if it is
 // near enough to be a likely typo (distance at most 2, or at most a third of
-// the word for long words), and "" otherwise; the CLI uses it for command
-// names too.
+// the word for long words), and "" otherwise: for project keys and family
+// names. The command line's flags and commands have their own (cmd/fitseal's
+// nearest: several names, one-letter flags, unique beginnings).
 func Closest(s string, candidates []string) string {
 	best, bestD := "", -1
 	limit := max(2, len(s)/3)

@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -73,9 +72,9 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 
 // keyFlag defines a flag named as the project file's key (status_column),
 // and its hyphenated spelling (status-column) as the same flag.
-func keyFlag(fs *flag.FlagSet, p *string, key, usage string) {
+func keyFlag(fs *flagSet, p *string, key, usage string) {
 	fs.StringVar(p, key, "", usage)
-	fs.StringVar(p, strings.ReplaceAll(key, "_", "-"), "", "the same as --"+key+" `NAME`")
+	fs.StringVar(p, strings.ReplaceAll(key, "_", "-"), "", aliasUsage+key+" `NAME`")
 }
 
 // splitList splits a comma-separated flag value; "" gives nil.

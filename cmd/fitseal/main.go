@@ -13,9 +13,8 @@ import (
 	"os"
 	"os/signal"
 	"sort"
+	"strconv"
 	"strings"
-
-	"fitseal/runner"
 )
 
 // command is one subcommand: its one-line summary and its entry point.
@@ -79,10 +78,11 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	}
 	c, ok := commands[args[0]]
 	if !ok {
-		fmt.Fprintf(stderr, "fitseal: error: unknown command %q\n", args[0])
-		if s := runner.Closest(args[0], commandNames()); s != "" {
-			fmt.Fprintf(stderr, "fitseal: hint: did you mean %q?\n", s)
+		msg := fmt.Sprintf("unknown command %q", args[0])
+		if s := didYouMean(nearest(args[0], commandSuggestions()), strconv.Quote); s != "" {
+			msg += "; " + s
 		}
+		fmt.Fprintln(stderr, "fitseal: error: "+msg)
 		fmt.Fprintln(stderr, "fitseal: hint: run 'fitseal help' for the list of commands")
 		return 2
 	}
@@ -118,10 +118,17 @@ func printHelp(w io.Writer) {
 	fmt.Fprintln(w, "exit status: 0 success; 1 a check failed (verify, diff, merge); 2 bad usage or bad input")
 }
 
+// flagSet is a command's flag set and the synopsis its usage hint names.
+type flagSet struct {
+	*flag.FlagSet
+	synopsis string // "fitseal show [flags] BUNDLE"
+}
+
 // newFlagSet makes a flag set whose usage text names the command.
-func newFlagSet(name, argsUsage, summary string, stderr io.Writer) *flag.FlagSet {
+func newFlagSet(name, argsUsage, summary string, stderr io.Writer) *flagSet {
 	fs := flag.NewFlagSet(name, flag.ContinueOnError)
 	fs.SetOutput(stderr)
+	synopsis := strings.TrimSpace("fitseal " + name + " [flags] " + argsUsage)
 	fs.Usage = func() {
 		fmt.Fprintf(stderr, "usage: fitseal %s [flags] %s\n\n%s\n", name, argsUsage, summary)
 		var hasFlags bool
@@ -131,16 +138,68 @@ func newFlagSet(name, argsUsage, summary string, stderr io.Writer) *flag.FlagSet
 			fs.PrintDefaults()
 		}
 	}
-	return fs
+	return &flagSet{FlagSet: fs, synopsis: synopsis}
 }
 
-// parseFlags parses args; a flag error becomes a usage error (exit 2).
-func parseFlags(fs *flag.FlagSet, args []string) error {
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return err
-		}
-		return usageError{fmt.Errorf("%s: %w", fs.Name(), err)}
+// aliasUsage begins the usage text of a flag that is another spelling of a
+// flag (keyFlag's --status-column); suggestions name the flag itself.
+const aliasUsage = "the same as --"
+
+// parseFlags parses args. -h prints the command's usage; a flag error
+// becomes a usage error (exit 2) of one line, which for an unknown flag
+// names the nearest flags of the command, and a hint with the synopsis in
+// place of the whole usage.
+func parseFlags(fs *flagSet, args []string) error {
+	usage, out := fs.Usage, fs.Output()
+	fs.Usage = func() {}
+	fs.SetOutput(io.Discard)
+	err := fs.Parse(args)
+	fs.Usage = usage
+	fs.SetOutput(out)
+	switch {
+	case err == nil:
+		return nil
+	case errors.Is(err, flag.ErrHelp):
+		usage()
+		return err
 	}
-	return nil
+	msg := err.Error()
+	if name, ok := strings.CutPrefix(msg, "flag provided but not defined: -"); ok {
+		msg = "unknown flag " + typedFlag(args, name)
+		if s := didYouMean(nearest(name, fs.suggestions()), flagName); s != "" {
+			msg += "; " + s
+		}
+	}
+	return usageError{fmt.Errorf("%s: %s\nfitseal: hint: usage: %s; 'fitseal %s -h' describes the flags", fs.Name(), msg, fs.synopsis, fs.Name())}
+}
+
+// suggestions are the command's flags as candidates for nearest, other
+// spellings of a flag left out.
+func (fs *flagSet) suggestions() []suggestion {
+	var out []suggestion
+	fs.VisitAll(func(f *flag.Flag) {
+		if !strings.HasPrefix(f.Usage, aliasUsage) {
+			out = append(out, suggestion{name: f.Name, spellings: append([]string{f.Name}, flagWords[f.Name]...)})
+		}
+	})
+	return out
+}
+
+// typedFlag is the flag called name as args spell it ("-familes" or
+// "--familes"), or flagName's spelling when no argument does.
+func typedFlag(args []string, name string) string {
+	for _, a := range args {
+		if a == "--" {
+			break
+		}
+		for _, dashes := range []string{"--", "-"} {
+			if rest, ok := strings.CutPrefix(a, dashes); ok {
+				if n, _, _ := strings.Cut(rest, "="); n == name {
+					return dashes + name
+				}
+				break
+			}
+		}
+	}
+	return flagName(name)
 }

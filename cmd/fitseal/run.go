@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -309,7 +308,7 @@ func inputError(err error) error {
 
 // parseInterleaved parses flags that may come after positional arguments
 // (`fitseal run fitseal.toml -j 4`), returning the positional ones.
-func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
+func parseInterleaved(fs *flagSet, args []string) ([]string, error) {
 	var pos []string
 	for {
 		if err := parseFlags(fs, args); err != nil {

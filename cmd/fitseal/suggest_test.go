@@ -1,0 +1,156 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"io"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// TestNearest: a typo of a flag or command leads to the name meant, by
+// edit distance (at most 2, under half the word) or a unique beginning;
+// what is not near enough to help leads nowhere.
+func TestNearest(t *testing.T) {
+	flags := func(names ...string) []suggestion {
+		out := make([]suggestion, len(names))
+		for i, n := range names {
+			out[i] = suggestion{name: n, spellings: append([]string{n}, flagWords[n]...)}
+		}
+		return out
+	}
+	run := flags("force", "j", "key", "o", "q", "shard")
+	fit := flags("column", "criterion", "delimiter", "discrete", "families", "j", "left", "lower_column",
+		"missing", "q", "right", "status_column", "trials_column", "upper_column")
+	for _, c := range []struct {
+		name       string
+		typed      string
+		candidates []suggestion
+		want       []string
+	}{
+		{"one letter dropped", "familes", fit, []string{"families"}},
+		{"one letter dropped mid-word", "staus_column", fit, []string{"status_column"}},
+		{"hyphen for underscore is no difference", "status-column", fit, []string{"status_column"}},
+		{"hyphen and a dropped letter", "status-colum", fit, []string{"status_column"}},
+		{"two edits", "critrion", fit, []string{"criterion"}},
+		{"transposition counts one", "fmailies", fit, []string{"families"}},
+		{"letter case is no difference", "Force", run, []string{"force"}},
+		{"unique beginning", "fam", fit, []string{"families"}},
+		{"unique beginning of a long word", "disc", fit, []string{"discrete"}},
+		{"beginning shared by two: no hint", "c", fit, nil},
+		{"beginning shared by two, one letter: no hint", "l", fit, nil},
+		{"beginning of one of two alike", "lo", fit, []string{"lower_column"}},
+		{"the word a one-letter flag stands for", "jobs", run, []string{"j"}},
+		{"a typo of that word", "ouptut", run, []string{"o"}},
+		{"the other word for -j", "workers", fit, []string{"j"}},
+		{"two at the same distance", "lefts", flags("left", "lefty"), []string{"left", "lefty"}},
+		{"nearest wins over farther", "keys", flags("key", "kegs2"), []string{"key"}},
+		{"one letter is not near another", "x", run, nil},
+		{"three edits is too far", "fmlys", fit, nil},
+		{"two edits in a short word is too far", "kye2", run, nil},
+		{"nothing alike", "json", run, nil},
+		{"empty", "", run, nil},
+		{"command typo", "verfy", commandSuggestions(), []string{"verify"}},
+		{"command transposition", "shwo", commandSuggestions(), []string{"show"}},
+		{"help", "hlep", commandSuggestions(), []string{"help"}},
+		{"command beginning", "ext", commandSuggestions(), []string{"extract"}},
+		{"no command near", "zzz", commandSuggestions(), nil},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			if got := nearest(c.typed, c.candidates); !slices.Equal(got, c.want) {
+				t.Errorf("nearest(%q) = %q, want %q", c.typed, got, c.want)
+			}
+		})
+	}
+}
+
+func TestEditDistance(t *testing.T) {
+	for _, c := range []struct {
+		a, b string
+		want int
+	}{
+		{"", "", 0},
+		{"", "abc", 3},
+		{"verify", "verify", 0},
+		{"verfy", "verify", 1},
+		{"verfiy", "verify", 1}, // transposition
+		{"families", "familes", 1},
+		{"kitten", "sitting", 3},
+		{"ca", "abc", 3}, // optimal string alignment: no edit of a transposed pair
+		{"≥5", "≤5", 1},  // runes, not bytes
+	} {
+		if got := editDistance(c.a, c.b); got != c.want {
+			t.Errorf("editDistance(%q, %q) = %d, want %d", c.a, c.b, got, c.want)
+		}
+		if got := editDistance(c.b, c.a); got != c.want {
+			t.Errorf("editDistance(%q, %q) = %d, want %d (symmetric)", c.b, c.a, got, c.want)
+		}
+	}
+}
+
+func TestDidYouMean(t *testing.T) {
+	for _, c := range []struct {
+		names []string
+		want  string
+	}{
+		{nil, ""},
+		{[]string{"families"}, "did you mean --families?"},
+		{[]string{"j"}, "did you mean -j?"},
+		{[]string{"key", "keys"}, "did you mean --key or --keys?"},
+		{[]string{"a1", "b2", "c3"}, "did you mean --a1, --b2 or --c3?"},
+	} {
+		if got := didYouMean(c.names, flagName); got != c.want {
+			t.Errorf("didYouMean(%q) = %q, want %q", c.names, got, c.want)
+		}
+	}
+	if got := didYouMean([]string{"verify"}, strconv.Quote); got != `did you mean "verify"?` {
+		t.Errorf("didYouMean of a command = %q", got)
+	}
+}
+
+// TestTypedFlag: the message repeats the flag as the user typed it.
+func TestTypedFlag(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		name string
+		want string
+	}{
+		{[]string{"-q", "--familes", "x"}, "familes", "--familes"},
+		{[]string{"-familes=weibull"}, "familes", "-familes"},
+		{[]string{"--familes=weibull"}, "familes", "--familes"},
+		{[]string{"--", "--familes"}, "familes", "--familes"}, // not found: the usual spelling
+		{[]string{"-x"}, "x", "-x"},
+		{nil, "y", "-y"},
+	} {
+		if got := typedFlag(c.args, c.name); got != c.want {
+			t.Errorf("typedFlag(%q, %q) = %q, want %q", c.args, c.name, got, c.want)
+		}
+	}
+}
+
+// TestUnknownFlagEveryCommand: in every command, a mistyped flag gives
+// exit 2, one error line naming it (with the flag meant, where one is
+// near) and one hint line with the synopsis, never the whole usage; -h
+// still prints the whole usage.
+func TestUnknownFlagEveryCommand(t *testing.T) {
+	for _, name := range commandNames() {
+		t.Run(name, func(t *testing.T) {
+			var stdout, stderr bytes.Buffer
+			code := run(context.Background(), []string{name, "--bogus-flag", "x"}, &stdout, &stderr)
+			lines := strings.Split(strings.TrimSuffix(stderr.String(), "\n"), "\n")
+			if code != 2 || stdout.Len() != 0 || len(lines) != 2 ||
+				lines[0] != "fitseal: error: "+name+": unknown flag --bogus-flag" ||
+				!strings.HasPrefix(lines[1], "fitseal: hint: usage: fitseal "+name+" ") ||
+				!strings.HasSuffix(lines[1], "; 'fitseal "+name+" -h' describes the flags") {
+				t.Errorf("exit %d, stdout %q, stderr:\n%s", code, stdout.String(), stderr.String())
+			}
+			stderr.Reset()
+			if code := run(context.Background(), []string{name, "-h"}, io.Discard, &stderr); code != 0 ||
+				!strings.HasPrefix(stderr.String(), "usage: fitseal "+name+" [flags]") {
+				t.Errorf("-h: exit %d, stderr:\n%s", code, stderr.String())
+			}
+		})
+	}
+}
