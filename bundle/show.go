@@ -11,7 +11,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
-	"text/tabwriter"
+	"unicode/utf8"
 
 	"fitseal/runner"
 )
@@ -95,7 +95,9 @@ func families(rows []map[string]string) []string {
 // goodness-of-fit tables (or why there is none), one block per analysis,
 // aligned in columns, after a header naming the bundle, its created time,
 // code version and signer. Numbers are shown to six significant digits;
-// the result files keep every digit.
+// the result files keep every digit. A method or note longer than
+// inlineLimit characters is a numbered footnote under its table (see
+// showTable), so that the tables fit a terminal of 100 to 120 columns.
 func WriteShow(out io.Writer, b *Bag) error {
 	w := bufio.NewWriter(out)
 	fits, err := readResultTable(b, "fits.csv")
@@ -160,17 +162,16 @@ func WriteShow(out io.Writer, b *Bag) error {
 		if n := notes.analysis[a]; n != "" {
 			fmt.Fprintln(w, n) // why the criterion differs from the one asked for, …
 		}
-		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "rank\tfamily\tn\tk\tloglik\t"+crit+"\tdelta\tweight\tsupport\tconverged\tnote")
+		ranking := showTable{header: []string{"rank", "family", "n", "k", "loglik", crit, "delta", "weight", "support", "converged", "note"}}
 		for _, r := range ranked {
 			rank := r["rank"]
 			if rank == "" {
 				rank = "–"
 			}
-			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", rank, r["family"], r["n"], orDash(r["k"]),
-				short(r["loglik"]), short(r[crit]), short(r["delta"]), short(r["weight"]), orDash(r["support"]), r["converged"], r["note"])
+			ranking.add(rank, r["family"], r["n"], orDash(r["k"]), short(r["loglik"]), short(r[crit]), short(r["delta"]),
+				short(r["weight"]), orDash(r["support"]), r["converged"], r["note"])
 		}
-		tw.Flush()
+		ranking.write(w, "note")
 		// What the fits' inference notes say of the bootstrap and the
 		// intervals (a fallback to profile intervals, a local maximum).
 		var fams, remarks []string
@@ -200,50 +201,47 @@ func WriteShow(out io.Writer, b *Bag) error {
 		}
 		if rows := inRankOrder(rowsOf(params, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\nparameters")
-			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-			fmt.Fprintln(tw, "family\tparameter\testimate\tstd_error\tinterval\tmethod\tnote")
+			t := showTable{header: []string{"family", "parameter", "estimate", "std_error", "interval", "method", "note"}}
 			for _, r := range rows {
 				method := r["ci_method"]
 				if r["fixed"] == "true" {
 					method = "fixed"
 				}
 				n := notes.rows[rowKey(a, r["family"], r["parameter"])]
-				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["parameter"], short(r["estimate"]), short(r["std_error"]),
+				t.add(r["family"], r["parameter"], short(r["estimate"]), short(r["std_error"]),
 					interval(r["ci_lower"], r["ci_upper"], n), method, n.note)
 			}
-			tw.Flush()
+			t.write(w, "method", "note")
 		}
 		if rows := inRankOrder(rowsOf(derived, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\nderived quantities")
-			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-			fmt.Fprintln(tw, "family\tquantity\targument\testimate\tinterval\tmethod\tnote")
+			t := showTable{header: []string{"family", "quantity", "argument", "estimate", "interval", "method", "note"}}
 			for _, r := range rows {
 				arg, _ := strconv.ParseFloat(r["argument"], 64) // derived.csv writes it in shortest form
 				n := notes.rows[rowKey(a, r["family"], derivedWhat(r["quantity"], arg))]
-				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["quantity"], short(r["argument"]), short(r["estimate"]),
+				t.add(r["family"], r["quantity"], short(r["argument"]), short(r["estimate"]),
 					interval(r["ci_lower"], r["ci_upper"], n), orDash(r["ci_method"]), n.note)
 			}
-			tw.Flush()
+			t.write(w, "method", "note")
 		}
 		if rows := inRankOrder(rowsOf(gof, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\ngoodness of fit")
-			tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-			fmt.Fprintln(tw, "family\tstatistic\tvalue\tp_value\treplicates\tnote")
+			t := showTable{header: []string{"family", "statistic", "value", "p_value", "replicates", "note"}}
 			have := map[string]bool{}
 			for _, r := range rows {
 				have[r["family"]] = true
-				fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\n", r["family"], r["statistic"], short(r["value"]), orDash(short(r["p_value"])), r["replicates"],
+				t.add(r["family"], r["statistic"], short(r["value"]), orDash(short(r["p_value"])), r["replicates"],
 					notes.rows[rowKey(a, r["family"], "gof "+r["statistic"])].note)
 			}
 			// A fitted family without a row says why, as when none has one.
 			for _, r := range ranked {
 				if f := r["family"]; !have[f] {
 					if reason, ok := notes.noGOF[a][f]; ok {
-						fmt.Fprintf(tw, "%s\tnone\t\t\t\t%s\n", f, reason)
+						t.add(f, "none", "", "", "", reason)
 					}
 				}
 			}
-			tw.Flush()
+			t.write(w, "note")
 		} else if reasons := notes.gofReasons(a, families(ranked)); len(reasons) > 0 {
 			fmt.Fprintf(w, "\ngoodness of fit: none: %s\n", strings.Join(reasons, "; "))
 		}
@@ -450,4 +448,79 @@ func ShowJSON(b *Bag) ([]byte, error) {
 		return nil, err
 	}
 	return append(js, '\n'), nil
+}
+
+// inlineLimit is the longest method or note text, in characters, that show
+// writes in its cell. A longer one ("profile likelihood (solved for
+// scale)", the model average's method, most notes) would widen every row of
+// its table and is mostly the same on many rows, so it becomes a footnote;
+// a shorter one ("profile likelihood", "fixed", "wald (log scale)") stays,
+// as a marker would save next to nothing and cost the reader a look down.
+const inlineLimit = 20
+
+// showTable is one of show's tables: a header and rows of cells, written
+// aligned in columns two spaces apart, without trailing blanks.
+type showTable struct {
+	header []string
+	rows   [][]string
+}
+
+func (t *showTable) add(cells ...string) { t.rows = append(t.rows, cells) }
+
+// write writes the table with the long texts of the named columns moved to
+// footnotes (footnote), one line "[n] text" each under the table.
+func (t *showTable) write(w io.Writer, footnoted ...string) {
+	var cols []int
+	for i, h := range t.header {
+		if slices.Contains(footnoted, h) {
+			cols = append(cols, i)
+		}
+	}
+	texts := footnote(t.rows, cols)
+	lines := append([][]string{t.header}, t.rows...)
+	width := make([]int, len(t.header))
+	for _, l := range lines {
+		for i, c := range l {
+			width[i] = max(width[i], utf8.RuneCountInString(c))
+		}
+	}
+	var b strings.Builder
+	for _, l := range lines {
+		b.Reset()
+		for i, c := range l {
+			b.WriteString(c)
+			if i < len(l)-1 {
+				b.WriteString(strings.Repeat(" ", width[i]-utf8.RuneCountInString(c)+2))
+			}
+		}
+		fmt.Fprintln(w, strings.TrimRight(b.String(), " "))
+	}
+	for i, text := range texts {
+		fmt.Fprintf(w, "[%d] %s\n", i+1, text)
+	}
+}
+
+// footnote replaces each cell of the given columns whose text is longer
+// than inlineLimit characters with the marker "[n]" and returns the texts
+// so replaced, text n-1 for marker [n]: numbered in the order first seen,
+// row by row and left to right in a row, identical texts sharing a number.
+// Every text replaced is returned, so nothing is lost.
+func footnote(rows [][]string, cols []int) []string {
+	var texts []string
+	number := map[string]int{}
+	for _, r := range rows {
+		for _, c := range cols {
+			if c >= len(r) || utf8.RuneCountInString(r[c]) <= inlineLimit {
+				continue
+			}
+			n, ok := number[r[c]]
+			if !ok {
+				texts = append(texts, r[c])
+				n = len(texts)
+				number[r[c]] = n
+			}
+			r[c] = fmt.Sprintf("[%d]", n)
+		}
+	}
+	return texts
 }

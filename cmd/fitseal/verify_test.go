@@ -6,6 +6,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -76,6 +77,16 @@ func TestRunVerifyInitDemo(t *testing.T) {
 		if !strings.Contains(show, a) {
 			t.Errorf("show lacks %q", a)
 		}
+	}
+	// The tables fit 110 columns (the widest row is about 102): long and
+	// repeated methods and notes are footnotes under their table, each
+	// once, and none is lost. The model average's method is one footnote
+	// per analysis, where it was a cell of each model-averaged row.
+	checkShowLayout(t, show, 110)
+	checkEveryNote(t, out, show)
+	footnoted := regexp.MustCompile(`(?m)^\[\d+\] model average: Akaike weights, unconditional se \(Burnham & Anderson 2002 eq\. 4\.9\), normal interval$`)
+	if n := len(footnoted.FindAllString(show, -1)); n != 7 {
+		t.Errorf("the model average's normal-interval method is %d footnotes, want one for each of the 7 analyses:\n%s", n, show)
 	}
 	// Goodness of fit: the bootstrap table where there is one (the rainfall
 	// maxima are complete), and why there is none where the data are
