@@ -159,7 +159,7 @@ func Closest(s string, candidates []string) string {
 	best, bestD := "", -1
 	limit := max(2, len(s)/3)
 	for _, c := range candidates {
-		d := editDistance(strings.ToLower(s), strings.ToLower(c))
+		d := EditDistance(strings.ToLower(s), strings.ToLower(c))
 		if d <= limit && (bestD < 0 || d < bestD) {
 			best, bestD = c, d
 		}
@@ -175,23 +175,35 @@ func didYouMean(s string, candidates []string) string {
 	return ""
 }
 
-// editDistance is the Levenshtein distance between a and b, in bytes.
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
+// EditDistance is the optimal-string-alignment distance between a and b,
+// in runes: insertions, deletions, substitutions and transpositions of
+// adjacent runes each count one ("verfiy" is one edit from "verify", not
+// two). Wagner–Fischer's table with the transposition step:
+//
+//	d[i][j] = min(d[i−1][j] + 1, d[i][j−1] + 1, d[i−1][j−1] + [aᵢ ≠ bⱼ],
+//	              d[i−2][j−2] + 1 when aᵢ = bⱼ₋₁ and aᵢ₋₁ = bⱼ).
+func EditDistance(a, b string) int {
+	x, y := []rune(a), []rune(b)
+	// d[i][j] is the distance between x[:i] and y[:j].
+	d := make([][]int, len(x)+1)
+	for i := range d {
+		d[i] = make([]int, len(y)+1)
+		d[i][0] = i
 	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
+	for j := range d[0] {
+		d[0][j] = j
+	}
+	for i := 1; i <= len(x); i++ {
+		for j := 1; j <= len(y); j++ {
 			cost := 1
-			if a[i-1] == b[j-1] {
+			if x[i-1] == y[j-1] {
 				cost = 0
 			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+			d[i][j] = min(d[i-1][j]+1, d[i][j-1]+1, d[i-1][j-1]+cost)
+			if i > 1 && j > 1 && x[i-1] == y[j-2] && x[i-2] == y[j-1] {
+				d[i][j] = min(d[i][j], d[i-2][j-2]+1)
+			}
 		}
-		prev, cur = cur, prev
 	}
-	return prev[len(b)]
+	return d[len(x)][len(y)]
 }

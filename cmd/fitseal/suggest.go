@@ -4,6 +4,8 @@ import (
 	"slices"
 	"strings"
 	"unicode/utf8"
+
+	"fitseal/runner"
 )
 
 // suggestion is a name the user may have meant (a flag's name without its
@@ -48,7 +50,7 @@ func nearest(typed string, candidates []suggestion) []string {
 		d, prefix := far, false
 		for _, s := range c.spellings {
 			s = fold(s)
-			if e := editDistance(t, s); e < far && 2*e < max(utf8.RuneCountInString(t), utf8.RuneCountInString(s)) {
+			if e := runner.EditDistance(t, s); e < far && 2*e < max(utf8.RuneCountInString(t), utf8.RuneCountInString(s)) {
 				d = min(d, e)
 			}
 			prefix = prefix || strings.HasPrefix(s, t)
@@ -75,35 +77,6 @@ func nearest(typed string, candidates []suggestion) []string {
 // fold is s as nearest compares it: lower case, "_" read as "-".
 func fold(s string) string {
 	return strings.ReplaceAll(strings.ToLower(s), "_", "-")
-}
-
-// editDistance is the optimal-string-alignment distance between a and b, in
-// runes: insertions, deletions, substitutions and transpositions of adjacent
-// runes each count one ("verfiy" is one edit from "verify", not two).
-func editDistance(a, b string) int {
-	x, y := []rune(a), []rune(b)
-	// d[i][j] is the distance between x[:i] and y[:j].
-	d := make([][]int, len(x)+1)
-	for i := range d {
-		d[i] = make([]int, len(y)+1)
-		d[i][0] = i
-	}
-	for j := range d[0] {
-		d[0][j] = j
-	}
-	for i := 1; i <= len(x); i++ {
-		for j := 1; j <= len(y); j++ {
-			cost := 1
-			if x[i-1] == y[j-1] {
-				cost = 0
-			}
-			d[i][j] = min(d[i-1][j]+1, d[i][j-1]+1, d[i-1][j-1]+cost)
-			if i > 1 && j > 1 && x[i-1] == y[j-2] && x[i-2] == y[j-1] {
-				d[i][j] = min(d[i][j], d[i-2][j-2]+1)
-			}
-		}
-	}
-	return d[len(x)][len(y)]
 }
 
 // didYouMean is " did you mean A?", " did you mean A or B?" (each name
