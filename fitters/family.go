@@ -235,3 +235,20 @@ func catalogueIndex(name string) int {
 	}
 	return len(catalogueOrder)
 }
+
+// ModelsExcesses reports whether a fit of family, its threshold held
+// fixed or not (thresholdFixed), models the excesses over that threshold
+// u, so that its quantities describe X given X > u: gpd always (it takes
+// the values above its fixed threshold), and weibull3 and lognormal3 when
+// their threshold is fixed, which SPEC makes "the same kind of excess
+// model". A threshold estimated from the data is a lower bound of the
+// values instead, and its quantities are unconditional.
+func ModelsExcesses(family string, thresholdFixed bool) bool {
+	switch family {
+	case "gpd":
+		return true
+	case "weibull3", "lognormal3":
+		return thresholdFixed
+	}
+	return false
+}

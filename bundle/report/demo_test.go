@@ -284,38 +284,63 @@ func TestDerivedFollowTheRanking(t *testing.T) {
 }
 
 // TestExcessQuantitiesAreConditional: gpd models the excesses over its fixed
-// threshold u, so its exceedance probability is P(X > t | X > u), and its
-// quantiles and return levels are of the values above u (a return period
-// counts values above u, not years); the tables say so in the label, and
-// each derived row's note says how to make its value unconditional
-// (fitters/infer's TestExcessNotesGiveTheRightRule checks the rules).
-// Invented data: 40 values above 30.
+// threshold u, and so do weibull3 and lognormal3 with their threshold fixed
+// (SPEC: "the same kind of excess model"), so their exceedance
+// probabilities are P(X > t | X > u) and their quantiles and return levels
+// are of the values above u (a return period counts values above u, not
+// years); the tables say so in the label, and each derived row's note says
+// how to make its value unconditional (fitters/infer's
+// TestExcessNotesGiveTheRightRule checks the rules). A family without a
+// fixed threshold is not one of these, and neither is a model average over
+// families not all conditional on the same u. Invented data: 40 values
+// above 30.
 func TestExcessQuantitiesAreConditional(t *testing.T) {
-	res, r := excessReport(t, `"gpd", "weibull3"`, `gpd = { threshold = 30.0 }, weibull3 = { threshold = 30.0 }`)
-	for _, d := range res.Analyses[0].Derived {
-		conditional := strings.Contains(d.Note, "of X given X > 30") || strings.Contains(d.Note, "| X > 30)")
-		if conditional != (d.Family == "gpd") {
-			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
-		}
-		// Only a probability is made unconditional by multiplying.
-		if multiply := strings.Contains(d.Note, "this times P(X > 30)"); d.Family == "gpd" && multiply != (d.Quantity == "exceedance") {
-			t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
-		}
-	}
-	labels := map[string]bool{}
-	for _, d := range r.Analyses[0].Derived {
-		labels[d.Family+": "+d.Label()] = true
-	}
-	for _, want := range []string{"gpd: P(X > 50 | X > 30)", "gpd: quantile 0.9 (X > 30)", "gpd: return level 100 (X > 30)",
-		"weibull3: P(X > 50)", "weibull3: quantile 0.9", "weibull3: return level 100 yr",
-		"model-average: P(X > 50)", "model-average: return level 100 yr"} {
-		if !labels[want] {
-			t.Errorf("no derived row labelled %q among %v", want, labels)
-		}
-	}
-	// The summary's methods say what a gpd row is conditional on.
-	if m := strings.Join(methodsText(r), "\n"); !strings.Contains(m, "return period T counts values above u, not years") {
-		t.Errorf("the methods do not say that a gpd return period counts values above the threshold:\n%s", m)
+	for _, c := range []struct {
+		families, fixed string
+		conditional     map[string]bool // by family, model-average included
+	}{
+		{`"gpd", "weibull3"`, `gpd = { threshold = 30.0 }, weibull3 = { threshold = 30.0 }`,
+			map[string]bool{"gpd": true, "weibull3": true, ModelAverage: true}},
+		{`"gpd", "lognormal3"`, `gpd = { threshold = 30.0 }, lognormal3 = { threshold = 30.0 }`,
+			map[string]bool{"gpd": true, "lognormal3": true, ModelAverage: true}},
+		{`"gpd", "weibull"`, `gpd = { threshold = 30.0 }`,
+			map[string]bool{"gpd": true, "weibull": false, ModelAverage: false}},
+	} {
+		t.Run(c.families+" fixed "+c.fixed, func(t *testing.T) {
+			res, r := excessReport(t, c.families, c.fixed)
+			for _, d := range res.Analyses[0].Derived {
+				if d.Family == ModelAverage {
+					continue // its note is the average's (labels below)
+				}
+				conditional := strings.Contains(d.Note, "of X given X > 30") || strings.Contains(d.Note, "| X > 30)")
+				if conditional != c.conditional[d.Family] {
+					t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
+				}
+				// Only a probability is made unconditional by multiplying.
+				if multiply := strings.Contains(d.Note, "this times P(X > 30)"); conditional && multiply != (d.Quantity == "exceedance") {
+					t.Errorf("%s %s %v: note %q", d.Family, d.Quantity, d.Argument, d.Note)
+				}
+			}
+			labels := map[string]bool{}
+			for _, d := range r.Analyses[0].Derived {
+				labels[d.Family+": "+d.Label()] = true
+			}
+			for family, given := range c.conditional {
+				want := []string{family + ": P(X > 50)", family + ": quantile 0.9", family + ": return level 100 yr"}
+				if given {
+					want = []string{family + ": P(X > 50 | X > 30)", family + ": quantile 0.9 (X > 30)", family + ": return level 100 (X > 30)"}
+				}
+				for _, w := range want {
+					if !labels[w] {
+						t.Errorf("no derived row labelled %q among %v", w, labels)
+					}
+				}
+			}
+			// The summary's methods say what a conditional row is conditional on.
+			if m := strings.Join(methodsText(r), "\n"); !strings.Contains(m, "return period T counts values above u, not years") {
+				t.Errorf("the methods do not say that a return period of an excess model counts values above the threshold:\n%s", m)
+			}
+		})
 	}
 }
 

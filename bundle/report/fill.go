@@ -100,11 +100,12 @@ func analysisOf(p *runner.Project, ar *runner.AnalysisResult) Analysis {
 		}
 		return len(place)
 	}
-	// gpd models the excesses over its fixed threshold: its quantities are
-	// conditional on exceeding it.
+	// A model of the excesses over a fixed threshold (gpd; weibull3 and
+	// lognormal3 with it fixed): its quantities are conditional on
+	// exceeding it.
 	given := map[string]*float64{}
 	for _, p := range a.Parameters {
-		if p.Family == "gpd" && p.Name == "threshold" && p.Fixed {
+		if p.Name == "threshold" && fitters.ModelsExcesses(p.Family, p.Fixed) {
 			u := p.Estimate
 			given[p.Family] = &u
 		}

@@ -419,7 +419,7 @@ func methodsText(r *Report) []string {
 		"P(X > t) = 1 − F(t), so the chance of a value at or below t is one minus it. Model-averaged rows combine the ranked " +
 		"families with their Akaike weights (Burnham & Anderson 2002, ch. 4)."
 	if conditional(r) {
-		derived += " A model of the excesses over a fixed threshold u (gpd) describes X given X > u, and its quantities are labelled so: " +
+		derived += " A model of the excesses over a fixed threshold u (gpd; weibull3 or lognormal3 with the threshold fixed) describes X given X > u, and its quantities are labelled so: " +
 			"its return period T counts values above u, not years, and each of its rows says what the unconditional value needs " +
 			"(the chance of exceeding u, or the number of values above u a year)."
 	}

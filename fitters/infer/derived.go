@@ -214,15 +214,14 @@ func excessNote(family string, q Quantity, arg, u float64) string {
 	return "of X given X > " + fmt.Sprint(u) + ": " + models
 }
 
-// excessThreshold is the threshold u whose excesses fam models (gpd:
-// X − u given X > u), so that its quantities are conditional on X > u.
+// excessThreshold is the threshold u whose excesses fit models
+// (fitters.ModelsExcesses: gpd, or weibull3 and lognormal3 with the
+// threshold fixed), so that its quantities are conditional on X > u.
 func excessThreshold(fam fitters.Family, fit *fitters.Fit) (float64, bool) {
-	if fam.Name() != "gpd" {
-		return 0, false
-	}
 	for i, name := range fit.Parameters {
 		if name == "threshold" {
-			return fit.Estimates[i], true
+			fixed := i < len(fit.Fixed) && fit.Fixed[i]
+			return fit.Estimates[i], fitters.ModelsExcesses(fam.Name(), fixed)
 		}
 	}
 	return 0, false

@@ -111,3 +111,47 @@ func TestExcessNotesGiveTheRightRule(t *testing.T) {
 		t.Errorf("P(X > 20 | X > 30) = %v, note %q: want 1 and no rule to make it unconditional", row.Estimate, row.Note)
 	}
 }
+
+// TestExcessFamilies: the rows of gpd, and of weibull3 and lognormal3 with
+// their threshold held fixed (SPEC: "the same kind of excess model"), are
+// conditional on X > u and say so; weibull3 and lognormal3 with the
+// threshold estimated, and a family without one, are not. Invented values
+// above u = 30.
+func TestExcessFamilies(t *testing.T) {
+	sample := []float64{31.2, 32.5, 33.1, 34.8, 36.0, 37.7, 39.9, 42.4, 45.1, 48.3, 52.9, 58.0, 64.6, 73.2, 88.5}
+	for _, c := range []struct {
+		family      string
+		theta       []float64
+		fixed       []bool
+		conditional bool
+	}{
+		{"gpd", []float64{10, 0.1, 30}, []bool{false, false, true}, true},
+		{"weibull3", []float64{1.1, 15, 30}, []bool{false, false, true}, true},
+		{"lognormal3", []float64{2.5, 0.9, 30}, []bool{false, false, true}, true},
+		{"weibull3", []float64{1.1, 15, 30}, []bool{false, false, false}, false},
+		{"lognormal3", []float64{2.5, 0.9, 30}, []bool{false, false, false}, false},
+		{"weibull", []float64{1.5, 45}, []bool{false, false}, false},
+	} {
+		fam := family(t, c.family)
+		k := 0
+		for _, f := range c.fixed {
+			if !f {
+				k++
+			}
+		}
+		fit := &fitters.Fit{Family: c.family, Parameters: fam.Parameters(), Estimates: c.theta, Fixed: c.fixed, K: k,
+			N: len(sample), Convergence: fitters.Convergence{Converged: true}}
+		for _, q := range []Quantity{Quantile, ReturnLevel, Exceedance} {
+			arg := map[Quantity]float64{Quantile: 0.9, ReturnLevel: 100, Exceedance: 50}[q]
+			v, err := Derived(fam, fit, fitters.Complete(sample), q, arg, MethodWald, Settings{Level: 0.95})
+			if err != nil {
+				t.Fatalf("%s %v: %v", c.family, q, err)
+			}
+			given := strings.Contains(v.Note, "X > 30): "+c.family+" models the excesses over its threshold 30") ||
+				strings.Contains(v.Note, "X > 30: "+c.family+" models the excesses over its threshold 30")
+			if given != c.conditional {
+				t.Errorf("%s (fixed %v) %v: note %q, want conditional %v", c.family, c.fixed, q, v.Note, c.conditional)
+			}
+		}
+	}
+}
