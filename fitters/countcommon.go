@@ -230,22 +230,13 @@ func countLnPoch(a, k float64) float64 {
 		return s
 	}
 	if a >= 10 {
-		// Stirling: ln Γ(z) = (z−½)ln z − z + ½ln 2π + st(z); the difference
+		// Stirling: ln Γ(z) = (z−½)ln z − z + ½ln 2π + δ(z); the difference
 		// of the leading terms is formed without cancellation.
-		return (a-0.5)*math.Log1p(k/a) + k*math.Log(a+k) - k + countStirlingTail(a+k) - countStirlingTail(a)
+		return (a-0.5)*math.Log1p(k/a) + k*math.Log(a+k) - k + stirlingDelta(a+k) - stirlingDelta(a)
 	}
 	x, _ := math.Lgamma(a + k)
 	y, _ := math.Lgamma(a)
 	return x - y
-}
-
-// countStirlingTail returns ln Γ(z) − [(z−½)ln z − z + ½ln 2π] for z ≥ 10 by
-// the Stirling series 1/(12z) − 1/(360z³) + 1/(1260z⁵) − 1/(1680z⁷) +
-// 1/(1188z⁹) (Abramowitz & Stegun 6.1.41); the next term is below 1e-13 there.
-func countStirlingTail(z float64) float64 {
-	r := 1 / z
-	r2 := r * r
-	return r * (1.0/12 - r2*(1.0/360-r2*(1.0/1260-r2*(1.0/1680-r2/1188))))
 }
 
 // countLogLik is Σ ln p(xᵢ) over the exact counts for a family whose member

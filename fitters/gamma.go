@@ -163,12 +163,12 @@ func gammaExactLargeShape(g Gamma, x []float64, slx float64) float64 {
 	return float64(len(x))*c + k*s1 - slx
 }
 
-// gammaStirlingC returns c(k) = k ln k − k − ln Γ(k), from Stirling's series
-// for k ≥ 30 (where the direct form cancels) and directly below.
+// gammaStirlingC returns c(k) = k ln k − k − ln Γ(k), for k ≥ 30 (where the
+// direct form cancels) as ½ ln k − ln √(2π) − δ(k) with Stirling's
+// remainder δ (stirlingDelta), and directly below.
 func gammaStirlingC(k float64) float64 {
 	if k >= 30 {
-		r2 := 1 / (k * k)
-		return 0.5*math.Log(k) - lnSqrt2Pi - (1/k)*(1.0/12-r2*(1.0/360-r2*(1.0/1260-r2/1680)))
+		return 0.5*math.Log(k) - lnSqrt2Pi - stirlingDelta(k)
 	}
 	lg, _ := math.Lgamma(k)
 	return k*math.Log(k) - k - lg

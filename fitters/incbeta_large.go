@@ -39,20 +39,6 @@ func lnBeta(a, b float64) float64 {
 	return p*math.Log(p/s) - 0.5*math.Log(p) - (q-0.5)*math.Log1p(p/q) + lnSqrt2Pi + stirlingDelta(p) + dq
 }
 
-// stirlingDelta returns δ(z) = ln Γ(z) − (z − ½) ln z + z − ln √(2π) for
-// z > 0: from z = 10 Stirling's series 1/(12z) − 1/(360z³) + 1/(1260z⁵) −
-// 1/(1680z⁷) + 1/(1188z⁹) − 691/(360360z¹¹) + 1/(156z¹³) (Abramowitz &
-// Stegun 6.1.41; the next term is below 4e-18 there), below it directly
-// from math.Lgamma (absolute error a few ε).
-func stirlingDelta(z float64) float64 {
-	if z < 10 {
-		lg, _ := math.Lgamma(z)
-		return lg - (z-0.5)*math.Log(z) + z - lnSqrt2Pi
-	}
-	w := 1 / (z * z)
-	return (1.0/12 - w*(1.0/360-w*(1.0/1260-w*(1.0/1680-w*(1.0/1188-w*(691.0/360360-w*(1.0/156))))))) / z
-}
-
 // lnBetaPower returns ln(x^a y^b / B(a, b)) for y = 1 − x, a + b ≥
 // incBetaLargeFrom. With s = a + b, x₀ = a/s, y₀ = b/s, d = x − x₀ = y₀ − y,
 // u = d/x₀ and v = −d/y₀ (so a·u + b·v = 0),

@@ -31,7 +31,7 @@ func countLnPochRatio(r, k float64) float64 {
 		return s
 	}
 	if r >= 10 {
-		return (r+k-0.5)*math.Log1p(k/r) - k + countStirlingTail(r+k) - countStirlingTail(r)
+		return (r+k-0.5)*math.Log1p(k/r) - k + stirlingDelta(r+k) - stirlingDelta(r)
 	}
 	return countLnPoch(r, k) - k*math.Log(r)
 }

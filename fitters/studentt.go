@@ -39,20 +39,15 @@ func tLogConst(nu float64) float64 {
 // lnGammaHalfStep returns ln Γ(x + 1/2) − ln Γ(x). From x = 10 on it uses
 // Stirling's series for both terms, whose difference keeps absolute
 // precision for large x (where the two lgamma values would be ~x ln x):
-// x ln(1 + 1/(2x)) − 1/2 + (ln x)/2 + s(x + 1/2) − s(x),
-// s(z) = 1/(12z) − 1/(360z³) + 1/(1260z⁵) − 1/(1680z⁷) + 1/(1188z⁹) − 691/(360360z¹¹)
-// (Abramowitz & Stegun 6.1.41; truncation error below 1e-16 for x ≥ 10).
+// x ln(1 + 1/(2x)) − 1/2 + (ln x)/2 + δ(x + 1/2) − δ(x), δ Stirling's
+// remainder (stirlingDelta).
 func lnGammaHalfStep(x float64) float64 {
 	if x < 10 {
 		a, _ := math.Lgamma(x + 0.5)
 		b, _ := math.Lgamma(x)
 		return a - b
 	}
-	s := func(z float64) float64 {
-		z2 := z * z
-		return (1.0/12 - (1.0/360-(1.0/1260-(1.0/1680-(1.0/1188-691.0/(360360*z2))/z2)/z2)/z2)/z2) / z
-	}
-	return x*math.Log1p(0.5/x) - 0.5 + 0.5*math.Log(x) + (s(x+0.5) - s(x))
+	return x*math.Log1p(0.5/x) - 0.5 + 0.5*math.Log(x) + (stirlingDelta(x+0.5) - stirlingDelta(x))
 }
 
 // tDFScore returns ∂/∂ν of ln Γ((ν+1)/2) − ln Γ(ν/2) − ln(νπ)/2, that is
@@ -111,7 +106,7 @@ const (
 // tLogNormalRatio returns ln K, K = c_ν √(2π ν/(ν+1)), c_ν = Γ((ν+1)/2) /
 // (Γ(ν/2) √(νπ)) the t density's constant: ln Γ(x+½) − ln Γ(x) − ½ ln x −
 // ½ ln(1 + 1/ν), x = ν/2. With Stirling's series (as in lnGammaHalfStep)
-// ln Γ(x+½) − ln Γ(x) − ½ ln x = [x ln(1 + 1/(2x)) − ½] + s(x+½) − s(x),
+// ln Γ(x+½) − ln Γ(x) − ½ ln x = [x ln(1 + 1/(2x)) − ½] + δ(x+½) − δ(x),
 // and the bracket, which cancels for large x, as
 // Σ_(n≥2) (−1)^(n+1) / (2n (2x)^(n−1)) from x = 1e4 on (10 terms < 1e-40).
 // K → 1 as ν → ∞ (ln K ≈ −3/(4ν)).
@@ -136,11 +131,7 @@ func tLogNormalRatio(nu float64) float64 {
 			p *= e
 		}
 	}
-	s := func(z float64) float64 {
-		z2 := z * z
-		return (1.0/12 - (1.0/360-(1.0/1260-(1.0/1680-(1.0/1188-691.0/(360360*z2))/z2)/z2)/z2)/z2) / z
-	}
-	return bracket + (s(x+0.5) - s(x)) - 0.5*math.Log1p(1/nu)
+	return bracket + (stirlingDelta(x+0.5) - stirlingDelta(x)) - 0.5*math.Log1p(1/nu)
 }
 
 // tNormalGamma holds the Taylor coefficients γ_k of
