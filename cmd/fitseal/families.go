@@ -19,6 +19,7 @@ func init() {
 
 func runFamilies(_ context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlagSet("families", "", "List every distribution family with its parameters (in results order),\nsupport, data kind and fitting route.", stderr)
+	fs.Bool("q", false, "no progress output (families has none)")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}

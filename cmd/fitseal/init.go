@@ -22,6 +22,7 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) error {
 		"data/ with invented data for a small water utility's asset review, a\n"+
 		"README.txt and a .gitignore for bundles/. Nothing is overwritten: when any\n"+
 		"of these files exists, init writes none of them.", stderr)
+	fs.Bool("q", false, "no progress output (init has none)")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}

@@ -36,6 +36,7 @@ func cmdMerge(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	fs.StringVar(&o.Key, "key", "", "signing key `FILE` (default $FITSEAL_KEY, else $XDG_CONFIG_HOME/fitseal/id_ed25519, created if missing)")
 	fs.StringVar(&o.Pinned, "part-key", "", "require every part to be signed with the public key in `PUB`")
 	fs.BoolVar(&o.Force, "force", false, "replace an existing output")
+	fs.Bool("q", false, "no progress output (merge has none)")
 	pos, err := parseInterleaved(fs, args)
 	if err != nil {
 		return err

@@ -130,3 +130,16 @@ func TestUnknownFlagEveryCommand(t *testing.T) {
 		})
 	}
 }
+
+// TestEveryCommandTakesQuiet: SPEC's "-q on any command silences progress"
+// holds for every command, those without progress included (init,
+// families and merge once refused it as an unknown flag).
+func TestEveryCommandTakesQuiet(t *testing.T) {
+	for _, name := range commandNames() {
+		var stderr bytes.Buffer
+		code := run(context.Background(), []string{name, "-q", "--bogus-flag"}, io.Discard, &stderr)
+		if first, _, _ := strings.Cut(stderr.String(), "\n"); code != 2 || first != "fitseal: error: "+name+": unknown flag --bogus-flag" {
+			t.Errorf("%s -q --bogus-flag: exit %d, stderr:\n%s", name, code, stderr.String())
+		}
+	}
+}
