@@ -60,7 +60,7 @@ func (paretoFamily) Parameters() []string { return []string{"scale", "shape"} }
 func (paretoFamily) Kind() Kind           { return Continuous }
 func (paretoFamily) Support() string      { return "x ≥ scale" }
 func (paretoFamily) Route() string {
-	return "closed form (scale = sample minimum, a boundary estimate; shape = n/Σ ln(x/scale)); right-censored: closed form; non-detects or intervals: Newton on (ln shape, ln(−ln S(bound))), where the log-likelihood is concave in (shape, −ln S(bound)), scale at the smallest exact value when the score there points outward; BFGS on (scale below the bound, log shape) if it fails"
+	return "closed form (scale = sample minimum, a boundary estimate; shape = n/Σ ln(x/scale)); right-censored: closed form; non-detects or intervals: Newton on (ln shape, ln(−ln S(bound))), where the log-likelihood is concave in (shape, −ln S(bound)), scale at the smallest exact value when the score there points outward, or at a corner (an interval's lower end or a suspension, found by bisection over the corners; with narrow bins the smallest lower end) when the scores on its two sides have opposite signs, otherwise Newton between the two neighbouring corners; BFGS on (scale below the bound, log shape) if it fails"
 }
 
 func (paretoFamily) New(p []float64) (Dist, error) {

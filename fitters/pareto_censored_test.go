@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -217,3 +218,93 @@ func TestParetoCensoredFallbackAndDeterminism(t *testing.T) {
 // (shape −0.3), near-exponential (0.05), heavy (0.2) and very heavy (0.6),
 // all over the threshold 10.
 var gpdTruths = [][]float64{{8, -0.3, 10}, {1, 0.05, 10}, {5, 0.2, 10}, {2, 0.6, 10}}
+
+// TestParetoNarrowBins: interval data whose bins are narrow (relative
+// width 1e-6, an instrument's resolution of 0.001) have the Pareto maximum
+// at a corner of the likelihood, the smallest interval lower end: it
+// rises in the scale up to there and falls steeply beyond, where that
+// interval's probability F(u) − F(scale) collapses. Such fits converge at
+// the corner with the corner note; coarser bins may have the maximum at a
+// corner further up (relative width 0.5) or inside (0.1, bins of 0.5),
+// where no corner may be forced; bins beside exact values whose smallest
+// is the bound keep the edge route. Against an independent profile
+// maximisation of the same likelihood by scipy
+// (testdata/censored/make_pareto_bins.py: the shape by Brent's method for
+// each scale, the scale over every corner and between them): fitseal's
+// log-likelihood not below the reference's − 1e-6 and equal to the
+// family's LogLik at its estimates; the scale exactly the corner's
+// recorded value (else within 1e-5 relative), the shape within 1e-6.
+func TestParetoNarrowBins(t *testing.T) {
+	b, err := os.ReadFile("../testdata/censored/pareto_bins.json")
+	if err != nil {
+		t.Fatalf("%v (regenerate with /usr/bin/python3 testdata/censored/make_pareto_bins.py)", err)
+	}
+	var ref struct {
+		Fits []struct {
+			Name                             string
+			Exact, Left, Right, Lower, Upper []float64
+			Estimates                        []float64
+			LogLik                           float64 `json:"loglik"`
+			Kind                             string
+			CornerValue                      *float64 `json:"corner_value"`
+			SmallestLowerEnd                 float64  `json:"smallest_lower_end"`
+		}
+	}
+	if err := json.Unmarshal(b, &ref); err != nil {
+		t.Fatal(err)
+	}
+	kinds := map[string]int{}
+	f := mustFamily(t, "pareto")
+	for _, c := range ref.Fits {
+		kinds[c.Kind]++
+		t.Run(c.Name, func(t *testing.T) {
+			d := &Data{Exact: c.Exact, Left: c.Left, Right: c.Right, Lower: c.Lower, Upper: c.Upper}
+			scale := math.Max(1, math.Abs(c.LogLik))
+			if got := f.LogLik(c.Estimates, d); math.Abs(got-c.LogLik) > 1e-9*scale {
+				t.Fatalf("the script's likelihood is not fitseal's: LogLik at its estimates %.15g, its value %.15g", got, c.LogLik)
+			}
+			fit, err := f.Fit(d, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !fit.Converged {
+				t.Fatalf("not converged: %s (%s)", fit.Reason, fit.Method)
+			}
+			if fit.LogLik < c.LogLik-1e-6 {
+				t.Errorf("logL %.12g below the reference's %.12g", fit.LogLik, c.LogLik)
+			}
+			if got := f.LogLik(fit.Estimates, d); math.Abs(got-fit.LogLik) > 1e-9*scale {
+				t.Errorf("reported logL %.15g, LogLik at the estimates %.15g", fit.LogLik, got)
+			}
+			if rel := relDiff(fit.Estimates[1], c.Estimates[1], 1); rel > 1e-6 {
+				t.Errorf("shape %.12g, reference %.12g (rel %.2g)", fit.Estimates[1], c.Estimates[1], rel)
+			}
+			switch c.Kind {
+			case "corner":
+				if fit.Estimates[0] != *c.CornerValue {
+					t.Errorf("scale %.17g, want the corner %.17g", fit.Estimates[0], *c.CornerValue)
+				}
+				if fit.Note != paretoCornerNote(paretoCorner{value: *c.CornerValue, interval: true}) {
+					t.Errorf("note %q", fit.Note)
+				}
+			case "edge":
+				if fit.Estimates[0] != c.Estimates[0] || fit.Note != paretoBoundaryNote {
+					t.Errorf("scale %.17g, want the smallest exact value %.17g with the boundary note; note %q", fit.Estimates[0], c.Estimates[0], fit.Note)
+				}
+			case "interior":
+				if rel := relDiff(fit.Estimates[0], c.Estimates[0], 1); rel > 1e-5 {
+					t.Errorf("scale %.12g, reference %.12g (rel %.2g)", fit.Estimates[0], c.Estimates[0], rel)
+				}
+				if fit.Note != "" || slices.Contains(c.Lower, fit.Estimates[0]) || slices.Contains(c.Right, fit.Estimates[0]) {
+					t.Errorf("an interior maximum reported at %v with note %q", fit.Estimates[0], fit.Note)
+				}
+			default:
+				t.Fatalf("kind %q", c.Kind)
+			}
+			t.Logf("%s at %.10g (smallest lower end %.10g): %s, %d iterations", c.Kind, fit.Estimates[0], c.SmallestLowerEnd, fit.Method, fit.Iterations)
+		})
+	}
+	if kinds["corner"] < 3 || kinds["interior"] < 2 || kinds["edge"] < 1 {
+		t.Errorf("reference kinds %v: want corners, interior maxima and an edge", kinds)
+	}
+}
