@@ -219,3 +219,24 @@ func (c checkedFamily) ObservedInformation(p []float64, d *Data, h *mat.SymDense
 	}
 	return false
 }
+
+// cornerer is implemented by a family whose log-likelihood can have its
+// maximum at a corner (pareto's scale at an interval's lower end).
+type cornerer interface {
+	CornerAt(params []float64, d *Data) string
+}
+
+// CornerAt reports why f's log-likelihood has no second derivative at
+// params for d, where the family knows of a corner there (its slope in a
+// parameter jumps), and "" otherwise. A finite-difference Hessian taken
+// across a corner is finite but measures nothing, so infer gives no
+// standard errors there, as where the Hessian is not finite.
+func CornerAt(f Family, params []float64, d *Data) string {
+	if c, ok := f.(checkedFamily); ok {
+		f = c.Family
+	}
+	if c, ok := f.(cornerer); ok {
+		return c.CornerAt(params, d)
+	}
+	return ""
+}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 )
 
 // Pareto is the Pareto (type I) distribution with Scale x_m > 0 and Shape
@@ -125,6 +126,29 @@ func paretoBound(d *Data) float64 {
 
 // paretoBoundaryNote says why the scale is reported at its boundary.
 const paretoBoundaryNote = "scale at the smallest observation, where the likelihood (increasing in the scale) stops: a boundary estimate, not a stationary point, so score-based intervals do not apply to it"
+
+// CornerAt reports why the log-likelihood has no second derivative at p
+// when the scale sits on a corner below the bound (an interval's lower
+// end or a suspension; see paretoCorner), "" otherwise. At the bound itself
+// (the smallest exact value) the likelihood is −∞ just above the scale,
+// which a finite-difference Hessian finds by itself.
+func (paretoFamily) CornerAt(p []float64, d *Data) string {
+	if len(p) != 2 || !(p[0] > 0 && p[0] < paretoBound(d)) {
+		return ""
+	}
+	c := paretoCorner{value: p[0]}
+	found := slices.Contains(d.Right, p[0])
+	for i, l := range d.Lower {
+		if l == p[0] {
+			found = true
+			c.interval = c.interval || !math.IsInf(d.Upper[i], 1)
+		}
+	}
+	if !found {
+		return ""
+	}
+	return fmt.Sprintf("the log-likelihood has a corner at the estimate: the scale at %v, %s, where its slope in the scale jumps, so that its curvature there is infinite", c.value, c.what())
+}
 
 // paretoMLE is the closed form for exact values x and right-censored
 // values r (Johnson, Kotz & Balakrishnan, 1994, §20.3; Epstein & Sobel,

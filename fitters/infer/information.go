@@ -73,8 +73,11 @@ const numericMethod = "central finite differences (gonum/diff/fd) with Richardso
 // extrapolated (Richardson), so a parameter of size 10⁻⁶ and one of size
 // 10⁶ are differenced alike.
 //
-// The covariance is the inverse, by Cholesky factorisation; a singular or
-// indefinite information is never inverted: the returned Information has a
+// Where the family reports a corner of the log-likelihood at the estimate
+// (fitters.CornerAt: pareto's scale at an interval's lower end) there is
+// no information to compute, and the error says why, as for a Hessian that
+// is not finite. The covariance is the inverse, by Cholesky factorisation;
+// a singular or indefinite information is never inverted: the returned Information has a
 // nil Covariance and NaN standard errors, and the error is a *HessianError.
 func ObservedInformation(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (*Information, error) {
 	return observedInformation(fam, fit, d, true)
@@ -87,6 +90,10 @@ func observedInformation(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, 
 	if k == 0 {
 		info.Method = "no free parameters"
 		return info, nil
+	}
+	if why := fitters.CornerAt(fam, fit.Estimates, d); why != "" {
+		info.Method = "none: the log-likelihood has a corner at the estimate"
+		return info, &HessianError{Kind: ErrNonFiniteHessian, Detail: why}
 	}
 	h := mat.NewSymDense(k, nil)
 	analytic := false

@@ -1,8 +1,11 @@
 package infer
 
 import (
+	"encoding/json"
 	"errors"
 	"math"
+	"os"
+	"strings"
 	"testing"
 
 	"fitseal/fitters"
@@ -186,5 +189,56 @@ func TestInformationIsUnitFree(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestInformationAtParetoCorner: a Pareto scale estimated at a corner of
+// the likelihood (an interval's lower end, where the slope in the scale
+// jumps; testdata/censored/pareto_bins.json, bins of relative width 0.5,
+// whose corner lies above the smallest lower end, so that differences
+// across it stay finite) has no observed information, as the scale at the
+// smallest exact value has none (there the Hessian is not finite): no
+// standard errors and a reason naming the corner, instead of a finite
+// difference taken across it. A maximum between the corners (bins of
+// relative width 0.1) keeps its standard errors.
+func TestInformationAtParetoCorner(t *testing.T) {
+	b, err := os.ReadFile("../../testdata/censored/pareto_bins.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		Fits []struct {
+			Name                             string
+			Kind                             string
+			Exact, Left, Right, Lower, Upper []float64
+		}
+	}
+	if err := json.Unmarshal(b, &ref); err != nil {
+		t.Fatal(err)
+	}
+	fam := family(t, "pareto")
+	seen := map[string]bool{}
+	for _, c := range ref.Fits {
+		if c.Name != "relative width 0.5" && c.Name != "relative width 0.1" {
+			continue
+		}
+		seen[c.Kind] = true
+		d := &fitters.Data{Exact: c.Exact, Left: c.Left, Right: c.Right, Lower: c.Lower, Upper: c.Upper}
+		fit := fitOf(t, fam, d)
+		info, err := ObservedInformation(fam, fit, d)
+		switch c.Kind {
+		case "corner":
+			if !errors.Is(err, ErrNonFiniteHessian) || !strings.Contains(err.Error(), "corner") || info.Covariance != nil ||
+				!math.IsNaN(info.StdErrors[0]) || !math.IsNaN(info.StdErrors[1]) {
+				t.Errorf("%s: at the corner %v: error %v, standard errors %v", c.Name, fit.Estimates[0], err, info.StdErrors)
+			}
+		case "interior":
+			if err != nil || !(info.StdErrors[0] > 0) || !(info.StdErrors[1] > 0) {
+				t.Errorf("%s: between corners: error %v, standard errors %v", c.Name, err, info.StdErrors)
+			}
+		}
+	}
+	if !seen["corner"] || !seen["interior"] {
+		t.Errorf("cases %v", seen)
 	}
 }
