@@ -275,6 +275,16 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			rep.Statistics[r] = srow
 		}
 	}
+	runReplicates(B, workers, &next, opt.Share, work)
+	rep.tally(reasons, noCov)
+	return rep, nil
+}
+
+// runReplicates runs work on workers goroutines, and on any goroutine that
+// share lends (BootstrapOptions.Share), until next has counted past the B
+// replicates; work takes replicate numbers from next and fills only their
+// own slots, so who ran a replicate never changes the result.
+func runReplicates(B, workers int, next *atomic.Int64, share func(help func() bool), work func() bool) {
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {
 		wg.Add(1)
@@ -289,8 +299,8 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 	var helpMu sync.Mutex
 	var helpers sync.WaitGroup
 	closed := false
-	if opt.Share != nil {
-		opt.Share(func() bool {
+	if share != nil {
+		share(func() bool {
 			helpMu.Lock()
 			if closed || next.Load() >= int64(B) {
 				helpMu.Unlock()
@@ -307,6 +317,11 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 	closed = true
 	helpMu.Unlock()
 	helpers.Wait()
+}
+
+// tally counts the failed replicates and those without a covariance from
+// their reasons (empty: none), naming the lowest-numbered of each.
+func (rep *Replicates) tally(reasons, noCov []string) {
 	for r, why := range reasons {
 		if why != "" {
 			if rep.Failed == 0 {
@@ -324,7 +339,6 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			rep.NoCovariance++
 		}
 	}
-	return rep, nil
 }
 
 // refitOptions returns the options of a refit: the caller's tolerance and
