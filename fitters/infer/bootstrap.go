@@ -77,6 +77,9 @@ type Replicates struct {
 	// number and bare reason, for the bootstrap-t notes.
 	firstNoCovariance    int
 	firstNoCovarianceWhy string
+	// Censored is true for replicates of censored data (conditional
+	// bootstrap), whose statistics are the Kaplan–Meier ones.
+	Censored bool
 	// Failed counts replicates whose refit failed or did not converge;
 	// FirstFailure is the reason of the lowest-numbered one.
 	Failed       int
@@ -94,15 +97,10 @@ func statNames(kind fitters.Kind) []string {
 	return []string{KolmogorovSmirnov, CramerVonMises, AndersonDarling}
 }
 
-// bootstrapApplicable says whether d can be simulated from a fitted model:
-// complete data only (simulating censored data needs the censoring
-// mechanism, which the data do not record), and per-observation trials only
-// for the binomial-type families.
+// bootstrapApplicable says whether complete data d can be simulated from a
+// fitted model: per-observation trials only for the binomial-type families.
+// (Censored data go to bootstrapCensored, which says which it can simulate.)
 func bootstrapApplicable(d *fitters.Data, dist fitters.Dist) error {
-	if !d.IsComplete() {
-		return fmt.Errorf("%w: %d of %d observations are censored, and simulating censored data needs the censoring mechanism, which the data do not record",
-			ErrBootstrapNotApplicable, d.NCensored(), d.N())
-	}
 	if d.Trials != nil {
 		if _, ok := withTrials(dist, 1); !ok {
 			return fmt.Errorf("%w: the data give numbers of trials, which this family does not take", ErrBootstrapNotApplicable)
@@ -129,6 +127,13 @@ func bootstrapApplicable(d *fitters.Data, dist fitters.Dist) error {
 // (TestBootstrapLoopAllocatesNothing), and nor do the complete-data refits
 // of the nine families of the batch workload (TestReplicateAllocatesNothing);
 // other families' refits allocate their own Fit and model.
+//
+// Data censored in one direction (suspensions alone or non-detects alone,
+// besides exact values) are simulated by the conditional bootstrap for
+// censored data instead (bootstrapCensored): each replicate is censored as
+// the data were, and its statistics are the Kaplan–Meier ones (ks, cvm).
+// Interval-censored data and data censored in both directions are not
+// simulated (ErrBootstrapNotApplicable).
 func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt BootstrapOptions) (*Replicates, error) {
 	if !fit.Converged {
 		return nil, fmt.Errorf("%s: the fit did not converge; there is no model to simulate from", fam.Name())
@@ -139,6 +144,9 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			return nil, fmt.Errorf("%w: %s, the optimum is the limiting family, which this family cannot simulate", ErrBootstrapNotApplicable, limit)
 		}
 		return nil, fmt.Errorf("%s: %w", fam.Name(), err)
+	}
+	if !d.IsComplete() {
+		return bootstrapCensored(fam, fit, dist, d, opt)
 	}
 	if err := bootstrapApplicable(d, dist); err != nil {
 		return nil, err

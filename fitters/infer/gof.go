@@ -34,10 +34,6 @@ type GoodnessOfFit struct {
 	Statistics []Statistic
 }
 
-// NotApplicableCensored is the reason given for censored data.
-const NotApplicableCensored = "the KS, CvM and AD statistics compare a complete sample with the fitted CDF " +
-	"and do not apply as computed to censored observations"
-
 // CheckFit computes the goodness-of-fit statistics of fit on d and, when
 // opt.Replicates > 0, their parametric-bootstrap p-values from a fresh
 // Bootstrap (which refits the family on every replicate: tables for known
@@ -88,6 +84,9 @@ func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
 		} else if rep.Succeeded() > 0 {
 			s.Note = "the replicates were drawn without statistics (BootstrapOptions.NoStatistics): no p-value"
 		}
+		if rep.Censored && b > 0 {
+			s.Note = fitters.JoinNote(s.Note, ConditionalBootstrapNote)
+		}
 		if rep.Failed > 0 {
 			s.Note = fitters.JoinNote(s.Note, fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure))
 		}
@@ -98,9 +97,7 @@ func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
 // observedStatistics computes the statistics on the data, or says why none apply.
 func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (*GoodnessOfFit, error) {
 	switch {
-	case !d.IsComplete():
-		return &GoodnessOfFit{Reason: NotApplicableCensored}, nil
-	case len(d.Exact) == 0:
+	case d.N() == 0:
 		return &GoodnessOfFit{Reason: "no observations"}, nil
 	case !fit.Converged:
 		return &GoodnessOfFit{Reason: "the fit did not converge"}, nil
@@ -113,6 +110,9 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 			return &GoodnessOfFit{Reason: limit + ": the optimum is the limiting family, judged by that family's own row"}, nil
 		}
 		return nil, fmt.Errorf("%s: %w", fam.Name(), err)
+	}
+	if !d.IsComplete() {
+		return observedCensored(fam, dist, d), nil
 	}
 	x := d.SortedExact() // sorted once for every family fitted to d
 	g := &GoodnessOfFit{Applicable: true}

@@ -268,27 +268,6 @@ func TestStreamSeed(t *testing.T) {
 	}
 }
 
-func TestCensoredNotApplicable(t *testing.T) {
-	fam := family(t, "weibull")
-	d := &fitters.Data{Exact: ballBearings[:20], Right: []float64{150, 150, 150}}
-	fit := fitOf(t, fam, d)
-	g, err := CheckFit(fam, fit, d, BootstrapOptions{Replicates: 9})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if g.Applicable || g.Reason != NotApplicableCensored || len(g.Statistics) != 0 {
-		t.Errorf("censored data: %+v, want not applicable", g)
-	}
-	_, err = Bootstrap(fam, fit, d, BootstrapOptions{Replicates: 9})
-	if !errors.Is(err, ErrBootstrapNotApplicable) {
-		t.Errorf("bootstrap of censored data: %v, want ErrBootstrapNotApplicable", err)
-	}
-	rows, err := Intervals(fam, fit, d, MethodBootstrap, Settings{Bootstrap: BootstrapOptions{Replicates: 9}})
-	if err != nil || !math.IsNaN(rows[0].Lower) || rows[0].Note == "" {
-		t.Errorf("bootstrap interval on censored data: %+v %v, want no interval and a note", rows[0], err)
-	}
-}
-
 // sha256Prefix is the first 32 hex digits of sha256sum's output for
 // "7|a|gamma|bootstrap|3".
 const sha256Prefix = "e0672305facc14be41aac71b24bd6c5a"

@@ -1,0 +1,225 @@
+package infer
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"runtime"
+	"slices"
+	"sort"
+	"sync/atomic"
+
+	"fitseal/fitters"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// censoringPlan simulates data censored as a oneSided dataset was, by the
+// conditional bootstrap for censored data (Davison & Hinkley, 1997, §3.5,
+// Algorithm 3.3), in the right-censored frame. Observation j keeps its
+// place: first the exact values in the data's order, then the censored
+// ones. Ĝ is the product-limit estimate of the censoring distribution
+// (suspensions as events, failures as censored; a failure at the time of
+// a suspension is at risk of censoring there); its mass left beyond the
+// largest observation lies at +∞ (never censored).
+type censoringPlan struct {
+	left bool
+	// exact are the exact values (reflected when left), in the data's
+	// order; censored the censoring times, likewise.
+	exact, censored []float64
+	// times are Ĝ's jump times, ascending; cumulative[k] = Ĝ(times[k]);
+	// atInfinity is the mass beyond the last jump.
+	times, cumulative []float64
+	atInfinity        float64
+}
+
+func newCensoringPlan(d *fitters.Data, o *oneSided) *censoringPlan {
+	p := &censoringPlan{left: o.Left}
+	if o.Left {
+		p.exact, p.censored = reflected(d.Exact), reflected(d.Left)
+	} else {
+		p.exact, p.censored = slices.Clone(d.Exact), slices.Clone(d.Right)
+	}
+	g := newProductLimit(o.Suspensions, o.Events)
+	for _, s := range g.Steps {
+		p.times = append(p.times, s.T)
+		p.cumulative = append(p.cumulative, s.F)
+	}
+	p.atInfinity = g.Survival
+	return p
+}
+
+// censoringTime draws a censoring time from Ĝ conditional on C > y: +∞
+// where Ĝ has no mass beyond y. A uniform is drawn from rng only when more
+// than one value is possible, so that with a common censoring time
+// (Type I) a replicate is the model's draws censored at that time.
+func (p *censoringPlan) censoringTime(y float64, rng *rand.Rand) float64 {
+	k0 := sort.Search(len(p.times), func(k int) bool { return p.times[k] > y })
+	below := 0.0
+	if k0 > 0 {
+		below = p.cumulative[k0-1]
+	}
+	atoms := len(p.times) - k0
+	if p.atInfinity > 0 {
+		atoms++
+	}
+	switch {
+	case atoms == 0 || 1-below <= 0:
+		return math.Inf(1)
+	case atoms == 1:
+		if k0 < len(p.times) {
+			return p.times[k0]
+		}
+		return math.Inf(1)
+	}
+	target := below + rng.Float64()*(1-below)
+	for k := k0; k < len(p.times); k++ {
+		if p.cumulative[k] > target {
+			return p.times[k]
+		}
+	}
+	return math.Inf(1)
+}
+
+// simulate makes one replicate from the n model draws x (of the original
+// scale, in observation order): Y*ⱼ = min(T*ⱼ, C*ⱼ) in the right-censored
+// frame, censored when C*ⱼ < T*ⱼ, with C*ⱼ the observation's own censoring
+// time when it was censored and a draw from Ĝ conditional on C > yⱼ when
+// it was exact. The replicate is returned on the original scale.
+func (p *censoringPlan) simulate(x []float64, rng *rand.Rand) *fitters.Data {
+	sim := &fitters.Data{}
+	ne := len(p.exact)
+	for j, v := range x {
+		t := v
+		if p.left {
+			t = -v
+		}
+		var c float64
+		if j < ne {
+			c = p.censoringTime(p.exact[j], rng)
+		} else {
+			c = p.censored[j-ne]
+		}
+		switch {
+		case c >= t:
+			sim.Exact = append(sim.Exact, v)
+		case p.left:
+			sim.Left = append(sim.Left, -c)
+		default:
+			sim.Right = append(sim.Right, c)
+		}
+	}
+	return sim
+}
+
+// bootstrapCensored is Bootstrap for data censored in one direction: each
+// replicate is drawn by the censoring plan (conditional bootstrap), the
+// family refitted on it with the original fixed parameters, and the
+// Kaplan–Meier statistics of the refit on the replicate recorded. Replicate
+// r draws, from stream r, first the n model values in observation order
+// (as the complete-data bootstrap does), then the censoring times of the
+// exact observations in order. Each replicate fills only its own slot, so
+// the result does not depend on the workers. Unlike the complete-data loop
+// this one allocates per replicate (the replicate's data and views).
+func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, d *fitters.Data, opt BootstrapOptions) (*Replicates, error) {
+	if fam.Kind() != fitters.Continuous {
+		return nil, fmt.Errorf("%w: censoring applies to continuous families only", ErrBootstrapNotApplicable)
+	}
+	o, why := oneSidedView(d)
+	if o == nil {
+		return nil, fmt.Errorf("%w: %s", ErrBootstrapNotApplicable, why)
+	}
+	plan := newCensoringPlan(d, o)
+	B := opt.Replicates
+	if B <= 0 {
+		return nil, fmt.Errorf("bootstrap needs at least one replicate, got %d", B)
+	}
+	stream := opt.Stream
+	if stream.Purpose == "" {
+		stream.Purpose = "bootstrap"
+	}
+	fitOpt := refitOptions(fit, opt.Fit)
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, B)
+	k := len(fit.Estimates)
+	names := censoredStatNames
+	est := make([]float64, B*k)
+	stats := make([]float64, B*len(names))
+	rep := &Replicates{Requested: B, StatNames: names, Censored: true,
+		Estimates: make([][]float64, B), Statistics: make([][]float64, B)}
+	reasons := make([]string, B)
+	var noCov []string
+	free := freeIndices(fit)
+	if opt.Information {
+		rep.Covariances = make([]*mat.SymDense, B)
+		noCov = make([]string, B)
+	}
+	n := d.N()
+	var next atomic.Int64
+	work := func() (ran bool) {
+		pcg := rand.NewPCG(0, 0)
+		rng := rand.New(pcg)
+		seeds := stream.seeder()
+		draws := make([]float64, n)
+		var rec fitters.FitRecord
+		for {
+			r := int(next.Add(1) - 1)
+			if r >= B {
+				return ran
+			}
+			ran = true
+			if opt.Drawn != nil {
+				opt.Drawn.Add(1)
+			}
+			seeds.reseed(pcg, r)
+			fitters.FillRand(dist, rng, draws)
+			sim := plan.simulate(draws, rng)
+			if len(sim.Exact) == 0 {
+				reasons[r] = "every value of the replicate is censored"
+				continue
+			}
+			refit, err := fitters.FitInto(fam, sim, fitOpt, &rec)
+			switch {
+			case err != nil:
+				reasons[r] = err.Error()
+				continue
+			case !refit.Converged:
+				reasons[r] = "refit did not converge: " + refit.Reason
+				continue
+			}
+			rd, err := fam.New(refit.Estimates)
+			if err != nil {
+				reasons[r] = err.Error()
+				continue
+			}
+			row := est[r*k : (r+1)*k]
+			copy(row, refit.Estimates)
+			rep.Estimates[r] = row
+			if opt.Information {
+				info, err := ObservedInformation(fam, refit, sim)
+				switch {
+				case err != nil:
+					noCov[r] = err.Error()
+				case !slices.Equal(info.Free, free):
+					noCov[r] = "the refit's free parameters are not the fit's (opt.Fit fixes more)"
+				case info.Covariance == nil && len(free) > 0:
+					noCov[r] = "no covariance"
+				default:
+					rep.Covariances[r] = info.Covariance
+				}
+			}
+			if opt.NoStatistics {
+				continue
+			}
+			srow := stats[r*len(names) : (r+1)*len(names)]
+			srow[0], srow[1] = kaplanMeierStatistics(rd, newOneSided(sim, plan.left))
+			rep.Statistics[r] = srow
+		}
+	}
+	runReplicates(B, workers, &next, opt.Share, work)
+	rep.tally(reasons, noCov)
+	return rep, nil
+}
