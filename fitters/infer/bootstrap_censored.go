@@ -125,7 +125,7 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 	if fam.Kind() != fitters.Continuous {
 		return nil, fmt.Errorf("%w: censoring applies to continuous families only", ErrBootstrapNotApplicable)
 	}
-	o, why := oneSidedView(d)
+	o, d, why := oneSidedView(d)
 	if o == nil {
 		return nil, fmt.Errorf("%w: %s", ErrBootstrapNotApplicable, why)
 	}

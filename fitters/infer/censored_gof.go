@@ -33,18 +33,33 @@ func (o *oneSided) N() int { return len(o.Events) + len(o.Suspensions) }
 const NotApplicableCensored = "fitseal's goodness-of-fit check covers exact values censored in one direction only " +
 	"(suspensions alone or non-detects alone)"
 
-// oneSidedView returns d in the right-censored frame, or the reason the
-// censored check does not apply to it.
-func oneSidedView(d *fitters.Data) (*oneSided, string) {
-	switch {
-	case len(d.Lower) > 0:
-		return nil, NotApplicableCensored + "; these data have interval-censored observations"
-	case len(d.Left) > 0 && len(d.Right) > 0:
-		return nil, NotApplicableCensored + "; these data are censored in both directions"
-	case len(d.Exact) == 0:
-		return nil, "no exact observations: the Kaplan–Meier estimate has no step"
+// oneSidedView returns d in the right-censored frame, with d itself as
+// exact, left- and right-censored values (an interval open at one end,
+// (−∞, u] or (l, +∞), is the non-detect at u or the suspension at l it
+// stands for: its likelihood term is the same), or the reason the censored
+// check does not apply to it.
+func oneSidedView(d *fitters.Data) (*oneSided, *fitters.Data, string) {
+	if len(d.Lower) > 0 {
+		open := &fitters.Data{Exact: d.Exact, Left: slices.Clone(d.Left), Right: slices.Clone(d.Right)}
+		for i, l := range d.Lower {
+			switch u := d.Upper[i]; {
+			case math.IsInf(l, -1) && !math.IsInf(u, 0):
+				open.Left = append(open.Left, u)
+			case math.IsInf(u, 1) && !math.IsInf(l, 0):
+				open.Right = append(open.Right, l)
+			default:
+				return nil, nil, NotApplicableCensored + "; these data have interval-censored observations"
+			}
+		}
+		d = open
 	}
-	return newOneSided(d, len(d.Left) > 0), ""
+	switch {
+	case len(d.Left) > 0 && len(d.Right) > 0:
+		return nil, nil, NotApplicableCensored + "; these data are censored in both directions"
+	case len(d.Exact) == 0:
+		return nil, nil, "no exact observations: the Kaplan–Meier estimate has no step"
+	}
+	return newOneSided(d, len(d.Left) > 0), d, ""
 }
 
 // newOneSided returns d (exact values and only left- or only right-censored
@@ -199,7 +214,7 @@ func observedCensored(fam fitters.Family, dist fitters.Dist, d *fitters.Data) *G
 	if fam.Kind() != fitters.Continuous {
 		return &GoodnessOfFit{Reason: "censored counts: fitseal's goodness-of-fit check of censored data is for continuous families"}
 	}
-	o, why := oneSidedView(d)
+	o, _, why := oneSidedView(d)
 	if o == nil {
 		return &GoodnessOfFit{Reason: why}
 	}

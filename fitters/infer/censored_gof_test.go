@@ -158,7 +158,7 @@ func TestCensoredStatisticsReference(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			o, why := oneSidedView(d)
+			o, _, why := oneSidedView(d)
 			if o == nil {
 				t.Fatal(why)
 			}
@@ -412,6 +412,38 @@ func TestCensoredNotApplicable(t *testing.T) {
 		rows, err := Intervals(fam, fit, d, MethodBootstrap, Settings{Bootstrap: BootstrapOptions{Replicates: 9}})
 		if err != nil || !math.IsNaN(rows[0].Lower) || rows[0].Note == "" {
 			t.Errorf("%s: bootstrap interval: %+v %v, want no interval and a note", name, rows[0], err)
+		}
+	}
+}
+
+// TestOpenIntervalsAreOneSided: intervals open at one end are the
+// non-detects or suspensions they stand for, so the same data written
+// either way get the same statistics and replicates; a closed interval
+// keeps the check from applying.
+func TestOpenIntervalsAreOneSided(t *testing.T) {
+	fam := family(t, "lognormal")
+	d := nonDetectLognormal(61, 50)
+	asIntervals := &fitters.Data{Exact: d.Exact}
+	for _, u := range d.Left {
+		asIntervals.Lower = append(asIntervals.Lower, math.Inf(-1))
+		asIntervals.Upper = append(asIntervals.Upper, u)
+	}
+	fit := fitOf(t, fam, d)
+	opt := BootstrapOptions{Replicates: 9, Stream: Stream{Master: 3}}
+	want, err := CheckFit(fam, fit, d, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := CheckFit(fam, fitOf(t, fam, asIntervals), asIntervals, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !want.Applicable || len(got.Statistics) != 2 {
+		t.Fatalf("%+v / %+v", want, got)
+	}
+	for i, s := range got.Statistics {
+		if w := want.Statistics[i]; !close(s.Value, w.Value, 1e-6) || s.PValue != w.PValue {
+			t.Errorf("%s: as open intervals %v (p %v), as non-detects %v (p %v)", s.Name, s.Value, s.PValue, w.Value, w.PValue)
 		}
 	}
 }
