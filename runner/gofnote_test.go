@@ -14,32 +14,82 @@ import (
 	"fitseal/fitters/infer"
 )
 
-// TestNoGOFIsNoted: gof.csv has no row for a fit whose data are censored
-// (the KS, CvM and AD statistics need a complete sample), so each such fit's
-// inference note says so, in the results and in results.json; a fit of
-// complete data has its statistics and no such note.
+// twoSidedProject is splitProject's censored project with some values
+// non-detects as well as suspensions: censored in both directions, which
+// the goodness-of-fit check does not cover.
+func twoSidedProject(t testing.TB, settings string) string {
+	t.Helper()
+	path := splitProject(t, 2, 40, `"weibull", "lognormal"`, settings, true)
+	csv := filepath.Join(filepath.Dir(path), "life.csv")
+	b, err := os.ReadFile(csv)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(string(b), "\n")
+	for i := 1; i < len(lines); i++ {
+		if i%7 == 3 && strings.HasSuffix(lines[i], ",") {
+			lines[i] += "<"
+		}
+	}
+	proj, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(csv, []byte(strings.Join(lines, "\n")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(path, []byte(strings.Replace(string(proj), `right = ["+"]`, `right = ["+"]`+"\nleft = [\"<\"]", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+// TestNoGOFIsNoted: data censored in one direction (suspensions) get ks
+// and cvm against the Kaplan–Meier estimate, with p-values from the
+// conditional bootstrap when replicates are drawn; data censored in both
+// directions get no row in gof.csv, so each such fit's inference note says
+// why, in the results and in results.json; a fit of complete data has its
+// three statistics and no such note.
 func TestNoGOFIsNoted(t *testing.T) {
 	for _, c := range []struct {
-		censored bool
+		kind     string // "complete", "suspensions", "both"
 		settings string
 	}{
-		{true, "bootstrap = 0"},
-		{true, "bootstrap = 19"},
-		{false, "bootstrap = 0"},
+		{"suspensions", "bootstrap = 0"},
+		{"suspensions", "bootstrap = 19"},
+		{"both", "bootstrap = 0"},
+		{"both", "bootstrap = 19"},
+		{"complete", "bootstrap = 0"},
 	} {
-		res := runResults(t, splitProject(t, 2, 40, `"weibull", "lognormal"`, c.settings, c.censored), 2)
+		path := splitProject(t, 2, 40, `"weibull", "lognormal"`, c.settings, c.kind == "suspensions")
+		if c.kind == "both" {
+			path = twoSidedProject(t, c.settings)
+		}
+		res := runResults(t, path, 2)
+		none := c.kind == "both"
 		want := NoGOFNote + infer.NotApplicableCensored
 		for _, a := range res.Analyses {
 			for i, row := range a.Comparison.Rows {
 				if row.Rank == 0 {
 					t.Fatalf("%s %s: not ranked (%s)", a.Name, row.Family, row.Note)
 				}
-				if got := strings.Contains(a.Inference[i], want); got != c.censored {
-					t.Errorf("censored=%v, %s: %s %s: inference note %q", c.censored, c.settings, a.Name, row.Family, a.Inference[i])
+				if got := strings.Contains(a.Inference[i], want); got != none {
+					t.Errorf("%s, %s: %s %s: inference note %q", c.kind, c.settings, a.Name, row.Family, a.Inference[i])
 				}
 			}
-			if c.censored != (len(a.GOF) == 0) {
-				t.Errorf("censored=%v: %s has %d goodness-of-fit rows", c.censored, a.Name, len(a.GOF))
+			wantRows := map[string]int{"complete": 6, "suspensions": 4, "both": 0}[c.kind]
+			if len(a.GOF) != wantRows {
+				t.Errorf("%s: %s has %d goodness-of-fit rows, want %d", c.kind, a.Name, len(a.GOF), wantRows)
+			}
+			for _, g := range a.GOF {
+				if c.kind != "suspensions" {
+					continue
+				}
+				bootstrapped := c.settings == "bootstrap = 19"
+				if g.Statistic == "ad" || !strings.Contains(g.Note, "Kaplan–Meier") ||
+					strings.Contains(g.Note, infer.ConditionalBootstrapNote) != bootstrapped || math.IsNaN(g.PValue) == bootstrapped {
+					t.Errorf("%s, %s: %s %+v", c.kind, c.settings, a.Name, g)
+				}
 			}
 		}
 		files, err := res.Files()
@@ -64,28 +114,35 @@ func TestNoGOFIsNoted(t *testing.T) {
 				}
 			}
 		}
-		if wantNoted := map[bool]int{true: 4, false: 0}[c.censored]; noted != wantNoted {
-			t.Errorf("censored=%v, %s: results.json notes %d fits, want %d", c.censored, c.settings, noted, wantNoted)
+		if wantNoted := map[bool]int{true: 4, false: 0}[none]; noted != wantNoted {
+			t.Errorf("%s, %s: results.json notes %d fits, want %d", c.kind, c.settings, noted, wantNoted)
 		}
 	}
 }
 
-// TestBootstrapIntervalsFallBack: with intervals = "bootstrap", censored
-// data (whose censoring the parametric bootstrap cannot simulate) get
+// TestBootstrapIntervalsFallBack: with intervals = "bootstrap", data
+// censored in both directions (which the bootstrap cannot simulate) get
 // profile-likelihood intervals, named as such on every row, and the fit's
-// inference note says why; complete data keep their bootstrap intervals.
+// inference note says why; complete data and suspended data (simulated by
+// the conditional bootstrap) keep their bootstrap intervals.
 func TestBootstrapIntervalsFallBack(t *testing.T) {
-	for _, censored := range []bool{true, false} {
-		res := runResults(t, splitProject(t, 2, 40, `"weibull", "lognormal"`, "bootstrap = 19\nintervals = \"bootstrap\"", censored), 2)
+	const settings = "bootstrap = 19\nintervals = \"bootstrap\""
+	for _, kind := range []string{"both", "suspensions", "complete"} {
+		path := splitProject(t, 2, 40, `"weibull", "lognormal"`, settings, kind == "suspensions")
+		if kind == "both" {
+			path = twoSidedProject(t, settings)
+		}
+		res := runResults(t, path, 2)
+		fallback := kind == "both"
 		for _, a := range res.Analyses {
 			for i, row := range a.Comparison.Rows {
-				if got := strings.Contains(a.Inference[i], BootstrapFallbackNote); got != censored {
-					t.Errorf("censored=%v: %s %s: inference note %q", censored, a.Name, row.Family, a.Inference[i])
+				if got := strings.Contains(a.Inference[i], BootstrapFallbackNote); got != fallback {
+					t.Errorf("%s: %s %s: inference note %q", kind, a.Name, row.Family, a.Inference[i])
 				}
 				for _, pr := range a.Parameters[i] {
 					profile := strings.HasPrefix(pr.CIMethod, "profile")
-					if profile != censored || (censored && !(pr.CILower < pr.Estimate && pr.Estimate < pr.CIUpper)) {
-						t.Errorf("censored=%v: %s %s %s: interval [%v, %v] by %q", censored, a.Name, row.Family, pr.Parameter, pr.CILower, pr.CIUpper, pr.CIMethod)
+					if profile != fallback || !(pr.CILower < pr.Estimate && pr.Estimate < pr.CIUpper) {
+						t.Errorf("%s: %s %s %s: interval [%v, %v] by %q", kind, a.Name, row.Family, pr.Parameter, pr.CILower, pr.CIUpper, pr.CIMethod)
 					}
 				}
 			}
