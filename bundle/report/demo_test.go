@@ -221,20 +221,26 @@ func TestDemoReport(t *testing.T) {
 		}
 	}
 	// Under each ranking, what its adequacy column holds: the bootstrap
-	// p-values, or why there are none (censored data: seal-life and the
-	// wells with non-detects).
-	censored := 0
+	// p-values, against the Kaplan–Meier estimate for data censored in one
+	// direction (seal-life's suspensions, the wells with non-detects), or
+	// why there are none (data censored both ways or in intervals).
+	censored, unchecked := 0, 0
 	for _, a := range r.Analyses {
-		if s := a.Summary; s.LeftCensored+s.RightCensored+s.IntervalCensored > 0 {
+		s := a.Summary
+		if s.LeftCensored+s.RightCensored+s.IntervalCensored > 0 {
 			censored++
+		}
+		if s.IntervalCensored > 0 || (s.LeftCensored > 0 && s.RightCensored > 0) {
+			unchecked++
 		}
 	}
 	for _, c := range []struct {
 		caption string
 		want    int
 	}{
-		{"Adequacy p: none for these data: " + infer.NotApplicableCensored, censored},
-		{"Adequacy p: parametric-bootstrap p-value", len(r.Analyses) - censored},
+		{"Adequacy p: none for these data: " + infer.NotApplicableCensored, unchecked},
+		{"Adequacy p: parametric-bootstrap p-value", len(r.Analyses) - unchecked},
+		{"against the " + KaplanMeierCaption, censored - unchecked},
 	} {
 		if got := strings.Count(text, c.caption); got != c.want || censored == 0 {
 			t.Errorf("the demo's PDF has %d captions %q, want %d (%d analyses with censored data)", got, c.caption, c.want, censored)

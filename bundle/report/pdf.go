@@ -412,7 +412,13 @@ func methodsText(r *Report) []string {
 	if s.Bootstrap > 0 {
 		boot = fmt.Sprintf("Adequacy: the goodness-of-fit statistic (Anderson–Darling, Cramér–von Mises or Kolmogorov–Smirnov for complete continuous data, "+
 			"chi-square for counts) is compared with its distribution under the fitted model, found by a parametric bootstrap of %d replicates, each "+
-			"simulated from the fit and refitted; p = (r + 1)/(B + 1), where r replicates give a statistic at least as large as the data's.", s.Bootstrap)
+			"simulated from the fit and refitted; p = (r + 1)/(B + 1), where r replicates give a statistic at least as large as the data's. "+
+			"Data censored in one direction (suspensions alone or non-detects alone) are judged by Kolmogorov–Smirnov and Cramér–von Mises "+
+			"against the Kaplan–Meier estimate of the CDF up to the largest observation (Koziol & Green 1976), non-detects by reflection, "+
+			"without Anderson–Darling, whose tail weights are unstable where few units are at risk; each of their replicates is censored as the "+
+			"data were: a censored value keeps its own limit, an exact one gets a censoring time drawn from the Kaplan–Meier estimate of the "+
+			"censoring times beyond it (conditional bootstrap; Davison & Hinkley 1997, section 3.5). Interval-censored data and data censored "+
+			"in both directions get no adequacy p-value.", s.Bootstrap)
 	}
 	derived := "Derived quantities. The quantile at lower-tail probability p is the value x with F(x) = p, the inverse CDF at p (p = 0.1 gives the B10 life); the return level for a " +
 		"period of T years is the 1 − 1/T quantile of the annual-maximum distribution (Coles 2001); an exceedance probability is " +
@@ -496,16 +502,22 @@ func (d *doc) analysis(i int) {
 		}
 	}
 	const weightsNote = " Δ and weights compare the families of this analysis only."
-	switch censored := s.LeftCensored+s.RightCensored+s.IntervalCensored > 0; {
+	censored := s.LeftCensored+s.RightCensored+s.IntervalCensored > 0
+	unchecked := s.IntervalCensored > 0 || (s.LeftCensored > 0 && s.RightCensored > 0)
+	switch {
 	case len(used) > 0:
 		var parts []string
 		for _, u := range used {
 			parts = append(parts, statisticAbbreviation(u)+": "+statisticName(u))
 		}
+		against := ""
+		if censored {
+			against = ", against the " + KaplanMeierCaption
+		}
 		d.font("I", 7.5)
 		f.MultiCell(textW, 4, "Adequacy p: parametric-bootstrap p-value of the goodness-of-fit statistic ("+strings.Join(parts, "; ")+
-			"); – where not computed."+weightsNote, "", "L", false)
-	case len(a.Fitted()) > 0 && censored:
+			")"+against+"; – where not computed."+weightsNote, "", "L", false)
+	case len(a.Fitted()) > 0 && unchecked:
 		d.font("I", 7.5)
 		f.MultiCell(textW, 4, "Adequacy p: none for these data: "+infer.NotApplicableCensored+
 			". Judge the fit by the fitted CDFs against the nonparametric estimate and by the Q–Q and P–P plots."+weightsNote, "", "L", false)
@@ -774,6 +786,10 @@ func summaryNumber(_ Analysis, x float64) string {
 	}
 	return strconv.FormatFloat(x, 'g', 6, 64)
 }
+
+// KaplanMeierCaption says, under a ranking of censored data, what their
+// adequacy p-values are computed against and how.
+const KaplanMeierCaption = "Kaplan–Meier estimate of the CDF (censored data), each replicate censored as the data were (conditional bootstrap)"
 
 // statisticAbbreviation is the adequacy statistic's short name in tables.
 func statisticAbbreviation(s string) string {
