@@ -72,7 +72,7 @@ func (p *censoringPlan) censoringTime(y float64, rng *rand.Rand) float64 {
 		}
 		return math.Inf(1)
 	}
-	target := below + rng.Float64()*(1-below)
+	target := below + float64(rng.Float64()*(1-below)) // never fused (arm64 would)
 	for k := k0; k < len(p.times); k++ {
 		if p.cumulative[k] > target {
 			return p.times[k]
