@@ -73,10 +73,10 @@ func (p *censoringPlan) censoringTime(y float64, rng *rand.Rand) float64 {
 		return math.Inf(1)
 	}
 	target := below + float64(rng.Float64()*(1-below)) // never fused (arm64 would)
-	for k := k0; k < len(p.times); k++ {
-		if p.cumulative[k] > target {
-			return p.times[k]
-		}
+	// The first jump whose cumulative mass exceeds the target (binary
+	// search: a long record has many suspension times).
+	if k := k0 + sort.Search(len(p.times)-k0, func(i int) bool { return p.cumulative[k0+i] > target }); k < len(p.times) {
+		return p.times[k]
 	}
 	return math.Inf(1)
 }
@@ -87,8 +87,8 @@ func (p *censoringPlan) censoringTime(y float64, rng *rand.Rand) float64 {
 // time when it was censored and a draw from Ĝ conditional on C > yⱼ when
 // it was exact. The replicate is returned on the original scale.
 func (p *censoringPlan) simulate(x []float64, rng *rand.Rand) *fitters.Data {
-	sim := &fitters.Data{}
 	ne := len(p.exact)
+	sim := &fitters.Data{Exact: make([]float64, 0, len(x))}
 	for j, v := range x {
 		t := v
 		if p.left {

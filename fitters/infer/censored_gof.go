@@ -109,7 +109,7 @@ type step struct{ T, F float64 }
 // the "reverse" estimate of the censoring distribution.
 func newProductLimit(events, censored []float64) productLimit {
 	n := len(events) + len(censored)
-	pl := productLimit{Survival: 1}
+	pl := productLimit{Survival: 1, Steps: make([]step, 0, len(events))}
 	if n == 0 {
 		return pl
 	}
