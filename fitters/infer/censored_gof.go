@@ -106,7 +106,10 @@ type step struct{ T, F float64 }
 // at risk, S ← S·(1 − d/r). A unit censored at t is at risk at t (events
 // first, the usual convention for ties; Kalbfleisch & Prentice, 2002,
 // §1.4). Used with suspensions as events and failures as censored it is
-// the "reverse" estimate of the censoring distribution.
+// the "reverse" estimate of the censoring distribution. It is
+// fitters.KaplanMeier's estimate (TestProductLimitMatchesFitters) without
+// the Greenwood variance, the re-sorting and the checks that the report's
+// curves need, since the replicate loop calls it for every replicate.
 func newProductLimit(events, censored []float64) productLimit {
 	n := len(events) + len(censored)
 	pl := productLimit{Survival: 1, Steps: make([]step, 0, len(events))}

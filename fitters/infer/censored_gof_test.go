@@ -79,6 +79,52 @@ func TestProductLimitByHand(t *testing.T) {
 	}
 }
 
+// TestProductLimitMatchesFitters: the lean product limit of the statistics
+// (no variance, inputs already sorted) is fitters.KaplanMeier's estimate,
+// the one the report draws, on data rounded so that failures and
+// suspensions tie, and its reverse (suspensions as events) likewise.
+func TestProductLimitMatchesFitters(t *testing.T) {
+	rng := rand.New(rand.NewPCG(71, 72))
+	for trial := range 50 {
+		var events, censored []float64
+		for range 5 + trial {
+			v := math.Round(10 * rng.ExpFloat64())
+			if rng.Float64() < 0.35 {
+				censored = append(censored, v)
+			} else {
+				events = append(events, v)
+			}
+		}
+		slices.Sort(events)
+		slices.Sort(censored)
+		for _, swap := range []bool{false, true} {
+			e, c := events, censored
+			if swap {
+				e, c = censored, events
+			}
+			pl := newProductLimit(e, c)
+			km, err := fitters.KaplanMeier(e, c)
+			if err != nil {
+				if len(e)+len(c) == 0 {
+					continue
+				}
+				t.Fatal(err)
+			}
+			if len(pl.Steps) != len(km.Times) {
+				t.Fatalf("trial %d: %d steps, fitters.KaplanMeier %d", trial, len(pl.Steps), len(km.Times))
+			}
+			for i, s := range pl.Steps {
+				if s.T != km.Times[i] || math.Abs(s.F-km.CDF[i]) > 1e-15 {
+					t.Errorf("trial %d step %d: %+v, fitters.KaplanMeier (%v, %v)", trial, i, s, km.Times[i], km.CDF[i])
+				}
+			}
+			if n := len(km.CDF); n > 0 && pl.ReachesOne != (km.CDF[n-1] == 1) {
+				t.Errorf("trial %d: reaches one %v, fitters.KaplanMeier ends at %v", trial, pl.ReachesOne, km.CDF[n-1])
+			}
+		}
+	}
+}
+
 // TestKaplanMeierStatisticsByHand: exponential(1) against failures at 1,
 // 2, 2, 4 and suspensions at 2, 3 (the estimate above). D and ψ² from the
 // definitions with F(t) = 1 − e^(−t), written out term by term.
