@@ -76,6 +76,11 @@ func TestNoGOFIsNoted(t *testing.T) {
 				if got := strings.Contains(a.Inference[i], want); got != none {
 					t.Errorf("%s, %s: %s %s: inference note %q", c.kind, c.settings, a.Name, row.Family, a.Inference[i])
 				}
+				// The reason is one clause: none of it is left among the
+				// remarks, which drop the no-goodness-of-fit clause.
+				if r := InferenceRemarks(a.Inference[i]); strings.Contains(r, "censored") {
+					t.Errorf("%s, %s: %s %s: remarks %q keep part of the reason", c.kind, c.settings, a.Name, row.Family, r)
+				}
 			}
 			wantRows := map[string]int{"complete": 6, "suspensions": 4, "both": 0}[c.kind]
 			if len(a.GOF) != wantRows {

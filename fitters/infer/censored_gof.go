@@ -30,6 +30,8 @@ func (o *oneSided) N() int { return len(o.Events) + len(o.Suspensions) }
 
 // NotApplicableCensored begins the reason given for censored data that the
 // check does not cover (interval-censored, or censored in both directions).
+// A reason holds no "; ", which separates the clauses of a fit's
+// inference note.
 const NotApplicableCensored = "fitseal's goodness-of-fit check covers exact values censored in one direction only " +
 	"(suspensions alone or non-detects alone)"
 
@@ -48,14 +50,14 @@ func oneSidedView(d *fitters.Data) (*oneSided, *fitters.Data, string) {
 			case math.IsInf(u, 1) && !math.IsInf(l, 0):
 				open.Right = append(open.Right, l)
 			default:
-				return nil, nil, NotApplicableCensored + "; these data have interval-censored observations"
+				return nil, nil, NotApplicableCensored + ", and these data have interval-censored observations"
 			}
 		}
 		d = open
 	}
 	switch {
 	case len(d.Left) > 0 && len(d.Right) > 0:
-		return nil, nil, NotApplicableCensored + "; these data are censored in both directions"
+		return nil, nil, NotApplicableCensored + ", and these data are censored in both directions"
 	case len(d.Exact) == 0:
 		return nil, nil, "no exact observations: the Kaplan–Meier estimate has no step"
 	}
