@@ -271,6 +271,9 @@ func jsonText(v any) string {
 	if v == nil {
 		return "null"
 	}
+	if _, ok := v.(absentValue); ok {
+		return "(absent)"
+	}
 	if s, ok := v.(string); ok {
 		return strconv.Quote(s)
 	}
@@ -323,13 +326,17 @@ func (c *jsonCompare) walk(path string, a, b any, fields map[string]string) {
 		}
 	case []any:
 		y, ok := b.([]any)
-		if !ok || len(x) != len(y) {
+		if !ok {
 			c.add(path, a, b)
 			return
 		}
-		for i := range x {
-			c.walk(fmt.Sprintf("%s[%d]", path, i), x[i], y[i], fields)
+		if len(x) == len(y) && sameIdentities(x, y) {
+			for i := range x {
+				c.walk(fmt.Sprintf("%s[%d]", path, i), x[i], y[i], fields)
+			}
+			return
 		}
+		c.walkUnaligned(path, x, y, fields)
 	case json.Number:
 		y, ok := b.(json.Number)
 		if !ok {
@@ -365,9 +372,132 @@ func (c *jsonCompare) walk(path string, a, b any, fields map[string]string) {
 	}
 }
 
+// identityKeys are the members that name an element of an array of
+// objects (a dataset, an analysis, a fit, an input file), in the order tried.
+var identityKeys = []string{"name", "family", "path"}
+
+// identities returns the key and the value of it that name each element of
+// list, when every element is an object with a distinct text value of that
+// key; ok is false otherwise.
+func identities(list []any) (key string, ids []string, ok bool) {
+	for _, k := range identityKeys {
+		ids = ids[:0]
+		seen := map[string]bool{}
+		for _, e := range list {
+			o, isObj := e.(map[string]any)
+			id, isText := o[k].(string)
+			if !isObj || !isText || seen[id] {
+				break
+			}
+			seen[id] = true
+			ids = append(ids, id)
+		}
+		if len(list) > 0 && len(ids) == len(list) {
+			return k, ids, true
+		}
+	}
+	return "", nil, false
+}
+
+// distinctTexts returns the elements of list as a set when every one is a
+// text and no text repeats, else nil.
+func distinctTexts(list []any) map[string]struct{} {
+	set := make(map[string]struct{}, len(list))
+	for _, e := range list {
+		t, ok := e.(string)
+		if !ok {
+			return nil
+		}
+		if _, dup := set[t]; dup {
+			return nil
+		}
+		set[t] = struct{}{}
+	}
+	return set
+}
+
+// sameIdentities reports whether the elements of x and y, of equal length,
+// do not name different things position by position (as when one dataset
+// of a project replaces another).
+func sameIdentities(x, y []any) bool {
+	kx, ix, okx := identities(x)
+	ky, iy, oky := identities(y)
+	if !okx || !oky || kx != ky {
+		return true
+	}
+	for i := range ix {
+		if ix[i] != iy[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// walkUnaligned compares two arrays whose elements do not pair up by
+// position: elements named by the same identity (see [identities]) are
+// compared with each other, the rest listed as absent from one side, so that
+// an added dataset is reported as that dataset and not as two long arrays
+// that differ somewhere. Lists of distinct texts (family names, the settings
+// left at their defaults) are compared as sets: each text of one side only is
+// listed at its index there. Other arrays are compared position by position,
+// and the elements past the shorter one listed as absent.
+func (c *jsonCompare) walkUnaligned(path string, x, y []any, fields map[string]string) {
+	kx, ix, okx := identities(x)
+	ky, iy, oky := identities(y)
+	if sx, sy := distinctTexts(x), distinctTexts(y); sx != nil && sy != nil {
+		for i, v := range x {
+			if _, ok := sy[v.(string)]; !ok {
+				c.add(fmt.Sprintf("%s[%d]", path, i), v, absentValue{})
+			}
+		}
+		for j, v := range y {
+			if _, ok := sx[v.(string)]; !ok {
+				c.add(fmt.Sprintf("%s[%d]", path, j), absentValue{}, v)
+			}
+		}
+		return
+	}
+	if !okx || !oky || kx != ky {
+		n := min(len(x), len(y))
+		for i := 0; i < n; i++ {
+			c.walk(fmt.Sprintf("%s[%d]", path, i), x[i], y[i], fields)
+		}
+		for i := n; i < len(x); i++ {
+			c.add(fmt.Sprintf("%s[%d]", path, i), x[i], absentValue{})
+		}
+		for i := n; i < len(y); i++ {
+			c.add(fmt.Sprintf("%s[%d]", path, i), absentValue{}, y[i])
+		}
+		return
+	}
+	inY := make(map[string]int, len(iy))
+	for j, id := range iy {
+		inY[id] = j
+	}
+	inX := make(map[string]bool, len(ix))
+	for i, id := range ix {
+		inX[id] = true
+		p := fmt.Sprintf("%s[%s=%s]", path, kx, id)
+		if j, ok := inY[id]; ok {
+			c.walk(p, x[i], y[j], fields)
+		} else {
+			c.add(p, x[i], absentValue{})
+		}
+	}
+	for j, id := range iy {
+		if !inX[id] {
+			c.add(fmt.Sprintf("%s[%s=%s]", path, ky, id), absentValue{}, y[j])
+		}
+	}
+}
+
+// absentValue stands for a value missing from one side; it shows as
+// (absent), unquoted, unlike a text value.
+type absentValue struct{}
+
 func presence(ok bool, v any) any {
 	if !ok {
-		return "(absent)"
+		return absentValue{}
 	}
 	return v
 }

@@ -57,3 +57,79 @@ func TestIdenticalVersionsCountAsTheFullComparison(t *testing.T) {
 		t.Errorf("hand/quoted.csv holds 3 numbers (-2.5, NaN, +Inf), counted %d", n)
 	}
 }
+
+// TestCompareJSONArraysThatDoNotLineUp: arrays of unequal length, or whose
+// elements name different things position by position, are compared element
+// by element — by the element's name where every element has a distinct
+// one, else by position — so that each added, removed or changed element is
+// one difference that names it, never the two whole arrays (which, cut to a
+// readable length, could print the same on both sides).
+func TestCompareJSONArraysThatDoNotLineUp(t *testing.T) {
+	type diff struct{ path, a, b string }
+	cases := []struct {
+		name string
+		a, b string
+		want []diff
+	}{
+		{"an element added at the end",
+			`{"d":[{"name":"x","n":1},{"name":"y","n":2}]}`,
+			`{"d":[{"name":"x","n":1},{"name":"y","n":2},{"name":"z","n":3}]}`,
+			[]diff{{"d[name=z]", "(absent)", `{"n":3,"name":"z"}`}}},
+		{"an element removed from the middle, another changed",
+			`{"d":[{"name":"x","n":1},{"name":"y","n":2},{"name":"z","n":3}]}`,
+			`{"d":[{"name":"x","n":1},{"name":"z","n":4}]}`,
+			[]diff{{"d[name=y]", `{"n":2,"name":"y"}`, "(absent)"}, {"d[name=z].n", "3", "4"}}},
+		{"the same elements in another order",
+			`{"d":[{"family":"gamma","k":2},{"family":"weibull","k":2}]}`,
+			`{"d":[{"family":"weibull","k":2},{"family":"gamma","k":2}]}`,
+			nil},
+		{"one element replaced by another of the same length",
+			`{"d":[{"name":"x","n":1}]}`,
+			`{"d":[{"name":"w","n":1}]}`,
+			[]diff{{"d[name=x]", `{"n":1,"name":"x"}`, "(absent)"}, {"d[name=w]", "(absent)", `{"n":1,"name":"w"}`}}},
+		{"texts added to a list of distinct texts, one in the middle",
+			`{"l":["a","b","c"]}`,
+			`{"l":["a","x","b","c","d"]}`,
+			[]diff{{"l[1]", "(absent)", `"x"`}, {"l[4]", "(absent)", `"d"`}}},
+		{"a text removed from a list of distinct texts",
+			`{"l":["a","b","c"]}`,
+			`{"l":["a","c"]}`,
+			[]diff{{"l[1]", `"b"`, "(absent)"}}},
+		{"a list with repeated texts is compared by position",
+			`{"l":["a","a"]}`,
+			`{"l":["a","b","a"]}`,
+			[]diff{{"l[1]", `"a"`, `"b"`}, {"l[2]", "(absent)", `"a"`}}},
+		{"a number list shortened and changed",
+			`{"l":[1,2,3]}`,
+			`{"l":[1,5]}`,
+			[]diff{{"l[1]", "2", "5"}, {"l[2]", "3", "(absent)"}}},
+		{"repeated names are compared by position",
+			`{"d":[{"name":"x","n":1},{"name":"x","n":2}]}`,
+			`{"d":[{"name":"x","n":1}]}`,
+			[]diff{{"d[1]", `{"n":2,"name":"x"}`, "(absent)"}}},
+		{"equal arrays with names keep their positions as paths",
+			`{"d":[{"name":"x","n":1}]}`,
+			`{"d":[{"name":"x","n":2}]}`,
+			[]diff{{"d[0].n", "1", "2"}}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			ds, _, err := CompareJSON("x.json", []byte(c.a), []byte(c.b), nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []diff
+			for _, d := range ds {
+				got = append(got, diff{d.Column, d.A, d.B})
+			}
+			if len(got) != len(c.want) {
+				t.Fatalf("got %d differences %q, want %q", len(got), got, c.want)
+			}
+			for i := range got {
+				if got[i] != c.want[i] {
+					t.Errorf("difference %d: got %q, want %q", i, got[i], c.want[i])
+				}
+			}
+		})
+	}
+}
