@@ -13,27 +13,39 @@ import (
 )
 
 // Difference is one cell or value that differs between two versions of a
-// result file: Row is the 1-based data row (header excluded) of the first
-// version, Key names the row by its key columns, Column the column (or the
-// JSON path inside results.json).
+// result file: Row and RowB are the 1-based data rows (header excluded) of
+// the first and the second version (0 where the row is not in that version),
+// Key names the row by its key columns, Column the column (or the JSON path
+// inside results.json; "(row)" for a row that only one version has).
 type Difference struct {
-	Member string
-	Row    int
-	Key    string
-	Column string
-	A, B   string
+	Member    string
+	Row, RowB int
+	Key       string
+	Column    string
+	A, B      string
 }
 
 // Describe says where the difference is and both values, with labels for
-// the two versions (e.g. "recorded", "recomputed").
+// the two versions (e.g. "recorded", "recomputed"). A row that moved is
+// given by its number in each version; a row in one version only is said
+// to be so, not given as a cell.
 func (d Difference) Describe(la, lb string) string {
+	key := ""
+	if d.Key != "" {
+		key = " (" + d.Key + ")"
+	}
+	switch {
+	case d.Column == "(row)" && d.Row > 0 && d.RowB == 0:
+		return fmt.Sprintf("row %d%s of %s: not in %s", d.Row, key, la, lb)
+	case d.Column == "(row)" && d.Row == 0 && d.RowB > 0:
+		return fmt.Sprintf("row %d%s of %s: not in %s", d.RowB, key, lb, la)
+	}
 	where := ""
-	if d.Row > 0 {
-		where = fmt.Sprintf("row %d", d.Row)
-		if d.Key != "" {
-			where += " (" + d.Key + ")"
-		}
-		where += ", "
+	switch {
+	case d.Row > 0 && d.RowB > 0 && d.Row != d.RowB:
+		where = fmt.Sprintf("row %d in %s, %d in %s%s, ", d.Row, la, d.RowB, lb, key)
+	case d.Row > 0:
+		where = fmt.Sprintf("row %d%s, ", d.Row, key)
 	}
 	return fmt.Sprintf("%scolumn %s: %s %s, %s %s", where, d.Column, la, show(d.A), lb, show(d.B))
 }
@@ -61,7 +73,8 @@ var resultKeys = map[string][]string{
 // CompareCSV compares two versions of a result table cell by cell, rows
 // matched by their key columns (by position for an unknown table), numbers
 // by agree (nil: exactly, as parsed float64), text exactly. A row in one
-// version only is a difference whose column is "(row)".
+// version only is a difference whose column is "(row)", with the row number
+// of the version that has it.
 func CompareCSV(member string, a, b []byte, agree Agree) ([]Difference, int, error) {
 	return compareCSV(member, a, b, agree, nil)
 }
@@ -141,12 +154,12 @@ func compareCSV(member string, a, b []byte, agree Agree, skipText func(column st
 			} else if va == vb || (skipText != nil && skipText(h)) {
 				continue
 			}
-			diffs = append(diffs, Difference{Member: member, Row: i, Key: k, Column: h, A: va, B: vb})
+			diffs = append(diffs, Difference{Member: member, Row: i, RowB: j, Key: k, Column: h, A: va, B: vb})
 		}
 	}
 	for j := 1; j < len(rb); j++ {
 		if !seenB[j] {
-			diffs = append(diffs, Difference{Member: member, Row: j, Key: keyOf(rb[j], j), Column: "(row)", A: "absent", B: "present"})
+			diffs = append(diffs, Difference{Member: member, RowB: j, Key: keyOf(rb[j], j), Column: "(row)", A: "absent", B: "present"})
 		}
 	}
 	return diffs, compared, nil

@@ -133,3 +133,64 @@ func TestCompareJSONArraysThatDoNotLineUp(t *testing.T) {
 		})
 	}
 }
+
+// TestCompareCSVRowsThatMoved: when a family is added to an analysis the
+// rows after it move down, so a changed cell is given by its row in each
+// version, and a row in one version only by its row there, said as such
+// (not as a cell "(row)" that is "absent" or "present"). Every row number
+// given must point at the row with that key in that version.
+func TestCompareCSVRowsThatMoved(t *testing.T) {
+	const member = "data/results/fits.csv"
+	a := "analysis,family,loglik\nrain,gumbel,-10\nrain,gev,-9\nlife,weibull,-5\n"
+	b := "analysis,family,loglik\nrain,gumbel,-10\nrain,gev,-9\nrain,weibull,-12\nlife,weibull,-6\n"
+	c := "analysis,family,loglik\nrain,gumbel,-11\nlife,weibull,-5\n"
+	cases := []struct {
+		name string
+		a, b string
+		want []string
+	}{
+		{"a row added, a later row changed", a, b, []string{
+			"row 3 in A, 4 in B (analysis=life, family=weibull), column loglik: A -5, B -6",
+			"row 3 (analysis=rain, family=weibull) of B: not in A",
+		}},
+		{"a row removed, an earlier row changed", a, c, []string{
+			"row 1 (analysis=rain, family=gumbel), column loglik: A -10, B -11",
+			"row 2 (analysis=rain, family=gev) of A: not in B",
+		}},
+	}
+	rows := func(text string) [][]string {
+		var out [][]string
+		for _, line := range strings.Split(strings.TrimSpace(text), "\n")[1:] {
+			out = append(out, strings.Split(line, ","))
+		}
+		return out
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			ds, _, err := CompareCSV(member, []byte(tc.a), []byte(tc.b), nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			ra, rb := rows(tc.a), rows(tc.b)
+			for _, d := range ds {
+				got = append(got, d.Describe("A", "B"))
+				for _, side := range []struct {
+					row  int
+					rows [][]string
+				}{{d.Row, ra}, {d.RowB, rb}} {
+					if side.row == 0 {
+						continue
+					}
+					r := side.rows[side.row-1]
+					if key := "analysis=" + r[0] + ", family=" + r[1]; key != d.Key {
+						t.Errorf("%q: row %d holds %s", d.Describe("A", "B"), side.row, key)
+					}
+				}
+			}
+			if strings.Join(got, "\n") != strings.Join(tc.want, "\n") {
+				t.Errorf("got\n%s\nwant\n%s", strings.Join(got, "\n"), strings.Join(tc.want, "\n"))
+			}
+		})
+	}
+}
