@@ -45,11 +45,14 @@ var ErrUnsafeArchive = errors.New("unsafe or damaged archive")
 // ArchiveError is an archive that fitseal refuses to read: a path escape, a
 // link, a device, a duplicate name, more than one top folder, a limit
 // exceeded, or a stream that is not a gzip'd tar. Member names the entry at
-// fault where there is one.
+// fault where there is one. Damaged is set where the bytes end early or do
+// not decompress (as after an interrupted download or copy), as opposed to
+// an archive that reads whole but holds what a bundle never does.
 type ArchiveError struct {
-	Source string
-	Member string
-	Reason string
+	Source  string
+	Member  string
+	Reason  string
+	Damaged bool
 }
 
 func (e *ArchiveError) Error() string {
@@ -209,7 +212,7 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 		if fi, err := f.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() <= min(maxSplitFile, limit) {
 			data := make([]byte, fi.Size())
 			if _, err := io.ReadFull(f, data); err != nil {
-				return archiveFail("", "cannot be read: %v", err)
+				return archiveDamaged("", "cannot be read: %v", err)
 			}
 			sr := newSplitReader(data, runtime.GOMAXPROCS(0), limit)
 			if b, err := readArchive(sr, lim); !sr.failed {
@@ -220,7 +223,7 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 	}
 	zr, err := gzip.NewReader(bufio.NewReader(r))
 	if err != nil {
-		return archiveFail("", "not a gzip-compressed file: %v", err)
+		return archiveDamaged("", "not a gzip-compressed file: %v", err)
 	}
 	return readArchive(zr, lim)
 }
@@ -233,6 +236,12 @@ const maxSplitFile = 256 << 20
 // (OpenWithLimits puts the file's path in Source).
 func archiveFail(member, format string, args ...any) (*Bag, error) {
 	return nil, &ArchiveError{Source: "bundle", Member: member, Reason: fmt.Sprintf(format, args...)}
+}
+
+// archiveDamaged is archiveFail for bytes that end early or do not
+// decompress.
+func archiveDamaged(member, format string, args ...any) (*Bag, error) {
+	return nil, &ArchiveError{Source: "bundle", Member: member, Reason: fmt.Sprintf(format, args...), Damaged: true}
 }
 
 // readArchive is ReadArchive on the decompressed stream zr.
@@ -252,7 +261,7 @@ func readArchive(zr io.Reader, lim Limits) (*Bag, error) {
 			return archiveFail("", "the archive's headers exceed the size limits")
 		}
 		if err != nil {
-			return archiveFail("", "not a readable tar archive: %v", err)
+			return archiveDamaged("", "not a readable tar archive: %v", err)
 		}
 		entries++
 		if entries > lim.MaxEntries {
@@ -294,14 +303,14 @@ func readArchive(zr io.Reader, lim Limits) (*Bag, error) {
 		total += h.Size
 		data := make([]byte, h.Size)
 		if _, err := io.ReadFull(tr, data); err != nil {
-			return archiveFail(h.Name, "truncated: %v", err)
+			return archiveDamaged(h.Name, "truncated: %v", err)
 		}
 		files[strings.TrimPrefix(name, tree.top+"/")] = data
 	}
 	// Read to the end of the gzip stream so that its CRC-32 and length are
 	// checked; a tar writer pads with at most a few blocks of zeros.
 	if n, err := io.Copy(io.Discard, io.LimitReader(capped, 1<<20)); err != nil {
-		return archiveFail("", "damaged compressed stream after the tar end: %v", err)
+		return archiveDamaged("", "damaged compressed stream after the tar end: %v", err)
 	} else if n == 1<<20 {
 		return archiveFail("", "more than 1 MiB of data after the tar end")
 	}

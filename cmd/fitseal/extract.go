@@ -43,6 +43,9 @@ func cmdExtract(ctx context.Context, args []string, stdout, stderr io.Writer) er
 // is bad input, exit 2.
 func runExtract(_ context.Context, o extractOptions, stdout, _ io.Writer) error {
 	where, err := bundle.Extract(o.Bundle, o.Dir)
+	if ae := (*bundle.ArchiveError)(nil); errors.As(err, &ae) {
+		return checkFailed{fmt.Errorf("refused to extract %w\nfitseal: hint: %s", err, archiveHint(ae))}
+	}
 	if errors.Is(err, bundle.ErrUnsafeArchive) {
 		return checkFailed{fmt.Errorf("refused to extract %w", err)}
 	}

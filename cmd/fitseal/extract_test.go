@@ -85,6 +85,29 @@ func TestExtractCommandRefusesEscape(t *testing.T) {
 	if code != 1 || !strings.Contains(stderr.String(), `escapes its folder`) {
 		t.Errorf("exit %d, stderr %q; want 1 and the reason", code, stderr.String())
 	}
+	if !strings.Contains(stderr.String(), "fitseal: hint: the archive holds what a fitseal bundle never does") {
+		t.Errorf("no hint that the archive is not a bundle as written: %q", stderr.String())
+	}
+	ents, _ := os.ReadDir(dir)
+	if len(ents) != 1 {
+		t.Errorf("something was written: %v", ents)
+	}
+}
+
+// TestExtractCommandCutShort: an archive cut short, as by an interrupted
+// download, is refused (exit 1) with the hint to fetch it again, and
+// nothing is written.
+func TestExtractCommandCutShort(t *testing.T) {
+	dir := t.TempDir()
+	src := filepath.Join(dir, "b.tar.gz")
+	writeTestBundle(t, src)
+	b, _ := os.ReadFile(src)
+	os.WriteFile(src, b[:len(b)*2/3], 0o644)
+	var stdout, stderr bytes.Buffer
+	code := run(context.Background(), []string{"extract", src, filepath.Join(dir, "out")}, &stdout, &stderr)
+	if code != 1 || !strings.Contains(stderr.String(), "fitseal: hint: the archive ends early") {
+		t.Errorf("exit %d, stderr %q; want 1 and the hint to fetch it again", code, stderr.String())
+	}
 	ents, _ := os.ReadDir(dir)
 	if len(ents) != 1 {
 		t.Errorf("something was written: %v", ents)

@@ -118,7 +118,11 @@ func runVerify(ctx context.Context, o verifyOptions, stdout, _ io.Writer) error 
 	}
 	fmt.Fprintln(stdout, signerLine)
 	if len(findings) > 0 {
-		return checkFailed{fmt.Errorf("%s: %d problem(s) found", o.Bundle, len(findings))}
+		msg := fmt.Sprintf("%s: %s found, listed above", o.Bundle, problems(len(findings)))
+		for _, h := range verifyHints(findings) {
+			msg += "\nfitseal: hint: " + h
+		}
+		return checkFailed{errors.New(msg)}
 	}
 	what := "archive, hashes and signature"
 	switch {
@@ -142,9 +146,52 @@ func openBundle(path string) (*bundle.Bag, error) {
 	}
 	var ae *bundle.ArchiveError
 	if errors.As(err, &ae) {
-		return nil, checkFailed{fmt.Errorf("FAIL %v", err)}
+		return nil, checkFailed{fmt.Errorf("%w\nfitseal: hint: %s", err, archiveHint(ae))}
 	}
 	return nil, usageError{err}
+}
+
+// archiveHint says what to do about an archive refused as damaged or unsafe.
+func archiveHint(ae *bundle.ArchiveError) string {
+	if ae.Damaged {
+		return "the archive ends early or does not decompress, as after an interrupted download or copy; fetch it again and compare its size and SHA-256 with the sender's"
+	}
+	return "the archive holds what a fitseal bundle never does, so it was not written by fitseal as it stands; do not unpack it with other tools, and ask the sender for the original"
+}
+
+// problems is "1 problem" or "N problems".
+func problems(n int) string {
+	if n == 1 {
+		return "1 problem"
+	}
+	return fmt.Sprintf("%d problems", n)
+}
+
+// verifyHints says what to do about the findings of verify, one hint per
+// kind of trouble found, most serious first: who signed, whether the
+// signed content is intact, whether the numbers reproduce.
+func verifyHints(findings []bundle.Finding) []string {
+	has := map[string]bool{}
+	for _, f := range findings {
+		has[f.Kind] = true
+	}
+	var hints []string
+	if has[bundle.KindPin] {
+		hints = append(hints, "the bundle is not signed by the key given with --key; if the sender has a new key, confirm its fingerprint (the signer line) with them by another channel before pinning it, otherwise do not trust the bundle")
+	}
+	if has[bundle.KindSigner] {
+		hints = append(hints, "the signature is by a key other than the signer recorded in run.json, so it was signed again after it was made; ask the sender for the original archive")
+	}
+	if has[bundle.KindSignature] {
+		hints = append(hints, "the signature does not match the tag manifest: the manifests were edited after signing, or the signature comes from another bundle; ask the sender for the original archive")
+	}
+	if has[bundle.KindHash] || has[bundle.KindMissing] || has[bundle.KindExtra] || has[bundle.KindOxum] || has[bundle.KindFormat] {
+		hints = append(hints, "the bag's files are not the ones that were sealed (each is named above, with the SHA-256 expected and found): the bundle was changed or damaged after it was made; do not rely on its numbers, and ask the sender for the original archive")
+	}
+	if has[bundle.KindNumber] || has[bundle.KindRender] {
+		hints = append(hints, "re-running the bundled inputs with the recorded settings does not give what the bundle records (each difference is listed above with both values); if the bundle was made by another version of fitseal ('fitseal show' names it), verify with that version, else ask the sender how these results were made")
+	}
+	return hints
 }
 
 // signerLine names the key that signed the bag and whether it was pinned.

@@ -3,10 +3,15 @@ package main
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"io/fs"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -380,4 +385,155 @@ func runRecordOf(t *testing.T, path string) *bundle.RunRecord {
 		t.Fatal(err)
 	}
 	return rec
+}
+
+// TestVerifyDamageSaysWhatToDo: each realistic way a received bundle can be
+// wrong — edited, padded, re-hashed without the key, given another bundle's
+// signature, signed by someone other than the pinned signer, cut short,
+// holding a link, or re-signed with different numbers — fails with exit 1,
+// no OK line, the error naming the bundle, and the hint for that trouble
+// (what to do next); verify writes nothing into the bundle's folder.
+func TestVerifyDamageSaysWhatToDo(t *testing.T) {
+	project, key := bearingsProject(t)
+	dir := filepath.Dir(project)
+	good := filepath.Join(dir, "good")
+	mustCLI(t, 0, "run", "-q", "--key", key, "-o", good, project)
+	other := filepath.Join(dir, "other")
+	mustCLI(t, 0, "keygen", "-o", other)
+	otherBag := filepath.Join(dir, "other-bag")
+	mustCLI(t, 0, "run", "-q", "--key", other, "-o", otherBag, project)
+	archive := filepath.Join(dir, "good.tar.gz")
+	mustCLI(t, 0, "run", "-q", "--key", key, "-o", archive, project)
+
+	const (
+		edited    = "the bag's files are not the ones that were sealed"
+		unsigned  = "the signature does not match the tag manifest"
+		resigned  = "signed again after it was made"
+		notPinned = "not signed by the key given with --key"
+		cutShort  = "ends early or does not decompress"
+		hostile   = "holds what a fitseal bundle never does"
+		rerun     = "does not give what the bundle records"
+	)
+	editFits := func(t *testing.T, bag string) {
+		file := filepath.Join(bag, "data", "results", "fits.csv")
+		b, _ := os.ReadFile(file)
+		b[len(b)/2] ^= 0x01
+		os.WriteFile(file, b, 0o644)
+	}
+	rehash := func(t *testing.T, bag, manifest, member string) {
+		b, _ := os.ReadFile(filepath.Join(bag, member))
+		m, _ := os.ReadFile(filepath.Join(bag, manifest))
+		re := regexp.MustCompile(`(?m)^[0-9a-f]{64}  ` + regexp.QuoteMeta(member) + `$`)
+		if !re.Match(m) {
+			t.Fatalf("%s lists no %s", manifest, member)
+		}
+		m = re.ReplaceAll(m, []byte(sha256Hex(b)+"  "+member))
+		os.WriteFile(filepath.Join(bag, manifest), m, 0o644)
+	}
+	cases := []struct {
+		name   string
+		damage func(t *testing.T, bag string) string // returns the path to verify
+		args   []string
+		hints  []string
+	}{
+		{"a result edited", func(t *testing.T, bag string) string { editFits(t, bag); return bag }, nil, []string{edited}},
+		{"a file added to the payload", func(t *testing.T, bag string) string {
+			os.WriteFile(filepath.Join(bag, "data", "notes.txt"), []byte("added later\n"), 0o644)
+			return bag
+		}, nil, []string{edited}},
+		{"a result edited and the manifests re-hashed", func(t *testing.T, bag string) string {
+			editFits(t, bag)
+			rehash(t, bag, "manifest-sha256.txt", "data/results/fits.csv")
+			rehash(t, bag, "tagmanifest-sha256.txt", "manifest-sha256.txt")
+			return bag
+		}, nil, []string{unsigned}},
+		{"the signature of a bundle by another key", func(t *testing.T, bag string) string {
+			sig, _ := os.ReadFile(filepath.Join(otherBag, bundle.SignatureFile))
+			os.WriteFile(filepath.Join(bag, bundle.SignatureFile), sig, 0o644)
+			return bag
+		}, nil, []string{resigned, unsigned}},
+		{"another signer than the pinned one", func(t *testing.T, bag string) string { return otherBag }, []string{"--key", key + ".pub"}, []string{notPinned}},
+		{"an archive cut short", func(t *testing.T, bag string) string {
+			a, _ := os.ReadFile(archive)
+			cut := filepath.Join(filepath.Dir(bag), "cut.tar.gz")
+			os.WriteFile(cut, a[:len(a)/2], 0o644)
+			return cut
+		}, nil, []string{cutShort}},
+		{"a link in the bag", func(t *testing.T, bag string) string {
+			if err := os.Symlink(filepath.Join("..", "..", "run.json"), filepath.Join(bag, "data", "results", "link.csv")); err != nil {
+				t.Skip("no symbolic links here:", err)
+			}
+			return bag
+		}, nil, []string{hostile}},
+		{"numbers changed and signed again with the same key", func(t *testing.T, bag string) string {
+			b, err := bundle.Open(good)
+			if err != nil {
+				t.Fatal(err)
+			}
+			rec, err := bundle.ParseRunRecord(b.RunJSON())
+			if err != nil {
+				t.Fatal(err)
+			}
+			payload := b.Payload()
+			payload["results/fits.csv"] = bytes.Replace(payload["results/fits.csv"], []byte(",2,"), []byte(",3,"), 1)
+			signer, err := bundle.LoadSigner(key)
+			if err != nil {
+				t.Fatal(err)
+			}
+			forged := filepath.Join(filepath.Dir(bag), "forged.tar.gz")
+			err = bundle.WriteBundle(forged, false, bundle.Contents{Name: b.Name, Created: rec.Created, Description: rec.Project.Description,
+				Payload: payload, RunJSON: b.RunJSON()}, signer)
+			if err != nil {
+				t.Fatal(err)
+			}
+			return forged
+		}, []string{"--key", key + ".pub"}, []string{rerun}},
+	}
+	allHints := []string{edited, unsigned, resigned, notPinned, cutShort, hostile, rerun}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			bag := filepath.Join(t.TempDir(), "bag")
+			if err := os.CopyFS(bag, os.DirFS(good)); err != nil {
+				t.Fatal(err)
+			}
+			target := tc.damage(t, bag)
+			before := listTree(t, filepath.Dir(target))
+			code, out, errOut := cli(t, append(append([]string{"verify"}, tc.args...), target)...)
+			if code != 1 || strings.Contains(out, "\nOK ") || strings.HasPrefix(out, "OK ") {
+				t.Fatalf("exit %d, want 1 and no OK line\nstdout:\n%s\nstderr:\n%s", code, out, errOut)
+			}
+			if !strings.HasPrefix(errOut, "fitseal: error: "+target+": ") || strings.Contains(errOut, "error: FAIL") {
+				t.Errorf("the error should name the bundle, once labelled:\n%s", errOut)
+			}
+			for _, h := range allHints {
+				want := slices.Contains(tc.hints, h)
+				if got := strings.Contains(errOut, "fitseal: hint: ") && strings.Contains(errOut, h); got != want {
+					t.Errorf("hint %q given: %v, want %v\nstderr:\n%s", h, got, want, errOut)
+				}
+			}
+			if after := listTree(t, filepath.Dir(target)); !slices.Equal(before, after) {
+				t.Errorf("verify changed the folder of the bundle:\nbefore %q\nafter  %q", before, after)
+			}
+		})
+	}
+}
+
+// listTree lists every path under dir with its size.
+func listTree(t *testing.T, dir string) []string {
+	t.Helper()
+	var out []string
+	filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		info, _ := d.Info()
+		out = append(out, fmt.Sprintf("%s %d", p, info.Size()))
+		return nil
+	})
+	return out
+}
+
+func sha256Hex(b []byte) string {
+	s := sha256.Sum256(b)
+	return hex.EncodeToString(s[:])
 }
