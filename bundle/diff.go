@@ -1,10 +1,13 @@
 package bundle
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"sort"
+	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // Kinds of DiffItem.
@@ -54,7 +57,7 @@ func Diff(a, b *Bag) []DiffItem {
 		case !okA:
 			add(DiffInput, true, "%s/%s: only in B (sha256 %s)", PayloadDir, p, sha256Hex(y))
 		case sha256Hex(x) != sha256Hex(y):
-			add(DiffInput, true, "%s/%s: sha256 %s in A, %s in B", PayloadDir, p, sha256Hex(x), sha256Hex(y))
+			add(DiffInput, true, "%s/%s: sha256 %s in A, %s in B%s", PayloadDir, p, sha256Hex(x), sha256Hex(y), changedLines(x, y))
 		}
 	}
 
@@ -149,6 +152,77 @@ func Diff(a, b *Bag) []DiffItem {
 		add(DiffRendered, false, "rendered files that differ: %s", list)
 	}
 	return items
+}
+
+// maxShownLines is the most lines of a changed input that diff quotes
+// from each version.
+const maxShownLines = 3
+
+// changedLines says where two versions of a text input differ, for a reader
+// who must find the corrected value: the lines between the longest common
+// first and last lines, with their numbers in each version and up to
+// maxShownLines of each quoted. It is "" for binary files (a NUL byte or
+// invalid UTF-8), where the hashes are all diff can show.
+func changedLines(a, b []byte) string {
+	if !isText(a) || !isText(b) {
+		return ""
+	}
+	la, lb := splitLines(a), splitLines(b)
+	p := 0
+	for p < len(la) && p < len(lb) && la[p] == lb[p] {
+		p++
+	}
+	q := 0
+	for q < len(la)-p && q < len(lb)-p && la[len(la)-1-q] == lb[len(lb)-1-q] {
+		q++
+	}
+	ma, mb := la[p:len(la)-q], lb[p:len(lb)-q]
+	switch {
+	case len(ma) == 0 && len(mb) == 0:
+		return "; the same lines, but only one version ends with a line break"
+	case len(ma) == 0:
+		return fmt.Sprintf("; %s added in B after line %d: %s", lineSpan(p, len(mb)), p, quoteLines(mb))
+	case len(mb) == 0:
+		return fmt.Sprintf("; %s of A removed in B: %s", lineSpan(p, len(ma)), quoteLines(ma))
+	case len(ma) == len(mb):
+		return fmt.Sprintf("; %s: %s in A, %s in B", lineSpan(p, len(ma)), quoteLines(ma), quoteLines(mb))
+	}
+	return fmt.Sprintf("; %s of A, %s of B: %s in A, %s in B", lineSpan(p, len(ma)), strings.TrimPrefix(strings.TrimPrefix(lineSpan(p, len(mb)), "lines "), "line "), quoteLines(ma), quoteLines(mb))
+}
+
+// lineSpan names n lines after line p, 1-based: "line 5" or "lines 5–7".
+func lineSpan(p, n int) string {
+	if n == 1 {
+		return fmt.Sprintf("line %d", p+1)
+	}
+	return fmt.Sprintf("lines %d–%d", p+1, p+n)
+}
+
+func quoteLines(m []string) string {
+	if len(m) == 0 {
+		return "nothing"
+	}
+	q := make([]string, 0, maxShownLines+1)
+	for i, l := range m {
+		if i == maxShownLines {
+			q = append(q, fmt.Sprintf("… (%d lines in all)", len(m)))
+			break
+		}
+		q = append(q, strconv.Quote(l))
+	}
+	return strings.Join(q, " ")
+}
+
+func splitLines(b []byte) []string {
+	s := strings.TrimSuffix(string(b), "\n")
+	if s == "" {
+		return nil
+	}
+	return strings.Split(s, "\n")
+}
+
+func isText(b []byte) bool {
+	return utf8.Valid(b) && !bytes.ContainsRune(b, 0)
 }
 
 func unionPaths(a, b map[string][]byte, keep func(string) bool) []string {

@@ -1,0 +1,51 @@
+package bundle
+
+import (
+	"strings"
+	"testing"
+)
+
+// TestChangedLines: a changed text input is shown by the lines that
+// differ, numbered as in each version and quoted, so that a corrected value
+// can be found without unpacking both bundles; binary inputs get nothing
+// beyond their hashes.
+func TestChangedLines(t *testing.T) {
+	many := func(prefix string, n int) string {
+		var b strings.Builder
+		for i := range n {
+			b.WriteString(prefix + strings.Repeat("x", i) + "\n")
+		}
+		return b.String()
+	}
+	cases := []struct {
+		name, a, b, want string
+	}{
+		{"one value corrected",
+			"id,hours\nS1,120\nS2,2987\nS3,95\n", "id,hours\nS1,120\nS2,2897\nS3,95\n",
+			`; line 3: "S2,2987" in A, "S2,2897" in B`},
+		{"rows added at the end",
+			"h\n1\n", "h\n1\n2\n3\n",
+			`; lines 3–4 added in B after line 2: "2" "3"`},
+		{"a row removed from the middle",
+			"h\n1\n2\n3\n", "h\n1\n3\n",
+			`; line 3 of A removed in B: "2"`},
+		{"two lines replaced by three",
+			"h\na\nb\nz\n", "h\nc\nd\ne\nz\n",
+			`; lines 2–3 of A, 2–4 of B: "a" "b" in A, "c" "d" "e" in B`},
+		{"many lines quoted up to the limit",
+			"h\n", "h\n" + many("r", 10),
+			`; lines 2–11 added in B after line 1: "r" "rx" "rxx" … (10 lines in all)`},
+		{"only the final line break differs",
+			"h\n1", "h\n1\n",
+			"; the same lines, but only one version ends with a line break"},
+		{"binary input", "a\x00b", "a\x00c", ""},
+		{"not UTF-8", "a\xffb", "a\xffc", ""},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			if got := changedLines([]byte(c.a), []byte(c.b)); got != c.want {
+				t.Errorf("got  %s\nwant %s", got, c.want)
+			}
+		})
+	}
+}
