@@ -385,31 +385,64 @@ func (c *jsonCompare) walk(path string, a, b any, fields map[string]string) {
 	}
 }
 
-// identityKeys are the members that name an element of an array of
-// objects (a dataset, an analysis, a fit, an input file), in the order tried.
-var identityKeys = []string{"name", "family", "path"}
+// identityKeys are the members that together name an element of an array
+// of objects (a dataset, an analysis, a fit, a parameter, a derived
+// quantity, a statistic, an input file, a seed), in the order tried.
+var identityKeys = [][]string{
+	{"name"},
+	{"family", "quantity", "argument"},
+	{"family", "statistic"},
+	{"analysis", "family", "purpose"},
+	{"analysis", "family"},
+	{"family"},
+	{"path"},
+}
 
-// identities returns the key and the value of it that name each element of
-// list, when every element is an object with a distinct text value of that
-// key; ok is false otherwise.
-func identities(list []any) (key string, ids []string, ok bool) {
-	for _, k := range identityKeys {
-		ids = ids[:0]
-		seen := map[string]bool{}
-		for _, e := range list {
-			o, isObj := e.(map[string]any)
-			id, isText := o[k].(string)
-			if !isObj || !isText || seen[id] {
-				break
-			}
-			seen[id] = true
-			ids = append(ids, id)
-		}
-		if len(list) > 0 && len(ids) == len(list) {
-			return k, ids, true
+// identities returns, for the first identity keys (see [identityKeys])
+// that name every element of x and of y apart, each element's values of
+// them, as "name=x" or "family=x, statistic=y"; ok is false where no keys
+// do (elements that are not objects, or repeat their values).
+func identities(x, y []any) (idx, idy []string, ok bool) {
+	for _, keys := range identityKeys {
+		idx, idy = identitiesBy(keys, x), identitiesBy(keys, y)
+		if idx != nil && idy != nil {
+			return idx, idy, true
 		}
 	}
-	return "", nil, false
+	return nil, nil, false
+}
+
+// identitiesBy is each element's values of keys, or nil unless every
+// element of list (at least one) has text or number values of them that
+// no other element shares.
+func identitiesBy(keys []string, list []any) []string {
+	if len(list) == 0 {
+		return nil
+	}
+	ids := make([]string, 0, len(list))
+	seen := map[string]bool{}
+	for _, e := range list {
+		o, isObj := e.(map[string]any)
+		if !isObj {
+			return nil
+		}
+		parts := make([]string, 0, len(keys))
+		for _, k := range keys {
+			switch v := o[k].(type) {
+			case string:
+				parts = append(parts, k+"="+v)
+			case json.Number:
+				parts = append(parts, k+"="+v.String())
+			}
+		}
+		id := strings.Join(parts, ", ")
+		if len(parts) != len(keys) || seen[id] {
+			return nil
+		}
+		seen[id] = true
+		ids = append(ids, id)
+	}
+	return ids
 }
 
 // distinctTexts returns the elements of list as a set when every one is a
@@ -433,9 +466,8 @@ func distinctTexts(list []any) map[string]struct{} {
 // do not name different things position by position (as when one dataset
 // of a project replaces another).
 func sameIdentities(x, y []any) bool {
-	kx, ix, okx := identities(x)
-	ky, iy, oky := identities(y)
-	if !okx || !oky || kx != ky {
+	ix, iy, ok := identities(x, y)
+	if !ok {
 		return true
 	}
 	for i := range ix {
@@ -455,8 +487,7 @@ func sameIdentities(x, y []any) bool {
 // listed at its index there. Other arrays are compared position by position,
 // and the elements past the shorter one listed as absent.
 func (c *jsonCompare) walkUnaligned(path string, x, y []any, fields map[string]string) {
-	kx, ix, okx := identities(x)
-	ky, iy, oky := identities(y)
+	ix, iy, named := identities(x, y)
 	if sx, sy := distinctTexts(x), distinctTexts(y); sx != nil && sy != nil {
 		for i, v := range x {
 			if _, ok := sy[v.(string)]; !ok {
@@ -470,7 +501,7 @@ func (c *jsonCompare) walkUnaligned(path string, x, y []any, fields map[string]s
 		}
 		return
 	}
-	if !okx || !oky || kx != ky {
+	if !named {
 		n := min(len(x), len(y))
 		for i := 0; i < n; i++ {
 			c.walk(fmt.Sprintf("%s[%d]", path, i), x[i], y[i], fields)
@@ -490,7 +521,7 @@ func (c *jsonCompare) walkUnaligned(path string, x, y []any, fields map[string]s
 	inX := make(map[string]bool, len(ix))
 	for i, id := range ix {
 		inX[id] = true
-		p := fmt.Sprintf("%s[%s=%s]", path, kx, id)
+		p := fmt.Sprintf("%s[%s]", path, id)
 		if j, ok := inY[id]; ok {
 			c.walk(p, x[i], y[j], fields)
 		} else {
@@ -499,7 +530,7 @@ func (c *jsonCompare) walkUnaligned(path string, x, y []any, fields map[string]s
 	}
 	for j, id := range iy {
 		if !inX[id] {
-			c.add(fmt.Sprintf("%s[%s=%s]", path, ky, id), absentValue{}, y[j])
+			c.add(fmt.Sprintf("%s[%s]", path, id), absentValue{}, y[j])
 		}
 	}
 }

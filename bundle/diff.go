@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -39,8 +40,9 @@ type DiffItem struct {
 // the result tables (rows matched by their keys) — and, reported but not
 // counted as differences in substance, the created time, the signer and the
 // rendered tables, figures and PDF (which carry the created time and signer,
-// and are drawn from the numbers). results.json is compared value by value
-// only when the tables agree, so each change is listed once.
+// and are drawn from the numbers). Where the tables differ, the values of
+// results.json that repeat a table cell are counted, not listed again, and
+// only its own values are listed, so that each change is listed once.
 func Diff(a, b *Bag) []DiffItem {
 	var items []DiffItem
 	add := func(kind string, substantive bool, format string, args ...any) {
@@ -130,7 +132,18 @@ func Diff(a, b *Bag) []DiffItem {
 		case err != nil:
 			add(DiffNumber, true, "%v", err)
 		case len(ds) > 0 && tablesDiffer:
-			add(DiffNumber, true, "%s: %d values differ (the changes listed above, in the JSON record)", member, len(ds))
+			headers := tableHeaders(pa, pb)
+			repeated := 0
+			for _, d := range ds {
+				if repeatsATable(d.Column, headers) {
+					repeated++
+					continue
+				}
+				add(DiffNumber, true, "%s %s: %s in A, %s in B", member, d.Column, d.A, d.B)
+			}
+			if repeated > 0 {
+				add(DiffNumber, true, "%s: %s", member, repeatedDifferences(repeated))
+			}
 		default:
 			for _, d := range ds {
 				add(DiffNumber, true, "%s %s: %s in A, %s in B", member, d.Column, d.A, d.B)
@@ -152,6 +165,78 @@ func Diff(a, b *Bag) []DiffItem {
 		add(DiffRendered, false, "rendered files that differ: %s", list)
 	}
 	return items
+}
+
+func repeatedDifferences(n int) string {
+	if n == 1 {
+		return "1 difference that repeats a setting, table cell or row listed above"
+	}
+	return fmt.Sprintf("%d differences that repeat settings, table cells and rows listed above", n)
+}
+
+// tableHeaders returns the columns of each result table (by file name) of
+// either version.
+func tableHeaders(pa, pb map[string][]byte) map[string]map[string]bool {
+	h := map[string]map[string]bool{}
+	for _, p := range []map[string][]byte{pa, pb} {
+		for name := range resultKeys {
+			b := p["results/"+name]
+			line, _, _ := bytes.Cut(b, []byte("\n"))
+			if h[name] == nil {
+				h[name] = map[string]bool{}
+			}
+			for _, c := range strings.Split(strings.TrimSpace(string(line)), ",") {
+				h[name][c] = true
+			}
+		}
+	}
+	return h
+}
+
+// jsonIndex matches an array index or identity in a results.json path.
+var jsonIndex = regexp.MustCompile(`\[[^\]]*\]`)
+
+// repeatsATable reports whether a value of results.json at path is also a
+// setting (listed from run.json's project), a cell of a result table, or a
+// whole row of one (an analysis, fit, parameter, derived quantity or
+// statistic added or removed), so that its difference is already listed.
+// Values of the record's own (a derived quantity's standard error, the
+// dataset summaries) are not, and diff lists them one by one.
+func repeatsATable(path string, headers map[string]map[string]bool) bool {
+	shape := jsonIndex.ReplaceAllString(path, "[]")
+	if strings.HasPrefix(shape, "settings.") {
+		return true // the settings are listed from run.json's project
+	}
+	table, leaf := "", ""
+	for _, t := range []struct{ prefix, table string }{
+		{"analyses[].fits[].parameters[]", "parameters.csv"},
+		{"analyses[].fits[]", "fits.csv"},
+		{"analyses[].derived[]", "derived.csv"},
+		{"analyses[].gof[]", "gof.csv"},
+		{"analyses[]", "fits.csv"},
+	} {
+		if shape == t.prefix {
+			return true // a whole row (or analysis) of one version only
+		}
+		if rest, ok := strings.CutPrefix(shape, t.prefix+"."); ok {
+			if t.table == "fits.csv" {
+				rest = strings.TrimPrefix(rest, "optimizer.") // method, iterations, … are fits.csv columns
+			}
+			if !strings.ContainsAny(rest, ".[") {
+				table, leaf = t.table, rest
+			}
+			break
+		}
+	}
+	switch {
+	case table == "":
+		return false
+	case leaf == "name" && table == "parameters.csv":
+		leaf = "parameter"
+	case leaf == "name" && table == "fits.csv":
+		leaf = "analysis"
+	}
+	return headers[table][leaf]
 }
 
 // maxShownLines is the most lines of a changed input that diff quotes

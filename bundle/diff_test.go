@@ -49,3 +49,43 @@ func TestChangedLines(t *testing.T) {
 		})
 	}
 }
+
+// TestRepeatsATable: where the result tables differ, diff counts the
+// differences of results.json that repeat a setting, a table cell or a row,
+// and lists the rest, the record's own values, which no table shows.
+func TestRepeatsATable(t *testing.T) {
+	headers := map[string]map[string]bool{
+		"fits.csv":       {"analysis": true, "dataset": true, "n": true, "loglik": true, "iterations": true},
+		"parameters.csv": {"analysis": true, "family": true, "parameter": true, "estimate": true},
+		"derived.csv":    {"analysis": true, "family": true, "estimate": true, "ci_lower": true},
+		"gof.csv":        {"analysis": true, "family": true, "statistic": true, "value": true},
+	}
+	cases := []struct {
+		path string
+		want bool
+	}{
+		{"analyses[0].fits[1].loglik", true},
+		{"analyses[name=a.b/MW-1].fits[family=gev].loglik", true},
+		{"analyses[0].fits[1].optimizer.iterations", true},
+		{"analyses[0].fits[1].parameters[0].estimate", true},
+		{"analyses[0].fits[1].parameters[0].name", true},
+		{"analyses[0].derived[2].ci_lower", true},
+		{"analyses[0].gof[family=gev, statistic=ks].value", true},
+		{"analyses[name=depth]", true},
+		{"analyses[0].fits[family=weibull]", true},
+		{"analyses[0].derived[family=weibull, quantity=quantile, argument=0.5]", true},
+		{"analyses[0].n", true},
+		{"analyses[0].name", true},
+		{"analyses[0].derived[2].std_error", false},
+		{"analyses[0].fits[1].optimizer.reason", false},
+		{"analyses[0].fits[1].parameters[0].ci_lower_open", false},
+		{"settings.confidence", true},
+		{"datasets[name=depth]", false},
+		{"datasets[0].missing", false},
+	}
+	for _, c := range cases {
+		if got := repeatsATable(c.path, headers); got != c.want {
+			t.Errorf("%s: %v, want %v", c.path, got, c.want)
+		}
+	}
+}

@@ -5,6 +5,7 @@ import (
 	"context"
 	"crypto/sha256"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -299,5 +300,27 @@ func TestDiff(t *testing.T) {
 	joined := strings.Join(texts, "\n")
 	if !strings.Contains(joined, "data/results/fits.csv row 1 (analysis=bearings, family=weibull), column n: A 23, B 24") {
 		t.Errorf("edited n not listed:\n%s", joined)
+	}
+
+	// A value of results.json that no table holds (a derived quantity's
+	// standard error) is listed even when the tables differ too.
+	var rec map[string]any
+	if err := json.Unmarshal(b.Files["data/results/results.json"], &rec); err != nil {
+		t.Fatal(err)
+	}
+	d0 := rec["analyses"].([]any)[0].(map[string]any)["derived"].([]any)[0].(map[string]any)
+	old := d0["std_error"]
+	d0["std_error"] = 12.5
+	b.Files["data/results/results.json"], _ = json.Marshal(rec)
+	texts = texts[:0]
+	for _, it := range Diff(a, b) {
+		if it.Substantive {
+			texts = append(texts, it.Text)
+		}
+	}
+	joined = strings.Join(texts, "\n")
+	want := fmt.Sprintf("data/results/results.json analyses[0].derived[0].std_error: %v in A, 12.5 in B", old)
+	if !strings.Contains(joined, want) {
+		t.Errorf("a standard error only results.json holds is not listed (want %q):\n%s", want, joined)
 	}
 }
