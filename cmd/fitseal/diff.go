@@ -23,7 +23,7 @@ func cmdDiff(ctx context.Context, args []string, stdout, stderr io.Writer) error
 		return err
 	}
 	if len(pos) != 2 {
-		return usageError{fmt.Errorf("diff takes two bundles, got %d arguments", len(pos))}
+		return fs.argCountError("two bundles", len(pos))
 	}
 	var bags [2]*bundle.Bag
 	for i, p := range pos {

@@ -32,7 +32,7 @@ func cmdExtract(ctx context.Context, args []string, stdout, stderr io.Writer) er
 		return err
 	}
 	if len(pos) != 2 {
-		return usageError{fmt.Errorf("extract takes BUNDLE and DIR, got %d arguments", len(pos))}
+		return fs.argCountError("BUNDLE and DIR", len(pos))
 	}
 	o.Bundle, o.Dir = pos[0], pos[1]
 	return runExtract(ctx, o, stdout, stderr)

@@ -58,7 +58,7 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	}
 	_ = *quiet
 	if len(pos) != 1 {
-		return usageError{fmt.Errorf("fit takes one CSV file, got %d arguments", len(pos))}
+		return fs.argCountError("one CSV file", len(pos))
 	}
 	o.File = pos[0]
 	o.Spec.File = o.File

@@ -27,7 +27,7 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	if fs.NArg() > 1 {
-		return usageError{fmt.Errorf("init takes at most one folder, got %d arguments", fs.NArg())}
+		return fs.argCountError("at most one folder", fs.NArg())
 	}
 	dir := "."
 	if fs.NArg() == 1 {

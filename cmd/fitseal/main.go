@@ -173,6 +173,16 @@ func parseFlags(fs *flagSet, args []string) error {
 	return usageError{fmt.Errorf("%s: %s\nfitseal: hint: usage: %s; 'fitseal %s -h' describes the flags", fs.Name(), msg, fs.synopsis, fs.Name())}
 }
 
+// argCountError is the usage error (exit 2) for got arguments where the
+// command takes what takes says ("one bundle"), with the synopsis as a hint.
+func (fs *flagSet) argCountError(takes string, got int) error {
+	n := fmt.Sprintf("%d arguments", got)
+	if got == 1 {
+		n = "1 argument"
+	}
+	return usageError{fmt.Errorf("%s takes %s, got %s\nfitseal: hint: usage: %s; 'fitseal %s -h' describes the flags", fs.Name(), takes, n, fs.synopsis, fs.Name())}
+}
+
 // suggestions are the command's flags as candidates for nearest, other
 // spellings of a flag left out.
 func (fs *flagSet) suggestions() []suggestion {

@@ -57,7 +57,7 @@ func cmdRun(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	case 1:
 		o.Project = pos[0]
 	default:
-		return usageError{fmt.Errorf("run takes one project file, got %d arguments", len(pos))}
+		return fs.argCountError("one project file", len(pos))
 	}
 	if o.Workers < 0 {
 		return usageError{fmt.Errorf("-j %d: the number of workers must be at least 1", o.Workers)}

@@ -24,7 +24,7 @@ func cmdShow(ctx context.Context, args []string, stdout, stderr io.Writer) error
 		return err
 	}
 	if len(pos) != 1 {
-		return usageError{fmt.Errorf("show takes one bundle, got %d arguments", len(pos))}
+		return fs.argCountError("one bundle", len(pos))
 	}
 	bag, err := openBundle(pos[0])
 	if err != nil {

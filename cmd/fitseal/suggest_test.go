@@ -143,3 +143,38 @@ func TestEveryCommandTakesQuiet(t *testing.T) {
 		}
 	}
 }
+
+// TestWrongArgumentCount: a command given too many or too few arguments
+// exits 2 with one error line that counts them in good English ("1
+// argument", "3 arguments") and one hint line with the synopsis, as for an
+// unknown flag.
+func TestWrongArgumentCount(t *testing.T) {
+	cases := []struct {
+		args []string
+		got  string
+	}{
+		{[]string{"extract", "b.tar.gz"}, "got 1 argument"},
+		{[]string{"diff", "a.tar.gz"}, "got 1 argument"},
+		{[]string{"diff", "a", "b", "c"}, "got 3 arguments"},
+		{[]string{"verify"}, "got 0 arguments"},
+		{[]string{"verify", "a", "b"}, "got 2 arguments"},
+		{[]string{"show", "a", "b"}, "got 2 arguments"},
+		{[]string{"run", "a.toml", "b.toml"}, "got 2 arguments"},
+		{[]string{"fit"}, "got 0 arguments"},
+		{[]string{"init", "a", "b"}, "got 2 arguments"},
+	}
+	for _, c := range cases {
+		t.Run(strings.Join(c.args, " "), func(t *testing.T) {
+			var stdout, stderr bytes.Buffer
+			code := run(context.Background(), c.args, &stdout, &stderr)
+			lines := strings.Split(strings.TrimSuffix(stderr.String(), "\n"), "\n")
+			name := c.args[0]
+			if code != 2 || stdout.Len() != 0 || len(lines) != 2 ||
+				!strings.HasPrefix(lines[0], "fitseal: error: "+name+" takes ") ||
+				!strings.HasSuffix(lines[0], ", "+c.got) ||
+				!strings.HasPrefix(lines[1], "fitseal: hint: usage: fitseal "+name+" [flags] ") {
+				t.Errorf("exit %d, stdout %q, stderr:\n%s", code, stdout.String(), stderr.String())
+			}
+		})
+	}
+}

@@ -42,7 +42,7 @@ func cmdVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 		return err
 	}
 	if len(pos) != 1 {
-		return usageError{fmt.Errorf("verify takes one bundle, got %d arguments", len(pos))}
+		return fs.argCountError("one bundle", len(pos))
 	}
 	if o.Workers < 0 {
 		return usageError{fmt.Errorf("-j %d: the number of workers must be at least 1", o.Workers)}
