@@ -53,6 +53,6 @@ func warnIfNotIntact(stderr io.Writer, name string, bag *bundle.Bag) {
 		expected = rec.Signer.PublicKey
 	}
 	if fs := bag.Verify(bundle.VerifyOptions{ExpectedSigner: expected}); len(fs) > 0 {
-		fmt.Fprintf(stderr, "fitseal: warning: %s is not intact (%d problems, first: %s); run 'fitseal verify %s'\n", name, len(fs), fs[0], name)
+		fmt.Fprintf(stderr, "fitseal: warning: %s is not intact (%s, first: %s); run 'fitseal verify %s'\n", name, problems(len(fs)), fs[0], name)
 	}
 }

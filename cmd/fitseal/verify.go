@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"runtime"
 
@@ -147,6 +148,9 @@ func openBundle(path string) (*bundle.Bag, error) {
 	var ae *bundle.ArchiveError
 	if errors.As(err, &ae) {
 		return nil, checkFailed{fmt.Errorf("%w\nfitseal: hint: %s", err, archiveHint(ae))}
+	}
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, usageError{fmt.Errorf("%w\nfitseal: hint: give the path of a bundle: a .tar.gz archive or a bag folder", err)}
 	}
 	return nil, usageError{err}
 }
