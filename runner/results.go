@@ -165,9 +165,25 @@ func parameterRows(f *fitters.Fit, inf *inference) []ParameterRow {
 			r := &rows[i]
 			r.StdError, r.CILower, r.CIUpper = pi.StdError, pi.Lower, pi.Upper
 			r.LowerOpen, r.UpperOpen, r.CIMethod, r.Note = pi.LowerOpen, pi.UpperOpen, pi.Method, pi.Note
+			if !f.Fixed[i] {
+				r.CIMethod = intervalMethod(pi.Method, pi.Lower, pi.Upper)
+			}
 		}
 	}
 	return rows
+}
+
+// intervalMethod is a row's ci_method: the method that gave its interval,
+// or "" when it gave none (both bounds missing: a count quantile's profile,
+// a fit that did not converge, a model average with nothing to average),
+// so that no row names a method beside an empty interval; the row's note
+// says why there is none. A fixed parameter's "fixed" is kept by its
+// caller.
+func intervalMethod(method string, lower, upper float64) string {
+	if math.IsNaN(lower) && math.IsNaN(upper) {
+		return ""
+	}
+	return method
 }
 
 func gofRows(family string, inf *inference) []GOFRow {
@@ -207,7 +223,7 @@ func quantities(a *Analysis) []quantity {
 func derivedRow(family string, v infer.DerivedValue) DerivedRow {
 	return DerivedRow{Family: family, Quantity: string(v.Quantity), Argument: v.Argument, Estimate: v.Estimate,
 		StdError: v.StdError, CILower: v.Lower, CIUpper: v.Upper, LowerOpen: v.LowerOpen, UpperOpen: v.UpperOpen,
-		CIMethod: v.Method, Note: v.Note}
+		CIMethod: intervalMethod(v.Method, v.Lower, v.Upper), Note: v.Note}
 }
 
 // derived lists each quantity under every ranked fit, then the
