@@ -126,6 +126,11 @@ func runVerify(ctx context.Context, o verifyOptions, stdout, _ io.Writer) error 
 		return checkFailed{errors.New(msg)}
 	}
 	what := "archive, hashes and signature"
+	if rec, err := bundle.ParseRunRecord(bag.RunJSON()); err == nil && rec.Shard != nil {
+		// A reviewer handed one part must not take it for the whole.
+		what = fmt.Sprintf("PARTIAL BUNDLE (shard %d of %d, %d of the plan's %d analyses; 'fitseal merge' joins the shards): ",
+			rec.Shard.Index, rec.Shard.Count, len(rec.Shard.Analyses), rec.Shard.PlanAnalyses) + what
+	}
 	switch {
 	case slice != nil:
 		what += fmt.Sprintf("; every number of slice %s reproduced (the bundle is verified when every slice 0…%d passes)", slice, slice.Count-1)
