@@ -16,7 +16,7 @@ func init() {
 }
 
 func cmdShow(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	fs := newFlagSet("show", "BUNDLE", "Print the ranking, parameter and derived-quantity tables of BUNDLE (numbers to\nsix significant digits; the result files keep every digit). --json prints the\nmachine-readable record instead: results.json with run.json's essentials.\nshow checks hashes and signature and warns on stderr when they fail; use\n'fitseal verify' for the full check.", stderr)
+	fs := newFlagSet("show", "BUNDLE", "Print the ranking, parameter and derived-quantity tables of BUNDLE (numbers to\nsix significant digits; the result files keep every digit). --json prints the\nmachine-readable record instead: results.json with run.json's essentials.\nshow checks hashes and signature; when they fail it still prints, after a\nwarning on stderr (and a first line saying so, without --json), and exits 1.\nUse 'fitseal verify' for the full check.", stderr)
 	asJSON := fs.Bool("json", false, "print the machine-readable record (results.json plus run.json essentials)")
 	fs.Bool("q", false, "no progress output (show has none)")
 	pos, err := parseInterleaved(fs, args)
@@ -30,29 +30,44 @@ func cmdShow(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	if err != nil {
 		return err
 	}
-	warnIfNotIntact(stderr, pos[0], bag)
+	found := warnIfNotIntact(stderr, pos[0], bag)
+	// A bundle that fails its check is still shown (someone may need to
+	// see what it claims), but says so and exits 1: a check failed, and
+	// a script must not take its numbers for sealed ones.
+	var notIntact error
+	if found > 0 {
+		notIntact = checkFailed{fmt.Errorf("%s is not intact: the numbers shown are not the sealed ones; run 'fitseal verify %s'", pos[0], pos[0])}
+	}
 	if *asJSON {
 		js, err := bundle.ShowJSON(bag)
 		if err != nil {
 			return checkFailed{err}
 		}
-		_, err = stdout.Write(js)
-		return err
+		if _, err = stdout.Write(js); err != nil {
+			return err
+		}
+		return notIntact
+	}
+	if found > 0 {
+		fmt.Fprintf(stdout, "NOT INTACT: %s fails its hash or signature check (%s): what follows is not what was sealed\n", pos[0], problems(found))
 	}
 	if err := bundle.WriteShow(stdout, bag); err != nil {
 		return checkFailed{err}
 	}
-	return nil
+	return notIntact
 }
 
 // warnIfNotIntact says on stderr when a bag fails its integrity or signature
-// check, so nobody reads tampered numbers unawares.
-func warnIfNotIntact(stderr io.Writer, name string, bag *bundle.Bag) {
+// check, so nobody reads tampered numbers unawares, and returns how many
+// problems it found.
+func warnIfNotIntact(stderr io.Writer, name string, bag *bundle.Bag) int {
 	expected := ""
 	if rec, err := bundle.ParseRunRecord(bag.RunJSON()); err == nil {
 		expected = rec.Signer.PublicKey
 	}
-	if fs := bag.Verify(bundle.VerifyOptions{ExpectedSigner: expected}); len(fs) > 0 {
+	fs := bag.Verify(bundle.VerifyOptions{ExpectedSigner: expected})
+	if len(fs) > 0 {
 		fmt.Fprintf(stderr, "fitseal: warning: %s is not intact (%s, first: %s); run 'fitseal verify %s'\n", name, problems(len(fs)), fs[0], name)
 	}
+	return len(fs)
 }
