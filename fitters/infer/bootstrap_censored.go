@@ -31,6 +31,9 @@ type censoringPlan struct {
 	// atInfinity is the mass beyond the last jump.
 	times, cumulative []float64
 	atInfinity        float64
+	// after[j] is the first jump after exact value j (times[k] > exact[j]),
+	// found once for all replicates.
+	after []int
 }
 
 func newCensoringPlan(d *fitters.Data, o *oneSided) *censoringPlan {
@@ -46,15 +49,30 @@ func newCensoringPlan(d *fitters.Data, o *oneSided) *censoringPlan {
 		p.cumulative = append(p.cumulative, s.F)
 	}
 	p.atInfinity = g.Survival
+	p.after = make([]int, len(p.exact))
+	for j, y := range p.exact {
+		p.after[j] = p.firstAfter(y)
+	}
 	return p
 }
 
-// censoringTime draws a censoring time from Ĝ conditional on C > y: +∞
-// where Ĝ has no mass beyond y. A uniform is drawn from rng only when more
-// than one value is possible, so that with a common censoring time
-// (Type I) a replicate is the model's draws censored at that time.
-func (p *censoringPlan) censoringTime(y float64, rng *rand.Rand) float64 {
-	k0 := sort.Search(len(p.times), func(k int) bool { return p.times[k] > y })
+// firstAfter is the index of Ĝ's first jump after y (len(times) if none).
+func (p *censoringPlan) firstAfter(y float64) int {
+	return sort.Search(len(p.times), func(k int) bool { return p.times[k] > y })
+}
+
+// censoringTime draws a censoring time from Ĝ conditional on C > y, y the
+// exact value j: +∞ where Ĝ has no mass beyond y. A uniform is drawn from
+// rng only when more than one value is possible, so that with a common
+// censoring time (Type I) a replicate is the model's draws censored at
+// that time.
+func (p *censoringPlan) censoringTime(j int, rng *rand.Rand) float64 {
+	return p.drawAfter(p.after[j], rng)
+}
+
+// drawAfter draws a censoring time from Ĝ conditional on C ≥ times[k0],
+// the jumps from k0 on (and +∞ with the mass beyond the last).
+func (p *censoringPlan) drawAfter(k0 int, rng *rand.Rand) float64 {
 	below := 0.0
 	if k0 > 0 {
 		below = p.cumulative[k0-1]
@@ -96,7 +114,7 @@ func (p *censoringPlan) simulate(x []float64, rng *rand.Rand) *fitters.Data {
 		}
 		var c float64
 		if j < ne {
-			c = p.censoringTime(p.exact[j], rng)
+			c = p.censoringTime(j, rng)
 		} else {
 			c = p.censored[j-ne]
 		}
@@ -165,6 +183,7 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 		seeds := stream.seeder()
 		draws := make([]float64, n)
 		var rec fitters.FitRecord
+		var sorter fitters.FloatSorter
 		for {
 			r := int(next.Add(1) - 1)
 			if r >= B {
@@ -215,7 +234,7 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 				continue
 			}
 			srow := stats[r*len(names) : (r+1)*len(names)]
-			srow[0], srow[1] = kaplanMeierStatistics(rd, newOneSided(sim, plan.left))
+			srow[0], srow[1] = kaplanMeierStatistics(rd, newOneSidedSorted(sim, plan.left, &sorter))
 			rep.Statistics[r] = srow
 		}
 	}

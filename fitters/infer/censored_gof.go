@@ -67,14 +67,21 @@ func oneSidedView(d *fitters.Data) (*oneSided, *fitters.Data, string) {
 // newOneSided returns d (exact values and only left- or only right-censored
 // ones, as left says) in the right-censored frame.
 func newOneSided(d *fitters.Data, left bool) *oneSided {
+	var s fitters.FloatSorter
+	return newOneSidedSorted(d, left, &s)
+}
+
+// newOneSidedSorted is newOneSided sorting with s (a bootstrap worker's,
+// kept between replicates; fitters.FloatSorter gives slices.Sort's order).
+func newOneSidedSorted(d *fitters.Data, left bool, s *fitters.FloatSorter) *oneSided {
 	o := &oneSided{Left: left}
 	if left {
 		o.Events, o.Suspensions = reflected(d.Exact), reflected(d.Left)
 	} else {
 		o.Events, o.Suspensions = slices.Clone(d.Exact), slices.Clone(d.Right)
 	}
-	slices.Sort(o.Events)
-	slices.Sort(o.Suspensions)
+	s.Sort(o.Events)
+	s.Sort(o.Suspensions)
 	return o
 }
 
@@ -150,13 +157,36 @@ func newProductLimit(events, censored []float64) productLimit {
 	return pl
 }
 
-// fittedCDF is the fitted model's CDF in the right-censored frame:
-// F(t) itself, or F′(t) = S(−t) for reflected (left-censored) data.
-func fittedCDF(d fitters.Dist, left bool, t float64) float64 {
+// fittedCDFs returns the fitted model's CDF in the right-censored frame at
+// the ascending times t: F(t) itself, or F′(t) = S(−t) for reflected
+// (left-censored) data. The values come from fitters.CDFTailsBatch in
+// blocks (its vector kernels for the common families, one interface call
+// per block instead of one per point), at x = t ascending, or at x = −t
+// (descending t reversed) for F′ = 1 − F(x), F continuous.
+func fittedCDFs(d fitters.Dist, left bool, t []float64) []float64 {
+	n := len(t)
+	x := make([]float64, n)
 	if left {
-		return math.Exp(d.LogSurvival(-t))
+		for i, v := range t {
+			x[n-1-i] = -v
+		}
+	} else {
+		copy(x, t)
 	}
-	return math.Exp(d.LogCDF(t))
+	var lc, ls [fitters.CDFTailsBlock]float64
+	cdf := make([]float64, n)
+	for lo := 0; lo < n; lo += fitters.CDFTailsBlock {
+		hi := min(lo+fitters.CDFTailsBlock, n)
+		fitters.CDFTailsBatch(d, x[lo:hi], cdf[lo:hi], lc[:], ls[:])
+	}
+	if !left {
+		return cdf
+	}
+	out := x // reused: F′(tᵢ) = 1 − F(−tᵢ), in t's order
+	for i := range out {
+		out[i] = 1 - cdf[n-1-i]
+	}
+	return out
 }
 
 // kaplanMeierStatistics returns the Kolmogorov–Smirnov and Cramér–von
@@ -174,14 +204,20 @@ func fittedCDF(d fitters.Dist, left bool, t float64) float64 {
 // (TestKaplanMeierStatisticsOnCompleteData). A NaN statistic is +Inf.
 func kaplanMeierStatistics(d fitters.Dist, o *oneSided) (ks, cvm float64) {
 	pl := newProductLimit(o.Events, o.Suspensions)
+	times := make([]float64, len(pl.Steps)+1)
+	for i, s := range pl.Steps {
+		times[i] = s.T
+	}
+	times[len(pl.Steps)] = pl.Max
+	fitted := fittedCDFs(d, o.Left, times)
 	before, fStart, sum := 0.0, 0.0, 0.0
-	for _, s := range pl.Steps {
-		f := fittedCDF(d, o.Left, s.T)
+	for i, s := range pl.Steps {
+		f := fitted[i]
 		ks = max(ks, math.Abs(before-f), math.Abs(s.F-f))
 		sum += float64(cube(f-before) - cube(fStart-before))
 		before, fStart = s.F, f
 	}
-	fMax := fittedCDF(d, o.Left, pl.Max)
+	fMax := fitted[len(pl.Steps)]
 	ks = max(ks, math.Abs(before-fMax))
 	if pl.ReachesOne {
 		fMax = 1

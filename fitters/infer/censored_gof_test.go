@@ -365,7 +365,7 @@ func TestCensoringPlanDraws(t *testing.T) {
 	counts := map[float64]int{}
 	const draws = 30000
 	for range draws {
-		counts[p.censoringTime(1, rng)]++
+		counts[p.censoringTime(0, rng)]++ // exact value 1
 	}
 	for v, want := range map[float64]float64{2: 1.0 / 3, 3: 1.0 / 3, math.Inf(1): 1.0 / 3} {
 		if got := float64(counts[v]) / draws; math.Abs(got-want) > 0.015 { // 5.5 standard errors
@@ -375,12 +375,12 @@ func TestCensoringPlanDraws(t *testing.T) {
 	// Beyond 2.5 only 3 and +∞ remain, each with mass 1/3: half each.
 	counts = map[float64]int{}
 	for range draws {
-		counts[p.censoringTime(2.5, rng)]++
+		counts[p.drawAfter(p.firstAfter(2.5), rng)]++
 	}
 	if got := float64(counts[3]) / draws; math.Abs(got-0.5) > 0.016 || counts[2] != 0 {
 		t.Errorf("beyond 2.5: %v", counts)
 	}
-	if c := p.censoringTime(4, rng); !math.IsInf(c, 1) {
+	if c := p.censoringTime(1, rng); !math.IsInf(c, 1) { // exact value 4
 		t.Errorf("beyond the last suspension: %v, want +Inf", c)
 	}
 }
