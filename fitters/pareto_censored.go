@@ -171,8 +171,12 @@ func paretoNatural(s *paretoCensoredSample, alpha, h float64) (p newton2Point) {
 		p.g1 = -s.n
 		p.h00 = -s.n / (alpha * alpha)
 	}
+	// E = α·l + h is rounded as written (float64(α·l) + h, never fused
+	// into one multiply-add, which arm64 would do): on a corner's ray,
+	// h = α·angle with l = −angle, E must be exactly 0 so that the corner's
+	// side is the same on every processor.
 	lnF := func(c, l float64) {
-		e := alpha*l + h
+		e := float64(alpha*l) + h
 		if !(e > 0) {
 			p.ll = math.Inf(-1)
 			return
@@ -191,7 +195,7 @@ func paretoNatural(s *paretoCensoredSample, alpha, h float64) (p newton2Point) {
 		lnF(s.left.n[i], l)
 	}
 	for i, l := range s.lnRght {
-		if e := alpha*l + h; e >= 0 {
+		if e := float64(alpha*l) + h; e >= 0 {
 			c := s.right.n[i]
 			p.ll -= c * e
 			p.g0 -= c * l
@@ -200,13 +204,13 @@ func paretoNatural(s *paretoCensoredSample, alpha, h float64) (p newton2Point) {
 	}
 	for i, l := range s.lower {
 		c, w := s.inCount[i], s.width[i]
-		if alpha*l+h < 0 {
+		if float64(alpha*l)+h < 0 {
 			lnF(c, l+w)
 			continue
 		}
 		dw := alpha * w
 		q := 1 / math.Expm1(dw)
-		p.ll += c * (log1mExp(-dw) - (alpha*l + h))
+		p.ll += c * (log1mExp(-dw) - (float64(alpha*l) + h))
 		p.g0 += c * (q*w - l)
 		p.g1 -= c
 		p.h00 -= c * q * (1 + q) * w * w
