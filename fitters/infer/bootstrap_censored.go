@@ -20,8 +20,9 @@ import (
 // place: first the exact values in the data's order, then the censored
 // ones. Ĝ is the product-limit estimate of the censoring distribution
 // (suspensions as events, failures as censored; a failure at the time of
-// a suspension is at risk of censoring there); its mass left beyond the
-// largest observation lies at +∞ (never censored).
+// a suspension came first and was not at risk of censoring there:
+// newCensoringEstimate); its mass left beyond the largest observation lies
+// at +∞ (never censored).
 type censoringPlan struct {
 	left bool
 	// exact are the exact values (reflected when left), in the data's
@@ -43,7 +44,7 @@ func newCensoringPlan(d *fitters.Data, o *oneSided) *censoringPlan {
 	} else {
 		p.exact, p.censored = slices.Clone(d.Exact), slices.Clone(d.Right)
 	}
-	g := newProductLimit(o.Suspensions, o.Events)
+	g := newCensoringEstimate(o.Suspensions, o.Events)
 	for _, s := range g.Steps {
 		p.times = append(p.times, s.T)
 		p.cumulative = append(p.cumulative, s.F)

@@ -120,6 +120,25 @@ type step struct{ T, F float64 }
 // the Greenwood variance, the re-sorting and the checks that the report's
 // curves need, since the replicate loop calls it for every replicate.
 func newProductLimit(events, censored []float64) productLimit {
+	return productLimitTies(events, censored, false)
+}
+
+// newCensoringEstimate is the product-limit estimate Ĝ of the censoring
+// distribution from the suspensions (its events) and the failures (its
+// censored times), with the ties read in the same order as in the
+// estimate of F: at a time with both, the failures came first, so a unit
+// that failed there was no longer at risk of censoring there. With Type I
+// censoring at τ and a failure tied at τ, Ĝ then reaches 1 at τ and no
+// replicate is observed beyond τ, as none of the data could be.
+func newCensoringEstimate(suspensions, failures []float64) productLimit {
+	return productLimitTies(suspensions, failures, true)
+}
+
+// productLimitTies is newProductLimit with the ties between events and
+// censored times at one time read either way: censored units at risk of
+// the events there (censoredLeftFirst false, the usual order), or gone
+// before them (true).
+func productLimitTies(events, censored []float64, censoredLeftFirst bool) productLimit {
 	n := len(events) + len(censored)
 	pl := productLimit{Survival: 1, Steps: make([]step, 0, len(events))}
 	if n == 0 {
@@ -136,7 +155,7 @@ func newProductLimit(events, censored []float64) productLimit {
 	atRisk, j := n, 0
 	for i := 0; i < len(events); {
 		t := events[i]
-		for j < len(censored) && censored[j] < t {
+		for j < len(censored) && (censored[j] < t || censoredLeftFirst && censored[j] == t) {
 			j++
 			atRisk--
 		}

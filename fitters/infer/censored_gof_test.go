@@ -511,3 +511,35 @@ func TestCensoredBootstrapIntervals(t *testing.T) {
 		}
 	}
 }
+
+// TestCensoringEstimateTieAtTypeI: Type I censoring at τ = 100 with a
+// failure tied at τ (invented: failures at 10 … 88 and 100, six units still
+// running at 100). The failure at 100 came first, so it was not at risk of
+// censoring there: Ĝ reaches 1 at 100, no mass lies beyond, and every
+// exact observation's censoring time is 100, as the test design gives.
+// Reading the tie the other way left 1/7 of Ĝ at +∞, and replicates
+// observed past 100.
+func TestCensoringEstimateTieAtTypeI(t *testing.T) {
+	d := &fitters.Data{Exact: []float64{10, 23, 40, 55, 61, 70, 88, 100}, Right: []float64{100, 100, 100, 100, 100, 100}}
+	p := newCensoringPlan(d, newOneSided(d, false))
+	if p.atInfinity != 0 || len(p.times) != 1 || p.times[0] != 100 {
+		t.Fatalf("censoring estimate: jumps %v, cumulative %v, at +∞ %v; want all its mass at 100", p.times, p.cumulative, p.atInfinity)
+	}
+	rng := rand.New(rand.NewPCG(5, 6))
+	for j, y := range d.Exact[:7] {
+		if c := p.censoringTime(j, rng); c != 100 {
+			t.Errorf("exact value %v: censoring time %v, want 100", y, c)
+		}
+	}
+	// The failure at 100 itself: no censoring time lies beyond it.
+	if c := p.censoringTime(7, rng); !math.IsInf(c, 1) {
+		t.Errorf("exact value 100: censoring time %v, want +Inf (none beyond)", c)
+	}
+	// The estimate of F reads the tie as before: the suspended units were
+	// at risk of the failure at 100 (1 of 7).
+	pl := newProductLimit([]float64{10, 23, 40, 55, 61, 70, 88, 100}, []float64{100, 100, 100, 100, 100, 100})
+	last := pl.Steps[len(pl.Steps)-1]
+	if want := 1 - (1-1.0/14)*(1-1.0/13)*(1-1.0/12)*(1-1.0/11)*(1-1.0/10)*(1-1.0/9)*(1-1.0/8)*(1-1.0/7); math.Abs(last.F-want) > 1e-15 {
+		t.Errorf("F at 100: %v, want %v", last.F, want)
+	}
+}
