@@ -85,15 +85,18 @@ func TestRunVerifyInitDemo(t *testing.T) {
 	// The tables fit 110 columns (the widest row is about 102): long and
 	// repeated methods and notes are footnotes under their table, each
 	// once, and none is lost. The model average's method is one footnote
-	// per analysis, where it was a cell of each model-averaged row; the
-	// defect counts' averaged rows are quantiles with nothing to average
-	// (a count quantile has no standard error) and the exceedance's
-	// logit interval, so no row there names the normal interval.
+	// per analysis, where it was a cell of each model-averaged row: on the
+	// log scale for the quantiles of positive families (the seals' lives,
+	// the four wells' nitrate), a normal interval for the rainfall maxima
+	// (gumbel and gev reach below 0); the defect counts' averaged quantiles
+	// have nothing to average (a count quantile has no standard error).
 	checkShowLayout(t, show, 110)
 	checkEveryNote(t, out, show)
-	footnoted := regexp.MustCompile(`(?m)^\[\d+\] model average: Akaike weights, unconditional se \(Burnham & Anderson 2002 eq\. 4\.9\), normal interval$`)
-	if n := len(footnoted.FindAllString(show, -1)); n != 6 {
-		t.Errorf("the model average's normal-interval method is %d footnotes, want one for each of the 6 analyses with such an interval:\n%s", n, show)
+	for scale, want := range map[string]int{"interval on the log scale": 5, "normal interval": 1} {
+		footnoted := regexp.MustCompile(`(?m)^\[\d+\] model average: Akaike weights, unconditional se \(Burnham & Anderson 2002 eq\. 4\.9\), ` + scale + `$`)
+		if n := len(footnoted.FindAllString(show, -1)); n != want {
+			t.Errorf("the model average's %q is %d footnotes, want %d (one per analysis with such an interval):\n%s", scale, n, want, show)
+		}
 	}
 	// Goodness of fit: the bootstrap table for complete data (the rainfall
 	// maxima) and for data censored in one direction (the seals'

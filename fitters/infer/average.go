@@ -98,6 +98,12 @@ func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (De
 	z := distuv.UnitNormal.Quantile(0.5 + level/2)
 	out.Estimate, out.StdError = mean, se
 	out.Lower, out.Upper = mean-z*se, mean+z*se
+	if q != Exceedance {
+		if lo, hi, ok := logAverageInterval(used, total, z); ok {
+			out.Lower, out.Upper = lo, hi
+			out.Method = "model average: Akaike weights, unconditional se (Burnham & Anderson 2002 eq. 4.9), interval on the log scale"
+		}
+	}
 	if q == Exceedance {
 		if lo, hi, ok := logitAverageInterval(used, total, z); ok {
 			out.Lower, out.Upper = lo, hi
@@ -151,6 +157,34 @@ func logitAverageInterval(used []Candidate, total, z float64) (lo, hi float64, o
 		return 0, 0, false
 	}
 	return expit(lbar - z*se), expit(lbar + z*se), true
+}
+
+// logAverageInterval is the model-averaged interval of a positive
+// quantity (a quantile or return level of families with no mass at or
+// below 0, Candidate.Row.Positive for each) worked on the log scale, as
+// each family's own delta-method interval is, so that it cannot reach
+// below 0: each θᵢ becomes λᵢ = ln θᵢ with standard error seᵢ/θᵢ;
+// λ̄ = Σ wᵢλᵢ with the unconditional standard error of eq. 4.9 on that
+// scale; the interval is exp(λ̄ ± z·se(λ̄)). It needs every candidate's
+// row to say its quantity is positive.
+func logAverageInterval(used []Candidate, total, z float64) (lo, hi float64, ok bool) {
+	var lbar float64
+	for _, c := range used {
+		if c.Row == nil || !c.Row.Positive || !(c.Estimate > 0) {
+			return 0, 0, false
+		}
+		lbar += c.Weight / total * math.Log(c.Estimate)
+	}
+	var se float64
+	for _, c := range used {
+		sl := c.StdError / c.Estimate
+		dl := math.Log(c.Estimate) - lbar
+		se += c.Weight / total * math.Sqrt(sl*sl+dl*dl)
+	}
+	if math.IsNaN(se) || math.IsInf(se, 0) {
+		return 0, 0, false
+	}
+	return math.Exp(lbar - z*se), math.Exp(lbar + z*se), true
 }
 
 func logit(p float64) float64 { return math.Log(p) - math.Log1p(-p) }

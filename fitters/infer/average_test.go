@@ -108,6 +108,47 @@ func TestModelAverageExceedanceLogit(t *testing.T) {
 	}
 }
 
+// TestModelAverageQuantileLog works the log-scale interval of a
+// model-averaged positive quantile by hand (weights 0.6, 0.4; 1000 ± 700
+// and 300 ± 250, both families positive): the normal interval on the
+// natural scale would start at −549.79, a negative life; on the log scale
+// λ̄ = Σ wᵢ ln θᵢ, se(λ̄) by eq. 4.9 with seᵢ/θᵢ, and the interval
+// exp(λ̄ ± 1.96·se) = (95.80933422534586, 3983.723444566493) (Python's
+// math and statistics.NormalDist); the estimate stays Σ wᵢθᵢ = 720. A
+// family that reaches below 0 (Positive false) keeps the normal interval.
+func TestModelAverageQuantileLog(t *testing.T) {
+	row := func(positive bool) *DerivedValue { return &DerivedValue{Positive: positive} }
+	cands := []Candidate{
+		{Family: "weibull", Weight: 0.6, Estimate: 1000, StdError: 700, Row: row(true)},
+		{Family: "lognormal", Weight: 0.4, Estimate: 300, StdError: 250, Row: row(true)},
+	}
+	got, err := ModelAverage(Quantile, 0.5, cands, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"estimate", got.Estimate, 720},
+		{"std error", got.StdError, 647.8634343568973},
+		{"lower", got.Lower, 95.80933422534586},
+		{"upper", got.Upper, 3983.723444566493},
+	} {
+		if math.Abs(c.got-c.want) > 1e-12*math.Abs(c.want) {
+			t.Errorf("%s = %v, want %v", c.name, c.got, c.want)
+		}
+	}
+	if !strings.Contains(got.Method, "interval on the log scale") {
+		t.Errorf("method %q does not say the interval is on the log scale", got.Method)
+	}
+	cands[1].Family, cands[1].Row = "normal", row(false)
+	got, err = ModelAverage(Quantile, 0.5, cands, 0.95)
+	if err != nil || !strings.Contains(got.Method, "normal interval") || math.Abs(got.Lower-(-549.7889982399479)) > 1e-9 {
+		t.Errorf("with a family reaching below 0: %+v, %v; want the normal interval from −549.79", got, err)
+	}
+}
+
 // TestModelAverageNotes: a candidate without a standard error is left out
 // and the note says what share of the weight the average rests on; when
 // none has one (quantiles of count families) the note says that instead of

@@ -36,6 +36,11 @@ type DerivedValue struct {
 	// AboveFit is true when the profile found a log-likelihood above the
 	// fit's: the fit is a local maximum, not the maximum.
 	AboveFit bool
+	// Positive is true when the quantity is positive by the family's
+	// support (a positive quantile of a family with no mass at or below
+	// 0: the delta method's log scale), so that a model average may take
+	// its interval on the log scale too.
+	Positive bool
 }
 
 // probability is the lower-tail probability of the quantile that q at
@@ -357,6 +362,7 @@ func derived(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, q Quantity, 
 	}
 	discreteQuantile := fam.Kind() == fitters.Discrete && q != Exceedance
 	sc := quantityScale(fam, fit, q, out.Estimate)
+	out.Positive = q != Exceedance && sc == Log
 	free := freeIndices(fit)
 
 	// The delta method's gradient and standard error, used by Wald, for the
