@@ -240,3 +240,28 @@ func CornerAt(f Family, params []float64, d *Data) string {
 	}
 	return ""
 }
+
+// edger is implemented by a family whose maximum can sit on an edge the
+// data set (pareto's scale at the smallest observation that bounds it, or
+// at a corner below it).
+type edger interface {
+	DataEdge(params []float64, d *Data) (param int, why string)
+}
+
+// DataEdge returns the parameter of f whose estimate params sits on an
+// edge the data set, and why, or −1 and "". There the estimate is a data
+// value (pareto's scale at the sample minimum), so a bootstrap
+// replicate's estimate can only fall on one side of it (a replicate's
+// minimum is never below the sample's, in the limit) and bootstrap
+// intervals of it are not valid (Bickel & Freedman, 1981, on the
+// bootstrap of extremes); a profile likelihood, which the data bound on
+// that side, still is.
+func DataEdge(f Family, params []float64, d *Data) (int, string) {
+	if c, ok := f.(checkedFamily); ok {
+		f = c.Family
+	}
+	if e, ok := f.(edger); ok {
+		return e.DataEdge(params, d)
+	}
+	return -1, ""
+}

@@ -150,6 +150,22 @@ func (paretoFamily) CornerAt(p []float64, d *Data) string {
 	return fmt.Sprintf("the log-likelihood has a corner at the estimate: the scale at %v, %s, where its slope in the scale jumps, so that its curvature there is infinite", c.value, c.what())
 }
 
+// DataEdge reports that the scale sits on an edge the data set: at the
+// smallest observation that bounds it (the complete-data and closed-form
+// estimate, x_m = the sample minimum), or at a corner below it (CornerAt).
+func (f paretoFamily) DataEdge(p []float64, d *Data) (int, string) {
+	if len(p) != 2 {
+		return -1, ""
+	}
+	if why := f.CornerAt(p, d); why != "" {
+		return 0, why
+	}
+	if p[0] >= paretoBound(d) {
+		return 0, "the scale sits at the smallest observation, where the likelihood, rising in the scale, stops"
+	}
+	return -1, ""
+}
+
 // paretoMLE is the closed form for exact values x and right-censored
 // values r (Johnson, Kotz & Balakrishnan, 1994, §20.3; Epstein & Sobel,
 // 1953, for the censoring): the likelihood increases in x_m up to the

@@ -194,24 +194,8 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 			}
 		}
 	case MethodProfile:
-		cut := chiSquareCut(level)
 		for _, i := range freeIndices(fit) {
-			r := &rows[i]
-			r.Method = "profile likelihood"
-			sc := scales[i]
-			that := sc.To(fit.Estimates[i])
-			step := 0.1 * math.Max(1, math.Abs(that))
-			if se := r.StdError / math.Abs(sc.Deriv(fit.Estimates[i])); se > 0 && !math.IsInf(se, 0) {
-				step = se
-			}
-			p := parameterProfiler(fam, fit, s.logLik(fam, d), scales, i)
-			guardIrregular(p, fam, fit, d)
-			lo, hi := profileLimits(fam, i, sc)
-			lb, ub := p.interval(that, fit.LogLik, step, cut, spanOf(sc), sc.From, lo, hi)
-			r.Lower, r.LowerOpen = lb.Value, lb.Open
-			r.Upper, r.UpperOpen = ub.Value, ub.Open
-			r.Note = fitters.JoinNote(lowerNote(lb.Note), upperNote(ub.Note))
-			r.AboveFit = lb.AboveFit || ub.AboveFit
+			profileRow(&rows[i], fam, fit, d, s, scales, i, level)
 		}
 	case MethodBootstrap:
 		rep, err := s.replicates(fam, fit, d)
@@ -222,8 +206,17 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 			}
 			return rows, nil
 		}
+		edge, edgeWhy := fitters.DataEdge(fam, fit.Estimates, d)
 		for a, i := range freeIndices(fit) {
 			r := &rows[i]
+			if i == edge {
+				// The replicates' estimates fall on one side of an
+				// estimate that is a data value: no bootstrap interval
+				// is valid there, the profile likelihood is.
+				profileRow(r, fam, fit, d, s, scales, i, level)
+				r.Note = fitters.JoinNote(edgeWhy+": a bootstrap interval is not valid at an estimate on an edge the data set (the replicates' estimates lie on one side of it), so the profile-likelihood interval instead", r.Note)
+				continue
+			}
 			sc := scales[i]
 			se := r.StdError / math.Abs(sc.Deriv(fit.Estimates[i]))
 			why := ""
@@ -267,6 +260,27 @@ func Intervals(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, method Met
 		return nil, fmt.Errorf("unknown interval method %q", method)
 	}
 	return rows, nil
+}
+
+// profileRow sets r, the row of free parameter i, to its profile-
+// likelihood interval: {θᵢ : ℓp(θᵢ) ≥ ℓ̂ − χ²₁(level)/2}, walked out on
+// the parameter's scale from the estimate (parameterProfiler).
+func profileRow(r *ParameterInterval, fam fitters.Family, fit *fitters.Fit, d *fitters.Data, s Settings, scales []Scale, i int, level float64) {
+	r.Method = "profile likelihood"
+	sc := scales[i]
+	that := sc.To(fit.Estimates[i])
+	step := 0.1 * math.Max(1, math.Abs(that))
+	if se := r.StdError / math.Abs(sc.Deriv(fit.Estimates[i])); se > 0 && !math.IsInf(se, 0) {
+		step = se
+	}
+	p := parameterProfiler(fam, fit, s.logLik(fam, d), scales, i)
+	guardIrregular(p, fam, fit, d)
+	lo, hi := profileLimits(fam, i, sc)
+	lb, ub := p.interval(that, fit.LogLik, step, chiSquareCut(level), spanOf(sc), sc.From, lo, hi)
+	r.Lower, r.LowerOpen = lb.Value, lb.Open
+	r.Upper, r.UpperOpen = ub.Value, ub.Open
+	r.Note = fitters.JoinNote(lowerNote(lb.Note), upperNote(ub.Note))
+	r.AboveFit = lb.AboveFit || ub.AboveFit
 }
 
 // methodLabel is the ci_method text of a row that got no interval.
