@@ -283,8 +283,9 @@ func observedCensored(fam fitters.Family, dist fitters.Dist, d *fitters.Data) *G
 	}
 	ks, cvm := kaplanMeierStatistics(dist, o)
 	g := &GoodnessOfFit{Applicable: true}
+	note := fitters.JoinNote(KaplanMeierNote, tiesNote(o.Events))
 	for i, v := range []float64{ks, cvm} {
-		g.Statistics = append(g.Statistics, Statistic{Name: censoredStatNames[i], Value: v, PValue: math.NaN(), Note: KaplanMeierNote})
+		g.Statistics = append(g.Statistics, Statistic{Name: censoredStatNames[i], Value: v, PValue: math.NaN(), Note: note})
 	}
 	return g
 }
