@@ -89,6 +89,9 @@ func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
 		}
 		if rep.Failed > 0 {
 			s.Note = fitters.JoinNote(s.Note, fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure))
+			if float64(rep.Failed) >= failedShare*float64(rep.Requested) {
+				s.Note = fitters.JoinNote(s.Note, "so many that the p-value, resting on the others, may be biased: the replicates whose refit fails may be those least like the data")
+			}
 		}
 	}
 	return g
@@ -147,6 +150,11 @@ func observedStatistics(fam fitters.Family, fit *fitters.Fit, d *fitters.Data) (
 	}
 	return g, nil
 }
+
+// failedShare is the share of failed replicates from which a p-value's
+// note warns that it may be biased (a choice: a few failures move it
+// little).
+const failedShare = 0.1
 
 // tiesShare is the share of the exact values repeating another from which
 // the statistics' notes warn of ties (a choice: a few ties move an EDF

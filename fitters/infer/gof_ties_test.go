@@ -56,3 +56,29 @@ func TestTiesAreNoted(t *testing.T) {
 		}
 	}
 }
+
+// TestManyFailedReplicatesAreNoted: a p-value resting on replicates whose
+// refits often failed says it may be biased (from 10 % failed); a few
+// failures are only counted.
+func TestManyFailedReplicatesAreNoted(t *testing.T) {
+	for _, c := range []struct {
+		failed int
+		warn   bool
+	}{{0, false}, {9, false}, {10, true}, {49, true}} {
+		rep := &Replicates{Requested: 100, Failed: c.failed, FirstFailure: "refit did not converge", Statistics: make([][]float64, 100)}
+		for r := c.failed; r < 100; r++ {
+			rep.Statistics[r] = []float64{float64(r) / 100}
+		}
+		g := checkFitFrom(&GoodnessOfFit{Applicable: true, Statistics: []Statistic{{Name: "ks", Value: 0.5, PValue: math.NaN()}}}, rep)
+		s := g.Statistics[0]
+		if counted := strings.Contains(s.Note, "replicates failed and are left out"); counted != (c.failed > 0) {
+			t.Errorf("%d failed: note %q", c.failed, s.Note)
+		}
+		if warned := strings.Contains(s.Note, "may be biased"); warned != c.warn {
+			t.Errorf("%d failed: note %q, want the bias warning %v", c.failed, s.Note, c.warn)
+		}
+		if s.Replicates != 100-c.failed {
+			t.Errorf("%d failed: the p-value rests on %d replicates, want %d", c.failed, s.Replicates, 100-c.failed)
+		}
+	}
+}
