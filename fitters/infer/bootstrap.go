@@ -253,17 +253,7 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			if opt.Information {
 				// sim.Exact is still replicate r's sample: the refit's
 				// information is taken on the data it was fitted to.
-				info, err := ObservedInformation(fam, refit, sim)
-				switch {
-				case err != nil:
-					noCov[r] = err.Error()
-				case !slices.Equal(info.Free, free):
-					noCov[r] = "the refit's free parameters are not the fit's (opt.Fit fixes more)"
-				case info.Covariance == nil && len(free) > 0:
-					noCov[r] = "no covariance"
-				default:
-					rep.Covariances[r] = info.Covariance
-				}
+				rep.Covariances[r], noCov[r] = replicateCovariance(fam, refit, sim, free)
 			}
 			if opt.NoStatistics {
 				continue
@@ -368,4 +358,21 @@ func refitOptions(fit *fitters.Fit, base fitters.Options) fitters.Options {
 		o.Fixed[name] = v
 	}
 	return o
+}
+
+// replicateCovariance is the inverse observed information of a replicate's
+// refit on its own data, over the original fit's free parameters, or nil
+// and the reason there is none (the bootstrap-t intervals count and name
+// such replicates).
+func replicateCovariance(fam fitters.Family, refit *fitters.Fit, sim *fitters.Data, free []int) (*mat.SymDense, string) {
+	info, err := ObservedInformation(fam, refit, sim)
+	switch {
+	case err != nil:
+		return nil, err.Error()
+	case !slices.Equal(info.Free, free):
+		return nil, "the refit's free parameters are not the fit's (opt.Fit fixes more)"
+	case info.Covariance == nil && len(free) > 0:
+		return nil, "no covariance"
+	}
+	return info.Covariance, ""
 }

@@ -219,17 +219,7 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 			copy(row, refit.Estimates)
 			rep.Estimates[r] = row
 			if opt.Information {
-				info, err := ObservedInformation(fam, refit, sim)
-				switch {
-				case err != nil:
-					noCov[r] = err.Error()
-				case !slices.Equal(info.Free, free):
-					noCov[r] = "the refit's free parameters are not the fit's (opt.Fit fixes more)"
-				case info.Covariance == nil && len(free) > 0:
-					noCov[r] = "no covariance"
-				default:
-					rep.Covariances[r] = info.Covariance
-				}
+				rep.Covariances[r], noCov[r] = replicateCovariance(fam, refit, sim, free)
 			}
 			if opt.NoStatistics {
 				continue
