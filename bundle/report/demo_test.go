@@ -416,3 +416,49 @@ thresholds = [50.0]
 	}
 	return res, FromResults(res, Identity{Created: testCreated, ToolVersion: "test", TagManifestSHA256: strings.Repeat("0", 64)})
 }
+
+// TestCensoredEnvelopeInFigures: the demo's analyses censored in one
+// direction (the seals' suspensions, the wells' non-detects) get a Q–Q
+// envelope of samples censored as the data were, one bound pair per
+// plotting position, and their captions say so; the rainfall maxima
+// (complete) keep the order-statistic envelope; the defect counts have
+// none.
+func TestCensoredEnvelopeInFigures(t *testing.T) {
+	res := demoResults(t, 2)
+	seen := map[string]bool{}
+	for i, ar := range res.Analyses {
+		in := FigureInputFor(res, i)
+		d := &ar.Group.Data
+		switch {
+		case in.Discrete:
+			if in.Envelope != nil {
+				t.Errorf("%s: counts got an envelope", ar.Name)
+			}
+			continue
+		case d.IsComplete():
+			if in.Envelope == nil || in.Envelope.Censored {
+				t.Errorf("%s: complete data: envelope %+v", ar.Name, in.Envelope)
+			}
+			seen["complete"] = true
+			continue
+		}
+		e := in.Envelope
+		if e == nil || !e.Censored || len(e.Lower) != len(in.Probability) || len(e.Upper) != len(in.Probability) {
+			t.Errorf("%s: censored data: envelope %+v for %d plotting positions", ar.Name, e, len(in.Probability))
+			continue
+		}
+		seen["censored"] = true
+		figs, err := RenderFigures(ar.Name, in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, f := range figs {
+			if strings.Contains(f.Caption, "Q–Q") && !strings.Contains(f.Caption, "simulation envelope (samples of the fit censored as the data were)") {
+				t.Errorf("%s: caption %q", ar.Name, f.Caption)
+			}
+		}
+	}
+	if !seen["complete"] || !seen["censored"] {
+		t.Errorf("the demo should have both complete and censored analyses: %v", seen)
+	}
+}

@@ -79,10 +79,13 @@ type Step struct{ X, P float64 }
 // ProbPoint is an observed value and its plotting probability.
 type ProbPoint struct{ Value, Prob float64 }
 
-// Envelope is a pointwise band of simulated order statistics (data units).
+// Envelope is a pointwise band of simulated order statistics (data units),
+// or, for censored data (Censored), of the simulated samples' empirical
+// quantiles at the plotting probabilities.
 type Envelope struct {
 	Lower, Upper []float64
 	Level        float64 // e.g. 0.95
+	Censored     bool
 }
 
 // ReturnLevelPoint is the level exceeded on average once in Period years.
@@ -157,6 +160,9 @@ func RenderFigures(name string, in FigureInput) ([]RenderedFigure, error) {
 		env := ""
 		if in.Envelope != nil {
 			env = fmt.Sprintf(", with a %s %% pointwise simulation envelope", g(in.Envelope.Level*100))
+			if in.Envelope.Censored {
+				env += " (samples of the fit censored as the data were)"
+			}
 		}
 		best := in.Candidates[0].Family
 		makers = append(makers,

@@ -8,6 +8,7 @@ import (
 	"sort"
 
 	"fitseal/fitters"
+	"fitseal/fitters/infer"
 	"fitseal/runner"
 )
 
@@ -210,9 +211,10 @@ const EnvelopeReplicates = 199
 // FigureInputFor gathers analysis i's figure material from the results:
 // the ranked fits as curves, the empirical CDF (Kaplan–Meier for
 // suspensions, reverse Kaplan–Meier for non-detects, Turnbull otherwise),
-// return levels of the best family, and, for complete continuous data, a
-// 95 % pointwise envelope from EnvelopeReplicates samples of the best fit,
-// drawn from [EnvelopeSeed].
+// return levels of the best family, and, for continuous data complete or
+// censored in one direction, a 95 % pointwise envelope from
+// EnvelopeReplicates samples of the best fit (censored as the data were,
+// infer.CensoredEnvelope), drawn from [EnvelopeSeed].
 func FigureInputFor(res *runner.Results, i int) FigureInput {
 	ar := res.Analyses[i]
 	p := res.Project
@@ -235,6 +237,7 @@ func FigureInputFor(res *runner.Results, i int) FigureInput {
 	in.Discrete = discrete(ar.Comparison)
 
 	a := analysisOf(p, ar)
+	var bestDist fitters.Dist // the first candidate's model, for the envelope
 	for _, c := range a.Fitted() {
 		fam, ok := fitters.Lookup(c.Family)
 		if !ok {
@@ -252,6 +255,9 @@ func FigureInputFor(res *runner.Results, i int) FigureInput {
 		dist, err := fam.New(fit.Estimates)
 		if err != nil {
 			continue
+		}
+		if len(in.Candidates) == 0 {
+			bestDist = dist
 		}
 		in.Candidates = append(in.Candidates, Curve{Family: c.Family, Weight: c.Weight,
 			PDF:      func(x float64) float64 { return math.Exp(dist.LogPDF(x)) },
@@ -282,6 +288,18 @@ func FigureInputFor(res *runner.Results, i int) FigureInput {
 			for _, x := range in.Observations {
 				below := step.At(math.Nextafter(x, math.Inf(-1)))
 				in.Probability = append(in.Probability, ProbPoint{Value: x, Prob: (below + step.At(x)) / 2})
+			}
+			if bestDist != nil && !in.Discrete && len(in.Probability) > 2 {
+				probs := make([]float64, len(in.Probability))
+				for j, pt := range in.Probability {
+					probs[j] = pt.Prob
+				}
+				// Samples of the best fit censored as the data were, the
+				// empirical quantile of each at these positions.
+				seed := EnvelopeSeed(p.Settings.Seed, ar.Name, in.Candidates[0].Family)
+				if lo, hi, ok := infer.CensoredEnvelope(bestDist, d, probs, EnvelopeReplicates, 0.95, seed); ok {
+					in.Envelope = &Envelope{Level: 0.95, Lower: lo, Upper: hi, Censored: true}
+				}
 			}
 		}
 	} else if len(in.Candidates) > 0 && !in.Discrete && len(in.Observations) > 2 {

@@ -443,7 +443,8 @@ func methodsText(r *Report) []string {
 		derived,
 		"Figures. Densities (or probability mass functions) of the leading candidates are drawn over a histogram of the exact values; " +
 			"the empirical CDF (Kaplan–Meier for suspensions, its reverse for non-detects, Turnbull for other censoring) is set against the fitted CDFs; Q–Q and P–P plots " +
-			"show the best candidate, with a pointwise simulation envelope where the bootstrap ran.",
+			"show the best candidate, with a 95 % pointwise envelope from 199 samples of the fit (for suspensions or non-detects, samples censored as the data were; " +
+			"none for interval-censored data or counts).",
 	}
 }
 
