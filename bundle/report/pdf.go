@@ -417,8 +417,9 @@ func methodsText(r *Report) []string {
 			"against the Kaplan–Meier estimate of the CDF up to the largest observation (Koziol & Green 1976), non-detects by reflection, "+
 			"without Anderson–Darling, whose tail weights are unstable where few units are at risk; each of their replicates is censored as the "+
 			"data were: a censored value keeps its own limit, an exact one gets a censoring time drawn from the Kaplan–Meier estimate of the "+
-			"censoring times beyond it (conditional bootstrap; Davison & Hinkley 1997, section 3.5). Interval-censored data and data censored "+
-			"in both directions get no adequacy p-value.", s.Bootstrap)
+			"censoring times beyond it (conditional bootstrap; Davison & Hinkley 1997, section 3.5). Binned data (every value recorded as one of "+
+			"disjoint bins) are judged by Pearson's chi-square over the bins, pooled to expected counts of at least 5, each replicate recorded in "+
+			"the same bins. Other interval-censored data and data censored in both directions get no adequacy p-value.", s.Bootstrap)
 	}
 	derived := "Derived quantities. The quantile at lower-tail probability p is the value x with F(x) = p, the inverse CDF at p (p = 0.1 gives the B10 life); the return level for a " +
 		"period of T years is the 1 − 1/T quantile of the annual-maximum distribution (Coles 2001); an exceedance probability is " +
@@ -512,7 +513,7 @@ func (d *doc) analysis(i int) {
 			parts = append(parts, statisticAbbreviation(u)+": "+statisticName(u))
 		}
 		against := ""
-		if censored {
+		if censored && !slices.Contains(used, infer.ChiSquare) {
 			against = ", against the " + KaplanMeierCaption
 		}
 		d.font("I", 7.5)

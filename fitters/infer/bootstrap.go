@@ -77,9 +77,12 @@ type Replicates struct {
 	// number and bare reason, for the bootstrap-t notes.
 	firstNoCovariance    int
 	firstNoCovarianceWhy string
-	// Censored is true for replicates of censored data (conditional
-	// bootstrap), whose statistics are the Kaplan–Meier ones.
-	Censored bool
+	// Censored is true for replicates of censored data (drawn as the data
+	// were censored or binned: bootstrapCensored), and PValueNote says how,
+	// for the notes of the p-values that rest on them ("" when the
+	// statistic's own note says it).
+	Censored   bool
+	PValueNote string
 	// Failed counts replicates whose refit failed or did not converge;
 	// FirstFailure is the reason of the lowest-numbered one.
 	Failed       int

@@ -131,6 +131,57 @@ func (p *censoringPlan) simulate(x []float64, rng *rand.Rand) *fitters.Data {
 	return sim
 }
 
+// censoredSampler draws samples censored as a dataset was and computes
+// the statistics of a refitted model on one: the conditional bootstrap's
+// plan with the Kaplan–Meier statistics (data censored in one direction),
+// or the bins with Pearson's X² (binned data, binnedPlan).
+type censoredSampler interface {
+	// simulate censors the model draws x (in observation order) as the
+	// data were, or says why the sample cannot be used.
+	simulate(x []float64, rng *rand.Rand) (*fitters.Data, string)
+	// statistics writes the statistics of model d on sample sim to out.
+	statistics(d fitters.Dist, sim *fitters.Data, sorter *fitters.FloatSorter, out []float64)
+	names() []string
+	// pValueNote says how the replicates were drawn, for the p-values'
+	// notes ("" when the statistic's note already says it).
+	pValueNote() string
+}
+
+// censoredSamplerFor returns the sampler for d (binned data first, then
+// data censored in one direction) and d as the sampler reads it, or the
+// reason neither applies.
+func censoredSamplerFor(dist fitters.Dist, d *fitters.Data) (censoredSampler, *fitters.Data, string) {
+	if b, why := newBinnedPlan(dist, d); b != nil {
+		return b, d, ""
+	} else if why != "" {
+		return nil, nil, why
+	}
+	o, view, why := oneSidedView(d)
+	if o == nil {
+		return nil, nil, why
+	}
+	return kmSampler{newCensoringPlan(view, o)}, view, ""
+}
+
+// kmSampler is the censoring plan with the Kaplan–Meier statistics.
+type kmSampler struct{ plan *censoringPlan }
+
+func (k kmSampler) simulate(x []float64, rng *rand.Rand) (*fitters.Data, string) {
+	sim := k.plan.simulate(x, rng)
+	if len(sim.Exact) == 0 {
+		return nil, "every value of the replicate is censored"
+	}
+	return sim, ""
+}
+
+func (k kmSampler) statistics(d fitters.Dist, sim *fitters.Data, sorter *fitters.FloatSorter, out []float64) {
+	out[0], out[1] = kaplanMeierStatistics(d, newOneSidedSorted(sim, k.plan.left, sorter))
+}
+
+func (kmSampler) names() []string { return censoredStatNames }
+
+func (kmSampler) pValueNote() string { return ConditionalBootstrapNote }
+
 // bootstrapCensored is Bootstrap for data censored in one direction: each
 // replicate is drawn by the censoring plan (conditional bootstrap), the
 // family refitted on it with the original fixed parameters, and the
@@ -144,11 +195,10 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 	if fam.Kind() != fitters.Continuous {
 		return nil, fmt.Errorf("%w: censoring applies to continuous families only", ErrBootstrapNotApplicable)
 	}
-	o, d, why := oneSidedView(d)
-	if o == nil {
+	sampler, d, why := censoredSamplerFor(dist, d)
+	if sampler == nil {
 		return nil, fmt.Errorf("%w: %s", ErrBootstrapNotApplicable, why)
 	}
-	plan := newCensoringPlan(d, o)
 	B := opt.Replicates
 	if B <= 0 {
 		return nil, fmt.Errorf("bootstrap needs at least one replicate, got %d", B)
@@ -164,10 +214,10 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 	}
 	workers = min(workers, B)
 	k := len(fit.Estimates)
-	names := censoredStatNames
+	names := sampler.names()
 	est := make([]float64, B*k)
 	stats := make([]float64, B*len(names))
-	rep := &Replicates{Requested: B, StatNames: names, Censored: true,
+	rep := &Replicates{Requested: B, StatNames: names, Censored: true, PValueNote: sampler.pValueNote(),
 		Estimates: make([][]float64, B), Statistics: make([][]float64, B)}
 	reasons := make([]string, B)
 	var noCov []string
@@ -196,9 +246,9 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 			}
 			seeds.reseed(pcg, r)
 			fitters.FillRand(dist, rng, draws)
-			sim := plan.simulate(draws, rng)
-			if len(sim.Exact) == 0 {
-				reasons[r] = "every value of the replicate is censored"
+			sim, skip := sampler.simulate(draws, rng)
+			if skip != "" {
+				reasons[r] = skip
 				continue
 			}
 			refit, err := fitters.FitInto(fam, sim, fitOpt, &rec)
@@ -225,7 +275,7 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 				continue
 			}
 			srow := stats[r*len(names) : (r+1)*len(names)]
-			srow[0], srow[1] = kaplanMeierStatistics(rd, newOneSidedSorted(sim, plan.left, &sorter))
+			sampler.statistics(rd, sim, &sorter, srow)
 			rep.Statistics[r] = srow
 		}
 	}

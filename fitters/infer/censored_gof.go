@@ -33,7 +33,7 @@ func (o *oneSided) N() int { return len(o.Events) + len(o.Suspensions) }
 // A reason holds no "; ", which separates the clauses of a fit's
 // inference note.
 const NotApplicableCensored = "fitseal's goodness-of-fit check covers exact values censored in one direction only " +
-	"(suspensions alone or non-detects alone)"
+	"(suspensions alone or non-detects alone) and binned values (disjoint intervals alone)"
 
 // oneSidedView returns d in the right-censored frame, with d itself as
 // exact, left- and right-censored values (an interval open at one end,
@@ -276,6 +276,11 @@ const ConditionalBootstrapNote = "p-value by the conditional bootstrap for censo
 func observedCensored(fam fitters.Family, dist fitters.Dist, d *fitters.Data) *GoodnessOfFit {
 	if fam.Kind() != fitters.Continuous {
 		return &GoodnessOfFit{Reason: "censored counts: fitseal's goodness-of-fit check of censored data is for continuous families"}
+	}
+	if b, why := newBinnedPlan(dist, d); b != nil {
+		return observedBinned(b, dist)
+	} else if why != "" {
+		return &GoodnessOfFit{Reason: why}
 	}
 	o, _, why := oneSidedView(d)
 	if o == nil {

@@ -84,8 +84,8 @@ func checkFitFrom(g *GoodnessOfFit, rep *Replicates) *GoodnessOfFit {
 		} else if rep.Succeeded() > 0 {
 			s.Note = "the replicates were drawn without statistics (BootstrapOptions.NoStatistics): no p-value"
 		}
-		if rep.Censored && b > 0 {
-			s.Note = fitters.JoinNote(s.Note, ConditionalBootstrapNote)
+		if rep.PValueNote != "" && b > 0 {
+			s.Note = fitters.JoinNote(s.Note, rep.PValueNote)
 		}
 		if rep.Failed > 0 {
 			s.Note = fitters.JoinNote(s.Note, fmt.Sprintf("%d of %d replicates failed and are left out (%s)", rep.Failed, rep.Requested, rep.FirstFailure))
