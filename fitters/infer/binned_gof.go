@@ -114,36 +114,14 @@ func binProbability(d fitters.Dist, lo, hi float64) float64 {
 // neighbour), as for counts (chiSquareCounts), and the number of pooled
 // cells.
 func (p *binnedPlan) chiSquare(d fitters.Dist, counts []float64) (float64, int) {
-	var obs, exp []float64
-	var o, e float64
+	var c cells
+	pool := c.pooler()
 	for k := range p.lo {
-		o += counts[k]
-		e += float64(p.n) * binProbability(d, p.lo[k], p.hi[k])
-		if e >= minExpected {
-			obs, exp = append(obs, o), append(exp, e)
-			o, e = 0, 0
-		}
+		pool.o += counts[k]
+		pool.e += float64(p.n) * binProbability(d, p.lo[k], p.hi[k])
+		pool.endCell()
 	}
-	if e > 0 || o > 0 {
-		if len(obs) > 0 {
-			obs[len(obs)-1] += o
-			exp[len(exp)-1] += e
-		} else {
-			obs, exp = append(obs, o), append(exp, e)
-		}
-	}
-	var x2 float64
-	for i := range obs {
-		if !(exp[i] > 0) {
-			if obs[i] > 0 {
-				return math.Inf(1), len(obs)
-			}
-			continue
-		}
-		r := obs[i] - exp[i]
-		x2 += r * r / exp[i]
-	}
-	return x2, len(obs)
+	return pool.finish()
 }
 
 // simulate records the draws x in the plan's bins, each bin as the data

@@ -21,38 +21,64 @@ type cells struct {
 // cells all pool into one gives X² = 0 with one cell: no test.
 func chiSquareCounts(comps []component, x []float64, c *cells) (float64, int) {
 	m := x[len(x)-1]
-	c.obs, c.exp = c.obs[:0], c.exp[:0]
-	var o, e float64
+	p := c.pooler()
 	j := 0
 	for v := 0.0; v <= m; v++ {
 		for j < len(x) && x[j] <= v {
-			o++
+			p.o++
 			j++
 		}
 		for _, cp := range comps {
 			if v < m {
-				e += cp.weight * math.Exp(cp.dist.LogPDF(v))
+				p.e += cp.weight * math.Exp(cp.dist.LogPDF(v))
 			} else {
 				// the last cell is X ≥ m: P(X > m − 1)
-				e += cp.weight * math.Exp(cp.dist.LogSurvival(m-1))
+				p.e += cp.weight * math.Exp(cp.dist.LogSurvival(m-1))
 			}
 		}
 		if v == m {
-			o += float64(len(x) - j)
+			p.o += float64(len(x) - j)
 		}
-		if e >= minExpected {
-			c.obs = append(c.obs, o)
-			c.exp = append(c.exp, e)
-			o, e = 0, 0
-		}
+		p.endCell()
 	}
-	if e > 0 || o > 0 {
+	return p.finish()
+}
+
+// pooler pools chi-square cells from the left: the caller adds a cell's
+// observed count to o and its expected count to e, then calls endCell,
+// which closes the pooled cell once its expected count reaches
+// minExpected; finish joins a short last group to its neighbour and
+// returns Pearson's X² = Σ (O − E)²/E over the pooled cells and their
+// number. It appends to c's buffers, so a caller that keeps c allocates
+// nothing.
+type pooler struct {
+	c    *cells
+	o, e float64
+}
+
+// pooler returns a pooler writing into c, emptied.
+func (c *cells) pooler() pooler {
+	c.obs, c.exp = c.obs[:0], c.exp[:0]
+	return pooler{c: c}
+}
+
+func (p *pooler) endCell() {
+	if p.e >= minExpected {
+		p.c.obs = append(p.c.obs, p.o)
+		p.c.exp = append(p.c.exp, p.e)
+		p.o, p.e = 0, 0
+	}
+}
+
+func (p *pooler) finish() (float64, int) {
+	c := p.c
+	if p.e > 0 || p.o > 0 {
 		if len(c.obs) > 0 {
-			c.obs[len(c.obs)-1] += o
-			c.exp[len(c.exp)-1] += e
+			c.obs[len(c.obs)-1] += p.o
+			c.exp[len(c.exp)-1] += p.e
 		} else {
-			c.obs = append(c.obs, o)
-			c.exp = append(c.exp, e)
+			c.obs = append(c.obs, p.o)
+			c.exp = append(c.exp, p.e)
 		}
 	}
 	var x2 float64
