@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math/rand/v2"
-	"runtime"
 	"slices"
 	"sync"
 	"sync/atomic"
@@ -131,11 +130,12 @@ func bootstrapApplicable(d *fitters.Data, dist fitters.Dist) error {
 // of the nine families of the batch workload (TestReplicateAllocatesNothing);
 // other families' refits allocate their own Fit and model.
 //
-// Data censored in one direction (suspensions alone or non-detects alone,
-// besides exact values) are simulated by the conditional bootstrap for
-// censored data instead (bootstrapCensored): each replicate is censored as
-// the data were, and its statistics are the Kaplan–Meier ones (ks, cvm).
-// Interval-censored data and data censored in both directions are not
+// Censored data are simulated as they were recorded instead
+// (bootstrapCensored): data censored in one direction (suspensions alone
+// or non-detects alone, besides exact values) by the conditional bootstrap
+// for censored data, with the Kaplan–Meier statistics (ks, cvm); binned
+// data by recording each draw in the data's bins, with Pearson's X².
+// Overlapping intervals and data censored in both directions are not
 // simulated (ErrBootstrapNotApplicable).
 func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt BootstrapOptions) (*Replicates, error) {
 	if !fit.Converged {
@@ -162,43 +162,18 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 		groups = groupTrials(d.Trials)
 		simDists, _ = groups.components(dist, nil)
 	}
-	B := opt.Replicates
-	if B <= 0 {
-		return nil, fmt.Errorf("bootstrap needs at least one replicate, got %d", B)
-	}
-	stream := opt.Stream
-	if stream.Purpose == "" {
-		stream.Purpose = "bootstrap"
-	}
-	fitOpt := refitOptions(fit, opt.Fit)
-	workers := opt.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, B)
-
-	k := len(fit.Estimates)
-	names := statNames(fam.Kind())
-	est := make([]float64, B*k)
-	stats := make([]float64, B*len(names))
-	rep := &Replicates{Requested: B, StatNames: names,
-		Estimates: make([][]float64, B), Statistics: make([][]float64, B)}
-	reasons := make([]string, B)
-	var noCov []string
-	free := freeIndices(fit)
-	if opt.Information {
-		rep.Covariances = make([]*mat.SymDense, B)
-		noCov = make([]string, B)
+	slots, err := newReplicateSlots(fit, opt, statNames(fam.Kind()))
+	if err != nil {
+		return nil, err
 	}
 	n := len(d.Exact)
 
-	var next atomic.Int64
 	// work runs replicates until none is left to start; it reports whether
 	// it ran one. Each call has its own generator and buffers.
 	work := func() (ran bool) {
 		pcg := rand.NewPCG(0, 0)
 		rng := rand.New(pcg)
-		seeds := stream.seeder()
+		seeds := slots.stream.seeder()
 		sample := make([]float64, n)
 		sorted := make([]float64, n)
 		var sorter fitters.FloatSorter
@@ -209,14 +184,11 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 		var rec fitters.FitRecord // each refit's result, valid until the next
 		member := fitters.NewMember(fam)
 		for {
-			r := int(next.Add(1) - 1)
-			if r >= B {
+			r, ok := slots.take()
+			if !ok {
 				return ran
 			}
 			ran = true
-			if opt.Drawn != nil {
-				opt.Drawn.Add(1)
-			}
 			seeds.reseed(pcg, r)
 			if groups == nil {
 				fitters.FillRand(dist, rng, sample) // Rand's values, in order
@@ -229,13 +201,8 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				sorter.SortInto(sorted, sample) // slices.Sort's result, in O(n)
 			}
 			sim.Exact = sample
-			refit, err := fitters.FitInto(fam, sim, fitOpt, &rec)
-			switch {
-			case err != nil:
-				reasons[r] = err.Error()
-				continue
-			case !refit.Converged:
-				reasons[r] = "refit did not converge: " + refit.Reason
+			refit, err := fitters.FitInto(fam, sim, slots.fitOpt, &rec)
+			if slots.failed(r, refit, err) {
 				continue
 			}
 			rd, err := member.New(refit.Estimates) // fam.New's model, in place
@@ -246,22 +213,17 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				if lim, ok := fitters.LimitDist(fam, refit, sim); ok && !opt.Information {
 					rd = lim
 				} else {
-					reasons[r] = err.Error()
+					slots.reasons[r] = err.Error()
 					continue
 				}
 			}
-			row := est[r*k : (r+1)*k]
-			copy(row, refit.Estimates)
-			rep.Estimates[r] = row
-			if opt.Information {
-				// sim.Exact is still replicate r's sample: the refit's
-				// information is taken on the data it was fitted to.
-				rep.Covariances[r], noCov[r] = replicateCovariance(fam, refit, sim, free)
-			}
+			// sim.Exact is still replicate r's sample: the refit's
+			// information is taken on the data it was fitted to.
+			slots.keep(r, fam, refit, sim)
 			if opt.NoStatistics {
 				continue
 			}
-			srow := stats[r*len(names) : (r+1)*len(names)]
+			srow := slots.statistics(r)
 			if fam.Kind() == fitters.Discrete {
 				if groups != nil {
 					comps, _ = groups.components(rd, comps)
@@ -273,12 +235,9 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 				edfStatistics(rd, sorted, &edf)
 				copy(srow, edf[:])
 			}
-			rep.Statistics[r] = srow
 		}
 	}
-	runReplicates(B, workers, &next, opt.Share, work)
-	rep.tally(reasons, noCov)
-	return rep, nil
+	return slots.run(work), nil
 }
 
 // runReplicates runs work on workers goroutines, and on any goroutine that

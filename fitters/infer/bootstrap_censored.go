@@ -4,14 +4,10 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"runtime"
 	"slices"
 	"sort"
-	"sync/atomic"
 
 	"fitseal/fitters"
-
-	"gonum.org/v1/gonum/mat"
 )
 
 // censoringPlan simulates data censored as a oneSided dataset was, by the
@@ -199,87 +195,47 @@ func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, 
 	if sampler == nil {
 		return nil, fmt.Errorf("%w: %s", ErrBootstrapNotApplicable, why)
 	}
-	B := opt.Replicates
-	if B <= 0 {
-		return nil, fmt.Errorf("bootstrap needs at least one replicate, got %d", B)
+	slots, err := newReplicateSlots(fit, opt, sampler.names())
+	if err != nil {
+		return nil, err
 	}
-	stream := opt.Stream
-	if stream.Purpose == "" {
-		stream.Purpose = "bootstrap"
-	}
-	fitOpt := refitOptions(fit, opt.Fit)
-	workers := opt.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, B)
-	k := len(fit.Estimates)
-	names := sampler.names()
-	est := make([]float64, B*k)
-	stats := make([]float64, B*len(names))
-	rep := &Replicates{Requested: B, StatNames: names, Censored: true, PValueNote: sampler.pValueNote(),
-		Estimates: make([][]float64, B), Statistics: make([][]float64, B)}
-	reasons := make([]string, B)
-	var noCov []string
-	free := freeIndices(fit)
-	if opt.Information {
-		rep.Covariances = make([]*mat.SymDense, B)
-		noCov = make([]string, B)
-	}
+	slots.rep.Censored, slots.rep.PValueNote = true, sampler.pValueNote()
 	n := d.N()
-	var next atomic.Int64
 	work := func() (ran bool) {
 		pcg := rand.NewPCG(0, 0)
 		rng := rand.New(pcg)
-		seeds := stream.seeder()
+		seeds := slots.stream.seeder()
 		draws := make([]float64, n)
 		var rec fitters.FitRecord
 		var sorter fitters.FloatSorter
 		for {
-			r := int(next.Add(1) - 1)
-			if r >= B {
+			r, ok := slots.take()
+			if !ok {
 				return ran
 			}
 			ran = true
-			if opt.Drawn != nil {
-				opt.Drawn.Add(1)
-			}
 			seeds.reseed(pcg, r)
 			fitters.FillRand(dist, rng, draws)
 			sim, skip := sampler.simulate(draws, rng)
 			if skip != "" {
-				reasons[r] = skip
+				slots.reasons[r] = skip
 				continue
 			}
-			refit, err := fitters.FitInto(fam, sim, fitOpt, &rec)
-			switch {
-			case err != nil:
-				reasons[r] = err.Error()
-				continue
-			case !refit.Converged:
-				reasons[r] = "refit did not converge: " + refit.Reason
+			refit, err := fitters.FitInto(fam, sim, slots.fitOpt, &rec)
+			if slots.failed(r, refit, err) {
 				continue
 			}
 			rd, err := fam.New(refit.Estimates)
 			if err != nil {
-				reasons[r] = err.Error()
+				slots.reasons[r] = err.Error()
 				continue
 			}
-			row := est[r*k : (r+1)*k]
-			copy(row, refit.Estimates)
-			rep.Estimates[r] = row
-			if opt.Information {
-				rep.Covariances[r], noCov[r] = replicateCovariance(fam, refit, sim, free)
-			}
+			slots.keep(r, fam, refit, sim)
 			if opt.NoStatistics {
 				continue
 			}
-			srow := stats[r*len(names) : (r+1)*len(names)]
-			sampler.statistics(rd, sim, &sorter, srow)
-			rep.Statistics[r] = srow
+			sampler.statistics(rd, sim, &sorter, slots.statistics(r))
 		}
 	}
-	runReplicates(B, workers, &next, opt.Share, work)
-	rep.tally(reasons, noCov)
-	return rep, nil
+	return slots.run(work), nil
 }
