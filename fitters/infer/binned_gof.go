@@ -168,8 +168,9 @@ func (*binnedPlan) pValueNote() string { return "" }
 const BinnedNote = "Pearson's X² over the data's bins, pooled from the left to expected counts ≥ 5 (common practice); " +
 	"its p-value's replicates are drawn from the fit and recorded in the same bins, as the data were"
 
-// observedBinned is observedStatistics for binned data.
-func observedBinned(p *binnedPlan, dist fitters.Dist) *GoodnessOfFit {
+// observed is observedStatistics for binned data: X² of the fit over the
+// data's bins.
+func (p *binnedPlan) observed(dist fitters.Dist) *GoodnessOfFit {
 	x2, cells := p.chiSquare(dist, p.counts)
 	st := Statistic{Name: ChiSquare, Value: x2, PValue: math.NaN(),
 		Note: fmt.Sprintf("%s; %d of %d bins after pooling", BinnedNote, cells, len(p.lo))}

@@ -141,12 +141,18 @@ type censoredSampler interface {
 	// pValueNote says how the replicates were drawn, for the p-values'
 	// notes ("" when the statistic's note already says it).
 	pValueNote() string
+	// observed is the statistics of the fitted model on the data.
+	observed(dist fitters.Dist) *GoodnessOfFit
 }
 
 // censoredSamplerFor returns the sampler for d (binned data first, then
 // data censored in one direction) and d as the sampler reads it, or the
-// reason neither applies.
-func censoredSamplerFor(dist fitters.Dist, d *fitters.Data) (censoredSampler, *fitters.Data, string) {
+// reason neither applies (counts included: the check of censored data is
+// for continuous families).
+func censoredSamplerFor(fam fitters.Family, dist fitters.Dist, d *fitters.Data) (censoredSampler, *fitters.Data, string) {
+	if fam.Kind() != fitters.Continuous {
+		return nil, nil, "censored counts: fitseal's goodness-of-fit check of censored data is for continuous families"
+	}
 	if b, why := newBinnedPlan(dist, d); b != nil {
 		return b, d, ""
 	} else if why != "" {
@@ -156,11 +162,15 @@ func censoredSamplerFor(dist fitters.Dist, d *fitters.Data) (censoredSampler, *f
 	if o == nil {
 		return nil, nil, why
 	}
-	return kmSampler{newCensoringPlan(view, o)}, view, ""
+	return kmSampler{newCensoringPlan(view, o), o}, view, ""
 }
 
-// kmSampler is the censoring plan with the Kaplan–Meier statistics.
-type kmSampler struct{ plan *censoringPlan }
+// kmSampler is the censoring plan with the Kaplan–Meier statistics, and
+// the data in the right-censored frame for the observed ones.
+type kmSampler struct {
+	plan *censoringPlan
+	data *oneSided
+}
 
 func (k kmSampler) simulate(x []float64, rng *rand.Rand) (*fitters.Data, string) {
 	sim := k.plan.simulate(x, rng)
@@ -178,6 +188,10 @@ func (kmSampler) names() []string { return censoredStatNames }
 
 func (kmSampler) pValueNote() string { return ConditionalBootstrapNote }
 
+func (k kmSampler) observed(dist fitters.Dist) *GoodnessOfFit {
+	return observedKaplanMeier(dist, k.data)
+}
+
 // bootstrapCensored is Bootstrap for data censored in one direction: each
 // replicate is drawn by the censoring plan (conditional bootstrap), the
 // family refitted on it with the original fixed parameters, and the
@@ -188,10 +202,7 @@ func (kmSampler) pValueNote() string { return ConditionalBootstrapNote }
 // the result does not depend on the workers. Unlike the complete-data loop
 // this one allocates per replicate (the replicate's data and views).
 func bootstrapCensored(fam fitters.Family, fit *fitters.Fit, dist fitters.Dist, d *fitters.Data, opt BootstrapOptions) (*Replicates, error) {
-	if fam.Kind() != fitters.Continuous {
-		return nil, fmt.Errorf("%w: censoring applies to continuous families only", ErrBootstrapNotApplicable)
-	}
-	sampler, d, why := censoredSamplerFor(dist, d)
+	sampler, d, why := censoredSamplerFor(fam, dist, d)
 	if sampler == nil {
 		return nil, fmt.Errorf("%w: %s", ErrBootstrapNotApplicable, why)
 	}

@@ -272,20 +272,20 @@ const ConditionalBootstrapNote = "p-value by the conditional bootstrap for censo
 	"(Davison & Hinkley 1997, Algorithm 3.3): each replicate drawn from the fitted model and " +
 	"censored as the data were, by the Kaplan–Meier estimate of the censoring times"
 
-// observedCensored is observedStatistics for censored data.
+// observedCensored is observedStatistics for censored data: the
+// statistics of the sampler that will draw their replicates
+// (censoredSamplerFor), or why there is none.
 func observedCensored(fam fitters.Family, dist fitters.Dist, d *fitters.Data) *GoodnessOfFit {
-	if fam.Kind() != fitters.Continuous {
-		return &GoodnessOfFit{Reason: "censored counts: fitseal's goodness-of-fit check of censored data is for continuous families"}
-	}
-	if b, why := newBinnedPlan(dist, d); b != nil {
-		return observedBinned(b, dist)
-	} else if why != "" {
+	sampler, _, why := censoredSamplerFor(fam, dist, d)
+	if sampler == nil {
 		return &GoodnessOfFit{Reason: why}
 	}
-	o, _, why := oneSidedView(d)
-	if o == nil {
-		return &GoodnessOfFit{Reason: why}
-	}
+	return sampler.observed(dist)
+}
+
+// observedKaplanMeier is the Kaplan–Meier statistics of data o against the
+// fitted dist, with their notes.
+func observedKaplanMeier(dist fitters.Dist, o *oneSided) *GoodnessOfFit {
 	ks, cvm := kaplanMeierStatistics(dist, o)
 	g := &GoodnessOfFit{Applicable: true}
 	note := fitters.JoinNote(KaplanMeierNote, tiesNote(o.Events))
