@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -343,13 +344,16 @@ func (c *jsonCompare) walk(path string, a, b any, fields map[string]string) {
 			c.add(path, a, b)
 			return
 		}
-		if len(x) == len(y) && sameIdentities(x, y) {
+		// Elements pair up by position unless they name different things
+		// there (as when one dataset of a project replaces another).
+		ix, iy, named := identities(x, y)
+		if len(x) == len(y) && (!named || slices.Equal(ix, iy)) {
 			for i := range x {
 				c.walk(fmt.Sprintf("%s[%d]", path, i), x[i], y[i], fields)
 			}
 			return
 		}
-		c.walkUnaligned(path, x, y, fields)
+		c.walkUnaligned(path, x, y, ix, iy, named, fields)
 	case json.Number:
 		y, ok := b.(json.Number)
 		if !ok {
@@ -462,22 +466,6 @@ func distinctTexts(list []any) map[string]struct{} {
 	return set
 }
 
-// sameIdentities reports whether the elements of x and y, of equal length,
-// do not name different things position by position (as when one dataset
-// of a project replaces another).
-func sameIdentities(x, y []any) bool {
-	ix, iy, ok := identities(x, y)
-	if !ok {
-		return true
-	}
-	for i := range ix {
-		if ix[i] != iy[i] {
-			return false
-		}
-	}
-	return true
-}
-
 // walkUnaligned compares two arrays whose elements do not pair up by
 // position: elements named by the same identity (see [identities]) are
 // compared with each other, the rest listed as absent from one side, so that
@@ -485,9 +473,9 @@ func sameIdentities(x, y []any) bool {
 // that differ somewhere. Lists of distinct texts (family names, the settings
 // left at their defaults) are compared as sets: each text of one side only is
 // listed at its index there. Other arrays are compared position by position,
-// and the elements past the shorter one listed as absent.
-func (c *jsonCompare) walkUnaligned(path string, x, y []any, fields map[string]string) {
-	ix, iy, named := identities(x, y)
+// and the elements past the shorter one listed as absent. ix, iy and named
+// are identities(x, y), which the caller has taken.
+func (c *jsonCompare) walkUnaligned(path string, x, y []any, ix, iy []string, named bool, fields map[string]string) {
 	if sx, sy := distinctTexts(x), distinctTexts(y); sx != nil && sy != nil {
 		for i, v := range x {
 			if _, ok := sy[v.(string)]; !ok {
