@@ -35,8 +35,10 @@
 // Akaike-weighted model averages; goodness-of-fit statistics with
 // parametric-bootstrap p-values. One bootstrap of settings.bootstrap
 // replicates per fit serves both the bootstrap intervals and the p-values;
-// censored data are not simulated (the censoring mechanism is not recorded),
-// and results.json says so.
+// data censored in one direction are simulated as they were censored (the
+// conditional bootstrap) and binned data in their bins, while overlapping
+// intervals and data censored both ways are not simulated, and results.json
+// says so.
 //
 // # Seeds
 //

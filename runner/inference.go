@@ -96,7 +96,8 @@ func stream(p *Project, analysis, family string) infer.Stream {
 
 // infer computes intervals, derived quantities and goodness of fit for a
 // converged fit: one parametric bootstrap of B = settings.bootstrap
-// replicates (when the data are complete or censored in one direction) serves both the bootstrap
+// replicates (when the data are complete, censored in one direction or
+// binned: whatever infer.Bootstrap can simulate) serves both the bootstrap
 // intervals and the p-values; the observed information is computed once.
 // bootWorkers is the parallelism of the bootstrap, drawn counts its
 // replicates for the progress line, and share offers idle workers'
@@ -142,14 +143,14 @@ func inferFit(p *Project, pa *PlannedAnalysis, fam fitters.Family, fit *fitters.
 		}
 	}
 	if method == infer.MethodBootstrap && settings.Replicates == nil {
-		// Without replicates (interval-censored data or data censored in
+		// Without replicates (overlapping intervals or data censored in
 		// both directions, which the bootstrap cannot simulate, or a failed
 		// bootstrap) the intervals fall back to the profile likelihood, and
 		// the note says so: never a bootstrap method named on rows it gave
-		// nothing to. Data censored in one direction have replicates (the
-		// conditional bootstrap), each with its refit's observed
-		// information on its own censored values, so their bootstrap-t
-		// intervals are given.
+		// nothing to. Data censored in one direction or binned have
+		// replicates (drawn as the data were recorded), each with its
+		// refit's observed information on its own sample, so their
+		// bootstrap-t intervals are given.
 		method = infer.MethodProfile
 		settings.LogLik = fitters.LogLikFunc(fam, d)
 		out.note = fitters.JoinNote(out.note, BootstrapFallbackNote)
