@@ -170,7 +170,7 @@ func parseFlags(fs *flagSet, args []string) error {
 			msg += "; " + s
 		}
 	}
-	return usageError{fmt.Errorf("%s: %s\nfitseal: hint: usage: %s; 'fitseal %s -h' describes the flags", fs.Name(), msg, fs.synopsis, fs.Name())}
+	return fs.usageError(fs.Name() + ": " + msg)
 }
 
 // argCountError is the usage error (exit 2) for got arguments where the
@@ -180,7 +180,13 @@ func (fs *flagSet) argCountError(takes string, got int) error {
 	if got == 1 {
 		n = "1 argument"
 	}
-	return usageError{fmt.Errorf("%s takes %s, got %s\nfitseal: hint: usage: %s; 'fitseal %s -h' describes the flags", fs.Name(), takes, n, fs.synopsis, fs.Name())}
+	return fs.usageError(fmt.Sprintf("%s takes %s, got %s", fs.Name(), takes, n))
+}
+
+// usageError is the usage error (exit 2) msg, with the command's synopsis
+// as a hint in place of its whole usage.
+func (fs *flagSet) usageError(msg string) error {
+	return usageError{fmt.Errorf("%s\nfitseal: hint: usage: %s; 'fitseal %s -h' describes the flags", msg, fs.synopsis, fs.Name())}
 }
 
 // suggestions are the command's flags as candidates for nearest, other
