@@ -32,7 +32,7 @@ type Candidate struct {
 //
 // with the interval θ̄ ± z·se(θ̄) at the level; for an exceedance
 // probability the interval is worked on the logit scale instead
-// (logitAverageInterval), so that it stays inside (0, 1). Candidates with no weight
+// (scaledAverageInterval), so that it stays inside (0, 1), and for a positive quantity on the log scale. Candidates with no weight
 // (NaN or 0) are left out; candidates with a weight but no finite estimate or
 // standard error are left out too, the remaining weights renormalised to sum
 // to 1, and the note names them. The returned value carries the quantity and
@@ -99,13 +99,15 @@ func ModelAverage(q Quantity, arg float64, cands []Candidate, level float64) (De
 	out.Estimate, out.StdError = mean, se
 	out.Lower, out.Upper = mean-z*se, mean+z*se
 	if q != Exceedance {
-		if lo, hi, ok := logAverageInterval(used, total, z); ok {
+		positive := func(c Candidate) bool { return c.Row != nil && c.Row.Positive && c.Estimate > 0 }
+		if lo, hi, ok := scaledAverageInterval(used, total, z, Log, positive); ok {
 			out.Lower, out.Upper = lo, hi
 			out.Method = "model average: Akaike weights, unconditional se (Burnham & Anderson 2002 eq. 4.9), interval on the log scale"
 		}
 	}
 	if q == Exceedance {
-		if lo, hi, ok := logitAverageInterval(used, total, z); ok {
+		inside := func(c Candidate) bool { return c.Estimate > 0 && c.Estimate < 1 }
+		if lo, hi, ok := scaledAverageInterval(used, total, z, Logit, inside); ok {
 			out.Lower, out.Upper = lo, hi
 			out.Method = "model average: Akaike weights, unconditional se (Burnham & Anderson 2002 eq. 4.9), interval on the logit scale"
 		} else if out.Lower < 0 || out.Upper > 1 {
@@ -132,60 +134,41 @@ func soleFamily(q Quantity, arg float64, c Candidate, note string) DerivedValue 
 	return out
 }
 
-// logitAverageInterval is the model-averaged interval of a probability
-// worked on the logit scale, where a normal interval cannot leave (0, 1):
-// each candidate's estimate pᵢ becomes λᵢ = logit pᵢ with the delta-method
-// standard error seᵢ/(pᵢ(1 − pᵢ)); λ̄ = Σ wᵢλᵢ with the unconditional
-// standard error of eq. 4.9 on that scale; the interval is
-// expit(λ̄ ± z·se(λ̄)). It needs every pᵢ strictly inside (0, 1).
-func logitAverageInterval(used []Candidate, total, z float64) (lo, hi float64, ok bool) {
+// scaledAverageInterval is the model-averaged interval worked on the
+// scale sc that the families' own delta-method intervals use, so that it
+// stays in the quantity's range: a probability on the logit scale, inside
+// (0, 1), and a positive quantity (a quantile or return level of families
+// with no mass at or below 0: Candidate.Row.Positive) on the log scale,
+// above 0. Each candidate's estimate θᵢ becomes λᵢ = t(θᵢ) with the
+// delta-method standard error seᵢ/|dθ/dt|; λ̄ = Σ wᵢλᵢ with the
+// unconditional standard error of eq. 4.9 on that scale; the interval is
+// t⁻¹(λ̄ ± z·se(λ̄)). It needs admits to hold for every candidate.
+func scaledAverageInterval(used []Candidate, total, z float64, sc Scale, admits func(Candidate) bool) (lo, hi float64, ok bool) {
 	var lbar float64
 	for _, c := range used {
-		if !(c.Estimate > 0 && c.Estimate < 1) {
+		if !admits(c) {
 			return 0, 0, false
 		}
-		lbar += c.Weight / total * logit(c.Estimate)
+		lbar += c.Weight / total * sc.To(c.Estimate)
 	}
 	var se float64
 	for _, c := range used {
-		p := c.Estimate
-		sl := c.StdError / (p * (1 - p))
-		dl := logit(p) - lbar
+		sl := c.StdError / sc.Deriv(c.Estimate)
+		dl := sc.To(c.Estimate) - lbar
 		se += c.Weight / total * math.Sqrt(sl*sl+dl*dl)
 	}
 	if math.IsNaN(se) || math.IsInf(se, 0) {
 		return 0, 0, false
 	}
-	return expit(lbar - z*se), expit(lbar + z*se), true
+	return averageFrom(sc, lbar-z*se), averageFrom(sc, lbar+z*se), true
 }
 
-// logAverageInterval is the model-averaged interval of a positive
-// quantity (a quantile or return level of families with no mass at or
-// below 0, Candidate.Row.Positive for each) worked on the log scale, as
-// each family's own delta-method interval is, so that it cannot reach
-// below 0: each θᵢ becomes λᵢ = ln θᵢ with standard error seᵢ/θᵢ;
-// λ̄ = Σ wᵢλᵢ with the unconditional standard error of eq. 4.9 on that
-// scale; the interval is exp(λ̄ ± z·se(λ̄)). It needs every candidate's
-// row to say its quantity is positive.
-func logAverageInterval(used []Candidate, total, z float64) (lo, hi float64, ok bool) {
-	var lbar float64
-	for _, c := range used {
-		if c.Row == nil || !c.Row.Positive || !(c.Estimate > 0) {
-			return 0, 0, false
-		}
-		lbar += c.Weight / total * math.Log(c.Estimate)
+// averageFrom maps a bound back from sc: exp, or 1/(1 + e⁻ᵗ) on the logit
+// scale (the form the averaged intervals have always used; Scale.From
+// takes e^t/(1 + e^t) below 0, which may differ in the last bit).
+func averageFrom(sc Scale, t float64) float64 {
+	if sc == Logit {
+		return 1 / (1 + math.Exp(-t))
 	}
-	var se float64
-	for _, c := range used {
-		sl := c.StdError / c.Estimate
-		dl := math.Log(c.Estimate) - lbar
-		se += c.Weight / total * math.Sqrt(sl*sl+dl*dl)
-	}
-	if math.IsNaN(se) || math.IsInf(se, 0) {
-		return 0, 0, false
-	}
-	return math.Exp(lbar - z*se), math.Exp(lbar + z*se), true
+	return sc.From(t)
 }
-
-func logit(p float64) float64 { return math.Log(p) - math.Log1p(-p) }
-func expit(x float64) float64 { return 1 / (1 + math.Exp(-x)) }
