@@ -362,7 +362,8 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 		return Contents{}, err
 	}
 	runner.TracePhase("seal: result files")
-	files, err := res.FilesOn(workers)
+	// The result files' SHA-256s are taken while their parts are joined.
+	files, fileSums, err := res.HashedFilesOn(workers)
 	if err != nil {
 		return Contents{}, err
 	}
@@ -370,8 +371,12 @@ func Seal(res *runner.Results, opt SealOptions) (Contents, error) {
 	for k, v := range inputs {
 		payload[k] = v
 	}
+	if known == nil {
+		known = make(map[string]string, len(files))
+	}
 	for name, b := range files {
 		payload["results/"+name] = b
+		known["results/"+name] = fileSums[name]
 	}
 	runner.TracePhase("seal: identity sums")
 	sums := identitySums(workers, payload, disk, known)

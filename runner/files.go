@@ -1,6 +1,8 @@
 package runner
 
 import (
+	"crypto/sha256"
+	"encoding/hex"
 	"math"
 	"strconv"
 )
@@ -67,6 +69,21 @@ const partsPerWorker = 4
 // that results.json, half of the bytes, does not end on one core while the
 // others wait. The bytes do not depend on workers.
 func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
+	files, _, err := r.files(workers, false)
+	return files, err
+}
+
+// HashedFilesOn is [Results.FilesOn] with each file's hex SHA-256, taken
+// from its parts while they are joined (results.json, the largest, is
+// hashed on one worker while the others join the parts), so that the
+// caller need not read the bytes again.
+func (r *Results) HashedFilesOn(workers int) (files map[string][]byte, sums map[string]string, err error) {
+	return r.files(workers, true)
+}
+
+// files renders the result files on workers goroutines, and their hex
+// SHA-256s when hash is set.
+func (r *Results) files(workers int, hash bool) (map[string][]byte, map[string]string, error) {
 	parts := 1
 	if workers > 1 {
 		parts = max(1, min(len(r.Analyses), partsPerWorker*workers))
@@ -77,30 +94,69 @@ func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
 		f, k := t/parts, t%parts
 		pieces[t] = resultFiles[f].part(r, r.Analyses[k*n/parts:(k+1)*n/parts], k == 0, k == parts-1)
 	})
-	joined := make([][]byte, len(resultFiles))
-	ForEach(workers, len(resultFiles), func(f int) { joined[f] = joinParts(pieces[f*parts : (f+1)*parts]) })
+	joined, sums := joinParts(workers, pieces, parts, hash)
 	out := make(map[string][]byte, len(resultFiles))
+	var outSums map[string]string
+	if hash {
+		outSums = make(map[string]string, len(resultFiles))
+	}
 	for f, rf := range resultFiles {
 		out[rf.name] = joined[f]
+		if hash {
+			outSums[rf.name] = hex.EncodeToString(sums[f][:])
+		}
 	}
-	return out, nil
+	return out, outSums, nil
 }
 
-// joinParts is the parts one after another, in a buffer of their exact
-// size; a single part is returned as it is.
-func joinParts(parts [][]byte) []byte {
-	if len(parts) == 1 {
-		return parts[0]
+// joinParts joins each run of parts consecutive pieces (one file's parts in
+// order) into one buffer of their exact size; a file of a single part is
+// that part. With hash, it also takes each file's SHA-256 from its pieces.
+// The work is spread over the workers: each file's hash is one task, the
+// largest file's first, and each piece's copy another, so that results.json,
+// half of the bytes, is neither copied nor hashed on one core while the
+// others wait.
+func joinParts(workers int, pieces [][]byte, parts int, hash bool) ([][]byte, [][sha256.Size]byte) {
+	files := len(pieces) / parts
+	joined := make([][]byte, files)
+	offset := make([]int, len(pieces))
+	for f := range files {
+		if parts == 1 {
+			joined[f] = pieces[f]
+			continue
+		}
+		size := 0
+		for k := range parts {
+			offset[f*parts+k] = size
+			size += len(pieces[f*parts+k])
+		}
+		joined[f] = make([]byte, size)
 	}
-	size := 0
-	for _, p := range parts {
-		size += len(p)
+	var sums [][sha256.Size]byte
+	hashes := 0
+	if hash {
+		sums = make([][sha256.Size]byte, files)
+		hashes = files
 	}
-	b := make([]byte, 0, size)
-	for _, p := range parts {
-		b = append(b, p...)
+	copies := len(pieces)
+	if parts == 1 {
+		copies = 0
 	}
-	return b
+	// Files are in resultFiles order, largest first, so the hash of the
+	// largest is handed out first.
+	ForEach(workers, hashes+copies, func(t int) {
+		if t < hashes {
+			h := sha256.New()
+			for _, p := range pieces[t*parts : (t+1)*parts] {
+				h.Write(p)
+			}
+			h.Sum(sums[t][:0])
+			return
+		}
+		t -= hashes
+		copy(joined[t/parts][offset[t]:], pieces[t])
+	})
+	return joined, sums
 }
 
 // resultsJSON is results.json (layout: document_json.go) for the analyses

@@ -3,7 +3,9 @@ package runner
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
 	"encoding/csv"
+	"encoding/hex"
 	"strconv"
 	"testing"
 )
@@ -189,6 +191,20 @@ func TestFilesOnPartsJoinToTheWholeFile(t *testing.T) {
 			for name, b := range whole {
 				if !bytes.Equal(got[name], b) {
 					t.Errorf("%d analyses, %d workers: %s differs from the file rendered whole", keep, workers, name)
+				}
+			}
+		}
+		// HashedFilesOn: the same files, and each sum the SHA-256 of the
+		// joined bytes, whatever the workers.
+		for _, workers := range []int{1, 2, 5} {
+			got, sums, err := res.HashedFilesOn(workers)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for name, b := range whole {
+				want := sha256.Sum256(b)
+				if !bytes.Equal(got[name], b) || sums[name] != hex.EncodeToString(want[:]) {
+					t.Errorf("%d analyses, %d workers: %s: sum %s, want %x (bytes equal: %v)", keep, workers, name, sums[name], want, bytes.Equal(got[name], b))
 				}
 			}
 		}
