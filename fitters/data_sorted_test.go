@@ -1,6 +1,7 @@
 package fitters
 
 import (
+	"math"
 	"slices"
 	"sync"
 	"testing"
@@ -22,6 +23,9 @@ func TestSortedExact(t *testing.T) {
 	if y := d.SortedExact(); &y[0] != &x[0] {
 		t.Error("second call sorted again instead of sharing the first result")
 	}
+	if got := d.TiedExact(); got != 1 {
+		t.Errorf("TiedExact = %d, want 1 (the second 2)", got)
+	}
 
 	in := []float64{1, 2, 4}
 	if y := Complete(in).SortedExact(); &y[0] != &in[0] {
@@ -32,8 +36,27 @@ func TestSortedExact(t *testing.T) {
 	if y := d.SortedExact(); !slices.Equal(y, []float64{4, 5}) {
 		t.Errorf("after replacing Exact: %v, want [4 5]", y)
 	}
+	if got := d.TiedExact(); got != 0 {
+		t.Errorf("after replacing Exact: TiedExact = %d, want 0", got)
+	}
 	if y := (&Data{}).SortedExact(); len(y) != 0 {
 		t.Errorf("no data: %v", y)
+	}
+	// Ties are values equal to the one before: −0 and +0 are equal, NaNs
+	// are not.
+	for _, tc := range []struct {
+		x    []float64
+		want int
+	}{
+		{nil, 0},
+		{[]float64{1}, 0},
+		{[]float64{3, 3, 3, 1, 1, 2}, 3},
+		{[]float64{0, math.Copysign(0, -1), 7}, 1},
+		{[]float64{math.NaN(), math.NaN(), 1}, 0},
+	} {
+		if got := Complete(slices.Clone(tc.x)).TiedExact(); got != tc.want {
+			t.Errorf("TiedExact(%v) = %d, want %d", tc.x, got, tc.want)
+		}
 	}
 
 	c := Complete([]float64{9, 8, 7, 6, 5, 4, 3, 2, 1})

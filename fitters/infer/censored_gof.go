@@ -288,7 +288,7 @@ func observedCensored(fam fitters.Family, dist fitters.Dist, d *fitters.Data) *G
 func observedKaplanMeier(dist fitters.Dist, o *oneSided) *GoodnessOfFit {
 	ks, cvm := kaplanMeierStatistics(dist, o)
 	g := &GoodnessOfFit{Applicable: true}
-	note := fitters.JoinNote(KaplanMeierNote, tiesNote(o.Events))
+	note := fitters.JoinNote(KaplanMeierNote, tiesNote(fitters.CountTies(o.Events), len(o.Events)))
 	for i, v := range []float64{ks, cvm} {
 		g.Statistics = append(g.Statistics, Statistic{Name: censoredStatNames[i], Value: v, PValue: math.NaN(), Note: note})
 	}
