@@ -114,13 +114,17 @@ const (
 // The gzip members are compressed on at most workers goroutines (0: every
 // core); the bytes do not depend on workers.
 func writeTarGz(w io.Writer, bagName string, files []member, mtime time.Time, workers int) error {
-	mtime = time.Unix(mtime.Unix(), 0).UTC()
-	runner.TracePhase("write: tar, gzip")
 	entries, err := tarEntries(bagName, files)
 	if err != nil {
 		return err
 	}
+	return writeTarEntries(w, entries, mtime, workers)
+}
 
+// writeTarEntries is writeTarGz of the entries tarEntries listed.
+func writeTarEntries(w io.Writer, entries []tarEntry, mtime time.Time, workers int) error {
+	mtime = time.Unix(mtime.Unix(), 0).UTC()
+	runner.TracePhase("write: tar, gzip")
 	// Gzip members of 1 MiB of tar each, compressed on up to workers cores
 	// (gzip_parallel.go); the bytes do not depend on the number of cores.
 	// A file's body and the padding after it are compressed at its level

@@ -6,6 +6,7 @@ import (
 	"archive/tar"
 	"bytes"
 	"compress/gzip"
+	"crypto/sha256"
 	"errors"
 	"fmt"
 	"io"
@@ -357,6 +358,88 @@ func BenchmarkGzipLevels(b *testing.B) {
 				size = buf.Len()
 			}
 			b.ReportMetric(float64(len(data))/float64(size), "ratio")
+		})
+	}
+}
+
+// WriteBundle lists the tar's entries from the members' paths while the
+// manifests are made, then attaches the members: the archive must be
+// WriteArchive's, byte for byte, with files on disk among the members too.
+func TestWriteBundleArchiveEqualsWriteArchive(t *testing.T) {
+	dir := t.TempDir()
+	c := testContents()
+	onDisk := []byte("x,y\n1,2\n3,4\n")
+	file := filepath.Join(dir, "big.csv")
+	if err := os.WriteFile(file, onDisk, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	c.Files = map[string]DiskFile{"inputs/data/big.csv": {Path: file, Size: int64(len(onDisk)), SHA256: sha256.Sum256(onDisk)}}
+	var want bytes.Buffer
+	if err := WriteArchive(&want, c, testSigner(t)); err != nil {
+		t.Fatal(err)
+	}
+	for _, workers := range []int{1, 2, 4} {
+		c.Workers = workers
+		out := filepath.Join(dir, fmt.Sprintf("bag-%d.tar.gz", workers))
+		if err := WriteBundle(out, false, c, testSigner(t)); err != nil {
+			t.Fatal(err)
+		}
+		got, err := os.ReadFile(out)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(got, want.Bytes()) {
+			t.Errorf("%d workers: WriteBundle's archive (%d bytes) differs from WriteArchive's (%d bytes)", workers, len(got), want.Len())
+		}
+	}
+}
+
+// attachMembers refuses entries that do not match the members made: an
+// entry with no member, a member with no entry, an entry outside the bag.
+func TestAttachMembers(t *testing.T) {
+	files := map[string][]byte{"bagit.txt": []byte("b"), "data/a.csv": []byte("a")}
+	disk := map[string]DiskFile{"data/d.csv": {Path: "/nowhere", Size: 1}}
+	list := func(paths ...string) []tarEntry {
+		var ms []member
+		for _, p := range paths {
+			ms = append(ms, member{Path: p})
+		}
+		e, err := tarEntries("bag", ms)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return e
+	}
+	for _, tc := range []struct {
+		name  string
+		bag   string
+		paths []string
+		ok    bool
+	}{
+		{"the same paths", "bag", []string{"bagit.txt", "data/a.csv", "data/d.csv"}, true},
+		{"a member not listed", "bag", []string{"bagit.txt", "data/a.csv"}, false},
+		{"an entry with no member", "bag", []string{"bagit.txt", "data/a.csv", "data/d.csv", "data/e.csv"}, false},
+		{"another bag's entries", "other", []string{"bagit.txt", "data/a.csv", "data/d.csv"}, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			entries, ok := attachMembers(tc.bag, list(tc.paths...), files, disk)
+			if ok != tc.ok {
+				t.Fatalf("ok = %v, want %v", ok, tc.ok)
+			}
+			if !ok {
+				return
+			}
+			for _, e := range entries {
+				switch {
+				case e.dir:
+				case e.file.Disk != nil:
+					if e.name != "bag/data/d.csv" || e.file.Path != "data/d.csv" {
+						t.Errorf("disk member at %s (%s)", e.name, e.file.Path)
+					}
+				case !bytes.Equal(e.file.Data, files[e.file.Path]) || e.name != "bag/"+e.file.Path:
+					t.Errorf("entry %s holds member %s", e.name, e.file.Path)
+				}
+			}
 		})
 	}
 }

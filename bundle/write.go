@@ -141,6 +141,54 @@ func allMembers(files map[string][]byte, disk map[string]DiskFile) []member {
 	return out
 }
 
+// listedEntries is tarEntries' result.
+type listedEntries struct {
+	entries []tarEntry
+	err     error
+}
+
+// memberPaths are the paths of the members that members(c, …) makes, with
+// no data: the payload's under data/, run.json and the tag files.
+func memberPaths(c Contents) []member {
+	out := make([]member, 0, len(c.Payload)+len(c.Files)+len(tagFiles))
+	for p := range c.Payload {
+		out = append(out, member{Path: PayloadDir + "/" + p})
+	}
+	for p := range c.Files {
+		out = append(out, member{Path: PayloadDir + "/" + p})
+	}
+	for p := range tagFiles {
+		out = append(out, member{Path: p})
+	}
+	return out
+}
+
+// attachMembers gives each file entry its member from files or disk, and
+// reports whether every entry found one and every member an entry.
+func attachMembers(bagName string, entries []tarEntry, files map[string][]byte, disk map[string]DiskFile) ([]tarEntry, bool) {
+	prefix := bagName + "/"
+	n := 0
+	for i := range entries {
+		e := &entries[i]
+		if e.dir {
+			continue
+		}
+		p, cut := strings.CutPrefix(e.name, prefix)
+		if !cut {
+			return nil, false
+		}
+		if b, ok := files[p]; ok {
+			e.file = member{Path: p, Data: b}
+		} else if d, ok := disk[p]; ok {
+			e.file = member{Path: p, Disk: &d}
+		} else {
+			return nil, false
+		}
+		n++
+	}
+	return entries, n == len(files)+len(disk)
+}
+
 // WriteArchive writes the signed bag as a gzip-compressed tar to w (see
 // writeTarGz for what makes it deterministic).
 func WriteArchive(w io.Writer, c Contents, signer Signer) error {
@@ -167,13 +215,35 @@ func WriteBundle(out string, force bool, c Contents, signer Signer) error {
 		return err
 	}
 	runner.TracePhase("write: manifests, signature")
+	archive := IsArchivePath(out)
+	var listed chan listedEntries
+	if archive {
+		// The tar's entries depend on the members' paths only, which are
+		// known now: they are listed on another core while the manifests
+		// are hashed and signed.
+		listed = make(chan listedEntries, 1)
+		go func() {
+			e, err := tarEntries(c.Name, memberPaths(c))
+			listed <- listedEntries{e, err}
+		}()
+	}
 	files, disk, err := members(c, signer)
 	if err != nil {
 		return err
 	}
-	if IsArchivePath(out) {
+	if archive {
+		l := <-listed
+		if l.err != nil {
+			return l.err
+		}
+		entries, ok := attachMembers(c.Name, l.entries, files, disk)
+		if !ok { // the paths listed were not the members made: list again
+			if entries, err = tarEntries(c.Name, allMembers(files, disk)); err != nil {
+				return err
+			}
+		}
 		err = writeFileAtomic(out, force, fileMode, func(w io.Writer) error {
-			return writeTarGz(w, c.Name, allMembers(files, disk), c.Created, c.Workers)
+			return writeTarEntries(w, entries, c.Created, c.Workers)
 		})
 	} else {
 		err = writeFolderAtomic(out, force, allMembers(files, disk))
