@@ -285,10 +285,14 @@ func buildBag(c bagContents) (map[string][]byte, map[string]DiskFile, error) {
 		return nil, nil, fmt.Errorf("%s is empty", RunFile)
 	}
 	files[RunFile] = c.RunJSON
+	// run.json (megabytes in a large run) is hashed for the tag manifest
+	// while the payload is hashed for the manifest.
+	runSum := make(chan string, 1)
+	go func() { runSum <- sha256Hex(c.RunJSON) }()
 	files[BagItFile] = []byte(bagItDeclaration)
 	files[ManifestFile] = manifestOn(c.Workers, files, payloadPaths, known)
 	oxum := strconv.FormatInt(octets, 10) + "." + strconv.Itoa(len(payloadPaths))
 	files[BagInfoFile] = bagInfo(c.Created, c.Description, c.ToolVersion, oxum)
-	files[TagManifestFile] = manifest(files, tagManifestCovers)
+	files[TagManifestFile] = manifestOn(1, files, tagManifestCovers, map[string]string{RunFile: <-runSum})
 	return files, disk, nil
 }

@@ -304,14 +304,21 @@ func refusePrivateKeys(c Contents) error {
 	for p := range c.Payload {
 		paths = append(paths, p)
 	}
-	sort.Strings(paths)
 	// Scanned on the workers (some 30 MB in a large run); the first
-	// offender in path order is reported, whatever the workers.
-	err := runner.ForEachErr(workersOf(c.Workers), len(paths), func(i int) error {
-		return refuseKeyIn(PayloadDir+"/"+paths[i], c.Payload[paths[i]])
+	// offender in path order is reported, whatever the workers and the
+	// map's order.
+	refused := make([]bool, len(paths))
+	runner.ForEach(workersOf(c.Workers), len(paths), func(i int) {
+		refused[i] = refuseKeyIn(paths[i], c.Payload[paths[i]]) != nil
 	})
-	if err != nil {
-		return err
+	first := -1
+	for i, r := range refused {
+		if r && (first < 0 || paths[i] < paths[first]) {
+			first = i
+		}
+	}
+	if first >= 0 {
+		return refuseKeyIn(PayloadDir+"/"+paths[first], c.Payload[paths[first]])
 	}
 	return refuseKeyIn(RunFile, c.RunJSON)
 }
