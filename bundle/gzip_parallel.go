@@ -28,21 +28,25 @@ import (
 const gzipChunk = 1 << 20
 
 // memberWriter compresses what it is given as consecutive gzip members of
-// gzipChunk bytes of input each, at most workers at a time, and writes
-// them to w in order. setLevel changes the level of what follows; a chunk
+// gzipChunk bytes of input each and writes them to w in order. Up to
+// 2 × workers members are in flight, so that while the oldest is still
+// being compressed (members take 1–4 ms each, by level) a finished worker
+// finds the next member waiting instead of idling; at most workers are
+// compressed at once. setLevel changes the level of what follows; a chunk
 // that has begun is then closed as a shorter member, so that every member
 // is made at one level and the bytes depend only on the stream and where
 // the level changes.
 //
 // Chunk buffers, output buffers and encoders are recycled once a member is
-// written out, so a stream of any length holds at most workers+1 of each
+// written out, so a stream of any length holds at most 2 × workers + 1 of each
 // (fresh 1 MiB buffers for every member cost more in page faults and
 // zeroing than the copy into them).
 type memberWriter struct {
 	w       io.Writer
 	level   int
 	workers int
-	cur     *memberJob // the job whose chunk is being filled, or nil
+	running chan struct{} // holds a token per member being compressed
+	cur     *memberJob    // the job whose chunk is being filled, or nil
 	pending []chan *memberJob
 	free    []*memberJob
 	members int
@@ -66,7 +70,7 @@ func newMemberWriter(w io.Writer, level, workers int) *memberWriter {
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	return &memberWriter{w: w, level: level, workers: workers}
+	return &memberWriter{w: w, level: level, workers: workers, running: make(chan struct{}, workers)}
 }
 
 func (m *memberWriter) Write(p []byte) (int, error) {
@@ -116,9 +120,9 @@ func (m *memberWriter) job() *memberJob {
 }
 
 // dispatch starts compressing the buffered chunk, first writing out the
-// oldest finished member when workers are already busy.
+// oldest member when 2 × workers are already in flight.
 func (m *memberWriter) dispatch() {
-	for len(m.pending) >= m.workers && m.err == nil {
+	for len(m.pending) >= 2*m.workers && m.err == nil {
 		m.writeOldest()
 	}
 	j := m.cur
@@ -129,6 +133,7 @@ func (m *memberWriter) dispatch() {
 	j.level = m.level
 	ch := make(chan *memberJob, 1)
 	go func() {
+		m.running <- struct{}{}
 		j.out.Reset()
 		j.out.Grow(len(j.chunk)/2 + 1024)
 		if j.zw == nil || j.zwLevel != j.level {
@@ -144,6 +149,7 @@ func (m *memberWriter) dispatch() {
 				j.err = j.zw.Close()
 			}
 		}
+		<-m.running
 		ch <- j
 	}()
 	m.pending = append(m.pending, ch)
