@@ -52,8 +52,23 @@ func CensoredEnvelope(dist fitters.Dist, d *fitters.Data, probs []float64, B int
 			quantiles[j] = append(quantiles[j], q)
 		}
 	}
-	lower, upper = make([]float64, len(probs)), make([]float64, len(probs))
-	for j, qs := range quantiles {
+	lower, upper = pointwiseBounds(quantiles, B, level)
+	return lower, upper, true
+}
+
+// pointwiseBounds returns, for each point j, the (1 ∓ level)/2 order
+// statistics of the B simulated values sims[j] (NaN or ±Inf for a sample
+// that has no value there): the r-th smallest, r = round((1 ∓ level)/2 ·
+// (B + 1)), the 5th and 195th of 199 at level 0.95 (the ranks of the
+// complete-data envelope, simulationEnvelope in bundle/report). A sample
+// without a value counts as above every value; a point where fewer than
+// 90 % of the samples have one gets NaN bounds, and an upper rank beyond
+// the values a NaN upper bound. sims is sorted in place.
+func pointwiseBounds(sims [][]float64, B int, level float64) (lower, upper []float64) {
+	lower, upper = make([]float64, len(sims)), make([]float64, len(sims))
+	lo := int(math.Round((1-level)/2*float64(B+1))) - 1
+	hi := int(math.Round((1+level)/2*float64(B+1))) - 1
+	for j, qs := range sims {
 		finite := qs[:0]
 		for _, q := range qs {
 			if !math.IsNaN(q) && !math.IsInf(q, 0) {
@@ -65,11 +80,6 @@ func CensoredEnvelope(dist fitters.Dist, d *fitters.Data, probs []float64, B int
 			continue
 		}
 		sort.Float64s(finite)
-		// The order statistics a complete-data envelope takes
-		// (simulationEnvelope in bundle/report), of the B samples: a
-		// sample that stopped short of p counts as above every value.
-		lo := int(math.Round((1-level)/2*float64(B+1))) - 1
-		hi := int(math.Round((1+level)/2*float64(B+1))) - 1
 		lower[j] = finite[max(lo, 0)]
 		if hi < len(finite) {
 			upper[j] = finite[hi]
@@ -77,7 +87,7 @@ func CensoredEnvelope(dist fitters.Dist, d *fitters.Data, probs []float64, B int
 			upper[j] = math.NaN()
 		}
 	}
-	return lower, upper, true
+	return lower, upper
 }
 
 // stepQuantile is min{t : F̂(t) ≥ p} for a step estimate, NaN when it
