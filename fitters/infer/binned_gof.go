@@ -124,13 +124,23 @@ func (p *binnedPlan) chiSquare(d fitters.Dist, counts []float64) (float64, int) 
 	return pool.finish()
 }
 
+// bin is the index of the bin (lo, hi] that holds v (the first with
+// hi ≥ v), or −1 when none does.
+func (p *binnedPlan) bin(v float64) int {
+	k := sort.SearchFloat64s(p.hi, v)
+	if k == len(p.hi) || !(v > p.lo[k]) {
+		return -1
+	}
+	return k
+}
+
 // simulate records the draws x in the plan's bins, each bin as the data
 // recorded it.
 func (p *binnedPlan) simulate(x []float64, _ *rand.Rand) (*fitters.Data, string) {
 	sim := &fitters.Data{}
 	for _, v := range x {
-		k := sort.SearchFloat64s(p.hi, v) // the first bin with hi ≥ v
-		if k == len(p.hi) || !(v > p.lo[k]) {
+		k := p.bin(v)
+		if k < 0 {
 			return nil, fmt.Sprintf("a draw (%v) fell outside the bins", v)
 		}
 		switch p.kind[k] {
