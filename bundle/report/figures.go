@@ -51,6 +51,9 @@ type FigureInput struct {
 	// and P–P plots, in data units, one entry per Probability point (same
 	// order): e.g. from the parametric bootstrap's simulated samples.
 	Envelope *Envelope
+	// BinEnvelope is an optional pointwise simulation envelope for the
+	// empirical CDF of binned data, drawn around it in the CDF figure.
+	BinEnvelope *BinEnvelope
 	// ReturnLevels of the best candidate with their intervals, and the
 	// observed annual maxima to plot at their empirical return periods.
 	ReturnLevels []ReturnLevelPoint
@@ -86,6 +89,19 @@ type Envelope struct {
 	Lower, Upper []float64
 	Level        float64 // e.g. 0.95
 	Censored     bool
+}
+
+// BinEnvelope is a pointwise simulation envelope of the empirical CDF of
+// binned data: at each bin edge Edges[k] (ascending), the band
+// [Lower[k], Upper[k]] of the cumulative proportions of Replicates samples
+// of the best candidate (Family) recorded in the data's bins. A sample's
+// step CDF, like the data's, keeps its value at an edge up to the next
+// edge, so the band is drawn as steps from the first edge on.
+type BinEnvelope struct {
+	Edges, Lower, Upper []float64
+	Level               float64
+	Family              string
+	Replicates          int
 }
 
 // ReturnLevelPoint is the level exceeded on average once in Period years.
@@ -150,7 +166,12 @@ func RenderFigures(name string, in FigureInput) ([]RenderedFigure, error) {
 		if len(in.Empirical) == 0 || label == "" {
 			label = "empirical"
 		}
-		makers = append(makers, maker{"cdf", fmt.Sprintf("%s: %s CDF against the fitted CDFs", in.Analysis, label), func() (*plot.Plot, error) { return cdfPlot(in, obs) }})
+		env := ""
+		if e := in.BinEnvelope; e != nil {
+			env = fmt.Sprintf(", with a %s %% pointwise simulation envelope of the best candidate (%s) at the bin edges (%d samples of the fit recorded in the data's bins)",
+				g(e.Level*100), e.Family, e.Replicates)
+		}
+		makers = append(makers, maker{"cdf", fmt.Sprintf("%s: %s CDF against the fitted CDFs%s", in.Analysis, label, env), func() (*plot.Plot, error) { return cdfPlot(in, obs) }})
 	}
 	points := in.Probability
 	if len(points) == 0 {
@@ -476,6 +497,13 @@ func cdfPlot(in FigureInput, obs []float64) (*plot.Plot, error) {
 	if len(obs) > 0 {
 		lo, hi = math.Min(lo, obs[0]), math.Max(hi, obs[len(obs)-1])
 	}
+	env := in.BinEnvelope
+	if env != nil && (len(env.Edges) == 0 || len(env.Lower) != len(env.Edges) || len(env.Upper) != len(env.Edges)) {
+		env = nil
+	}
+	if env != nil {
+		lo, hi = math.Min(lo, env.Edges[0]), math.Max(hi, env.Edges[len(env.Edges)-1])
+	}
 	pad := 0.1 * (hi - lo)
 	if pad == 0 {
 		pad = 1
@@ -494,8 +522,29 @@ func cdfPlot(in FigureInput, obs []float64) (*plot.Plot, error) {
 		return nil, err
 	}
 	emp.LineStyle = draw.LineStyle{Color: color.Gray{40}, Width: vg.Points(1.2)}
+	var band *plotter.Polygon
+	if env != nil {
+		// Steps as the samples' CDFs take them: the bounds at each edge
+		// held up to the next edge, the last to the axis' end.
+		var lower, upper plotter.XYs
+		for k, x := range env.Edges {
+			next := xhi
+			if k+1 < len(env.Edges) {
+				next = env.Edges[k+1]
+			}
+			lower = append(lower, plotter.XY{X: x, Y: env.Lower[k]}, plotter.XY{X: next, Y: env.Lower[k]})
+			upper = append(upper, plotter.XY{X: x, Y: env.Upper[k]}, plotter.XY{X: next, Y: env.Upper[k]})
+		}
+		if band, err = bandPolygon(lower, upper); err != nil {
+			return nil, err
+		}
+		p.Add(band) // under the lines
+	}
 	p.Add(emp)
 	p.Legend.Add(label, emp)
+	if band != nil {
+		p.Legend.Add(fmt.Sprintf("%s %% simulation envelope (%s)", g(env.Level*100), env.Family), band)
+	}
 	for i, c := range leading(in.Candidates) {
 		var curve plotter.XYs
 		if in.Discrete {
@@ -747,16 +796,10 @@ func addBand(p *plot.Plot, lower, upper plotter.XYs, env *Envelope) error {
 	if len(lower) < 2 {
 		return nil
 	}
-	ring := append(plotter.XYs{}, lower...)
-	for i := len(upper) - 1; i >= 0; i-- {
-		ring = append(ring, upper[i])
-	}
-	poly, err := plotter.NewPolygon(ring)
+	poly, err := bandPolygon(lower, upper)
 	if err != nil {
 		return err
 	}
-	poly.Color = color.RGBA{215, 225, 240, 255}
-	poly.LineStyle.Width = 0
 	p.Add(poly)
 	if env != nil {
 		p.Legend.Add(g(env.Level*100)+" % envelope", poly)
@@ -764,6 +807,22 @@ func addBand(p *plot.Plot, lower, upper plotter.XYs, env *Envelope) error {
 		p.Legend.Add("interval", poly)
 	}
 	return nil
+}
+
+// bandPolygon is the shaded region between the lower and the upper
+// boundary (each in increasing x), unoutlined.
+func bandPolygon(lower, upper plotter.XYs) (*plotter.Polygon, error) {
+	ring := append(plotter.XYs{}, lower...)
+	for i := len(upper) - 1; i >= 0; i-- {
+		ring = append(ring, upper[i])
+	}
+	poly, err := plotter.NewPolygon(ring)
+	if err != nil {
+		return nil, err
+	}
+	poly.Color = color.RGBA{215, 225, 240, 255}
+	poly.LineStyle.Width = 0
+	return poly, nil
 }
 
 func addIdentity(p *plot.Plot, lo, hi float64) error {

@@ -205,7 +205,7 @@ func summarise(d *fitters.Data, missing int) DataSummary {
 }
 
 // EnvelopeReplicates is the number of samples simulated from the best fit
-// for the Q–Q and P–P envelopes of complete data.
+// for the envelopes of the Q–Q and P–P plots and of binned data's CDF.
 const EnvelopeReplicates = 199
 
 // FigureInputFor gathers analysis i's figure material from the results:
@@ -214,7 +214,11 @@ const EnvelopeReplicates = 199
 // return levels of the best family, and, for continuous data complete or
 // censored in one direction, a 95 % pointwise envelope from
 // EnvelopeReplicates samples of the best fit (censored as the data were,
-// infer.CensoredEnvelope), drawn from [EnvelopeSeed].
+// infer.CensoredEnvelope), drawn from [EnvelopeSeed]. Binned continuous
+// data (every observation an interval, the intervals disjoint bins) get
+// instead a 95 % pointwise envelope of their empirical CDF at the bin
+// edges from as many samples of the best fit recorded in the same bins
+// (infer.BinnedEnvelope), from the same seed.
 func FigureInputFor(res *runner.Results, i int) FigureInput {
 	ar := res.Analyses[i]
 	p := res.Project
@@ -299,6 +303,14 @@ func FigureInputFor(res *runner.Results, i int) FigureInput {
 				seed := EnvelopeSeed(p.Settings.Seed, ar.Name, in.Candidates[0].Family)
 				if lo, hi, ok := infer.CensoredEnvelope(bestDist, d, probs, EnvelopeReplicates, 0.95, seed); ok {
 					in.Envelope = &Envelope{Level: 0.95, Lower: lo, Upper: hi, Censored: true}
+				}
+			}
+			if bestDist != nil && !in.Discrete {
+				// Binned data: samples of the best fit recorded in the
+				// data's bins, their cumulative proportions at the edges.
+				best := in.Candidates[0].Family
+				if edges, lo, hi, ok := infer.BinnedEnvelope(bestDist, d, EnvelopeReplicates, 0.95, EnvelopeSeed(p.Settings.Seed, ar.Name, best)); ok {
+					in.BinEnvelope = &BinEnvelope{Edges: edges, Lower: lo, Upper: hi, Level: 0.95, Family: best, Replicates: EnvelopeReplicates}
 				}
 			}
 		}
