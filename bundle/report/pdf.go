@@ -444,8 +444,9 @@ func methodsText(r *Report) []string {
 		derived,
 		"Figures. Densities (or probability mass functions) of the leading candidates are drawn over a histogram of the exact values; " +
 			"the empirical CDF (Kaplan–Meier for suspensions, its reverse for non-detects, Turnbull for other censoring) is set against the fitted CDFs; Q–Q and P–P plots " +
-			"show the best candidate, with a 95 % pointwise envelope from 199 samples of the fit (for suspensions or non-detects, samples censored as the data were; " +
-			"none for interval-censored data or counts).",
+			"show the best candidate, with a 95 % pointwise envelope from 199 samples of the fit (for suspensions or non-detects, samples censored as the data were). " +
+			"Binned data (disjoint intervals) have instead, around their empirical CDF, a 95 % pointwise envelope of the cumulative proportions at the bin edges " +
+			"from 199 samples of the best fit recorded in the same bins. Other interval-censored data and counts have none.",
 	}
 }
 
