@@ -90,11 +90,21 @@ func gunzipPiece(piece []byte, limit int64, buf []byte) []byte {
 	if err != nil {
 		return nil
 	}
-	n, err := io.ReadFull(zr, buf[:limit+1])
-	if (err != io.ErrUnexpectedEOF && err != io.EOF) || int64(n) > limit {
-		return nil // an error, or more than limit bytes
+	// Read to the reader's own io.EOF: io.ReadFull would report a member
+	// cut short (the gzip reader's io.ErrUnexpectedEOF, as when the file
+	// lacks its last bytes) exactly as it reports a short read, and the
+	// piece would pass without its CRC-32 and length being checked.
+	var n int64
+	for {
+		m, err := zr.Read(buf[n : limit+1])
+		n += int64(m)
+		if n > limit || (err != nil && err != io.EOF) {
+			return nil // more than limit bytes, or an error
+		}
+		if err == io.EOF {
+			return buf[:n]
+		}
 	}
-	return buf[:n]
 }
 
 // pieceBuffers recycles the buffers pieces are decompressed into (a fresh

@@ -15,7 +15,7 @@ import (
 
 // TestSplitReader: a stream cut into pieces at every member start gives
 // exactly the bytes of one reader; where a cut is not a member's start (the
-// signature inside stored data), a member is damaged, or a piece holds more
+// signature inside stored data), a member is damaged or cut short, or a piece holds more
 // than maxPiece, Read fails with errSplitFailed instead (and ReadArchive
 // reads the stream in one piece).
 func TestSplitReader(t *testing.T) {
@@ -53,6 +53,8 @@ func TestSplitReader(t *testing.T) {
 		{"an empty member", freshMembers(t, nil, gzipLevel), true},
 		{"signature inside stored data", stored.Bytes(), false},
 		{"a damaged member", damaged, false},
+		{"the last member without its length", members.Bytes()[:members.Len()-4], false},
+		{"the last member without its trailer", members.Bytes()[:members.Len()-8], false},
 		{"a member over maxPiece", big.Bytes(), false},
 	} {
 		for _, workers := range []int{1, 2, 8} {
@@ -143,4 +145,33 @@ func BenchmarkReadArchive(b *testing.B) {
 			}
 		}
 	})
+}
+
+// TestReadArchiveTruncated: an archive that ends early is refused as
+// damaged, read from a file (its members decompressed in pieces) or from a
+// stream, wherever the cut falls: inside the last member's 8-byte trailer
+// (CRC-32 and length), inside its deflate data (which may hold only the
+// tar's end-of-archive zeros) or in the middle of the payload.
+func TestReadArchiveTruncated(t *testing.T) {
+	archive := testArchive(t)
+	for _, cut := range []int{1, 4, 8, 12, 20, 40, len(archive) / 2} {
+		data := archive[:len(archive)-cut]
+		path := filepath.Join(t.TempDir(), "b.tar.gz")
+		if err := os.WriteFile(path, data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		f, err := os.Open(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, errFile := ReadArchive(f, DefaultLimits)
+		f.Close()
+		_, errStream := ReadArchive(bytes.NewReader(data), DefaultLimits)
+		for from, err := range map[string]error{"file": errFile, "stream": errStream} {
+			var ae *ArchiveError
+			if !errors.As(err, &ae) || !ae.Damaged {
+				t.Errorf("%d bytes cut off, read from a %s: err %v, want a damaged-archive error", cut, from, err)
+			}
+		}
+	}
 }
