@@ -202,6 +202,28 @@ func namesOf(f Family) []string {
 	return f.Parameters()
 }
 
+// fixedParameters is implemented by the families that take fixed
+// parameters (a project's fixed = { gpd = { threshold = 30.0 } }).
+type fixedParameters interface {
+	// fixable lists the parameters that may be fixed, and required those
+	// that must be (gpd models the excesses over its threshold).
+	fixable() (fixable, required []string)
+}
+
+// FixableParameters lists the parameters of f that a project may fix, and
+// those it must fix: the threshold of gpd (required), weibull3 and
+// lognormal3; none for any other family, whose Applicable refuses every
+// fixed parameter.
+func FixableParameters(f Family) (fixable, required []string) {
+	if c, ok := f.(checkedFamily); ok {
+		f = c.Family
+	}
+	if x, ok := f.(fixedParameters); ok {
+		return x.fixable()
+	}
+	return nil, nil
+}
+
 // Lookup returns the family with the given name.
 func Lookup(name string) (Family, bool) {
 	f, ok := registry[name]

@@ -75,6 +75,11 @@ type gpdFamily struct{}
 
 func init() { register(gpdFamily{}) }
 
+// fixable: a project must fix its threshold: gpd models the excesses over it.
+func (gpdFamily) fixable() (fixable, required []string) {
+	return []string{"threshold"}, []string{"threshold"}
+}
+
 func (gpdFamily) Name() string         { return "gpd" }
 func (gpdFamily) Parameters() []string { return []string{"scale", "shape", "threshold"} }
 func (gpdFamily) Kind() Kind           { return Continuous }

@@ -66,6 +66,11 @@ type lognormal3Family struct{}
 
 func init() { register(lognormal3Family{}) }
 
+// fixable: a project may fix its threshold, which makes it an excess model with k = 2.
+func (lognormal3Family) fixable() (fixable, required []string) {
+	return []string{"threshold"}, nil
+}
+
 func (lognormal3Family) Name() string         { return "lognormal3" }
 func (lognormal3Family) Parameters() []string { return []string{"mu", "sigma", "threshold"} }
 func (lognormal3Family) Kind() Kind           { return Continuous }

@@ -64,6 +64,11 @@ type weibull3Family struct{}
 
 func init() { register(weibull3Family{}) }
 
+// fixable: a project may fix its threshold, which makes it an excess model with k = 2.
+func (weibull3Family) fixable() (fixable, required []string) {
+	return []string{"threshold"}, nil
+}
+
 func (weibull3Family) Name() string         { return "weibull3" }
 func (weibull3Family) Parameters() []string { return []string{"shape", "scale", "threshold"} }
 func (weibull3Family) Kind() Kind           { return Continuous }

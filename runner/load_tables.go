@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 	"unicode/utf8"
 
 	"fitseal/fitters"
@@ -157,6 +158,7 @@ func (l *loader) candidates(t *table) *CandidateSet {
 		l.errorf(t.key("name"), `add name = "…" to this [[candidates]]`, "is required")
 	}
 	known := familyNames()
+	familyPath := map[string]string{} // a listed family's key path
 	if v, ok := t.strings("families"); ok {
 		if len(v) == 0 {
 			l.errorf(t.key("families"), "list at least one family; 'fitseal families' prints them", "is empty")
@@ -179,6 +181,7 @@ func (l *loader) candidates(t *table) *CandidateSet {
 				continue
 			}
 			seen[name] = true
+			familyPath[name] = path
 			c.Families = append(c.Families, name)
 			kinds[f.Kind()] = append(kinds[f.Kind()], name)
 		}
@@ -221,6 +224,10 @@ func (l *loader) candidates(t *table) *CandidateSet {
 					l.errorf(path, hint, "%s has no parameter %q", fam, param)
 					continue
 				}
+				if fixable, _ := fitters.FixableParameters(f); known && !contains(fixable, param) {
+					l.errorf(path, fixableHint(fam, fixable), "%s's %s cannot be fixed", fam, param)
+					continue
+				}
 				if math.IsNaN(x) || math.IsInf(x, 0) {
 					l.errorf(path, "", "%v is not a finite number", x)
 					continue
@@ -230,8 +237,51 @@ func (l *loader) candidates(t *table) *CandidateSet {
 			c.Fixed[fam] = vals
 		}
 	}
+	// A family that must have a parameter fixed (gpd's threshold) is
+	// refused here, not listed as inapplicable in every analysis.
+	for _, fam := range c.Families {
+		f, _ := fitters.Lookup(fam)
+		_, required := fitters.FixableParameters(f)
+		for _, param := range required {
+			if !hasFixed(t, fam, param) {
+				l.errorf(familyPath[fam],
+					fmt.Sprintf("add fixed = { %s = { %s = … } } to this [[candidates]]: %s models the excesses over it", fam, param, fam),
+					"%s needs its %s fixed", fam, param)
+			}
+		}
+	}
 	t.done()
 	return c
+}
+
+// hasFixed reports whether t's fixed.FAM.PARAM is given (a value refused
+// as not a number is reported as such, not also as missing).
+func hasFixed(t *table, fam, param string) bool {
+	ft, ok := t.m["fixed"].(map[string]any)
+	if !ok {
+		return false
+	}
+	pt, ok := ft[fam].(map[string]any)
+	if !ok {
+		return false
+	}
+	_, present := pt[param]
+	return present
+}
+
+// fixableHint says which parameters of fam may be fixed, or that none may.
+func fixableHint(fam string, fixable []string) string {
+	if len(fixable) == 0 {
+		var all []string
+		for _, f := range fitters.Families() {
+			p, _ := fitters.FixableParameters(f)
+			for _, name := range p {
+				all = append(all, f.Name()+"'s "+name)
+			}
+		}
+		return fmt.Sprintf("%s has no parameter that can be fixed (those that can: %s); remove this entry", fam, strings.Join(all, ", "))
+	}
+	return fmt.Sprintf("only the %s of %s can be fixed; remove this entry", strings.Join(fixable, " and "), fam)
 }
 
 // analysis reads one [[analysis]] table and resolves its references.

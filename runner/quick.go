@@ -63,17 +63,37 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 	if d.Where != nil {
 		ds["where"] = map[string]any{"column": d.Where.Column, "equals": d.Where.Equals}
 	}
-	families := spec.Families
-	if len(families) == 0 {
+	// A family that must have a parameter fixed (gpd's threshold) cannot
+	// be fitted here, where nothing is fixed: it is left out of the
+	// default list, and refused by name when asked for.
+	needsFixed := func(name string) []string {
+		if f, ok := fitters.Lookup(name); ok {
+			_, required := fitters.FixableParameters(f)
+			return required
+		}
+		return nil
+	}
+	var refused ProjectErrors
+	var families []string
+	if len(spec.Families) == 0 {
 		kind := fitters.Continuous
 		if spec.Discrete || d.TrialsColumn != "" {
 			kind = fitters.Discrete
 		}
 		for _, f := range fitters.Families() {
-			if f.Kind() == kind {
+			if f.Kind() == kind && needsFixed(f.Name()) == nil {
 				families = append(families, f.Name())
 			}
 		}
+	}
+	for _, name := range spec.Families {
+		if req := needsFixed(name); req != nil {
+			refused = append(refused, &ProjectError{File: "fitseal fit", Key: "--families",
+				Msg:  fmt.Sprintf("%s needs its %s fixed, which fitseal fit cannot do", name, strings.Join(req, " and ")),
+				Hint: fmt.Sprintf("fit %s from a project file whose candidate set fixes its %s; it models the excesses over it", name, strings.Join(req, " and "))})
+			continue
+		}
+		families = append(families, name)
 	}
 	fams := make([]any, len(families))
 	for i, f := range families {
@@ -92,13 +112,17 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 	l := &loader{file: "fitseal fit", lines: keyLines{}}
 	p := &Project{File: spec.File, Dir: filepath.Dir(spec.File)}
 	l.project(p, l.newTable("", raw))
-	if len(l.errs) > 0 {
+	if len(l.errs) > 0 || len(refused) > 0 {
 		for _, e := range l.errs {
+			if len(refused) > 0 && e.Key == "candidates[0].families" && e.Msg == "is empty" {
+				continue // every family asked for was refused above
+			}
 			e.Key = flagOfKey(e.Key)
 			e.Msg = fitWords.Replace(e.Msg)
 			e.Hint = fitWords.Replace(e.Hint)
+			refused = append(refused, e)
 		}
-		return nil, l.errs
+		return nil, refused
 	}
 	p.Defaulted = l.defaulted
 	p.Datasets[0].fitFlags = true

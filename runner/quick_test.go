@@ -4,6 +4,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"reflect"
 	"regexp"
 	"strings"
 	"testing"
@@ -54,6 +55,12 @@ func TestQuickProjectErrors(t *testing.T) {
 		{"trials with a continuous family", Dataset{Column: "k", TrialsColumn: "n"}, []string{"normal"},
 			`fitseal fit: --families: --trials_column is given, but "normal" is a continuous family`,
 			"use count families such as binomial or betabinomial with --trials_column"},
+		{"a family that needs a fixed threshold", Dataset{Column: "x"}, []string{"gumbel", "gpd"},
+			"fitseal fit: --families: gpd needs its threshold fixed, which fitseal fit cannot do",
+			"fit gpd from a project file whose candidate set fixes its threshold; it models the excesses over it"},
+		{"only a family that needs a fixed threshold", Dataset{Column: "x"}, []string{"gpd"},
+			"fitseal fit: --families: gpd needs its threshold fixed, which fitseal fit cannot do",
+			"fit gpd from a project file whose candidate set fixes its threshold; it models the excesses over it"},
 		{"discrete and continuous families", Dataset{Column: "x"}, []string{"normal", "poisson"},
 			`fitseal fit: --families: mixes discrete families (poisson) with continuous ones (normal): their likelihoods are not on the same footing`,
 			"put count families and continuous families in separate runs of fitseal fit"},
@@ -119,6 +126,37 @@ func TestQuickDataErrors(t *testing.T) {
 				if de.Error() != want || de.Hint != hint {
 					t.Errorf("fit command %v: got %q, hint %q\nwant %q, hint %q", fit, de.Error(), de.Hint, want, hint)
 				}
+			}
+		})
+	}
+}
+
+// TestQuickDefaultFamilies: without --families, fit ranks every family of
+// the data's kind that it can fit with nothing fixed: gpd, which needs its
+// threshold fixed, is left out rather than listed as not applicable with a
+// project file's remedy.
+func TestQuickDefaultFamilies(t *testing.T) {
+	dir := t.TempDir()
+	file := filepath.Join(dir, "x.csv")
+	if err := os.WriteFile(file, []byte("x,n\n1,3\n2,3\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name string
+		d    Dataset
+		want []string
+	}{
+		{"continuous", Dataset{Column: "x"}, []string{"normal", "lognormal", "exponential", "gamma", "weibull", "gumbel", "gev",
+			"logistic", "loglogistic", "invgauss", "pareto", "beta", "studentt", "weibull3", "lognormal3"}},
+		{"counts", Dataset{Column: "x", TrialsColumn: "n"}, []string{"poisson", "negbinomial", "geometric", "binomial", "betabinomial"}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			p, err := QuickProject(QuickSpec{File: file, Dataset: c.d})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := p.Candidates[0].Families; !reflect.DeepEqual(got, c.want) {
+				t.Errorf("families %v, want %v", got, c.want)
 			}
 		})
 	}

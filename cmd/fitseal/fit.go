@@ -39,7 +39,7 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	d := &o.Spec.Dataset
 	fs := newFlagSet("fit", "FILE.csv", "Fit candidate families to one column of a CSV file by maximum likelihood and\nprint their ranking. Censoring flags are named as the project file's keys\n(--status_column, --lower_column, …); the hyphenated spellings work too.", stderr)
 	fs.StringVar(&d.Column, "column", "", "the `NAME` of the column of observations")
-	fs.StringVar(&o.Families, "families", "", "comma-separated `LIST` of families (default: every continuous family, or every count family with --discrete or --trials_column)")
+	fs.StringVar(&o.Families, "families", "", "comma-separated `LIST` of families (default: every continuous family but gpd, which needs a fixed threshold that only a project file can give; or every count family with --discrete or --trials_column)")
 	fs.BoolVar(&o.Discrete, "discrete", false, "rank the count families by default")
 	fs.StringVar(&o.Criterion, "criterion", "aicc", "ranking criterion: aic, aicc or bic")
 	keyFlag(fs, &d.StatusColumn, "status_column", "the `NAME` of the column of censoring codes")
