@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -87,6 +88,9 @@ type RerunOptions struct {
 	// recorded numbers. The slices 0 … N−1 together check what one Rerun
 	// checks. A partial bundle (run --shard) is always re-run as its shard.
 	Slice *runner.Shard
+	// Progress, when not nil (a terminal), shows the re-run's fitting
+	// progress and then the re-rendering of tables, figures and PDF.
+	Progress io.Writer
 }
 
 // RerunReport is what a re-run found.
@@ -190,7 +194,7 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 			return rep, nil
 		}
 	}
-	res, err := runner.Run(ctx, proj, runner.RunOptions{Workers: workers, Shard: shard})
+	res, err := runner.Run(ctx, proj, runner.RunOptions{Workers: workers, Shard: shard, Progress: opt.Progress})
 	if err != nil {
 		if ctx.Err() != nil {
 			return nil, ctx.Err()
@@ -312,17 +316,26 @@ func Rerun(ctx context.Context, b *Bag, opt RerunOptions) (*RerunReport, error) 
 	case opt.Slice != nil && opt.Slice.Index != 0:
 		rep.RenderNote = fmt.Sprintf("slice %s compares numbers only; slice 0 compares the tables, figures and report.pdf", opt.Slice)
 	case opt.Slice != nil:
-		if err := rerender(rep, recordedRes, rec, recordedAll, opt.Tool); err != nil {
+		phase := runner.StartPhase(opt.Progress, rerenderLabel)
+		err := rerender(rep, recordedRes, rec, recordedAll, opt.Tool)
+		phase.Stop()
+		if err != nil {
 			return nil, err
 		}
 	default:
-		if err := rerender(rep, res, rec, payload, opt.Tool); err != nil {
+		phase := runner.StartPhase(opt.Progress, rerenderLabel)
+		err := rerender(rep, res, rec, payload, opt.Tool)
+		phase.Stop()
+		if err != nil {
 			return nil, err
 		}
 	}
 	sort.SliceStable(rep.Findings, func(i, j int) bool { return rep.Findings[i].Member < rep.Findings[j].Member })
 	return rep, nil
 }
+
+// rerenderLabel is the status line shown while rerender runs.
+const rerenderLabel = "comparing tables, figures and PDF with a fresh rendering"
 
 // rerender compares the tables, figures and PDF with fresh renderings when
 // the same build on the same platform made the bundle; otherwise it says why

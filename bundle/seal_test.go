@@ -324,3 +324,43 @@ func TestDiff(t *testing.T) {
 		t.Errorf("a standard error only results.json holds is not listed (want %q):\n%s", want, joined)
 	}
 }
+
+// TestRerunProgress: with a progress writer (verify on a terminal) the
+// re-run shows its fitting progress and then the re-rendering, each line
+// ended; without one it writes nothing, and the findings are the same.
+func TestRerunProgress(t *testing.T) {
+	ctx := context.Background()
+	bag := sealedBag(t, sealContents(t, runSealProject(t, 2), CurrentTool()))
+	for _, c := range []struct {
+		name     string
+		progress bool
+		want     []string
+	}{
+		{"terminal", true, []string{"\rfitting ", " 100%", "\r" + rerenderLabel + "  elapsed "}},
+		{"no terminal", false, nil},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			var buf bytes.Buffer
+			opt := RerunOptions{Workers: 2}
+			if c.progress {
+				opt.Progress = &buf
+			}
+			rep, err := Rerun(ctx, bag, opt)
+			if err != nil || len(rep.Findings) > 0 {
+				t.Fatalf("Rerun: %v, findings %v", err, rep.Findings)
+			}
+			out := buf.String()
+			for _, w := range c.want {
+				if !strings.Contains(out, w) {
+					t.Errorf("progress %q lacks %q", out, w)
+				}
+			}
+			if c.progress && (strings.Count(out, "\n") != 2 || !strings.HasSuffix(out, "\n")) {
+				t.Errorf("progress %q: want two lines, each ended", out)
+			}
+			if !c.progress && out != "" {
+				t.Errorf("progress written without a writer: %q", out)
+			}
+		})
+	}
+}

@@ -348,3 +348,32 @@ func TestProgressShowsReplicates(t *testing.T) {
 		t.Errorf("progress line %q", buf.String())
 	}
 }
+
+// TestPhase: a phase's status line names the work and the time it has
+// taken, starts at once, and ends its line when stopped; without a
+// terminal (a nil writer) it draws nothing.
+func TestPhase(t *testing.T) {
+	for _, c := range []struct {
+		label, elapsed, want string
+	}{
+		{"sealing: tables, figures, PDF", "0s", "sealing: tables, figures, PDF  elapsed 0s"},
+		{"sealing: tables, figures, PDF", "2.6s", "sealing: tables, figures, PDF  elapsed 3s"},
+		{"re-rendering", "75s", "re-rendering  elapsed 1m15s"},
+	} {
+		d, _ := time.ParseDuration(c.elapsed)
+		if got := strings.TrimSpace(phaseLine(c.label, d)); got != c.want {
+			t.Errorf("phaseLine(%q, %s) = %q, want %q", c.label, c.elapsed, got, c.want)
+		}
+	}
+	var buf bytes.Buffer
+	p := StartPhase(&buf, "sealing")
+	p.Stop()
+	out := buf.String()
+	if !strings.HasPrefix(out, "\rsealing  elapsed 0s") || !strings.HasSuffix(out, "\n") || strings.Count(out, "\n") != 1 {
+		t.Errorf("phase output %q", out)
+	}
+	if p := StartPhase(nil, "sealing"); p != nil {
+		t.Errorf("StartPhase(nil) = %v, want nil", p)
+	}
+	StartPhase(nil, "sealing").Stop() // a nil phase stops quietly
+}

@@ -71,3 +71,60 @@ func progressLine(done, total int, elapsed time.Duration) string {
 	}
 	return fmt.Sprintf("fitting %d/%d tasks %3d%%  elapsed %s  ETA %s   ", done, total, pct, elapsed.Round(time.Second), eta)
 }
+
+// Phase is a status line for a stage of work without a count of tasks
+// (sealing a bundle: tables, figures, the PDF summary, compression;
+// re-rendering them in verify): its label and the time elapsed, redrawn in
+// place every quarter second until Stop ends the line. A nil *Phase, as
+// StartPhase returns for a nil writer, does nothing.
+type Phase struct {
+	w     io.Writer
+	label string
+	start time.Time
+	quit  chan struct{}
+	wg    sync.WaitGroup
+}
+
+// StartPhase draws label on w (a terminal; nil draws nothing) until Stop.
+func StartPhase(w io.Writer, label string) *Phase {
+	if w == nil {
+		return nil
+	}
+	p := &Phase{w: w, label: label, start: time.Now(), quit: make(chan struct{})}
+	p.draw()
+	p.wg.Add(1)
+	go func() {
+		defer p.wg.Done()
+		tick := time.NewTicker(250 * time.Millisecond)
+		defer tick.Stop()
+		for {
+			select {
+			case <-p.quit:
+				return
+			case <-tick.C:
+				p.draw()
+			}
+		}
+	}()
+	return p
+}
+
+func (p *Phase) draw() {
+	fmt.Fprintf(p.w, "\r%s", phaseLine(p.label, time.Since(p.start)))
+}
+
+// Stop draws the line a last time, with the whole time taken, and ends it.
+func (p *Phase) Stop() {
+	if p == nil {
+		return
+	}
+	close(p.quit)
+	p.wg.Wait()
+	p.draw()
+	fmt.Fprintln(p.w)
+}
+
+// phaseLine formats "sealing: tables, figures, PDF  elapsed 3s   ".
+func phaseLine(label string, elapsed time.Duration) string {
+	return fmt.Sprintf("%s  elapsed %s   ", label, elapsed.Round(time.Second))
+}

@@ -150,6 +150,10 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		return err
 	}
 	runner.TracePhase("seal: inputs")
+	// Sealing (tables, figures, the PDF, compression) can take as long as
+	// the fits: say so, or the finished fitting line looks stuck.
+	sealing := runner.StartPhase(opt.Progress, sealingLabel(shard))
+	defer func() { sealing.Stop() }() // on an error; the line ends before the summary otherwise
 	contents, err := bundle.Seal(res, bundle.SealOptions{
 		Created: created, CreatedFrom: createdFrom, Git: git, Signer: signer.PublicKey(), Shard: shard, Workers: opt.Workers,
 	})
@@ -168,6 +172,8 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		}
 		return err
 	}
+	sealing.Stop()
+	sealing = nil
 	// A diagnostic about the data, not progress: printed under -q too.
 	reportMissing(stderr, res)
 	fmt.Fprintln(stdout, summary(res))
@@ -176,6 +182,15 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 	}
 	fmt.Fprintf(stdout, "bundle: %s\n", out)
 	return nil
+}
+
+// sealingLabel names what sealing a bundle does: a partial bundle holds no
+// tables, figures or PDF.
+func sealingLabel(shard *runner.Shard) string {
+	if shard != nil {
+		return "sealing the partial bundle: results, hashes, signature"
+	}
+	return "sealing the bundle: tables, figures, PDF summary, signature"
 }
 
 // gitInputs are the files whose git state run.json records, relative to the

@@ -28,6 +28,7 @@ type verifyOptions struct {
 	NoRerun bool
 	Workers int
 	Shard   string // --shard I/N: re-run one slice of the plan
+	Quiet   bool   // no progress line
 }
 
 func cmdVerify(ctx context.Context, args []string, stdout, stderr io.Writer) error {
@@ -36,7 +37,7 @@ func cmdVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	fs.StringVar(&o.Key, "key", "", "pin the signer: the signature must be made with the public key in `PUB`\n(an OpenSSH .pub file, an authorized_keys or allowed_signers line)")
 	fs.BoolVar(&o.NoRerun, "no-rerun", false, "stop after integrity and signature")
 	fs.IntVar(&o.Workers, "j", 0, "number of fits re-run at once, and the most cores used (default: all cores); never changes a result")
-	fs.Bool("q", false, "no progress output")
+	fs.BoolVar(&o.Quiet, "q", false, "no progress line while the analysis is re-run")
 	fs.StringVar(&o.Shard, "shard", "", "re-run only slice `I/N` (0-based; or auto) of the plan, the slices chosen as run --shard\nchooses shards; slice 0 also compares tables, figures and PDF. Every slice 0…N−1\nexiting 0 means the whole bundle is verified")
 	pos, err := parseInterleaved(fs, args)
 	if err != nil {
@@ -55,7 +56,7 @@ func cmdVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	return runVerify(ctx, o, stdout, stderr)
 }
 
-func runVerify(ctx context.Context, o verifyOptions, stdout, _ io.Writer) error {
+func runVerify(ctx context.Context, o verifyOptions, stdout, stderr io.Writer) error {
 	defer useCores(o.Workers)()
 	slice, err := parseShardFlag(o.Shard, os.Getenv)
 	if err != nil {
@@ -97,7 +98,11 @@ func runVerify(ctx context.Context, o verifyOptions, stdout, _ io.Writer) error 
 		if workers == 0 {
 			workers = runtime.NumCPU()
 		}
-		rep, err = bundle.Rerun(ctx, bag, bundle.RerunOptions{Workers: workers, Slice: slice})
+		ropt := bundle.RerunOptions{Workers: workers, Slice: slice}
+		if !o.Quiet && isTerminal(stderr) {
+			ropt.Progress = stderr
+		}
+		rep, err = bundle.Rerun(ctx, bag, ropt)
 		if err != nil {
 			if errors.Is(err, context.Canceled) {
 				return fmt.Errorf("interrupted: the re-run did not finish")
