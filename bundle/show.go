@@ -223,6 +223,11 @@ func WriteShow(out io.Writer, b *Bag) error {
 					interval(r["ci_lower"], r["ci_upper"], n), orDash(r["ci_method"]), n.note)
 			}
 			t.write(w, "method", "note")
+			if n, err := strconv.Atoi(ranked[0]["n"]); err == nil {
+				if c := beyondTheData(n, rows); c != "" {
+					fmt.Fprintln(w, c)
+				}
+			}
 		}
 		if rows := inRankOrder(rowsOf(gof, a)); len(rows) > 0 {
 			fmt.Fprintln(w, "\ngoodness of fit")
@@ -246,7 +251,64 @@ func WriteShow(out io.Writer, b *Bag) error {
 			fmt.Fprintf(w, "\ngoodness of fit: none: %s\n", strings.Join(reasons, "; "))
 		}
 	}
+	if len(order) > 0 {
+		c := showCaution
+		if _, ok := b.Files[PayloadDir+"/report.pdf"]; ok {
+			c += " (report.pdf: \"Methods and cautions\")"
+		}
+		fmt.Fprintln(w, "\n"+c+".")
+	}
 	return w.Flush()
+}
+
+// showCaution ends every show: the two cautions of report.pdf's "Methods and
+// cautions" that matter most to someone acting on the numbers printed.
+const showCaution = "caution: the top-ranked family is only the best of the candidates tried: check its goodness of fit\n" +
+	"and the Q–Q and P–P plots before relying on it. Where these results inform safety or compliance\n" +
+	"decisions, they support, and do not replace, the judgement of a licensed professional applying the\n" +
+	"local codes and standards"
+
+// beyondTheData is a caution line for the derived rows of an analysis of n
+// observations that lie beyond its data: return levels for a period T > n
+// (longer than the record, for annual maxima) and quantiles whose tail
+// probability, p or 1 − p, is below 1/n. Such values rest on the shape of
+// the fitted tail more than on the data. "" when there are none.
+func beyondTheData(n int, rows []map[string]string) string {
+	if n <= 0 {
+		return ""
+	}
+	var periods, quantiles []string
+	seen := map[string]bool{}
+	for _, r := range rows {
+		x, err := strconv.ParseFloat(r["argument"], 64)
+		key := r["quantity"] + " " + r["argument"]
+		if err != nil || seen[key] {
+			continue
+		}
+		seen[key] = true
+		switch r["quantity"] {
+		case "return_level":
+			if x > float64(n) {
+				periods = append(periods, short(r["argument"]))
+			}
+		case "quantile":
+			if min(x, 1-x)*float64(n) < 1 {
+				quantiles = append(quantiles, short(r["argument"]))
+			}
+		}
+	}
+	var what []string
+	if len(periods) > 0 {
+		what = append(what, fmt.Sprintf("return levels for T = %s (periods longer than the record of %d values)", strings.Join(periods, ", "), n))
+	}
+	if len(quantiles) > 0 {
+		what = append(what, fmt.Sprintf("quantiles at %s (a tail probability below 1/%d)", strings.Join(quantiles, ", "), n))
+	}
+	if len(what) == 0 {
+		return ""
+	}
+	return "caution: the " + strings.Join(what, " and the ") + " lie beyond the data:\n" +
+		"they rest on the shape of the fitted tail more than on the data, and their intervals may still be too narrow"
 }
 
 // gitLine is show's line on the git state: the commit and branch, whether

@@ -202,8 +202,48 @@ family       statistic  value  p_value  replicates  note
 poisson      chisq      4.1    0.3      99          [1]
 negbinomial  chisq      3.9    0.35     99          [1]
 [1] ` + pool + `
+
+caution: the top-ranked family is only the best of the candidates tried: check its goodness of fit
+and the Q–Q and P–P plots before relying on it. Where these results inform safety or compliance
+decisions, they support, and do not replace, the judgement of a licensed professional applying the
+local codes and standards.
 `
 	if out.String() != want {
 		t.Errorf("show:\n%s\nwant:\n%s", out.String(), want)
+	}
+}
+
+// TestBeyondTheData: show cautions against return levels for periods longer
+// than the record and quantiles further in a tail than 1/n, once per
+// argument whatever the number of families, and says nothing otherwise.
+func TestBeyondTheData(t *testing.T) {
+	row := func(family, quantity, argument string) map[string]string {
+		return map[string]string{"family": family, "quantity": quantity, "argument": argument}
+	}
+	const tail = ":\nthey rest on the shape of the fitted tail more than on the data, and their intervals may still be too narrow"
+	for _, c := range []struct {
+		name string
+		n    int
+		rows []map[string]string
+		want string
+	}{
+		{"within the record", 40, []map[string]string{row("gumbel", "return_level", "10"), row("gumbel", "return_level", "40"), row("gumbel", "quantile", "0.5")}, ""},
+		{"periods past the record, each once", 34, []map[string]string{
+			row("gumbel", "return_level", "10"), row("gumbel", "return_level", "50"), row("gumbel", "return_level", "100"),
+			row("gev", "return_level", "50"), row("gev", "return_level", "100"), row("model-average", "return_level", "100")},
+			"caution: the return levels for T = 50, 100 (periods longer than the record of 34 values) lie beyond the data" + tail},
+		{"upper and lower tail quantiles", 48, []map[string]string{
+			row("gamma", "quantile", "0.95"), row("gamma", "quantile", "0.99"), row("gamma", "quantile", "0.01"), row("gamma", "exceedance", "40")},
+			"caution: the quantiles at 0.99, 0.01 (a tail probability below 1/48) lie beyond the data" + tail},
+		{"both", 20, []map[string]string{row("gev", "quantile", "0.999"), row("gev", "return_level", "25")},
+			"caution: the return levels for T = 25 (periods longer than the record of 20 values) and the quantiles at 0.999 (a tail probability below 1/20) lie beyond the data" + tail},
+		{"exceedances only", 5, []map[string]string{row("weibull", "exceedance", "4000")}, ""},
+		{"no observations", 0, []map[string]string{row("gumbel", "return_level", "100")}, ""},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			if got := beyondTheData(c.n, c.rows); got != c.want {
+				t.Errorf("beyondTheData(%d) =\n%q\nwant\n%q", c.n, got, c.want)
+			}
+		})
 	}
 }

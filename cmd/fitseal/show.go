@@ -16,7 +16,7 @@ func init() {
 }
 
 func cmdShow(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	fs := newFlagSet("show", "BUNDLE", "Print the ranking, parameter and derived-quantity tables of BUNDLE (numbers to\nsix significant digits; the result files keep every digit). --json prints the\nmachine-readable record instead: results.json with run.json's essentials.\nshow checks hashes and signature; when they fail it still prints, after a\nwarning on stderr (and a first line saying so, without --json), and exits 1.\nUse 'fitseal verify' for the full check.", stderr)
+	fs := newFlagSet("show", "BUNDLE", "Print the ranking, parameter, derived-quantity and goodness-of-fit tables of\nBUNDLE (numbers to six significant digits; the result files keep every digit),\na caution under any return level or quantile that lies beyond the data, and\nthe cautions for acting on the results. --json prints the\nmachine-readable record instead: results.json with run.json's essentials.\nshow checks hashes and signature; when they fail it still prints, after a\nwarning on stderr (and a first line saying so, without --json), and exits 1.\nUse 'fitseal verify' for the full check.", stderr)
 	asJSON := fs.Bool("json", false, "print the machine-readable record (results.json plus run.json essentials)")
 	fs.Bool("q", false, "no progress output (show has none)")
 	pos, err := parseInterleaved(fs, args)
