@@ -292,10 +292,7 @@ func (rd *csvReading) header() error {
 				return i, nil
 			}
 		}
-		hint := didYouMean(col, rd.columns)
-		if hint == "" {
-			hint = "the header has: " + joinQuoted(rd.columns)
-		}
+		hint := columnHint(col, rd.columns)
 		if len(rd.columns) == 1 {
 			for _, sep := range []string{";", "\t", "|"} {
 				if strings.Contains(rd.columns[0], sep) {
@@ -710,7 +707,7 @@ func (rd *csvReading) observation(rec [][]byte, g *groupBuilder) error {
 				where = "--left or --right"
 			}
 			return rd.fail(rd.status, fmt.Sprintf("list it in %s, or leave the cell empty for an exact value", where),
-				"unknown status code %q (left: %s; right: %s)", string(code), quoteList(rd.d.Left), quoteList(rd.d.Right))
+				"unknown status code %q (left: %s; right: %s)", string(code), cmp.Or(quoteList(rd.d.Left), "none"), cmp.Or(quoteList(rd.d.Right), "none"))
 		}
 	}
 	if rd.trials >= 0 {
@@ -770,4 +767,39 @@ func (rd *csvReading) interval(rec [][]byte, g *groupBuilder) error {
 	g.lower.add(lo)
 	g.upper.add(hi)
 	return nil
+}
+
+// columnHint is the hint for a column name that the header lacks: the
+// column likely meant (the same name in another letter case, the one column
+// whose name holds the name given or is held in it, else a near spelling),
+// then the header's names when there are several, but few enough to read at
+// a glance.
+func columnHint(col string, columns []string) string {
+	want := strings.ToLower(strings.TrimSpace(col))
+	guess := ""
+	var holding []string
+	for _, h := range columns {
+		have := strings.ToLower(strings.TrimSpace(h))
+		if have == want {
+			guess = h
+			break
+		}
+		if want != "" && strings.Contains(have, want) || len(have) >= 3 && strings.Contains(want, have) {
+			holding = append(holding, h)
+		}
+	}
+	if guess == "" && len(holding) == 1 {
+		guess = holding[0]
+	}
+	if guess == "" {
+		guess = Closest(col, columns)
+	}
+	header := "the header has: " + joinQuoted(columns)
+	switch {
+	case guess == "":
+		return header
+	case len(columns) == 1 || len(columns) > 20:
+		return fmt.Sprintf("did you mean %q?", guess)
+	}
+	return fmt.Sprintf("did you mean %q? (%s)", guess, header)
 }

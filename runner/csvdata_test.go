@@ -235,7 +235,7 @@ func TestReadCSVErrors(t *testing.T) {
 		{"Infinity word", obs, "x\n-Infinity\n", 2, 1, `in.csv line 2, column "x": the value "-Infinity" is not a finite number`},
 		{"header name padded", Dataset{Column: "x", Missing: []string{""}}, "id, x \na,1\nb,z\n", 3, 3, `in.csv line 3, column "x": the value "z" is not a number`},
 		{"ragged row", obs, "x,y\n1,2\n3\n", 3, 0, `in.csv:3: the row has 1 fields, the header 2`},
-		{"unknown status code", status, "x,s\n1,\n2,>\n", 3, 3, `in.csv line 3, column "s": unknown status code ">" (left: "<"; right: )`},
+		{"unknown status code", status, "x,s\n1,\n2,>\n", 3, 3, `in.csv line 3, column "s": unknown status code ">" (left: "<"; right: none)`},
 		{"no such column", Dataset{Column: "hours", Missing: []string{""}}, "hour,x\n1,2\n", 1, 0, `in.csv:1: no column "hours" (named by column in dataset "")`},
 		{"bad trials", trials, "k,n\n1,2.5\n", 2, 3, `in.csv line 2, column "n": trials "2.5" is not a whole number of trials`},
 		{"count above trials", trials, "k,n\n1,2\n5,3\n", 3, 1, `in.csv line 3, column "k": the value 5 is outside 0 … 3 trials`},
@@ -425,4 +425,32 @@ func hintOf(de *DataError) string {
 		return ""
 	}
 	return de.Hint
+}
+
+// TestColumnHint: a column name the header lacks is answered with the
+// column likely meant — the same name in other letter case, the one column
+// holding the name given (a unit suffix left off) or held in it, else a near
+// spelling, never a short unrelated name — and the header's names.
+func TestColumnHint(t *testing.T) {
+	floods := []string{"station", "year", "peak_m3s"}
+	for _, c := range []struct {
+		name, col string
+		columns   []string
+		want      string
+	}{
+		{"unit suffix left off", "peak", floods, `did you mean "peak_m3s"? (the header has: station, year, peak_m3s)`},
+		{"letter case", "Year", floods, `did you mean "year"? (the header has: station, year, peak_m3s)`},
+		{"a suffix too many", "station_id", floods, `did you mean "station"? (the header has: station, year, peak_m3s)`},
+		{"typo", "staton", floods, `did you mean "station"? (the header has: station, year, peak_m3s)`},
+		{"two columns hold it: the nearer spelling", "peak", []string{"peak_flow", "peak_stage", "pea"}, `did you mean "pea"? (the header has: peak_flow, peak_stage, pea)`},
+		{"nothing near", "discharge", floods, "the header has: station, year, peak_m3s"},
+		{"one column", "y", []string{"x"}, `did you mean "x"?`},
+		{"many columns", "c1", []string{"a01", "a02", "a03", "a04", "a05", "a06", "a07", "a08", "a09", "a10", "a11", "a12", "a13", "a14", "a15", "a16", "a17", "a18", "a19", "a20", "c11"}, `did you mean "c11"?`},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			if got := columnHint(c.col, c.columns); got != c.want {
+				t.Errorf("columnHint(%q) = %q, want %q", c.col, got, c.want)
+			}
+		})
+	}
 }
