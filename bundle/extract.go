@@ -103,18 +103,30 @@ func (b *Bag) Paths() []string {
 // be read at all (no such file).
 func Open(path string) (*Bag, error) { return OpenWithLimits(path, DefaultLimits) }
 
+// openError is err of opening path without the name of the system call
+// ("stat b.tar.gz: …"), which tells a reader nothing: "b.tar.gz: no such
+// file or directory". The cause stays wrapped (errors.Is(err,
+// fs.ErrNotExist)).
+func openError(path string, err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return fmt.Errorf("%s: %w", path, pe.Err)
+	}
+	return err
+}
+
 // OpenWithLimits is [Open] with the given limits.
 func OpenWithLimits(path string, lim Limits) (*Bag, error) {
 	fi, err := os.Stat(path)
 	if err != nil {
-		return nil, err
+		return nil, openError(path, err)
 	}
 	if fi.IsDir() {
 		return ReadFolder(path, lim)
 	}
 	f, err := os.Open(path)
 	if err != nil {
-		return nil, err
+		return nil, openError(path, err)
 	}
 	defer f.Close()
 	b, err := ReadArchive(f, lim)

@@ -256,11 +256,32 @@ func TestZeroBomb(t *testing.T) {
 	}
 }
 
+// TestOpenMissingIsNotArchiveError: a path that cannot be opened is not a
+// damaged archive (verify exits 2, not 1), and the message names the path
+// and the reason without the system call's name ("stat", "open").
 func TestOpenMissingIsNotArchiveError(t *testing.T) {
-	_, err := Open(filepath.Join(t.TempDir(), "nope.tar.gz"))
-	var ae *ArchiveError
-	if err == nil || errors.As(err, &ae) || !errors.Is(err, os.ErrNotExist) {
-		t.Errorf("missing file: %v, want a not-exist error (verify exits 2)", err)
+	dir := t.TempDir()
+	file := filepath.Join(dir, "file")
+	if err := os.WriteFile(file, []byte("x"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name, path, want string
+		notExist         bool
+	}{
+		{"missing file", filepath.Join(dir, "nope.tar.gz"), filepath.Join(dir, "nope.tar.gz") + ": no such file or directory", true},
+		{"under a file", filepath.Join(file, "b.tar.gz"), filepath.Join(file, "b.tar.gz") + ": not a directory", false},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := Open(c.path)
+			var ae *ArchiveError
+			if err == nil || errors.As(err, &ae) || errors.Is(err, os.ErrNotExist) != c.notExist {
+				t.Fatalf("%v, want an error opening the path (verify exits 2), not-exist %v", err, c.notExist)
+			}
+			if err.Error() != c.want {
+				t.Errorf("message %q, want %q", err.Error(), c.want)
+			}
+		})
 	}
 }
 
