@@ -23,6 +23,10 @@ type QuickSpec struct {
 	Families  []string
 	Discrete  bool
 	Criterion string
+	// Fixed holds parameters held at a value, by family then parameter
+	// (the project file's fixed = { gpd = { threshold = 30.0 } }); a family
+	// fixed here joins the default list.
+	Fixed map[string]map[string]float64
 }
 
 // QuickProject builds and checks a one-analysis project from spec, with the
@@ -63,15 +67,20 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 	if d.Where != nil {
 		ds["where"] = map[string]any{"column": d.Where.Column, "equals": d.Where.Equals}
 	}
-	// A family that must have a parameter fixed (gpd's threshold) cannot
-	// be fitted here, where nothing is fixed: it is left out of the
-	// default list, and refused by name when asked for.
+	// A family that must have a parameter fixed (gpd's threshold) is left
+	// out of the default list unless --fixed gives it, and refused by name
+	// when asked for without it.
 	needsFixed := func(name string) []string {
+		var missing []string
 		if f, ok := fitters.Lookup(name); ok {
 			_, required := fitters.FixableParameters(f)
-			return required
+			for _, r := range required {
+				if _, given := spec.Fixed[name][r]; !given {
+					missing = append(missing, r)
+				}
+			}
 		}
-		return nil
+		return missing
 	}
 	var refused ProjectErrors
 	var families []string
@@ -81,7 +90,8 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 			kind = fitters.Discrete
 		}
 		for _, f := range fitters.Families() {
-			if f.Kind() == kind && needsFixed(f.Name()) == nil {
+			_, asked := spec.Fixed[f.Name()]
+			if (f.Kind() == kind || asked) && needsFixed(f.Name()) == nil {
 				families = append(families, f.Name())
 			}
 		}
@@ -89,8 +99,8 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 	for _, name := range spec.Families {
 		if req := needsFixed(name); req != nil {
 			refused = append(refused, &ProjectError{File: "fitseal fit", Key: "--families",
-				Msg:  fmt.Sprintf("%s needs its %s fixed, which fitseal fit cannot do", name, strings.Join(req, " and ")),
-				Hint: fmt.Sprintf("fit %s from a project file whose candidate set fixes its %s; it models the excesses over it", name, strings.Join(req, " and "))})
+				Msg:  fmt.Sprintf("%s needs its %s fixed", name, strings.Join(req, " and ")),
+				Hint: fmt.Sprintf("add --fixed %s.%s=VALUE: %s models the excesses over it", name, req[0], name)})
 			continue
 		}
 		families = append(families, name)
@@ -99,6 +109,18 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 	for i, f := range families {
 		fams[i] = f
 	}
+	set := map[string]any{"name": "families", "families": fams}
+	if len(spec.Fixed) > 0 {
+		fixed := map[string]any{}
+		for fam, params := range spec.Fixed {
+			ps := map[string]any{}
+			for k, v := range params {
+				ps[k] = v
+			}
+			fixed[fam] = ps
+		}
+		set["fixed"] = fixed
+	}
 	analysis := map[string]any{"name": "data", "dataset": "data", "candidates": "families"}
 	if spec.Criterion != "" {
 		analysis["criterion"] = spec.Criterion
@@ -106,7 +128,7 @@ func QuickProject(spec QuickSpec) (*Project, error) {
 	raw := map[string]any{
 		"name":       "fit",
 		"dataset":    []map[string]any{ds},
-		"candidates": []map[string]any{{"name": "families", "families": fams}},
+		"candidates": []map[string]any{set},
 		"analysis":   []map[string]any{analysis},
 	}
 	l := &loader{file: "fitseal fit", lines: keyLines{}}
@@ -155,6 +177,9 @@ var fitWords = strings.NewReplacer(
 	"is already the lower_column", "is already the --lower_column",
 	"is already the upper_column", "is already the --upper_column",
 	"drop the censoring columns", "drop the censoring flags",
+	"fix parameters only of families listed in this set's families", "fix parameters only of families given to --families (or leave --families out)",
+	"; remove this entry", "; remove it from --fixed",
+	"is not among this set's families", "is not among --families",
 )
 
 // flagOfKey names the command-line flag that set a key of the synthetic
@@ -174,7 +199,7 @@ func flagOfKey(key string) string {
 		return "--families"
 	}
 	if strings.HasPrefix(key, "candidates[0].fixed") {
-		return "--families"
+		return "--fixed"
 	}
 	return "--" + k
 }

@@ -56,11 +56,11 @@ func TestQuickProjectErrors(t *testing.T) {
 			`fitseal fit: --families: --trials_column is given, but "normal" is a continuous family`,
 			"use count families such as binomial or betabinomial with --trials_column"},
 		{"a family that needs a fixed threshold", Dataset{Column: "x"}, []string{"gumbel", "gpd"},
-			"fitseal fit: --families: gpd needs its threshold fixed, which fitseal fit cannot do",
-			"fit gpd from a project file whose candidate set fixes its threshold; it models the excesses over it"},
+			"fitseal fit: --families: gpd needs its threshold fixed",
+			"add --fixed gpd.threshold=VALUE: gpd models the excesses over it"},
 		{"only a family that needs a fixed threshold", Dataset{Column: "x"}, []string{"gpd"},
-			"fitseal fit: --families: gpd needs its threshold fixed, which fitseal fit cannot do",
-			"fit gpd from a project file whose candidate set fixes its threshold; it models the excesses over it"},
+			"fitseal fit: --families: gpd needs its threshold fixed",
+			"add --fixed gpd.threshold=VALUE: gpd models the excesses over it"},
 		{"discrete and continuous families", Dataset{Column: "x"}, []string{"normal", "poisson"},
 			`fitseal fit: --families: mixes discrete families (poisson) with continuous ones (normal): their likelihoods are not on the same footing`,
 			"put count families and continuous families in separate runs of fitseal fit"},
@@ -157,6 +157,65 @@ func TestQuickDefaultFamilies(t *testing.T) {
 			}
 			if got := p.Candidates[0].Families; !reflect.DeepEqual(got, c.want) {
 				t.Errorf("families %v, want %v", got, c.want)
+			}
+		})
+	}
+}
+
+// TestQuickFixed: --fixed holds parameters as the project file's fixed
+// does: gpd with its threshold joins the default list (in catalogue order)
+// and may be asked for; a parameter that cannot be fixed, a misspelt one or
+// a family left out of --families is an error naming --fixed.
+func TestQuickFixed(t *testing.T) {
+	dir := t.TempDir()
+	file := filepath.Join(dir, "x.csv")
+	if err := os.WriteFile(file, []byte("x\n31\n35\n40\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	gpd30 := map[string]map[string]float64{"gpd": {"threshold": 30}}
+	for _, c := range []struct {
+		name      string
+		families  []string
+		fixed     map[string]map[string]float64
+		want      []string // the families, when no error
+		err, hint string
+	}{
+		{"gpd asked for with its threshold", []string{"gpd", "exponential"}, gpd30, []string{"gpd", "exponential"}, "", ""},
+		{"gpd with its threshold joins the defaults", nil, gpd30, []string{"normal", "lognormal", "exponential", "gamma", "weibull", "gumbel", "gev",
+			"logistic", "loglogistic", "invgauss", "pareto", "gpd", "beta", "studentt", "weibull3", "lognormal3"}, "", ""},
+		{"a threshold family's threshold", []string{"weibull3"}, map[string]map[string]float64{"weibull3": {"threshold": 30}}, []string{"weibull3"}, "", ""},
+		{"a parameter that cannot be fixed", []string{"gev"}, map[string]map[string]float64{"gev": {"shape": 0}}, nil,
+			"fitseal fit: --fixed: gev's shape cannot be fixed", "gev has no parameter that can be fixed (those that can: gpd's threshold, weibull3's threshold, lognormal3's threshold); remove it from --fixed"},
+		{"a misspelt parameter", []string{"gpd"}, map[string]map[string]float64{"gpd": {"treshold": 30}}, nil,
+			"fitseal fit: --families: gpd needs its threshold fixed", "add --fixed gpd.threshold=VALUE: gpd models the excesses over it"},
+		{"a family not asked for", []string{"exponential"}, gpd30, nil,
+			`fitseal fit: --fixed: "gpd" is not among --families`, "fix parameters only of families given to --families (or leave --families out)"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			p, err := QuickProject(QuickSpec{File: file, Dataset: Dataset{Column: "x"}, Families: c.families, Fixed: c.fixed})
+			if c.err == "" {
+				if err != nil {
+					t.Fatal(err)
+				}
+				if got := p.Candidates[0].Families; !reflect.DeepEqual(got, c.want) {
+					t.Errorf("families %v, want %v", got, c.want)
+				}
+				if got := p.Candidates[0].Fixed; !reflect.DeepEqual(got, c.fixed) {
+					t.Errorf("fixed %v, want %v", got, c.fixed)
+				}
+				return
+			}
+			var pes ProjectErrors
+			if !errors.As(err, &pes) {
+				t.Fatalf("error %v (%T), want ProjectErrors", err, err)
+			}
+			if got := pes[0].Error(); got != c.err || pes[0].Hint != c.hint {
+				t.Errorf("got  %q\n     hint %q\nwant %q\n     hint %q", got, pes[0].Hint, c.err, c.hint)
+			}
+			for _, e := range pes {
+				if projectWords.MatchString(e.Error()) || projectWords.MatchString(e.Hint) {
+					t.Errorf("project-file words in %q (hint %q)", e.Error(), e.Hint)
+				}
 			}
 		})
 	}

@@ -39,7 +39,9 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	d := &o.Spec.Dataset
 	fs := newFlagSet("fit", "FILE.csv", "Fit candidate families to one column of a CSV file by maximum likelihood and\nprint their ranking. Censoring flags are named as the project file's keys\n(--status_column, --lower_column, …); the hyphenated spellings work too.", stderr)
 	fs.StringVar(&d.Column, "column", "", "the `NAME` of the column of observations")
-	fs.StringVar(&o.Families, "families", "", "comma-separated `LIST` of families (default: every continuous family but gpd, which needs a fixed threshold that only a project file can give; or every count family with --discrete or --trials_column)")
+	fs.StringVar(&o.Families, "families", "", "comma-separated `LIST` of families (default: every continuous family but gpd, which needs --fixed gpd.threshold=VALUE; or every count family with --discrete or --trials_column)")
+	fixed := fixedFlag{}
+	fs.Var(fixed, "fixed", "hold a parameter at a value, as the project file's fixed: `FAMILY.PARAMETER=VALUE`, repeated or comma-separated (e.g. gpd.threshold=30, which also adds gpd to the default families)")
 	fs.BoolVar(&o.Discrete, "discrete", false, "rank the count families by default")
 	fs.StringVar(&o.Criterion, "criterion", "aicc", "ranking criterion: aic, aicc or bic")
 	keyFlag(fs, &d.StatusColumn, "status_column", "the `NAME` of the column of censoring codes")
@@ -65,6 +67,9 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	o.Spec.Criterion = o.Criterion
 	o.Spec.Discrete = o.Discrete
 	o.Spec.Families = splitList(o.Families)
+	if len(fixed) > 0 {
+		o.Spec.Fixed = fixed
+	}
 	d.Left, d.Right = splitList(o.Left), splitList(o.Right)
 	d.Missing = strings.Split(o.Missing, ",")
 	return runFit(ctx, o, stdout, stderr)
@@ -75,6 +80,44 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 func keyFlag(fs *flagSet, p *string, key, usage string) {
 	fs.StringVar(p, key, "", usage)
 	fs.StringVar(p, strings.ReplaceAll(key, "_", "-"), "", aliasUsage+key+" `NAME`")
+}
+
+// fixedFlag collects --fixed FAMILY.PARAMETER=VALUE, repeated or
+// comma-separated, as the project file's fixed table; the project loader
+// then checks that the family is fitted and the parameter can be fixed.
+type fixedFlag map[string]map[string]float64
+
+func (f fixedFlag) String() string {
+	var items []string
+	for fam, params := range f {
+		for p, v := range params {
+			items = append(items, fam+"."+p+"="+strconv.FormatFloat(v, 'g', -1, 64))
+		}
+	}
+	sort.Strings(items)
+	return strings.Join(items, ",")
+}
+
+func (f fixedFlag) Set(s string) error {
+	for _, item := range splitList(s) {
+		key, value, hasValue := strings.Cut(item, "=")
+		fam, param, hasParam := strings.Cut(strings.TrimSpace(key), ".")
+		if !hasValue || !hasParam || fam == "" || param == "" {
+			return fmt.Errorf("%q is not FAMILY.PARAMETER=VALUE (e.g. gpd.threshold=30)", item)
+		}
+		x, err := strconv.ParseFloat(strings.TrimSpace(value), 64)
+		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+			return fmt.Errorf("%q: %q is not a finite number", item, strings.TrimSpace(value))
+		}
+		if f[fam] == nil {
+			f[fam] = map[string]float64{}
+		}
+		if _, twice := f[fam][param]; twice {
+			return fmt.Errorf("%s.%s is given twice", fam, param)
+		}
+		f[fam][param] = x
+	}
+	return nil
 }
 
 // splitList splits a comma-separated flag value; "" gives nil.
