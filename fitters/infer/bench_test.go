@@ -22,6 +22,8 @@ func BenchmarkBootstrapAD(b *testing.B) {
 		{"gamma", "gamma", []float64{2.5, 0.4}},
 		{"gamma-shape0.7", "gamma", []float64{0.7, 0.4}}, // draws with u^(1/a) (powFixed.powsInto)
 		{"weibull", "weibull", []float64{1.8, 120}},
+		{"gumbel", "gumbel", []float64{10, 3}},
+		{"loglogistic", "loglogistic", []float64{20, 3}},
 	} {
 		b.Run(c.name, func(b *testing.B) {
 			fam := family(b, c.family)

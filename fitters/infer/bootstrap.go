@@ -167,6 +167,12 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 		return nil, err
 	}
 	n := len(d.Exact)
+	// A model that draws its samples in order (weibull, exponential) needs
+	// no sort per replicate.
+	var sortedFill fitters.SortedRandFiller
+	if groups == nil {
+		sortedFill, _ = dist.(fitters.SortedRandFiller)
+	}
 
 	// work runs replicates until none is left to start; it reports whether
 	// it ran one. Each call has its own generator and buffers.
@@ -190,17 +196,22 @@ func Bootstrap(fam fitters.Family, fit *fitters.Fit, d *fitters.Data, opt Bootst
 			}
 			ran = true
 			seeds.reseed(pcg, r)
-			if groups == nil {
-				fitters.FillRand(dist, rng, sample) // Rand's values, in order
-			} else {
+			sim.Exact = sample
+			switch {
+			case groups != nil:
 				for i := range sample {
 					sample[i] = simDists[groups.index[i]].dist.Rand(rng)
 				}
+			case sortedFill != nil:
+				// Drawn in order: the replicate is its own sorted view.
+				sortedFill.RandFillSorted(rng, sorted)
+				sim.Exact = sorted
+			default:
+				fitters.FillRand(dist, rng, sample) // Rand's values, in order
 			}
-			if !opt.NoStatistics {
+			if !opt.NoStatistics && sortedFill == nil {
 				sorter.SortInto(sorted, sample) // slices.Sort's result, in O(n)
 			}
-			sim.Exact = sample
 			refit, err := fitters.FitInto(fam, sim, slots.fitOpt, &rec)
 			if slots.failed(r, refit, err) {
 				continue
