@@ -175,6 +175,18 @@ func Execute(ctx context.Context, p *Project, plan *Plan, opt RunOptions) (*Resu
 	return assemble(p, plan, results, workers)
 }
 
+// NoObservations says why a group of a split dataset has no observations,
+// for the note of each of its families: every row of the group that `where`
+// kept was skipped as missing (a group exists only for a row that `where`
+// kept, and a row is either an observation, missing, or an error). A dataset
+// that is not split and has no observations is an error (ReadAll) instead.
+func NoObservations(g *Group) string {
+	if g.Rows == 1 {
+		return "the group has no observations: its one row is missing"
+	}
+	return fmt.Sprintf("the group has no observations: its %d rows are all missing", g.Rows)
+}
+
 // runTask fits one family; a panic inside a family is turned into an error
 // that names the task, so one broken family does not take the process down
 // silently.
@@ -192,7 +204,7 @@ func runTask(p *Project, plan *Plan, i, bootWorkers int, rankOnly bool, drawn *a
 	}
 	d := &a.Group.Data
 	if d.N() == 0 {
-		out.err = &fitters.InapplicableError{Family: t.Family, Reason: "the dataset has no observations"}
+		out.err = &fitters.InapplicableError{Family: t.Family, Reason: NoObservations(a.Group)}
 		return nil
 	}
 	opt := fitters.Options{

@@ -235,6 +235,75 @@ candidates = "c"
 	}
 }
 
+// TestEmptyGroupSaysWhy: a group of a split dataset whose rows were all
+// skipped as missing keeps a row per family in fits.csv and results.json,
+// not applicable with the reason, and results.json counts its rows.
+func TestEmptyGroupSaysWhy(t *testing.T) {
+	tests := []struct {
+		name, csv, group, reason string
+		rows                     int
+	}{
+		{"two rows", "well,x\nmw-1,1.5\nmw-2,NA\nmw-1,2.5\nmw-2,\nmw-1,3\n", "mw-2",
+			"the group has no observations: its 2 rows are all missing", 2},
+		{"one row", "well,x\nmw-1,1.5\nmw-1,2.5\nmw-3,NA\nmw-1,3\n", "mw-3",
+			"the group has no observations: its one row is missing", 1},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			dir := t.TempDir()
+			if err := os.WriteFile(filepath.Join(dir, "wells.csv"), []byte(tt.csv), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			path := filepath.Join(dir, "fitseal.toml")
+			if err := os.WriteFile(path, []byte(`name = "wells"
+[settings]
+bootstrap = 0
+[[dataset]]
+name = "nitrate"
+file = "wells.csv"
+column = "x"
+split_by = "well"
+[[candidates]]
+name = "c"
+families = ["lognormal", "gamma"]
+[[analysis]]
+dataset = "nitrate"
+candidates = "c"
+`), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			files := runFiles(t, path, 1)
+			fits, err := csv.NewReader(bytes.NewReader(files[FitsFile])).ReadAll()
+			if err != nil {
+				t.Fatal(err)
+			}
+			name := "nitrate/" + tt.group
+			var got []string
+			for _, r := range fits[1:] {
+				if r[0] == name {
+					got = append(got, strings.Join([]string{r[2], r[3], r[6], r[13], r[14], r[15]}, ","))
+				}
+			}
+			want := []string{
+				"lognormal,0,,,false,not applicable: " + tt.reason,
+				"gamma,0,,,false,not applicable: " + tt.reason,
+			}
+			if strings.Join(got, "\n") != strings.Join(want, "\n") {
+				t.Errorf("fits.csv rows of %s (family,n,loglik,rank,converged,note):\n%s\nwant:\n%s", name, strings.Join(got, "\n"), strings.Join(want, "\n"))
+			}
+			js := string(files[ResultsFile])
+			for _, s := range []string{
+				fmt.Sprintf(`{"name":%q,"rows":%d,"missing":%d,"n":0,"n_censored":0}`, tt.group, tt.rows, tt.rows),
+				fmt.Sprintf(`"inapplicable":%q`, tt.reason),
+			} {
+				if !strings.Contains(js, s) {
+					t.Errorf("results.json lacks %s", s)
+				}
+			}
+		})
+	}
+}
+
 func TestSeedsAreRecordedForEveryBootstrap(t *testing.T) {
 	p, err := Load(splitProject(t, 2, 10, `"normal", "exponential"`, "bootstrap = 9\nintervals = \"wald\"", false))
 	if err != nil {

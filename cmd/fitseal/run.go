@@ -227,7 +227,10 @@ func summary(res *runner.Results) string {
 }
 
 // reportMissing says on stderr how many rows each dataset skipped as
-// missing, and how many of them were blank lines.
+// missing, and how many of them were blank lines; then, for a split
+// dataset, each group left with no observations (all its rows missing) and
+// the analyses that therefore fit nothing. Datasets in project order, groups
+// in order of first appearance.
 func reportMissing(w io.Writer, res *runner.Results) {
 	for _, d := range res.Project.Datasets {
 		dd := res.Data[d.Name]
@@ -243,7 +246,39 @@ func reportMissing(w io.Writer, res *runner.Results) {
 			rows = "row"
 		}
 		fmt.Fprintf(w, "fitseal: note: dataset %q: %d %s skipped as missing (cells %s%s)\n", d.Name, dd.Missing, rows, quoteAll(d.Missing), blank)
+		if d.SplitBy == "" {
+			continue
+		}
+		for _, g := range dd.Groups {
+			if g.Data.N() == 0 {
+				fmt.Fprintf(w, "fitseal: note: dataset %q, group %q: %s, so %s no observations and every family is listed as not applicable\n",
+					d.Name, g.Name, groupMissing(g), analysesOf(res.Project, d.Name, g.Name))
+			}
+		}
 	}
+}
+
+// groupMissing says that all of a group's rows were skipped as missing.
+func groupMissing(g *runner.Group) string {
+	if g.Rows == 1 {
+		return "its one row was skipped as missing"
+	}
+	return fmt.Sprintf("all %d of its rows were skipped as missing", g.Rows)
+}
+
+// analysesOf names the analyses of one group of a split dataset, in project
+// order, with the verb that follows them ("analysis "a/g" has").
+func analysesOf(p *runner.Project, dataset, group string) string {
+	var names []string
+	for _, a := range p.Analyses {
+		if a.Dataset == dataset {
+			names = append(names, strconv.Quote(a.Name+"/"+group))
+		}
+	}
+	if len(names) == 1 {
+		return "analysis " + names[0] + " has"
+	}
+	return "analyses " + strings.Join(names, ", ") + " have"
 }
 
 // blankLines says how many of a dataset's missing rows were blank lines
