@@ -17,7 +17,9 @@ const (
 	DiffSetting = "setting" // the effective project (settings, datasets, candidates, analyses, report)
 	DiffCode    = "code"    // fitseal's version, Go version, platform or build commit
 	DiffGit     = "git"     // the project's git commit, branch or dirty state
-	DiffNumber  = "number"  // a cell of a result table, or a value of results.json
+	DiffNumber  = "number"  // a number of a result table or results.json (one side may be empty, null or absent)
+	DiffText    = "text"    // any other value of a result table or results.json: a criterion, method, note, true or false
+	DiffResult  = "result"  // a result file, table row, analysis or fit in one bundle only; a table's header; an unreadable result file
 	DiffRecord  = "record"  // run.json unreadable in one bundle
 	// Not differences in substance, reported all the same:
 	DiffCreated  = "created"  // the created time
@@ -106,7 +108,7 @@ func Diff(a, b *Bag) []DiffItem {
 		x, okA := pa[p]
 		y, okB := pb[p]
 		if !okA || !okB {
-			add(DiffNumber, true, "%s: only in %s", member, map[bool]string{true: "A", false: "B"}[okA])
+			add(DiffResult, true, "%s: only in %s", member, map[bool]string{true: "A", false: "B"}[okA])
 			tablesDiffer = true
 			continue
 		}
@@ -116,12 +118,12 @@ func Diff(a, b *Bag) []DiffItem {
 		}
 		ds, _, err := CompareCSV(member, x, y, nil)
 		if err != nil {
-			add(DiffNumber, true, "%v", err)
+			add(DiffResult, true, "%v", err)
 			tablesDiffer = true
 			continue
 		}
 		for _, d := range ds {
-			add(DiffNumber, true, "%s %s", member, d.Describe("A", "B"))
+			add(resultKind(d), true, "%s %s", member, d.Describe("A", "B"))
 			tablesDiffer = true
 		}
 	}
@@ -130,7 +132,7 @@ func Diff(a, b *Bag) []DiffItem {
 		ds, _, err := CompareJSON(member, pa[p], pb[p], nil)
 		switch {
 		case err != nil:
-			add(DiffNumber, true, "%v", err)
+			add(DiffResult, true, "%v", err)
 		case len(ds) > 0 && tablesDiffer:
 			headers := tableHeaders(pa, pb)
 			repeated := 0
@@ -139,14 +141,14 @@ func Diff(a, b *Bag) []DiffItem {
 					repeated++
 					continue
 				}
-				add(DiffNumber, true, "%s %s: %s in A, %s in B", member, d.Column, d.A, d.B)
+				add(resultKind(d), true, "%s %s: %s in A, %s in B", member, d.Column, d.A, d.B)
 			}
 			if repeated > 0 {
-				add(DiffNumber, true, "%s: %s", member, repeatedDifferences(repeated))
+				add(DiffResult, true, "%s: %s", member, repeatedDifferences(repeated))
 			}
 		default:
 			for _, d := range ds {
-				add(DiffNumber, true, "%s %s: %s in A, %s in B", member, d.Column, d.A, d.B)
+				add(resultKind(d), true, "%s %s: %s in A, %s in B", member, d.Column, d.A, d.B)
 			}
 		}
 	}
@@ -165,6 +167,40 @@ func Diff(a, b *Bag) []DiffItem {
 		add(DiffRendered, false, "rendered files that differ: %s", list)
 	}
 	return items
+}
+
+// resultKind labels one difference of a result table or of results.json:
+// DiffNumber where both values are numbers, or one is and the other is
+// missing (an empty cell, null or absent); DiffResult for a row, an object
+// (an analysis or fit) or a header in one version only; DiffText for every
+// other value (a criterion, a method, a note, true or false).
+func resultKind(d Difference) string {
+	if d.Column == "(row)" || d.Column == "(header)" || isObject(d.A) || isObject(d.B) {
+		return DiffResult
+	}
+	na, nb := isNumber(d.A), isNumber(d.B)
+	if (na || isNothing(d.A)) && (nb || isNothing(d.B)) && (na || nb) {
+		return DiffNumber
+	}
+	return DiffText
+}
+
+// isNumber reports whether a cell or a JSON value's text is a number; a
+// JSON string is quoted, so "\"1\"" is not.
+func isNumber(s string) bool {
+	_, err := strconv.ParseFloat(s, 64)
+	return err == nil
+}
+
+// isNothing reports whether a cell or a JSON value's text stands for no
+// value: an empty cell, null, or a member absent from one version.
+func isNothing(s string) bool {
+	return s == "" || s == "null" || s == "(absent)"
+}
+
+// isObject reports whether a JSON value's text is an object or an array.
+func isObject(s string) bool {
+	return strings.HasPrefix(s, "{") || strings.HasPrefix(s, "[")
 }
 
 func repeatedDifferences(n int) string {

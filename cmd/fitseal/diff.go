@@ -16,7 +16,7 @@ func init() {
 }
 
 func cmdDiff(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	fs := newFlagSet("diff", "A B", "Compare bundles A and B: inputs by SHA-256, the effective project and\nsettings, fitseal's version and platform, git provenance, and every number\nof the result tables by file, row and column with both values.\nThe created time, the signer and the rendered tables, figures and PDF are\nreported too but are not differences in substance: the rendered files are\ndrawn from what is compared and carry the created time and signer.\nExit 0: identical in substance; 1: something differs; 2: a bundle cannot be read.", stderr)
+	fs := newFlagSet("diff", "A B", "Compare bundles A and B: inputs by SHA-256, the effective project and\nsettings, fitseal's version and platform, git provenance, and every value\nof the result tables by file, row and column with both values. Each line\nsays what it is: input, setting, code, git, number (a result's number),\ntext (a result's text: a criterion, method, note, true or false) or result\n(a result file, row or record that only one bundle has).\nThe created time, the signer and the rendered tables, figures and PDF are\nreported too but are not differences in substance: the rendered files are\ndrawn from what is compared and carry the created time and signer.\nExit 0: identical in substance; 1: something differs; 2: a bundle cannot be read.", stderr)
 	fs.Bool("q", false, "no progress output (diff has none)")
 	pos, err := parseInterleaved(fs, args)
 	if err != nil {
