@@ -362,7 +362,7 @@ func (rd *csvReading) rows() error {
 		}
 		if len(rec) != len(rd.columns) {
 			return rd.fail(-1, "every row needs one field per header column; quote fields that contain the delimiter",
-				"the row has %d fields, the header %d", len(rec), len(rd.columns))
+				"the row has %s, the header %d", fieldCount(len(rec)), len(rd.columns))
 		}
 		if err := rd.row(rec); err != nil {
 			return err
@@ -671,6 +671,14 @@ func (rd *csvReading) isMissing(b []byte) bool {
 		}
 	}
 	return false
+}
+
+// fieldCount is "1 field" or "N fields".
+func fieldCount(n int) string {
+	if n == 1 {
+		return "1 field"
+	}
+	return fmt.Sprintf("%d fields", n)
 }
 
 func quoteList(list []string) string {

@@ -61,8 +61,8 @@ func (es ProjectErrors) Unwrap() []error {
 // DataError is a problem in a data file, named by file, line and, where
 // one or more cells are at fault, their columns by header name:
 // `life.csv line 7, column "hours": the value "45O" is not a number`.
-// Without cells it reads `life.csv:3: …` (the whole line at fault) or
-// `life.csv: …` (the whole file).
+// Without cells it reads `life.csv line 3: …` (the whole line at fault,
+// the header being line 1) or `life.csv: …` (the whole file).
 type DataError struct {
 	File string
 	Line int
@@ -114,7 +114,7 @@ func (e *DataError) Error() string {
 			b.WriteString(c.String())
 		}
 	case e.Line > 0:
-		fmt.Fprintf(&b, ":%d", e.Line)
+		fmt.Fprintf(&b, " line %d", e.Line)
 	}
 	b.WriteString(": ")
 	b.WriteString(e.Msg)

@@ -100,14 +100,14 @@ func TestQuickDataErrors(t *testing.T) {
 		projErr, projHint string
 	}{
 		{"no such column", Dataset{Column: "y"}, "x\n1\n",
-			`x.csv:1: no column "y" (named by --column)`, `did you mean "x"?`,
-			`x.csv:1: no column "y" (named by column in dataset "life")`, `did you mean "x"?`},
+			`x.csv line 1: no column "y" (named by --column)`, `did you mean "x"?`,
+			`x.csv line 1: no column "y" (named by column in dataset "life")`, `did you mean "x"?`},
 		{"unknown status code", Dataset{Column: "x", StatusColumn: "s", Left: []string{"<"}}, "x,s\n1,?\n",
 			`x.csv line 2, column "s": unknown status code "?" (left: "<"; right: none)`, "list it in --left or --right, or leave the cell empty for an exact value",
 			`x.csv line 2, column "s": unknown status code "?" (left: "<"; right: none)`, `list it in left or right of dataset "life", or leave the cell empty for an exact value`},
 		{"blank line", Dataset{Column: "x", Missing: []string{"NA"}}, "x\n1\n\n",
-			`x.csv:3: the line is blank, and an empty cell is not a missing value (missing: "NA")`, `remove the line, or add "" to --missing to count blank lines as missing rows`,
-			`x.csv:3: the line is blank, and an empty cell is not a missing value (missing: "NA")`, `remove the line, or add "" to missing in dataset "life" to count blank lines as missing rows`},
+			`x.csv line 3: the line is blank, and an empty cell is not a missing value (missing: "NA")`, `remove the line, or add "" to --missing to count blank lines as missing rows`,
+			`x.csv line 3: the line is blank, and an empty cell is not a missing value (missing: "NA")`, `remove the line, or add "" to missing in dataset "life" to count blank lines as missing rows`},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
