@@ -26,7 +26,7 @@ type extractOptions struct {
 func cmdExtract(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	var o extractOptions
 	fs := newFlagSet("extract", "BUNDLE DIR", "Unpack BUNDLE into DIR/NAME, NAME being the bag folder inside the bundle.\nDIR is created if missing; an existing DIR/NAME is never replaced.\nArchives with absolute paths, \"..\", links, devices, duplicate names, more than\none top folder or sizes past the limits are refused before anything is written.\nextract checks the archive's safety only; 'fitseal verify' checks hashes and signature.", stderr)
-	fs.Bool("q", false, "no progress output")
+	fs.Bool("q", false, "no progress output (extract has none)")
 	pos, err := parseInterleaved(fs, args)
 	if err != nil {
 		return err

@@ -53,12 +53,11 @@ func cmdFit(ctx context.Context, args []string, stdout, stderr io.Writer) error 
 	fs.StringVar(&d.Delimiter, "delimiter", ",", "field separator, one character")
 	fs.StringVar(&o.Missing, "missing", ",NA", "comma-separated cell values skipped as missing (the empty cell is written as nothing)")
 	fs.IntVar(&o.Workers, "j", 0, "number of fits run at once, and the most cores used (default: all cores)")
-	quiet := fs.Bool("q", false, "accepted for symmetry with other commands (fit draws no progress)")
+	fs.Bool("q", false, "no progress output (fit has none)")
 	pos, err := parseInterleaved(fs, args)
 	if err != nil {
 		return err
 	}
-	_ = *quiet
 	if len(pos) != 1 {
 		return fs.argCountError("one CSV file", len(pos))
 	}

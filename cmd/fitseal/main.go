@@ -130,7 +130,7 @@ func newFlagSet(name, argsUsage, summary string, stderr io.Writer) *flagSet {
 	fs.SetOutput(stderr)
 	synopsis := strings.TrimSpace("fitseal " + name + " [flags] " + argsUsage)
 	fs.Usage = func() {
-		fmt.Fprintf(stderr, "usage: fitseal %s [flags] %s\n\n%s\n", name, argsUsage, summary)
+		fmt.Fprintf(stderr, "usage: %s\n\n%s\n", synopsis, summary)
 		var hasFlags bool
 		fs.VisitAll(func(*flag.Flag) { hasFlags = true })
 		if hasFlags {

@@ -178,3 +178,43 @@ func TestWrongArgumentCount(t *testing.T) {
 		})
 	}
 }
+
+// TestUsageText: every command's -h begins with its synopsis, and no line
+// of it ends in a space (keygen's and families' synopses, which take no
+// arguments, did); -q's help says the truth about the command's progress:
+// run and verify draw progress on a terminal, the others none.
+func TestUsageText(t *testing.T) {
+	quiet := map[string]string{
+		"run":    "no progress line (notes about the data, such as rows skipped as missing, are still printed)",
+		"verify": "no progress line while the analysis is re-run",
+	}
+	for _, name := range commandNames() {
+		t.Run(name, func(t *testing.T) {
+			var stderr bytes.Buffer
+			if code := run(context.Background(), []string{name, "-h"}, io.Discard, &stderr); code != 0 {
+				t.Fatalf("%s -h: exit %d", name, code)
+			}
+			lines := strings.Split(stderr.String(), "\n")
+			if !strings.HasPrefix(lines[0], "usage: fitseal "+name+" [flags]") {
+				t.Errorf("first line %q, want the synopsis", lines[0])
+			}
+			for i, l := range lines {
+				if strings.TrimRight(l, " \t") != l {
+					t.Errorf("line %d ends in white space: %q", i+1, l)
+				}
+			}
+			want, ok := quiet[name]
+			if !ok {
+				want = "no progress output (" + name + " has none)"
+			}
+			// flag prints a one-letter flag's help on its line after a tab.
+			i := slices.IndexFunc(lines, func(l string) bool { return strings.HasPrefix(l, "  -q\t") })
+			if i < 0 {
+				t.Fatalf("no -q in the usage:\n%s", stderr.String())
+			}
+			if got := strings.TrimPrefix(lines[i], "  -q\t"); got != want {
+				t.Errorf("-q help %q, want %q", got, want)
+			}
+		})
+	}
+}
