@@ -7,6 +7,8 @@ import (
 	"reflect"
 	"strings"
 	"testing"
+
+	"github.com/BurntSushi/toml"
 )
 
 // goodProject is a small valid project; the broken cases below edit it.
@@ -105,7 +107,22 @@ func TestLoadBrokenProjects(t *testing.T) {
 		{"negative bootstrap", rep(`seed = 7`, "seed = 7\nbootstrap = -1"), "settings.bootstrap", 5, "not between 0 and", ""},
 		{"zero tolerance", rep(`seed = 7`, "seed = 7\ntolerance = 0.0"), "settings.tolerance", 5, "not in (0, 1)", ""},
 		{"zero iterations", rep(`seed = 7`, "seed = 7\nmax_iterations = 0"), "settings.max_iterations", 5, "not between 1", ""},
-		{"seed of wrong type", rep(`seed = 7`, `seed = "seven"`), "settings.seed", 4, "is a string; it must be an integer", ""},
+		{"seed of wrong type", rep(`seed = 7`, `seed = "seven"`), "settings.seed", 4, "is a string; it must be an integer",
+			"write it as a whole number, without quotes or a decimal point, e.g. seed = 20261202"},
+		{"bootstrap quoted", rep(`seed = 7`, "seed = 7\nbootstrap = \"999\""), "settings.bootstrap", 5, "is a string; it must be an integer",
+			"remove the quotes: bootstrap = 999"},
+		{"bootstrap not whole", rep(`seed = 7`, "seed = 7\nbootstrap = 99.5"), "settings.bootstrap", 5, "is a float; it must be an integer",
+			"write it as a whole number, without quotes or a decimal point, e.g. bootstrap = 999"},
+		{"confidence quoted", rep(`seed = 7`, "seed = 7\nconfidence = \"0.9\""), "settings.confidence", 5, "is a string; it must be a number",
+			"remove the quotes: confidence = 0.9"},
+		{"criterion not quoted", rep(`criterion = "bic"`, `criterion = 3`), "settings.criterion", 5, "is an integer; it must be a string",
+			`write it in double quotes, e.g. criterion = "aicc"`},
+		{"require_clean_git as a word", rep(`seed = 7`, "seed = 7\nrequire_clean_git = \"yes\""), "settings.require_clean_git", 5, "is a string; it must be true or false",
+			"write true or false, without quotes, e.g. require_clean_git = false"},
+		{"missing code not a string", rep(`right = ["+"]`, "right = [\"+\"]\nmissing = [\"\", 3]"), "dataset[0].missing[1]", 13, "is an integer; it must be a string",
+			`write each element in double quotes, e.g. missing = ["", "NA"]`},
+		{"quantiles not a list", rep(`quantiles = [0.1, 0.5]`, `quantiles = 0.5`), "analysis[0].quantiles", 21, "is a float; it must be an array of numbers",
+			"write a list of numbers in brackets, e.g. quantiles = [0.1, 0.5]"},
 		{"bootstrap intervals without replicates", rep(`seed = 7`, "seed = 7\nintervals = \"bootstrap\"\nbootstrap = 0"), "settings.intervals", 5, "need replicates", ""},
 		{"quantile above one", rep(`[0.1, 0.5]`, `[0.1, 1.5]`), "analysis[0].quantiles[1]", 21, "1.5 is not in (0, 1)", ""},
 		{"return period one", rep(`[10, 100]`, `[1, 100]`), "analysis[0].return_periods[0]", 22, "greater than 1", ""},
@@ -139,7 +156,8 @@ func TestLoadBrokenProjects(t *testing.T) {
 		{"invalid TOML", rep(`seed = 7`, `seed = = 7`), "settings.seed", 4, "not valid TOML", ""},
 		{"trials with a continuous family", rep(`status_column = "state"`+"\n"+`right = ["+"]`, `trials_column = "state"`), "analysis[0].candidates", 0, "continuous family", ""},
 		{"where without equals", rep(`column = "hours"`, "column = \"hours\"\nwhere = { column = \"site\" }"), "dataset[0].where.equals", 11, "is required", ""},
-		{"analysis array element of wrong type", rep(`quantiles = [0.1, 0.5]`, `quantiles = [0.1, "half"]`), "analysis[0].quantiles[1]", 21, "is a string; it must be a number", ""},
+		{"analysis array element of wrong type", rep(`quantiles = [0.1, 0.5]`, `quantiles = [0.1, "half"]`), "analysis[0].quantiles[1]", 21, "is a string; it must be a number",
+			"write each element as a number, without quotes, e.g. quantiles = [0.1, 0.5]"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -210,6 +228,17 @@ after = 2
 	} {
 		if got := kl.line(path); got != want {
 			t.Errorf("line(%q) = %d, want %d", path, got, want)
+		}
+	}
+}
+
+// TestKeyExamplesAreTOML: the examples that wrong-type hints show are
+// valid TOML values of the key (strings quoted, lists in brackets).
+func TestKeyExamplesAreTOML(t *testing.T) {
+	for k, ex := range keyExamples {
+		var v map[string]any
+		if _, err := toml.Decode(k+" = "+ex, &v); err != nil {
+			t.Errorf("%s = %s: %v", k, ex, err)
 		}
 	}
 }

@@ -84,7 +84,64 @@ func tomlType(v any) string {
 }
 
 func (t *table) wrongType(k string, v any, want string) {
-	t.l.errorf(t.key(k), "", "is %s; it must be %s", tomlType(v), want)
+	t.l.errorf(t.key(k), typeHint(k, v, want), "is %s; it must be %s", tomlType(v), want)
+}
+
+// keyExamples are example values of the project file's keys, by the key's
+// last name, as its wrong-type hints show them.
+var keyExamples = map[string]string{
+	"name": `"seal-life"`, "description": `"Seal life for the 2026 asset review"`,
+	"seed": "20261202", "criterion": `"aicc"`, "confidence": "0.95", "intervals": `"profile"`,
+	"bootstrap": "999", "tolerance": "1e-10", "max_iterations": "2000", "require_clean_git": "false",
+	"file": `"data/seal_life.csv"`, "column": `"hours"`, "units": `"h"`, "delimiter": `";"`,
+	"status_column": `"state"`, "left": `["<"]`, "right": `["+", "suspended"]`,
+	"lower_column": `"lo"`, "upper_column": `"hi"`, "trials_column": `"n"`, "split_by": `"well"`,
+	"equals": `"north"`, "missing": `["", "NA"]`, "families": `["weibull", "lognormal"]`,
+	"dataset": `"seal-life"`, "candidates": `"lifetime"`, "quantiles": "[0.1, 0.5]",
+	"return_periods": "[10, 100]", "thresholds": "[5000.0]", "pdf": "true", "figures": "true",
+	"tables": `["md", "tex"]`, "templates": `"my-templates"`, "threshold": "30.0",
+}
+
+// typeWords says how a value of each wanted type is written in TOML.
+var typeWords = map[string]string{
+	"a string":            "write it in double quotes",
+	"a number":            "write it as a number, without quotes",
+	"an integer":          "write it as a whole number, without quotes or a decimal point",
+	"true or false":       "write true or false, without quotes",
+	"an array of strings": "write a list of quoted texts in brackets",
+	"an array of numbers": "write a list of numbers in brackets",
+	"a table":             "write it as an inline table { … } or a [section]",
+}
+
+// typeHint says how to write key k's value v, which is not of the wanted
+// type: "remove the quotes" where v is the wanted value quoted
+// (bootstrap = "999"), else how such a value is written, with an example
+// where the key has one (bootstrap = 999).
+func typeHint(k string, v any, want string) string {
+	if s, ok := v.(string); ok {
+		quoted := false
+		switch want {
+		case "an integer":
+			_, err := strconv.ParseInt(s, 10, 64)
+			quoted = err == nil
+		case "a number":
+			x, err := strconv.ParseFloat(s, 64)
+			quoted = err == nil && !math.IsNaN(x) && !math.IsInf(x, 0)
+		case "true or false":
+			quoted = s == "true" || s == "false"
+		}
+		if quoted {
+			return fmt.Sprintf("remove the quotes: %s = %s", k, s)
+		}
+	}
+	hint, ok := typeWords[want]
+	if !ok {
+		return ""
+	}
+	if ex, ok := keyExamples[k]; ok {
+		hint += fmt.Sprintf(", e.g. %s = %s", k, ex)
+	}
+	return hint
 }
 
 // str reads a string key; ok is false when it is absent or of another type.
@@ -168,7 +225,7 @@ func (t *table) strings(k string) ([]string, bool) {
 	for i, e := range arr {
 		s, ok := e.(string)
 		if !ok {
-			t.l.errorf(t.key(k)+"["+strconv.Itoa(i)+"]", "", "is %s; it must be a string", tomlType(e))
+			t.l.errorf(t.key(k)+"["+strconv.Itoa(i)+"]", elementHint(k, "write each element in double quotes"), "is %s; it must be a string", tomlType(e))
 			return nil, false
 		}
 		out = append(out, s)
@@ -191,12 +248,20 @@ func (t *table) numbers(k string) ([]float64, bool) {
 	for i, e := range arr {
 		x, ok := asNumber(e)
 		if !ok {
-			t.l.errorf(t.key(k)+"["+strconv.Itoa(i)+"]", "", "is %s; it must be a number", tomlType(e))
+			t.l.errorf(t.key(k)+"["+strconv.Itoa(i)+"]", elementHint(k, "write each element as a number, without quotes"), "is %s; it must be a number", tomlType(e))
 			return nil, false
 		}
 		out = append(out, x)
 	}
 	return out, true
+}
+
+// elementHint is hint for an element of the list k, with k's example.
+func elementHint(k, hint string) string {
+	if ex, ok := keyExamples[k]; ok {
+		hint += fmt.Sprintf(", e.g. %s = %s", k, ex)
+	}
+	return hint
 }
 
 // sub reads a table key (a [header] table or an inline table).
