@@ -38,7 +38,7 @@ func writeFileAtomic(out string, force bool, perm fs.FileMode, write func(io.Wri
 	}
 	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
 	if err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	tmp := f.Name()
 	defer func() {
@@ -49,25 +49,25 @@ func writeFileAtomic(out string, force bool, perm fs.FileMode, write func(io.Wri
 	}()
 	bw := bufio.NewWriterSize(f, 1<<16)
 	if err = write(bw); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	if err = bw.Flush(); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	if err = f.Chmod(perm); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	runner.TracePhase("write: sync")
 	if err = f.Sync(); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	runner.TracePhase("write: close, move")
 	if err = f.Close(); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	if force {
 		if err = os.Rename(tmp, out); err != nil {
-			return fmt.Errorf("writing %s: %w", out, err)
+			return plainf("writing "+out, err)
 		}
 	} else {
 		if lerr := os.Link(tmp, out); lerr != nil {
@@ -79,7 +79,7 @@ func writeFileAtomic(out string, force bool, perm fs.FileMode, write func(io.Wri
 				return existsError(out)
 			}
 			if err = os.Rename(tmp, out); err != nil {
-				return fmt.Errorf("writing %s: %w", out, err)
+				return plainf("writing "+out, err)
 			}
 		} else {
 			os.Remove(tmp)
@@ -107,11 +107,11 @@ func writeFolderAtomic(out string, force bool, files []member) (err error) {
 		return existsError(out)
 	}
 	if err := os.MkdirAll(parent, dirMode); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	tmp, err := os.MkdirTemp(parent, "."+base+".tmp-*")
 	if err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	defer func() {
 		if err != nil {
@@ -119,10 +119,10 @@ func writeFolderAtomic(out string, force bool, files []member) (err error) {
 		}
 	}()
 	if err = os.Chmod(tmp, dirMode); err != nil {
-		return err
+		return plainf("writing "+out, err)
 	}
 	if err = writeTree(tmp, files); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	if _, serr := os.Lstat(out); serr == nil {
 		if !force {
@@ -130,15 +130,15 @@ func writeFolderAtomic(out string, force bool, files []member) (err error) {
 		}
 		old := tmp + ".old"
 		if err = os.Rename(out, old); err != nil {
-			return fmt.Errorf("replacing %s: %w", out, err)
+			return plainf("replacing "+out, err)
 		}
 		if err = os.Rename(tmp, out); err != nil {
 			os.Rename(old, out)
-			return fmt.Errorf("replacing %s: %w", out, err)
+			return plainf("replacing "+out, err)
 		}
 		os.RemoveAll(old)
 	} else if err = os.Rename(tmp, out); err != nil {
-		return fmt.Errorf("writing %s: %w", out, err)
+		return plainf("writing "+out, err)
 	}
 	syncDir(parent)
 	return nil
@@ -188,7 +188,7 @@ func writeTree(dir string, files []member) error {
 			err = cerr
 		}
 		if err != nil {
-			return fmt.Errorf("%s: %w", m.Path, err)
+			return pathError(m.Path, err)
 		}
 		return nil
 	})

@@ -224,7 +224,7 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 		if fi, err := f.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() <= min(maxSplitFile, limit) {
 			data := make([]byte, fi.Size())
 			if _, err := io.ReadFull(f, data); err != nil {
-				return archiveDamaged("", "cannot be read: %v", err)
+				return archiveDamaged("", "cannot be read: %s", plainReason(err))
 			}
 			sr := newSplitReader(data, runtime.GOMAXPROCS(0), limit)
 			if b, err := readArchive(sr, lim); !sr.failed {
@@ -235,7 +235,7 @@ func ReadArchive(r io.Reader, lim Limits) (*Bag, error) {
 	}
 	zr, err := gzip.NewReader(bufio.NewReader(r))
 	if err != nil {
-		return archiveDamaged("", "not a gzip-compressed file: %v", err)
+		return archiveDamaged("", "not a gzip-compressed file: %s", plainReason(err))
 	}
 	return readArchive(zr, lim)
 }
@@ -273,7 +273,7 @@ func readArchive(zr io.Reader, lim Limits) (*Bag, error) {
 			return archiveFail("", "the archive's headers exceed the size limits")
 		}
 		if err != nil {
-			return archiveDamaged("", "not a readable tar archive: %v", err)
+			return archiveDamaged("", "not a readable tar archive: %s", plainReason(err))
 		}
 		entries++
 		if entries > lim.MaxEntries {
@@ -315,14 +315,17 @@ func readArchive(zr io.Reader, lim Limits) (*Bag, error) {
 		total += h.Size
 		data := make([]byte, h.Size)
 		if _, err := io.ReadFull(tr, data); err != nil {
-			return archiveDamaged(h.Name, "truncated: %v", err)
+			if errors.Is(err, io.ErrUnexpectedEOF) {
+				return archiveDamaged(h.Name, "truncated: the archive ends inside it")
+			}
+			return archiveDamaged(h.Name, "cannot be read: %s", plainReason(err))
 		}
 		files[strings.TrimPrefix(name, tree.top+"/")] = data
 	}
 	// Read to the end of the gzip stream so that its CRC-32 and length are
 	// checked; a tar writer pads with at most a few blocks of zeros.
 	if n, err := io.Copy(io.Discard, io.LimitReader(capped, 1<<20)); err != nil {
-		return archiveDamaged("", "damaged compressed stream after the tar end: %v", err)
+		return archiveDamaged("", "damaged compressed stream after the tar end: %s", plainReason(err))
 	} else if n == 1<<20 {
 		return archiveFail("", "more than 1 MiB of data after the tar end")
 	}
@@ -352,7 +355,7 @@ func ReadFolder(dir string, lim Limits) (*Bag, error) {
 	}
 	root, err := os.OpenRoot(dir)
 	if err != nil {
-		return nil, err
+		return nil, pathError(dir, err)
 	}
 	defer root.Close()
 	tree := newPathTree()
@@ -426,6 +429,10 @@ func ReadFolder(dir string, lim Limits) (*Bag, error) {
 		files[p] = data
 		return nil
 	})
+	var pe *fs.PathError
+	if errors.As(walkErr, &pe) && !errors.Is(walkErr, ErrUnsafeArchive) {
+		return nil, pathError(filepath.Join(dir, filepath.FromSlash(pe.Path)), pe.Err)
+	}
 	if walkErr != nil {
 		return nil, walkErr
 	}
@@ -450,7 +457,7 @@ func (b *Bag) WriteTo(dir string) (string, error) {
 		return "", err
 	}
 	if err := os.MkdirAll(dir, dirMode); err != nil {
-		return "", err
+		return "", pathErrorOf(err)
 	}
 	target := filepath.Join(dir, b.Name)
 	if err := writeFolderAtomic(target, false, sortedMembers(b.Files)); err != nil {

@@ -119,7 +119,7 @@ var ErrEncryptedKey = errors.New("the key is encrypted with a passphrase")
 func LoadSigner(path string) (Signer, error) {
 	b, err := os.ReadFile(path)
 	if err != nil {
-		return Signer{}, fmt.Errorf("signing key: %w", err)
+		return Signer{}, plainf("signing key "+path, err)
 	}
 	s, err := ssh.ParsePrivateKey(b)
 	if err != nil {
@@ -131,7 +131,7 @@ func LoadSigner(path string) (Signer, error) {
 		if bytes.Contains(b, []byte("PUBLIC KEY")) || bytes.HasPrefix(b, []byte("ssh-")) {
 			return Signer{}, fmt.Errorf("signing key %s is a public key; give the private key (the file without .pub)", path)
 		}
-		return Signer{}, fmt.Errorf("signing key %s: not an OpenSSH private key: %v", path, err)
+		return Signer{}, fmt.Errorf("signing key %s: not an OpenSSH private key (%s); give the file that 'fitseal keygen' or 'ssh-keygen -t ed25519' wrote", path, plainReason(err))
 	}
 	if t := s.PublicKey().Type(); t != ssh.KeyAlgoED25519 {
 		return Signer{}, fmt.Errorf("signing key %s is %s; fitseal signs with Ed25519 keys: make one with 'fitseal keygen' or 'ssh-keygen -t ed25519'", path, t)
@@ -145,7 +145,7 @@ func LoadSigner(path string) (Signer, error) {
 func ReadPublicKey(path string) (ssh.PublicKey, error) {
 	b, err := os.ReadFile(path)
 	if err != nil {
-		return nil, fmt.Errorf("public key: %w", err)
+		return nil, plainf("public key "+path, err)
 	}
 	for i, line := range strings.Split(string(b), "\n") {
 		line = strings.TrimSpace(line)
@@ -210,10 +210,10 @@ func ResolveKey(flagKey string, getenv func(string) string, stderr io.Writer) (S
 		s, err := LoadSigner(path)
 		return s, path, err
 	} else if !errors.Is(err, os.ErrNotExist) {
-		return Signer{}, "", fmt.Errorf("signing key: %w", err)
+		return Signer{}, "", plainf("signing key "+path, err)
 	}
 	if err := os.MkdirAll(filepath.Dir(path), 0o700); err != nil {
-		return Signer{}, "", fmt.Errorf("creating the default signing key: %w", err)
+		return Signer{}, "", fmt.Errorf("creating the default signing key: %w", pathErrorOf(err))
 	}
 	s, err := WriteKeyPair(path, "fitseal")
 	if err != nil {

@@ -12,11 +12,13 @@ import (
 
 // Load reads the project file at path, applies the defaults and checks every
 // value. A bad project gives [ProjectErrors] (every problem found, each with
-// its key path and line); an unreadable file gives the *os.PathError.
+// its key path and line); an unreadable file gives an error that names it
+// and the reason ("p: is a directory"), wrapping the cause (errors.Is(err,
+// fs.ErrNotExist) for a missing one).
 func Load(path string) (*Project, error) {
 	src, err := os.ReadFile(path)
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("%s: %w", path, unwrapPathError(err))
 	}
 	return Parse(path, src)
 }

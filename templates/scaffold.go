@@ -92,7 +92,7 @@ func WriteScaffold(dir string) ([]string, error) {
 		case err == nil:
 			existing = append(existing, f.Path)
 		case !errors.Is(err, fs.ErrNotExist):
-			return nil, err
+			return nil, pathReason(err)
 		}
 	}
 	if len(existing) > 0 {
@@ -102,14 +102,29 @@ func WriteScaffold(dir string) ([]string, error) {
 	for _, f := range files {
 		target := filepath.Join(dir, filepath.FromSlash(f.Path))
 		if err := os.MkdirAll(filepath.Dir(target), 0o755); err != nil {
-			return written, err
+			return written, pathReason(err)
 		}
 		if err := writeNew(target, f.Data); err != nil {
-			return written, err
+			return written, fmt.Errorf("writing %s: %w", target, pathReason(err))
 		}
 		written = append(written, f.Path)
 	}
 	return written, nil
+}
+
+// pathReason is err of a file operation named by its path and reason, not
+// by the system call ("lstat d/.gitignore: not a directory" is
+// "d/.gitignore: not a directory"; a temporary file's name is no use to
+// the reader, so an error about one names only the reason).
+func pathReason(err error) error {
+	var pe *fs.PathError
+	if !errors.As(err, &pe) {
+		return err
+	}
+	if strings.HasPrefix(filepath.Base(pe.Path), ".fitseal-init-") {
+		return pe.Err
+	}
+	return fmt.Errorf("%s: %w", pe.Path, pe.Err)
 }
 
 // writeNew writes data to a temporary file beside target and links it into

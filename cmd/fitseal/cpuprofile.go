@@ -35,7 +35,7 @@ func startRecording(getenv func(string) string, stderr io.Writer, env, doing str
 	}
 	f, err := os.Create(path)
 	if err != nil {
-		fmt.Fprintf(stderr, "fitseal: warning: %s: %v; not %s\n", env, err, doing)
+		fmt.Fprintf(stderr, "fitseal: warning: %s: %v; not %s\n", env, pathErr(err), doing)
 		return func() {}
 	}
 	if err := start(f); err != nil {

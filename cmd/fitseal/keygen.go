@@ -48,7 +48,7 @@ func runKeygen(_ context.Context, o keygenOptions, stdout, _ io.Writer) error {
 		}
 		path = def
 		if err := os.MkdirAll(filepath.Dir(path), 0o700); err != nil {
-			return usageError{err}
+			return usageError{fmt.Errorf("keygen: %w", pathErr(err))}
 		}
 	}
 	s, err := bundle.WriteKeyPair(path, o.Comment)

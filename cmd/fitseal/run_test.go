@@ -1,6 +1,8 @@
 package main
 
 import (
+	"context"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -99,6 +101,56 @@ func TestReportMissingNamesEmptyGroups(t *testing.T) {
 			}
 			if strings.Join(got, "\n") != strings.Join(tt.want, "\n") {
 				t.Errorf("stderr notes:\n%s\nwant:\n%s", strings.Join(got, "\n"), strings.Join(tt.want, "\n"))
+			}
+		})
+	}
+}
+
+// TestFileErrorsExit2: a path that cannot be read or written is bad input
+// (exit 2), named with the reason, without the system call ("open", "read",
+// "mkdir", "lstat") or a temporary file's name.
+func TestFileErrorsExit2(t *testing.T) {
+	dir := t.TempDir()
+	file := filepath.Join(dir, "afile")
+	project := filepath.Join(dir, "fitseal.toml")
+	key := filepath.Join(dir, "key")
+	for name, text := range map[string]string{
+		file:                           "x\n",
+		filepath.Join(dir, "life.csv"): "hours\n1.5\n2.5\n3.1\n2.2\n4\n",
+		project:                        "name = \"life\"\n[settings]\nbootstrap = 0\n[[dataset]]\nname = \"life\"\nfile = \"life.csv\"\ncolumn = \"hours\"\n[[candidates]]\nname = \"c\"\nfamilies = [\"normal\"]\n[[analysis]]\ndataset = \"life\"\ncandidates = \"c\"\n[report]\npdf = false\nfigures = false\n",
+	} {
+		if err := os.WriteFile(name, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if code := run(context.Background(), []string{"keygen", "-o", key}, io.Discard, io.Discard); code != 0 {
+		t.Fatalf("keygen: exit %d", code)
+	}
+	tests := []struct {
+		name string
+		args []string
+		want string // the first line on stderr
+	}{
+		{"project is a folder", []string{"run", "-q", dir},
+			"fitseal: error: " + dir + ": is a directory"},
+		{"signing key is a folder", []string{"run", "-q", "--key", dir, "-o", filepath.Join(dir, "o1"), project},
+			"fitseal: error: signing key " + dir + ": is a directory"},
+		{"output under a file", []string{"run", "-q", "--key", key, "-o", filepath.Join(file, "b.tar.gz"), project},
+			"fitseal: error: writing " + filepath.Join(file, "b.tar.gz") + ": " + file + ": not a directory"},
+		{"public key missing", []string{"verify", "--key", filepath.Join(dir, "no.pub"), dir},
+			"fitseal: error: --key: public key " + filepath.Join(dir, "no.pub") + ": no such file or directory"},
+		{"key pair under a file", []string{"keygen", "-o", filepath.Join(file, "key")},
+			"fitseal: error: keygen: writing " + filepath.Join(file, "key") + ": not a directory"},
+		{"init into a file", []string{"init", file},
+			"fitseal: error: init " + file + ": " + filepath.Join(file, ".gitignore") + ": not a directory"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			var stderr strings.Builder
+			code := run(context.Background(), tt.args, io.Discard, &stderr)
+			first, _, _ := strings.Cut(stderr.String(), "\n")
+			if code != 2 || first != tt.want {
+				t.Errorf("exit %d, stderr:\n%s\nwant exit 2 and first line\n%s", code, stderr.String(), tt.want)
 			}
 		})
 	}
