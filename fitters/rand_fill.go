@@ -61,17 +61,23 @@ func (d Weibull) fill(r *rand.Rand, dst []float64) bool {
 	for i := range dst {
 		dst[i] = r.ExpFloat64()
 	}
+	p.scaledPowsInPlace(dst, d.Scale)
+	return true
+}
+
+// scaledPowsInPlace sets x[i] = scale·math.Pow(x[i], p.y) for every i, a
+// block of powBlock values at a time through powsInto.
+func (p powFixed) scaledPowsInPlace(x []float64, scale float64) {
 	var scratch [powBlock]float64
-	for len(dst) > 0 {
-		n := min(len(dst), powBlock)
-		block := dst[:n]
+	for len(x) > 0 {
+		n := min(len(x), powBlock)
+		block := x[:n]
 		p.powsInto(block, block, scratch[:n])
 		for i, v := range block {
-			block[i] = d.Scale * v
+			block[i] = scale * v
 		}
-		dst = dst[n:]
+		x = x[n:]
 	}
-	return true
 }
 
 // powBlock is the number of powers powsInto's callers work out at a time,

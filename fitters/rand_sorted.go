@@ -57,16 +57,7 @@ func (d Weibull) RandFillSorted(r *rand.Rand, dst []float64) {
 			dst[i] = d.Scale * math.Pow(e, 1/d.Shape)
 		}
 	} else {
-		var scratch [powBlock]float64
-		for rest := dst; len(rest) > 0; {
-			n := min(len(rest), powBlock)
-			block := rest[:n]
-			p.powsInto(block, block, scratch[:n])
-			for i, v := range block {
-				block[i] = d.Scale * v
-			}
-			rest = rest[n:]
-		}
+		p.scaledPowsInPlace(dst, d.Scale)
 	}
 	ascend(dst)
 }

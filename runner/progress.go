@@ -12,34 +12,53 @@ import (
 // replicates drawn, elapsed, ETA) on a terminal every quarter second until
 // stopped.
 type progress struct {
-	w     io.Writer
-	total int
-	done  *atomic.Int64
-	drawn *atomic.Int64
-	start time.Time
-	quit  chan struct{}
-	wg    sync.WaitGroup
+	w      io.Writer
+	total  int
+	done   *atomic.Int64
+	drawn  *atomic.Int64
+	start  time.Time
+	redraw *redrawer
 }
 
 func startProgress(w io.Writer, total int, done, drawn *atomic.Int64) *progress {
-	p := &progress{w: w, total: total, done: done, drawn: drawn, start: time.Now(), quit: make(chan struct{})}
-	p.wg.Add(1)
+	p := &progress{w: w, total: total, done: done, drawn: drawn, start: time.Now()}
+	p.redraw = startRedrawing(w, p.draw)
+	return p
+}
+
+// redrawer calls draw every quarter second on a goroutine of its own until
+// stop, which draws a last time and ends the line.
+type redrawer struct {
+	w    io.Writer
+	draw func()
+	quit chan struct{}
+	wg   sync.WaitGroup
+}
+
+func startRedrawing(w io.Writer, draw func()) *redrawer {
+	r := &redrawer{w: w, draw: draw, quit: make(chan struct{})}
+	r.wg.Add(1)
 	go func() {
-		defer p.wg.Done()
+		defer r.wg.Done()
 		tick := time.NewTicker(250 * time.Millisecond)
 		defer tick.Stop()
 		for {
 			select {
-			case <-p.quit:
-				p.draw()
-				fmt.Fprintln(p.w)
+			case <-r.quit:
 				return
 			case <-tick.C:
-				p.draw()
+				draw()
 			}
 		}
 	}()
-	return p
+	return r
+}
+
+func (r *redrawer) stop() {
+	close(r.quit)
+	r.wg.Wait()
+	r.draw()
+	fmt.Fprintln(r.w)
 }
 
 func (p *progress) draw() {
@@ -50,10 +69,7 @@ func (p *progress) draw() {
 	fmt.Fprintf(p.w, "\r%s", line)
 }
 
-func (p *progress) stop() {
-	close(p.quit)
-	p.wg.Wait()
-}
+func (p *progress) stop() { p.redraw.stop() }
 
 // progressLine formats "fitting 120/900 tasks  13%  elapsed 4s  ETA 26s";
 // the ETA assumes the remaining tasks take as long as the finished ones.
@@ -78,11 +94,10 @@ func progressLine(done, total int, elapsed time.Duration) string {
 // place every quarter second until Stop ends the line. A nil *Phase, as
 // StartPhase returns for a nil writer, does nothing.
 type Phase struct {
-	w     io.Writer
-	label string
-	start time.Time
-	quit  chan struct{}
-	wg    sync.WaitGroup
+	w      io.Writer
+	label  string
+	start  time.Time
+	redraw *redrawer
 }
 
 // StartPhase draws label on w (a terminal; nil draws nothing) until Stop.
@@ -90,22 +105,9 @@ func StartPhase(w io.Writer, label string) *Phase {
 	if w == nil {
 		return nil
 	}
-	p := &Phase{w: w, label: label, start: time.Now(), quit: make(chan struct{})}
+	p := &Phase{w: w, label: label, start: time.Now()}
 	p.draw()
-	p.wg.Add(1)
-	go func() {
-		defer p.wg.Done()
-		tick := time.NewTicker(250 * time.Millisecond)
-		defer tick.Stop()
-		for {
-			select {
-			case <-p.quit:
-				return
-			case <-tick.C:
-				p.draw()
-			}
-		}
-	}()
+	p.redraw = startRedrawing(w, p.draw)
 	return p
 }
 
@@ -118,10 +120,7 @@ func (p *Phase) Stop() {
 	if p == nil {
 		return
 	}
-	close(p.quit)
-	p.wg.Wait()
-	p.draw()
-	fmt.Fprintln(p.w)
+	p.redraw.stop()
 }
 
 // phaseLine formats "sealing: tables, figures, PDF  elapsed 3s   ".
