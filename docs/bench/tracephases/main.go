@@ -2,7 +2,10 @@
 // (FITSEAL_TRACE=trace.out) and prints, for each phase that run marks
 // (runner.TracePhase), its wall time and the CPU time of all goroutines in
 // it, whose ratio is the cores the phase kept busy; with -kinds, also that
-// CPU time by goroutine (named by the function it was started with).
+// CPU time by goroutine (named by the function it was started with); with
+// -lone N, also the time during which fewer than N goroutines ran (N = 2 on
+// two cores: a core idle), by the goroutine that ran alone, or "idle" —
+// what keeps a phase from using every core.
 //
 // It is a separate module so that fitseal itself does not depend on
 // golang.org/x/exp/trace. Run from this folder:
@@ -20,18 +23,23 @@ import (
 	"golang.org/x/exp/trace"
 )
 
+// loneBelow is the -lone flag.
+var loneBelow int
+
 type phase struct {
 	name        string
 	start, end  trace.Time
 	busy        int64            // goroutine-nanoseconds running
 	byGoroutine map[string]int64 // busy time by the goroutine's start function
+	lone        map[string]int64 // time with fewer than -lone goroutines running, by the one running ("idle": none)
 }
 
 func main() {
 	kinds := flag.Bool("kinds", false, "also print each phase's CPU time by goroutine")
+	flag.IntVar(&loneBelow, "lone", 0, "also print each phase's time with fewer than `N` goroutines running, by the one running (0: not)")
 	flag.Parse()
 	if flag.NArg() != 1 {
-		fmt.Fprintln(os.Stderr, "usage: tracephases [-kinds] trace.out")
+		fmt.Fprintln(os.Stderr, "usage: tracephases [-kinds] [-lone N] trace.out")
 		os.Exit(2)
 	}
 	f, err := os.Open(flag.Arg(0))
@@ -69,6 +77,22 @@ func main() {
 				fmt.Printf("    %9.1f ms  %s\n", float64(p.byGoroutine[k])/1e6, k)
 			}
 		}
+		if loneBelow > 0 {
+			var all int64
+			names := make([]string, 0, len(p.lone))
+			for k, v := range p.lone {
+				names = append(names, k)
+				all += v
+			}
+			sort.Slice(names, func(i, j int) bool { return p.lone[names[i]] > p.lone[names[j]] })
+			fmt.Printf("    %9.1f ms with fewer than %d running\n", float64(all)/1e6, loneBelow)
+			for _, k := range names {
+				if p.lone[k] < 50e3 {
+					break
+				}
+				fmt.Printf("      %9.1f ms  %s\n", float64(p.lone[k])/1e6, k)
+			}
+		}
 	}
 	fmt.Printf("%-32s %9.1f %9.1f %6.2f\n", "whole trace", wall, busy, busy/wall)
 }
@@ -81,7 +105,7 @@ func read(r io.Reader) ([]*phase, error) {
 		return nil, err
 	}
 	var phases []*phase
-	cur := &phase{name: "start", byGoroutine: map[string]int64{}}
+	cur := &phase{name: "start", byGoroutine: map[string]int64{}, lone: map[string]int64{}}
 	running := map[trace.GoID]bool{}
 	startFn := map[trace.GoID]string{}
 	var last trace.Time
@@ -92,6 +116,13 @@ func read(r io.Reader) ([]*phase, error) {
 			for g := range running {
 				cur.busy += int64(t - last)
 				cur.byGoroutine[startFn[g]] += int64(t - last)
+			}
+			if len(running) < loneBelow {
+				who := "idle"
+				for g := range running {
+					who = startFn[g] // one of them when loneBelow > 2
+				}
+				cur.lone[who] += int64(t - last)
 			}
 		}
 		last = t
@@ -113,7 +144,7 @@ func read(r io.Reader) ([]*phase, error) {
 		case trace.EventLog:
 			if l := ev.Log(); l.Category == "phase" {
 				phases = append(phases, cur)
-				cur = &phase{name: l.Message, start: ev.Time(), end: ev.Time(), byGoroutine: map[string]int64{}}
+				cur = &phase{name: l.Message, start: ev.Time(), end: ev.Time(), byGoroutine: map[string]int64{}, lone: map[string]int64{}}
 			}
 		case trace.EventStateTransition:
 			st := ev.StateTransition()
