@@ -5,7 +5,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
+	"strings"
 
 	"fitseal/templates"
 )
@@ -32,6 +34,9 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) error {
 	dir := "."
 	if fs.NArg() == 1 {
 		dir = fs.Arg(0)
+	}
+	if fi, err := os.Stat(dir); err == nil && !fi.IsDir() {
+		return usageError{fmt.Errorf("init: %s is a file, not a folder; nothing was written\nfitseal: hint: give a folder, new or existing, e.g. 'fitseal init %s-project'", dir, strings.TrimSuffix(filepath.Base(dir), filepath.Ext(dir)))}
 	}
 	written, err := templates.WriteScaffold(dir)
 	if err != nil {

@@ -60,4 +60,18 @@ func TestInitRefusesToOverwrite(t *testing.T) {
 	if code := run(context.Background(), []string{"init", "a", "b"}, &out, &errb); code != 2 {
 		t.Errorf("two folders: exit %d, want 2", code)
 	}
+	// A file where the folder should be: said plainly, with a hint, and
+	// the file left as it was.
+	file := filepath.Join(dir, "notes.txt")
+	os.WriteFile(file, mine, 0o644)
+	errb.Reset()
+	if code := run(context.Background(), []string{"init", file}, &out, &errb); code != 2 {
+		t.Errorf("a file: exit %d, want 2", code)
+	}
+	if want := "fitseal: error: init: " + file + " is a file, not a folder; nothing was written\nfitseal: hint: give a folder, new or existing, e.g. 'fitseal init notes-project'\n"; errb.String() != want {
+		t.Errorf("a file: stderr %q, want %q", errb.String(), want)
+	}
+	if got, _ := os.ReadFile(file); !bytes.Equal(got, mine) {
+		t.Error("the file was changed")
+	}
 }
