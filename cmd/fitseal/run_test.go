@@ -142,7 +142,7 @@ func TestFileErrorsExit2(t *testing.T) {
 		{"key pair under a file", []string{"keygen", "-o", filepath.Join(file, "key")},
 			"fitseal: error: keygen: writing " + filepath.Join(file, "key") + ": not a directory"},
 		{"init into a file", []string{"init", file},
-			"fitseal: error: init " + file + ": " + filepath.Join(file, ".gitignore") + ": not a directory"},
+			"fitseal: error: init: " + file + " is a file, not a folder; nothing was written"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
