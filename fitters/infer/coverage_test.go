@@ -380,14 +380,15 @@ truth below its lower end, %d above its upper end). So the shortfall is
 the χ²₁ approximation of the likelihood-ratio statistic, which is poor for
 the GEV at n = 15: ξ̂ is widely spread there, and %d of the %d samples
 drawn with ξ = 0.1 are fitted with ξ̂ below −0.5, where the likelihood is
-not regular (Smith, 1985). The quantile's profile was not checked this way,
-but %d of its datasets got no interval: one end's profile log-likelihood
-jumps instead of crossing the cut-off (the maximisation over the other
-parameters is not continuous there, the row's note says where), and
-fitseal leaves that end open rather than report a false crossing; such a
-dataset counts as not covered. That is a property of the interval code: a
-profile that followed the continuous branch of the maximisation through
-the jump would give those intervals (left for later).
+not regular (Smith, 1985). The quantile's profile was not checked this way.
+Its profile log-likelihood often jumps at n = 15, where the best maximum
+over the other parameters changes branch (the GEV's support moves with
+them): where it falls from above the cut-off to below it however those
+parameters are started (the walk's own start, the MLE's values, a path
+from the estimate), the interval ends at the jump, with a note; where the
+side beyond cannot be confirmed, or the profile keeps jumping, that end is
+left empty rather than placed at a false crossing — %d datasets, counted
+as not covered.
 A Bartlett-type correction of the cut-off is the usual remedy (common
 practice); fitseal does not apply one.
 

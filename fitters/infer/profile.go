@@ -169,7 +169,7 @@ const maxCrossingGap = 1e-3
 
 // maxRestarts bounds how often one side's walk resumes beyond a jump of
 // the profile that a warm start from just inside removes.
-const maxRestarts = 4
+const maxRestarts = 12
 
 // maxDoublings bounds the outward walk of an interval search.
 const maxDoublings = 40
@@ -312,25 +312,44 @@ func (p *profiler) interval(vhat, llhat, step, cut, span float64, from func(floa
 					}
 					return profileBound{Value: from(root)}
 				}
-				if restarts < maxRestarts {
-					d := 1e-8 * math.Max(1, math.Abs(root))
-					if lIn, uIn, eIn, okIn := p.atChecked(root-dir*d, warm, target); okIn && !eIn && lIn >= target {
-						lOut, uOut, eOut, okOut := p.atChecked(root+dir*d, uIn, target)
-						if p.irregular && !(okOut && lOut >= target) {
-							// also from the MLE's values (bestAt)
-							if l2, u2, _, _ := p.bestAt(root+dir*d, vhat, uIn); l2 >= target {
-								lOut, uOut, eOut, okOut = l2, u2, false, true
-							}
+				// Look just inside and just beyond the jump, each from the
+				// walk's own start, the MLE's values and along the path from
+				// the estimate (bestAt).
+				d := 1e-8 * math.Max(1, math.Abs(root))
+				lIn, uIn, eIn, okIn := p.atChecked(root-dir*d, warm, target)
+				if !eIn && !(okIn && lIn >= target) {
+					if l2, u2, _, _ := p.bestAt(root-dir*d, vhat, warm); l2 >= target {
+						lIn, uIn, okIn = l2, u2, true
+					}
+				}
+				if okIn && !eIn && lIn >= target {
+					lOut, uOut, eOut, okOut := p.atChecked(root+dir*d, uIn, target)
+					below := false // just beyond, below the cut-off from every start
+					if !eOut && !(okOut && lOut >= target) {
+						l2, u2, _, _ := p.bestAt(root+dir*d, vhat, uIn)
+						if l2 >= target {
+							lOut, uOut, okOut = l2, u2, true
+						} else {
+							below = okOut && !math.IsInf(l2, -1)
 						}
-						if eOut {
-							return openAtEdge(root)
-						}
-						if okOut && lOut >= target {
-							restarts++
-							origin, prev, uprev, dprev = root+dir*d, root+dir*d, uOut, lOut-target
-							k = -1
-							continue
-						}
+					}
+					switch {
+					case eOut:
+						return openAtEdge(root)
+					case okOut && lOut >= target && restarts < maxRestarts:
+						// Still above the cut-off beyond: walk on from there.
+						restarts++
+						origin, prev, uprev, dprev = root+dir*d, root+dir*d, uOut, lOut-target
+						k = -1
+						continue
+					case below:
+						// The profile falls from above the cut-off to below
+						// it here, however the other parameters are started:
+						// their best maximum changes branch (a GEV's support,
+						// for one, moves with them), and the likelihood-ratio
+						// set ends at the jump.
+						return profileBound{Value: from(root),
+							Note: fmt.Sprintf("at a jump of the profile log-likelihood (by %.3g, from above the cut-off to below it, each side checked from three starts): the maximisation over the other parameters changes branch there", math.Abs(last))}
 					}
 				}
 				return profileBound{Value: math.NaN(),
