@@ -65,6 +65,17 @@ var (
 	}
 )
 
+// add adds to p one term's score and Hessian in (a, b) at z = b·u − a,
+// given h1 = ∂/∂z and h2 = ∂²/∂z² of the term: ∂/∂a = −h1, ∂/∂b = u·h1,
+// and the second derivatives h2, −u·h2, u²·h2.
+func (p *locScalePoint) add(u, h1, h2 float64) {
+	p.ga -= h1
+	p.gb += u * h1
+	p.haa += h2
+	p.hab -= u * h2
+	p.hbb += u * u * h2
+}
+
 // sevLogDensity is the smallest extreme value law's g = z − e^z, with
 // g′ = 1 − e^z and g″ = −e^z.
 func sevLogDensity(z float64) (g, dg, d2g float64) {
@@ -86,13 +97,8 @@ func sevExactTerms(p *locScalePoint, exact []float64, a, b float64) {
 		libExps(es[:n], zs[:n])
 		for i, u := range exact[:n] {
 			z, e := zs[i], es[i]
-			g, h1, h2 := z-e, 1-e, -e
-			p.ll += g
-			p.ga -= h1
-			p.gb += u * h1
-			p.haa += h2
-			p.hab -= u * h2
-			p.hbb += u * u * h2
+			p.ll += z - e
+			p.add(u, 1-e, -e)
 		}
 		exact = exact[n:]
 	}
@@ -121,12 +127,7 @@ func sevRightTerms(p *locScalePoint, t *tally, a, b float64) {
 			w, e, h := ns[i], es[i], hs[i]
 			dg := 1 - e
 			p.ll += w * -e
-			h1, h2 := -w*h, -w*h*(dg+h)
-			p.ga -= h1
-			p.gb += u * h1
-			p.haa += h2
-			p.hab -= u * h2
-			p.hbb += u * u * h2
+			p.add(u, -w*h, -w*h*(dg+h))
 		}
 		us, ns = us[n:], ns[n:]
 	}
@@ -313,20 +314,13 @@ func censoredLocScalePoint(std stdLocScale, cs *censoredSample, a, b float64) lo
 		p.ll = math.Inf(-1)
 		return p
 	}
-	add := func(u, h1, h2 float64) {
-		p.ga -= h1
-		p.gb += u * h1
-		p.haa += h2
-		p.hab -= u * h2
-		p.hbb += u * u * h2
-	}
 	if std.exactTerms != nil {
 		std.exactTerms(&p, cs.exact, a, b)
 	} else {
 		for _, u := range cs.exact {
 			g, dg, d2g := std.logDensity(b*u - a)
 			p.ll += g
-			add(u, dg, d2g)
+			p.add(u, dg, d2g)
 		}
 	}
 	ne := float64(len(cs.exact))
@@ -340,7 +334,7 @@ func censoredLocScalePoint(std stdLocScale, cs *censoredSample, a, b float64) lo
 		g, dg, _ := std.logDensity(z)
 		r := math.Exp(g - lf)
 		p.ll += w * lf
-		add(u, w*r, w*r*(dg-r))
+		p.add(u, w*r, w*r*(dg-r))
 	}
 	if std.rightTerms != nil {
 		std.rightTerms(&p, &cs.right, a, b)
@@ -352,7 +346,7 @@ func censoredLocScalePoint(std stdLocScale, cs *censoredSample, a, b float64) lo
 			g, dg, _ := std.logDensity(z)
 			h := math.Exp(g - ls)
 			p.ll += w * ls
-			add(u, -w*h, -w*h*(dg+h))
+			p.add(u, -w*h, -w*h*(dg+h))
 		}
 	}
 	for i, ul := range cs.lower {
