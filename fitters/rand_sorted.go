@@ -39,11 +39,7 @@ func exponentialOrderStatistics(r *rand.Rand, e []float64) {
 // RandFillSorted draws the order statistics of len(dst) exponential
 // variates: E₍ᵢ₎/Rate (exponentialOrderStatistics).
 func (d Exponential) RandFillSorted(r *rand.Rand, dst []float64) {
-	exponentialOrderStatistics(r, dst)
-	for i, e := range dst {
-		dst[i] = e / d.Rate
-	}
-	ascend(dst)
+	fromExponential(r, dst, false, func(e float64) float64 { return e / d.Rate })
 }
 
 // RandFillSorted draws the order statistics of len(dst) weibull variates:
