@@ -138,10 +138,7 @@ func typeHint(k string, v any, want string) string {
 	if !ok {
 		return ""
 	}
-	if ex, ok := keyExamples[k]; ok {
-		hint += fmt.Sprintf(", e.g. %s = %s", k, ex)
-	}
-	return hint
+	return withExample(k, hint)
 }
 
 // str reads a string key; ok is false when it is absent or of another type.
@@ -225,7 +222,7 @@ func (t *table) strings(k string) ([]string, bool) {
 	for i, e := range arr {
 		s, ok := e.(string)
 		if !ok {
-			t.l.errorf(t.key(k)+"["+strconv.Itoa(i)+"]", elementHint(k, "write each element in double quotes"), "is %s; it must be a string", tomlType(e))
+			t.l.errorf(t.key(k)+"["+strconv.Itoa(i)+"]", withExample(k, "write each element in double quotes"), "is %s; it must be a string", tomlType(e))
 			return nil, false
 		}
 		out = append(out, s)
@@ -248,7 +245,7 @@ func (t *table) numbers(k string) ([]float64, bool) {
 	for i, e := range arr {
 		x, ok := asNumber(e)
 		if !ok {
-			t.l.errorf(t.key(k)+"["+strconv.Itoa(i)+"]", elementHint(k, "write each element as a number, without quotes"), "is %s; it must be a number", tomlType(e))
+			t.l.errorf(t.key(k)+"["+strconv.Itoa(i)+"]", withExample(k, "write each element as a number, without quotes"), "is %s; it must be a number", tomlType(e))
 			return nil, false
 		}
 		out = append(out, x)
@@ -256,8 +253,8 @@ func (t *table) numbers(k string) ([]float64, bool) {
 	return out, true
 }
 
-// elementHint is hint for an element of the list k, with k's example.
-func elementHint(k, hint string) string {
+// withExample is hint followed by key k's example value, where it has one.
+func withExample(k, hint string) string {
 	if ex, ok := keyExamples[k]; ok {
 		hint += fmt.Sprintf(", e.g. %s = %s", k, ex)
 	}
