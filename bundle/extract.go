@@ -457,7 +457,7 @@ func (b *Bag) WriteTo(dir string) (string, error) {
 		return "", err
 	}
 	if err := os.MkdirAll(dir, dirMode); err != nil {
-		return "", pathErrorOf(err)
+		return "", PlainPathError(err)
 	}
 	target := filepath.Join(dir, b.Name)
 	if err := writeFolderAtomic(target, false, sortedMembers(b.Files)); err != nil {

@@ -213,7 +213,7 @@ func ResolveKey(flagKey string, getenv func(string) string, stderr io.Writer) (S
 		return Signer{}, "", plainf("signing key "+path, err)
 	}
 	if err := os.MkdirAll(filepath.Dir(path), 0o700); err != nil {
-		return Signer{}, "", fmt.Errorf("creating the default signing key: %w", pathErrorOf(err))
+		return Signer{}, "", fmt.Errorf("creating the default signing key: %w", PlainPathError(err))
 	}
 	s, err := WriteKeyPair(path, "fitseal")
 	if err != nil {

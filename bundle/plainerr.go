@@ -79,10 +79,10 @@ type wordedError struct {
 func (e *wordedError) Error() string { return e.msg }
 func (e *wordedError) Unwrap() error { return e.err }
 
-// pathErrorOf is err named by the path it carries and its plain reason
-// ("mkdir out/a: not a directory" is "out/a: not a directory"), or err
-// itself when it carries none.
-func pathErrorOf(err error) error {
+// PlainPathError is err named by the path it carries and its plain reason
+// ("mkdir out/a: not a directory" is "out/a: not a directory"), the cause
+// still wrapped, or err itself when it carries none.
+func PlainPathError(err error) error {
 	if pe, ok := err.(*fs.PathError); ok {
 		return pathError(pe.Path, pe.Err)
 	}

@@ -6,6 +6,8 @@ import (
 	"os"
 	"runtime/pprof"
 	"runtime/trace"
+
+	"fitseal/bundle"
 )
 
 // startCPUProfile writes a CPU profile of the whole process to the file
@@ -35,7 +37,7 @@ func startRecording(getenv func(string) string, stderr io.Writer, env, doing str
 	}
 	f, err := os.Create(path)
 	if err != nil {
-		fmt.Fprintf(stderr, "fitseal: warning: %s: %v; not %s\n", env, pathErr(err), doing)
+		fmt.Fprintf(stderr, "fitseal: warning: %s: %v; not %s\n", env, bundle.PlainPathError(err), doing)
 		return func() {}
 	}
 	if err := start(f); err != nil {

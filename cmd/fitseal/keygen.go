@@ -48,7 +48,7 @@ func runKeygen(_ context.Context, o keygenOptions, stdout, _ io.Writer) error {
 		}
 		path = def
 		if err := os.MkdirAll(filepath.Dir(path), 0o700); err != nil {
-			return usageError{fmt.Errorf("keygen: %w", pathErr(err))}
+			return usageError{fmt.Errorf("keygen: %w", bundle.PlainPathError(err))}
 		}
 	}
 	s, err := bundle.WriteKeyPair(path, o.Comment)

@@ -10,7 +10,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"io/fs"
 	"os"
 	"os/signal"
 	"sort"
@@ -25,17 +24,6 @@ type command struct {
 }
 
 var commands = map[string]command{}
-
-// pathErr is err of a file operation named by its path and the reason,
-// without the system call ("mkdir out: not a directory" is "out: not a
-// directory"); the cause stays wrapped.
-func pathErr(err error) error {
-	var pe *fs.PathError
-	if errors.As(err, &pe) {
-		return fmt.Errorf("%s: %w", pe.Path, pe.Err)
-	}
-	return err
-}
 
 // usageError is bad usage or bad input: exit status 2.
 type usageError struct{ err error }

@@ -94,7 +94,7 @@ func runMerge(ctx context.Context, o mergeOptions, stdout, stderr io.Writer) err
 		return usageError{fmt.Errorf("%s already exists; choose another output with -o or replace it with --force", out)}
 	}
 	if err := os.MkdirAll(filepath.Dir(out), 0o755); err != nil {
-		return fmt.Errorf("writing %s: %w", out, pathErr(err))
+		return fmt.Errorf("writing %s: %w", out, bundle.PlainPathError(err))
 	}
 	if err := bundle.WriteBundle(out, o.Force, contents, signer); err != nil {
 		if errors.Is(err, bundle.ErrExists) {

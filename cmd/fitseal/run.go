@@ -164,7 +164,7 @@ func runRun(ctx context.Context, o runOptions, stdout, stderr io.Writer) error {
 		return fmt.Errorf("interrupted: nothing was written")
 	}
 	if err := os.MkdirAll(filepath.Dir(out), 0o755); err != nil {
-		return fmt.Errorf("writing %s: %w", out, pathErr(err))
+		return fmt.Errorf("writing %s: %w", out, bundle.PlainPathError(err))
 	}
 	if err := bundle.WriteBundle(out, o.Force, contents, signer); err != nil {
 		if errors.Is(err, bundle.ErrExists) {
