@@ -192,11 +192,36 @@ func attachMembers(bagName string, entries []tarEntry, files map[string][]byte, 
 // WriteArchive writes the signed bag as a gzip-compressed tar to w (see
 // writeTarGz for what makes it deterministic).
 func WriteArchive(w io.Writer, c Contents, signer Signer) error {
-	files, disk, err := members(c, signer)
+	entries, err := archiveEntries(c, signer)
 	if err != nil {
 		return err
 	}
-	return writeTarGz(w, c.Name, allMembers(files, disk), c.Created, c.Workers)
+	return writeTarEntries(w, entries, c.Created, c.Workers)
+}
+
+// archiveEntries makes the signed bag's members (members) and lists them as
+// tar entries (tarEntries). The entries depend on the members' paths only,
+// which are known at once: they are listed on another core while the
+// manifests are hashed and signed, and the members attached after.
+func archiveEntries(c Contents, signer Signer) ([]tarEntry, error) {
+	listed := make(chan listedEntries, 1)
+	go func() {
+		e, err := tarEntries(c.Name, memberPaths(c))
+		listed <- listedEntries{e, err}
+	}()
+	files, disk, err := members(c, signer)
+	if err != nil {
+		return nil, err
+	}
+	l := <-listed
+	if l.err != nil {
+		return nil, l.err
+	}
+	if entries, ok := attachMembers(c.Name, l.entries, files, disk); ok {
+		return entries, nil
+	}
+	// The paths listed were not the members made: list the members.
+	return tarEntries(c.Name, allMembers(files, disk))
 }
 
 // IsArchivePath reports whether out names an archive (.tar.gz or .tgz)
@@ -215,37 +240,20 @@ func WriteBundle(out string, force bool, c Contents, signer Signer) error {
 		return err
 	}
 	runner.TracePhase("write: manifests, signature")
-	archive := IsArchivePath(out)
-	var listed chan listedEntries
-	if archive {
-		// The tar's entries depend on the members' paths only, which are
-		// known now: they are listed on another core while the manifests
-		// are hashed and signed.
-		listed = make(chan listedEntries, 1)
-		go func() {
-			e, err := tarEntries(c.Name, memberPaths(c))
-			listed <- listedEntries{e, err}
-		}()
-	}
-	files, disk, err := members(c, signer)
-	if err != nil {
-		return err
-	}
-	if archive {
-		l := <-listed
-		if l.err != nil {
-			return l.err
-		}
-		entries, ok := attachMembers(c.Name, l.entries, files, disk)
-		if !ok { // the paths listed were not the members made: list again
-			if entries, err = tarEntries(c.Name, allMembers(files, disk)); err != nil {
-				return err
-			}
+	var err error
+	if IsArchivePath(out) {
+		var entries []tarEntry
+		if entries, err = archiveEntries(c, signer); err != nil {
+			return err
 		}
 		err = writeFileAtomic(out, force, fileMode, func(w io.Writer) error {
 			return writeTarEntries(w, entries, c.Created, c.Workers)
 		})
 	} else {
+		files, disk, merr := members(c, signer)
+		if merr != nil {
+			return merr
+		}
 		err = writeFolderAtomic(out, force, allMembers(files, disk))
 	}
 	if errors.Is(err, ErrExists) {
