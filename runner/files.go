@@ -70,8 +70,8 @@ const partsPerWorker = 4
 // that results.json, half of the bytes, does not end on one core while the
 // others wait. The bytes do not depend on workers.
 func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
-	files, _, err := r.files(workers, false)
-	return files, err
+	files, _ := r.files(workers, false)
+	return files, nil
 }
 
 // HashedFilesOn is [Results.FilesOn] with each file's hex SHA-256, taken
@@ -79,12 +79,13 @@ func (r *Results) FilesOn(workers int) (map[string][]byte, error) {
 // hashed on one worker while the others join the parts), so that the
 // caller need not read the bytes again.
 func (r *Results) HashedFilesOn(workers int) (files map[string][]byte, sums map[string]string, err error) {
-	return r.files(workers, true)
+	files, sums = r.files(workers, true)
+	return files, sums, nil
 }
 
 // files renders the result files on workers goroutines, and their hex
 // SHA-256s when hash is set.
-func (r *Results) files(workers int, hash bool) (map[string][]byte, map[string]string, error) {
+func (r *Results) files(workers int, hash bool) (map[string][]byte, map[string]string) {
 	parts := 1
 	if workers > 1 {
 		parts = max(1, min(len(r.Analyses), partsPerWorker*workers))
@@ -107,7 +108,7 @@ func (r *Results) files(workers int, hash bool) (map[string][]byte, map[string]s
 			outSums[rf.name] = hex.EncodeToString(sums[f][:])
 		}
 	}
-	return out, outSums, nil
+	return out, outSums
 }
 
 // joinParts joins each run of parts consecutive pieces (one file's parts in
